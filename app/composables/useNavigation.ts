@@ -1,0 +1,29 @@
+// The navigation each role sees. Later issues add their pages here.
+import type { Role } from '#shared/types/auth'
+
+export interface NavItem { to: string; label: string; icon: string }
+
+const NAV: Record<Role, NavItem[]> = {
+  lead: [
+    { to: '/lead', label: 'Today', icon: 'sun' },
+    { to: '/lead/people', label: 'People', icon: 'users' },
+    { to: '/lead/mails', label: 'Captured mail', icon: 'mail' },
+    { to: '/cautions', label: 'Cautions', icon: 'alert' },
+  ],
+  caster: [
+    { to: '/floor', label: 'My pours', icon: 'flask' },
+    { to: '/cautions', label: 'Cautions', icon: 'alert' },
+  ],
+  finisher: [
+    { to: '/finishing', label: 'Fettling queue', icon: 'hammer' },
+    { to: '/cautions', label: 'Cautions', icon: 'alert' },
+  ],
+  client: [
+    { to: '/client', label: 'My jobs', icon: 'folder' },
+  ],
+}
+
+export function useNavigation() {
+  const { user } = useUserSession()
+  return computed(() => (user.value ? NAV[user.value.role] : []))
+}

@@ -1,0 +1,79 @@
+// npm start: local PostgreSQL → migrations → demo seed → build when stale → serve.
+import { spawn } from 'node:child_process'
+import { join } from 'node:path'
+import { localDbSettings, root } from './config'
+import { upCluster, migrate, seedIfEmpty } from './cluster'
+import { buildIfStale } from './build'
+import { sessionSecret } from './session-secret'
+import { DEMO_PASSWORD, DEMO_USERS } from '../seeds/demo-people'
+
+const dev = process.argv.includes('--dev')
+const t0 = Date.now()
+
+async function main() {
+  let databaseUrl = process.env.DATABASE_URL
+  if (!databaseUrl) {
+    const db = localDbSettings()
+    const { cluster, created, started } = upCluster(db)
+    console.log(`setline: PostgreSQL ${created ? 'created and ' : ''}${started ? 'started' : 'already running'} on 127.0.0.1:${db.port} (data: ${cluster.dataDir})`)
+    databaseUrl = db.url
+  }
+  const done = await migrate(databaseUrl)
+  console.log(`setline: migrations ${done.length ? `applied: ${done.join(', ')}` : 'up to date'}`)
+  if (await seedIfEmpty(databaseUrl)) console.log('setline: demo workshop seeded')
+
+  const host = process.env.HOST ?? '127.0.0.1'
+  const port = process.env.PORT ?? '3000'
+  const env = {
+    ...process.env,
+    NUXT_TELEMETRY_DISABLED: '1',
+    DATABASE_URL: databaseUrl,
+    NUXT_SESSION_PASSWORD: sessionSecret(),
+    MAIL_FAKE: process.env.MAIL_FAKE ?? (process.env.SMTP_HOST ? '0' : '1'),
+    HOST: host,
+    PORT: port,
+    APP_URL: process.env.APP_URL ?? `http://${host}:${port}`,
+  }
+  if (!dev) buildIfStale()
+  const child = dev
+    ? spawn('npx', ['nuxt', 'dev', '--host', host, '--port', port], { cwd: root, env, stdio: 'inherit' })
+    : spawn(process.execPath, [join(root, '.output/server/index.mjs')], { cwd: root, env, stdio: 'inherit' })
+  await waitForHttp(`http://${host}:${port}/api/health`, 120_000)
+  printWelcome(`http://${host}:${port}`)
+  const stop = () => child.kill('SIGTERM')
+  process.on('SIGINT', stop)
+  process.on('SIGTERM', stop)
+  child.on('exit', code => process.exit(code ?? 0))
+}
+
+async function waitForHttp(url: string, timeoutMs: number) {
+  const until = Date.now() + timeoutMs
+  while (Date.now() < until) {
+    try {
+      const r = await fetch(url)
+      if (r.ok) return
+    }
+    catch { /* not up yet */ }
+    await new Promise(r => setTimeout(r, 300))
+  }
+  throw new Error(`the app did not answer at ${url} within ${timeoutMs / 1000} s`)
+}
+
+function printWelcome(url: string) {
+  const rows = DEMO_USERS.map(u => `  ${u.role.padEnd(9)} ${u.email.padEnd(36)} ${u.name}`)
+  console.log([
+    '',
+    `Setline is running at ${url}  (ready in ${((Date.now() - t0) / 1000).toFixed(1)} s)`,
+    '',
+    `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
+    ...rows,
+    '',
+    'Ctrl-C stops the app; `npm run db:stop` stops PostgreSQL.',
+    '',
+  ].join('\n'))
+}
+
+main().catch((err) => {
+  console.error(`setline: ${err instanceof Error ? err.message : err}`)
+  process.exit(1)
+})

@@ -1,0 +1,37 @@
+// Nuxt configuration. No network at build or run time: telemetry and devtools are off,
+// fonts come from @fontsource packages inside the app.
+import { SCRYPT_OPTIONS } from './server/utils/password-policy'
+
+export default defineNuxtConfig({
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
+  devtools: { enabled: false },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Setline',
+      meta: [{ name: 'viewport', content: 'width=device-width, initial-scale=1' }],
+    },
+  },
+  css: [
+    '@fontsource/atkinson-hyperlegible-next/400.css',
+    '@fontsource/atkinson-hyperlegible-next/600.css',
+    '@fontsource/atkinson-hyperlegible-next/700.css',
+  ],
+  runtimeConfig: {
+    session: {
+      name: 'setline-session',
+      maxAge: 60 * 60 * 12,
+      // Secure is set per sign-in when APP_URL is https (server/utils/auth.ts): shop tablets
+      // often reach a workshop server over plain http on the local network.
+      cookie: { sameSite: 'lax', secure: false },
+    },
+  },
+  compatibilityDate: '2026-11-01',
+  nitro: {
+    experimental: { websocket: true },
+  },
+  typescript: { strict: true },
+  telemetry: false,
+  auth: { hash: { scrypt: SCRYPT_OPTIONS } },
+  tailwindcss: { cssPath: '~/assets/css/tailwind.css', viewer: false },
+})

@@ -1,0 +1,18 @@
+import { usersRepo } from '../../repos/users'
+// Sign-in with e-mail and password; failures are counted per account and per address.
+export default defineEventHandler(async (event) => {
+  const { email, password } = await validBody(event, loginSchema)
+  const address = clientAddress(event)
+  await assertNotLimited('loginAccount', email)
+  await assertNotLimited('loginAddress', address)
+  const user = await usersRepo.byEmail(useDb(), email)
+  const ok = await verifyOrBurn(user?.password_hash, password)
+  if (!user || !ok || user.disabled_at) {
+    await spendAttempt('loginAccount', email)
+    await spendAttempt('loginAddress', address)
+    throw createError({ statusCode: 401, message: user?.disabled_at && ok ? 'This account is disabled; ask your workshop lead' : 'E-mail or password is wrong' })
+  }
+  await clearAttempts('loginAccount', email)
+  await startSession(event, user)
+  return { id: user.id, name: user.name, role: user.role, home: ROLE_HOME[user.role] }
+})

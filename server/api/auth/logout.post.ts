@@ -1,0 +1,4 @@
+export default defineEventHandler(async (event) => {
+  await endSession(event)
+  return { ok: true }
+})

@@ -1,0 +1,15 @@
+import { usersRepo } from '../../repos/users'
+// Disable / re-enable a user or change their role (lead). Either ends their sessions.
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'lead')
+  const { id } = validParams(event, idParamSchema)
+  const input = await validBody(event, userPatchSchema)
+  if (id === actor.id) unprocessable([{ field: 'id', message: 'you cannot disable yourself or change your own role' }])
+  const db = useDb()
+  const user = await usersRepo.byId(db, actor.workshopId, id)
+  if (!user) notFound('User')
+  let row = user
+  if (input.role !== undefined) row = await usersRepo.setRole(db, actor.workshopId, id, input.role)
+  if (input.disabled !== undefined) row = await usersRepo.setDisabled(db, actor.workshopId, id, input.disabled)
+  return row
+})

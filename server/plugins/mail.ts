@@ -1,0 +1,19 @@
+// Starts the in-process SMTP fake when MAIL_FAKE=1, and the outbox worker.
+export default defineNitroPlugin(async (nitro) => {
+  const env = appEnv()
+  if (env.MAIL_FAKE) {
+    const fake = await startSmtpFake(env.SMTP_PORT, env.SMTP_HOST)
+    setCurrentSmtpFake(fake)
+    console.log(`setline: SMTP fake listening on ${env.SMTP_HOST}:${fake.port} (captured mail: /lead/mails)`)
+  }
+  const timer = setInterval(() => {
+    deliverDueMail().catch(err => console.error('mail worker:', err instanceof Error ? err.message : err))
+  }, env.MAIL_WORKER_INTERVAL_MS)
+  timer.unref()
+  nitro.hooks.hook('close', async () => {
+    clearInterval(timer)
+    await currentSmtpFake()?.close()
+    setCurrentSmtpFake(undefined)
+    await closeDb()
+  })
+})

@@ -1,0 +1,37 @@
+// invitations and password_resets: one-time link rows (only token hashes are stored).
+import type { Knex } from 'knex'
+import type { Role } from '#shared/types/auth'
+
+const INVITE_COLUMNS = ['id', 'workshop_id', 'email', 'name', 'role', 'client_org_id', 'job_id', 'expires_at', 'accepted_at', 'created_at']
+
+export const invitationsRepo = {
+  async insert(db: Knex, row: { workshop_id: number; email: string; name?: string | null; role: Role; client_org_id?: number | null; job_id?: number | null; token_hash: string; invited_by: number; expires_at: Date }) {
+    const [created] = await db('invitations').insert(row).returning(INVITE_COLUMNS)
+    return created
+  },
+  pending(db: Knex, workshopId: number) {
+    return db('invitations').select(INVITE_COLUMNS).where({ workshop_id: workshopId }).whereNull('accepted_at')
+      .where('expires_at', '>', db.fn.now()).orderBy('created_at', 'desc')
+  },
+  /** An unexpired, unaccepted invitation by token hash, locked for acceptance when in a transaction. */
+  openByTokenHash(db: Knex, tokenHash: string) {
+    return db('invitations').select(INVITE_COLUMNS).where({ token_hash: tokenHash }).whereNull('accepted_at')
+      .where('expires_at', '>', db.fn.now()).first()
+  },
+  markAccepted(db: Knex, id: number, userId: number) {
+    return db('invitations').where({ id }).whereNull('accepted_at').update({ accepted_at: db.fn.now(), accepted_user_id: userId, updated_at: db.fn.now() })
+  },
+}
+
+export const resetsRepo = {
+  insert(db: Knex, row: { workshop_id: number; user_id: number; token_hash: string; expires_at: Date }) {
+    return db('password_resets').insert(row)
+  },
+  openByTokenHash(db: Knex, tokenHash: string) {
+    return db('password_resets').select('id', 'workshop_id', 'user_id').where({ token_hash: tokenHash }).whereNull('used_at')
+      .where('expires_at', '>', db.fn.now()).first()
+  },
+  markUsed(db: Knex, id: number) {
+    return db('password_resets').where({ id }).whereNull('used_at').update({ used_at: db.fn.now(), updated_at: db.fn.now() })
+  },
+}

@@ -1,0 +1,60 @@
+// Every knex call for users. Sign-in looks users up by e-mail across workshops (an e-mail
+// is one account); everything else is scoped to the caller's workshop.
+import type { Knex } from 'knex'
+import type { Role } from '#shared/types/auth'
+
+export interface UserRow {
+  id: number
+  workshop_id: number
+  email: string
+  name: string
+  role: Role
+  client_org_id: number | null
+  password_hash: string | null
+  session_version: number
+  disabled_at: Date | null
+  version: number
+}
+
+const COLUMNS = ['id', 'workshop_id', 'email', 'name', 'role', 'client_org_id', 'password_hash', 'session_version', 'disabled_at', 'version']
+const PUBLIC_COLUMNS = ['id', 'email', 'name', 'role', 'client_org_id', 'disabled_at', 'created_at']
+
+export const usersRepo = {
+  async byEmail(db: Knex, email: string): Promise<UserRow | undefined> {
+    const row: UserRow | undefined = await db('users').whereRaw('lower(email) = lower(?)', [email]).first(COLUMNS)
+    return row
+  },
+  async byId(db: Knex, workshopId: number, id: number): Promise<UserRow | undefined> {
+    const row: UserRow | undefined = await db('users').where({ workshop_id: workshopId, id }).first(COLUMNS)
+    return row
+  },
+  list(db: Knex, workshopId: number) {
+    return db('users').select(PUBLIC_COLUMNS).where({ workshop_id: workshopId }).orderBy([{ column: 'role' }, { column: 'name' }])
+  },
+  async insert(db: Knex, row: { workshop_id: number; email: string; name: string; role: Role; client_org_id?: number | null; password_hash: string }) {
+    const [created] = await db('users').insert(row).returning(COLUMNS)
+    return created as UserRow
+  },
+  /** Sets a new password and ends every session the user had. */
+  setPassword(db: Knex, workshopId: number, id: number, passwordHash: string) {
+    return db('users').where({ workshop_id: workshopId, id })
+      .update({ password_hash: passwordHash, session_version: db.raw('session_version + 1'), updated_at: db.fn.now() })
+  },
+  /** Disables or re-enables; both end the user's sessions. */
+  async setDisabled(db: Knex, workshopId: number, id: number, disabled: boolean) {
+    const [row] = await db('users').where({ workshop_id: workshopId, id })
+      .update({
+        disabled_at: disabled ? db.fn.now() : null,
+        session_version: db.raw('session_version + 1'),
+        version: db.raw('version + 1'),
+        updated_at: db.fn.now(),
+      }).returning(PUBLIC_COLUMNS)
+    return row
+  },
+  async setRole(db: Knex, workshopId: number, id: number, role: Role) {
+    const [row] = await db('users').where({ workshop_id: workshopId, id })
+      .update({ role, session_version: db.raw('session_version + 1'), version: db.raw('version + 1'), updated_at: db.fn.now() })
+      .returning(PUBLIC_COLUMNS)
+    return row
+  },
+}

@@ -1,0 +1,76 @@
+// One way to turn bad input and database refusals into clear 4xx answers.
+import type { H3Event } from 'h3'
+import type { ZodType, z } from 'zod'
+
+export interface FieldProblem { field: string; message: string }
+
+export function unprocessable(problems: FieldProblem[]): never {
+  const first = problems[0]
+  throw createError({
+    statusCode: 422,
+    statusMessage: 'Unprocessable Content',
+    message: first ? `${first.field}: ${first.message}` : 'The request is not valid',
+    data: { problems },
+  })
+}
+
+function problemsOf(error: z.ZodError, prefix?: string): FieldProblem[] {
+  return error.issues.map((i) => {
+    const path = i.path.map(String).join('.')
+    return { field: [prefix, path].filter(Boolean).join('.') || (prefix ?? 'body'), message: i.message }
+  })
+}
+
+export function parseOr422<S extends ZodType>(schema: S, value: unknown, prefix?: string): z.infer<S> {
+  const r = schema.safeParse(value)
+  if (!r.success) unprocessable(problemsOf(r.error, prefix))
+  return r.data
+}
+
+/** Reads a JSON body and validates it; malformed JSON → 400, schema failure → 422 naming the field. */
+export async function validBody<S extends ZodType>(event: H3Event, schema: S): Promise<z.infer<S>> {
+  let body: unknown
+  try {
+    body = await readBody(event)
+  }
+  catch {
+    throw createError({ statusCode: 400, message: 'The request body is not valid JSON' })
+  }
+  return parseOr422(schema, body ?? {}, undefined)
+}
+
+export function validParams<S extends ZodType>(event: H3Event, schema: S): z.infer<S> {
+  return parseOr422(schema, getRouterParams(event, { decode: true }), 'params')
+}
+
+export function validQuery<S extends ZodType>(event: H3Event, schema: S): z.infer<S> {
+  return parseOr422(schema, getQuery(event), 'query')
+}
+
+export function notFound(what: string): never {
+  throw createError({ statusCode: 404, message: `${what} was not found` })
+}
+
+export function conflict(message: string, data?: Record<string, unknown>): never {
+  throw createError({ statusCode: 409, message, data })
+}
+
+interface PgError { code?: string; constraint?: string; detail?: string }
+
+/**
+ * Maps PostgreSQL refusals to 409 (unique or exclusion violation) with a readable reason,
+ * and foreign-key or check violations to 422; anything else is rethrown (→ 500, no detail).
+ */
+export function rethrowDbError(err: unknown, labels: Record<string, string> = {}): never {
+  const e = err as PgError
+  if (e?.code === '23505' || e?.code === '23P01') {
+    conflict(labels[e.constraint ?? ''] ?? 'This conflicts with an existing record', { constraint: e.constraint })
+  }
+  if (e?.code === '23503') {
+    unprocessable([{ field: labels[e.constraint ?? ''] ?? 'reference', message: 'refers to a record that does not exist' }])
+  }
+  if (e?.code === '23514' || e?.code === '22P02' || e?.code === '22003') {
+    unprocessable([{ field: labels[e.constraint ?? ''] ?? 'body', message: 'a value is out of its allowed range' }])
+  }
+  throw err
+}

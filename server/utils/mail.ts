@@ -1,0 +1,86 @@
+// Mail goes through the mail_outbox table: a route queues in its own transaction, and the
+// worker (server/plugins/mail-worker.ts) sends with retries, so an SMTP outage loses nothing.
+import nodemailer, { type Transporter } from 'nodemailer'
+import type { Knex } from 'knex'
+
+export interface OutgoingMail {
+  workshopId: number | null
+  userId?: number | null
+  to: string
+  kind: string
+  subject: string
+  text: string
+  dedupeKey?: string
+}
+
+let transport: Transporter | undefined
+function mailer() {
+  if (!transport) {
+    const env = appEnv()
+    transport = nodemailer.createTransport({
+      host: env.SMTP_HOST,
+      port: env.SMTP_PORT,
+      secure: env.SMTP_SECURE,
+      auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASS ?? '' } : undefined,
+      // the local fake speaks plain SMTP; a real relay negotiates TLS itself
+      ignoreTLS: env.MAIL_FAKE,
+    })
+  }
+  return transport
+}
+
+export async function queueMail(db: Knex, mail: OutgoingMail) {
+  await db('mail_outbox').insert({
+    workshop_id: mail.workshopId,
+    user_id: mail.userId ?? null,
+    to_email: mail.to,
+    kind: mail.kind,
+    subject: mail.subject,
+    text: mail.text,
+    dedupe_key: mail.dedupeKey ?? null,
+  }).onConflict('dedupe_key').ignore()
+}
+
+const MAX_ATTEMPTS = 8
+
+/** Backoff after the n-th failed attempt: 15 s, 1 min, 2¼ min, … capped at one hour. */
+export function retryDelaySeconds(attempts: number) {
+  return Math.min(3600, 15 * attempts * attempts)
+}
+
+let running: Promise<number> | undefined
+
+/** Sends what is due; one run at a time per process, rows locked so instances share the work. */
+export function deliverDueMail(): Promise<number> {
+  running ??= sendBatch().finally(() => {
+    running = undefined
+  })
+  return running
+}
+
+async function sendBatch(): Promise<number> {
+  const db = useDb()
+  let sent = 0
+  await db.transaction(async (trx) => {
+    const due = await trx('mail_outbox').select('id', 'to_email', 'subject', 'text', 'html', 'attempts')
+      .where('status', 'queued').where('next_attempt_at', '<=', trx.fn.now())
+      .orderBy('id').limit(20).forUpdate().skipLocked()
+    for (const m of due) {
+      try {
+        await mailer().sendMail({ from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined })
+        await trx('mail_outbox').where({ id: m.id }).update({ status: 'sent', sent_at: trx.fn.now(), attempts: m.attempts + 1, last_error: null })
+        sent++
+      }
+      catch (err) {
+        const attempts = m.attempts + 1
+        await trx('mail_outbox').where({ id: m.id }).update({
+          attempts,
+          status: attempts >= MAX_ATTEMPTS ? 'failed' : 'queued',
+          last_error: String(err instanceof Error ? err.message : err).slice(0, 500),
+          next_attempt_at: trx.raw(`now() + make_interval(secs => ?)`, [retryDelaySeconds(attempts)]),
+        })
+      }
+    }
+  })
+  return sent
+}

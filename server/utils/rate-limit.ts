@@ -1,0 +1,65 @@
+// Sign-in, reset and PIN limits in PostgreSQL (rate-limiter-flexible's Postgres store), so
+// they hold across app instances and restarts.
+import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible'
+import type { H3Event } from 'h3'
+
+interface LimitSpec { points: number; durationS: number; what: string }
+
+export const LIMITS = {
+  // A handful of wrong passwords per account, a few more per address (OWASP Authentication
+  // Cheat Sheet: throttle per account and per source); counted on failures only.
+  loginAccount: { points: 5, durationS: 15 * 60, what: 'failed sign-ins for this account' },
+  loginAddress: { points: 20, durationS: 15 * 60, what: 'failed sign-ins from this address' },
+  resetAddress: { points: 5, durationS: 60 * 60, what: 'password reset requests from this address' },
+  pinDevice: { points: 5, durationS: 10 * 60, what: 'wrong PINs on this tablet' },
+} satisfies Record<string, LimitSpec>
+
+type LimitName = keyof typeof LIMITS
+const limiters = new Map<LimitName, RateLimiterPostgres>()
+
+function limiter(name: LimitName) {
+  let l = limiters.get(name)
+  if (!l) {
+    const spec = LIMITS[name]
+    l = new RateLimiterPostgres({
+      storeClient: useDb(), storeType: 'knex', tableName: 'rate_limits', tableCreated: true,
+      keyPrefix: name, points: spec.points, duration: spec.durationS,
+    })
+    limiters.set(name, l)
+  }
+  return l
+}
+
+function tooMany(name: LimitName, msBeforeNext: number): never {
+  const minutes = Math.max(1, Math.ceil(msBeforeNext / 60_000))
+  throw createError({
+    statusCode: 429,
+    message: `Too many ${LIMITS[name].what}. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.`,
+    data: { retryAfterSeconds: Math.ceil(msBeforeNext / 1000) },
+  })
+}
+
+/** Refuses with 429 when the key has no points left. */
+export async function assertNotLimited(name: LimitName, key: string) {
+  const res = await limiter(name).get(key)
+  if (res && res.remainingPoints <= 0) tooMany(name, res.msBeforeNext)
+}
+
+/** Counts one attempt; refuses with 429 when that was one too many. */
+export async function spendAttempt(name: LimitName, key: string) {
+  try {
+    await limiter(name).consume(key)
+  }
+  catch (e) {
+    if (e instanceof RateLimiterRes) tooMany(name, e.msBeforeNext)
+    throw e
+  }
+}
+
+export async function clearAttempts(name: LimitName, key: string) {
+  await limiter(name).delete(key)
+}
+
+export function clientAddress(event: H3Event) {
+  return getRequestIP(event) ?? 'unknown'
+}

@@ -1,0 +1,21 @@
+// The user kept in the sealed session cookie (nuxt-auth-utils).
+export const ROLES = ['lead', 'caster', 'finisher', 'client'] as const
+export type Role = (typeof ROLES)[number]
+
+export interface SessionUserData {
+  id: number
+  workshopId: number
+  role: Role
+  name: string
+  email: string
+  /** users.session_version when the session began; a mismatch ends the session. */
+  sv: number
+}
+
+/** Where each role lands after sign-in. */
+export const ROLE_HOME: Record<Role, string> = {
+  lead: '/lead',
+  caster: '/floor',
+  finisher: '/finishing',
+  client: '/client',
+}

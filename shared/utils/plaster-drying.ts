@@ -1,0 +1,139 @@
+/**
+ * Drying: saturation vapour pressure, wet-bulb temperature, the constant-rate drying estimate,
+ * the over-temperature guard and dryness by weight. Re-exported from `plaster.ts`. Pure.
+ */
+import { PLASTER_LIMITS, PlasterInputError, assertPlasterNumber, assertPlasterObject } from './plaster-core'
+
+/**
+ * Above 49 °C (120 °F) set gypsum starts to lose its combined water, well below boiling: the
+ * safe ceiling drying practice for plaster moulds and casts uses (science.md §9, trade.md §1.7).
+ */
+export const PLASTER_DRYING_MAX_C = 49
+
+/** Within 0.5 % free water of its dry mass a cast counts as dry (common practice, no source). */
+export const PLASTER_DRY_FREE_WATER_PCT = 0.5
+
+/** Default multiplier for the slow, falling-rate end of drying: 2 (a shop value, common practice). */
+export const PLASTER_FALLING_RATE_FACTOR = 2
+
+/** Stull 2011 is fitted for 5–99 % RH; outside it the wet bulb is taken at the nearest edge. */
+const STULL_RH = { min: 5, max: 99 }
+
+/**
+ * Saturation vapour pressure over liquid water, kPa, at `tempC` (−40 to 100 °C):
+ * Buck (J. Appl. Meteor. 20, 1981), as revised 1996:
+ * e = 0.61121 exp((18.678 − T/234.5) × T / (257.14 + T)). Within 0.04 % of the IAPWS-95 values
+ * tabulated in the CRC Handbook from 0 to 50 °C, and 101.31 kPa at 100 °C. Below 0 °C it is the
+ * value over supercooled water, not ice.
+ */
+export function saturationVapourPressureKPa(tempC: number): number {
+  const t = assertPlasterNumber(tempC, 'tempC', PLASTER_LIMITS.tempC)
+  return 0.61121 * Math.exp((18.678 - t / 234.5) * (t / (257.14 + t)))
+}
+
+function stull(t: number, rh: number): number {
+  return t * Math.atan(0.151977 * Math.sqrt(rh + 8.313659))
+    + Math.atan(t + rh) - Math.atan(rh - 1.676331)
+    + 0.00391838 * rh ** 1.5 * Math.atan(0.023101 * rh)
+    - 4.686035
+}
+
+/**
+ * Wet-bulb temperature, °C, at sea-level pressure: Stull, "Wet-bulb temperature from relative
+ * humidity and air temperature", J. Appl. Meteor. Climatol. 50 (2011) 2267, fitted for
+ * −20–50 °C and 5–99 % RH (about ±0.3 °C). Choice for the RH edges: throw outside 0–100 %
+ * (impossible) and outside −20–50 °C; below 5 % use 5 % (slightly high, so drying is
+ * under- rather than over-estimated); from 99 % to 100 % blend linearly to the air temperature,
+ * which is exact at saturation. Never above the air temperature.
+ */
+export function wetBulbC(tempC: number, relHumidityPct: number): number {
+  const t = assertPlasterNumber(tempC, 'tempC', PLASTER_LIMITS.airTempC)
+  const rh = assertPlasterNumber(relHumidityPct, 'relHumidityPct', PLASTER_LIMITS.relHumidityPct)
+  const atEdge = stull(t, Math.min(Math.max(rh, STULL_RH.min), STULL_RH.max))
+  const tw = rh <= STULL_RH.max ? atEdge : atEdge + ((t - atEdge) * (rh - STULL_RH.max)) / (100 - STULL_RH.max)
+  return Math.min(tw, t)
+}
+
+/** Result of `dryingEstimate`. */
+export interface PlasterDryingEstimate {
+  /** kg of water per hour evaporating from the wet surface in the constant-rate period */
+  constantRateKgPerHour: number
+  /** hours to remove the free water: free water / rate × fallingRateFactor; Infinity in saturated air */
+  hours: number
+  /** the wet surface's temperature, °C */
+  wetBulbC: number
+  warnings: string[]
+}
+
+/**
+ * Drying time, hours. In the constant-rate period the wet surface sits at the air's wet-bulb
+ * temperature (Stull 2011) and evaporates per Carrier's equation as given in the ASHRAE Handbook
+ * (HVAC Applications, natatoriums): kg/s = A × (p_s − p_a) × (0.089 + 0.0782 V) / Y, with A in m²,
+ * p_s the saturation pressure at the surface and p_a the air's vapour pressure in kPa (Buck),
+ * V air speed m/s and Y = 2501 − 2.361 T kJ/kg the latent heat at the surface temperature T.
+ * hours = freeWater / rate × fallingRateFactor (default 2, the slow end of drying; a shop value).
+ */
+export function dryingEstimate(input: {
+  freeWaterKg: number
+  exposedAreaM2: number
+  airTempC: number
+  relHumidityPct: number
+  airSpeedMs: number
+  fallingRateFactor?: number
+}): PlasterDryingEstimate {
+  const i = assertPlasterObject(input, 'input')
+  const L = PLASTER_LIMITS
+  const water = assertPlasterNumber(i.freeWaterKg, 'freeWaterKg', L.freeWaterKg)
+  const area = assertPlasterNumber(i.exposedAreaM2, 'exposedAreaM2', L.exposedAreaM2)
+  const airT = assertPlasterNumber(i.airTempC, 'airTempC', L.airTempC)
+  const rh = assertPlasterNumber(i.relHumidityPct, 'relHumidityPct', L.relHumidityPct)
+  const v = assertPlasterNumber(i.airSpeedMs, 'airSpeedMs', L.airSpeedMs)
+  const falling = assertPlasterNumber(i.fallingRateFactor ?? PLASTER_FALLING_RATE_FACTOR, 'fallingRateFactor', L.fallingRateFactor)
+  const surfaceC = wetBulbC(airT, rh)
+  const dp = saturationVapourPressureKPa(surfaceC) - (rh / 100) * saturationVapourPressureKPa(airT)
+  const latent = 2501 - 2.361 * surfaceC
+  const kgPerHour = Math.max(0, (area * dp * (0.089 + 0.0782 * v)) / latent) * 3600
+  const warnings: string[] = []
+  if (rh < STULL_RH.min || rh > STULL_RH.max) {
+    warnings.push(`Relative humidity ${rh} % is outside 5–99 %, the range of the wet-bulb formula; the estimate is rougher.`)
+  }
+  const guard = dryingGuard(airT)
+  if (guard) warnings.push(guard)
+  if (kgPerHour === 0 && water > 0) warnings.push('The air is saturated: the cast will not dry until the air is drier or warmer.')
+  const hours = water === 0 ? 0 : kgPerHour === 0 ? Infinity : (water / kgPerHour) * falling
+  return { constantRateKgPerHour: kgPerHour, hours, wetBulbC: surfaceC, warnings }
+}
+
+/**
+ * Warning text when a cast or drying room is set above 49 °C, else null: set gypsum starts to
+ * lose its combined water well below boiling, and a cast dried hot goes soft and chalky.
+ */
+export function dryingGuard(tempC: number): string | null {
+  if (typeof tempC !== 'number' || !Number.isFinite(tempC)) {
+    throw new PlasterInputError('tempC', 'tempC must be a finite number (°C)')
+  }
+  if (tempC <= PLASTER_DRYING_MAX_C) return null
+  return `${tempC} °C is above ${PLASTER_DRYING_MAX_C} °C: set plaster starts to lose its combined water and goes soft and chalky; dry at ${PLASTER_DRYING_MAX_C} °C or below.`
+}
+
+/**
+ * Dryness by weight: free water left = weighed − computed dry mass, kg, and as % of the dry mass.
+ * Dry when within 0.5 % (common practice; the trade's own test is constant weight between
+ * weighings). A piece lighter than its dry mass gives a negative figure and a warning.
+ */
+export function dryness(input: { weighedKg: number; dryMassKg: number }): {
+  freeWaterKg: number
+  freeWaterPct: number
+  isDry: boolean
+  warnings: string[]
+} {
+  const i = assertPlasterObject(input, 'input')
+  const weighed = assertPlasterNumber(i.weighedKg, 'weighedKg', PLASTER_LIMITS.weighedKg)
+  const dry = assertPlasterNumber(i.dryMassKg, 'dryMassKg', PLASTER_LIMITS.dryMassKg)
+  const freeWaterKg = weighed - dry
+  const freeWaterPct = (freeWaterKg / dry) * 100
+  const warnings = freeWaterPct < -PLASTER_DRY_FREE_WATER_PCT
+    ? ['The piece weighs less than its computed dry mass: check the dry mass, or the piece may have been over-dried and lost combined water.']
+    : []
+  return { freeWaterKg, freeWaterPct, isDry: freeWaterPct <= PLASTER_DRY_FREE_WATER_PCT, warnings }
+}

@@ -1,0 +1,207 @@
+/**
+ * Set, demould window, set curve, heat of hydration and the shop's calibration factor.
+ * Re-exported from `plaster.ts`. Pure: no I/O, no framework import.
+ */
+import {
+  GYPSUM_SPECIFIC_HEAT,
+  HEMIHYDRATE_SPECIFIC_HEAT,
+  HYDRATION_WATER_PER_HEMIHYDRATE,
+  PLASTER_LIMITS,
+  PlasterInputError,
+  WATER_SPECIFIC_HEAT,
+  assertPlasterGrade,
+  assertPlasterNumber,
+  assertPlasterObject,
+  interpolateTemperatureFactor,
+  type PlasterGrade,
+} from './plaster-core'
+
+/**
+ * Avrami (nucleation-and-growth) exponent of the illustrative set curve: 2.5, inside the 2–3
+ * usually reported for hemihydrate hydration (recalled from memory; science.md §5).
+ */
+export const SET_CURVE_AVRAMI_EXPONENT = 2.5
+
+/** Hydration the set curve reaches at the demould-ready time: 0.9 (design choice, illustrative). */
+export const SET_CURVE_HYDRATION_AT_DEMOULD = 0.9
+
+/** Set factors outside 0.3–3 draw a warning: beyond that an additive dominates the set (common practice). */
+const SET_FACTOR_WARN = { min: 0.3, max: 3 }
+
+/** Slurry temperatures outside 5–40 °C draw a warning (Ridge, Nature 184, 1959; common practice for the cold side). */
+const SLURRY_WARN_C = { min: 5, max: 40 }
+
+/** One point of the set curve. */
+export interface PlasterSetPoint {
+  minutes: number
+  /** degree of hydration, 0..1 */
+  hydration: number
+  /** adiabatic temperature rise so far, °C (an upper bound: no heat loss) */
+  riseC: number
+}
+
+/** The demould window: open when demould-ready, closed when the mould's dwell runs out. */
+export interface PlasterDemouldWindow {
+  openMinutes: number
+  closeMinutes: number
+  warnings: string[]
+}
+
+/** Checks consistency against the physical limits (18.6, the water hydration binds, to 200). */
+export function assertPlasterConsistency(value: unknown, field = 'consistency'): number {
+  return assertPlasterNumber(value, field, PLASTER_LIMITS.consistency)
+}
+
+/** Set-time multiplier of `grade` at `slurryTempC` (piecewise-linear table, flat beyond its ends). */
+export function setTimeTemperatureFactor(grade: PlasterGrade, slurryTempC: number): number {
+  const g = assertPlasterGrade(grade)
+  const t = assertPlasterNumber(slurryTempC, 'slurryTempC', PLASTER_LIMITS.slurryTempC)
+  return interpolateTemperatureFactor(g.temperatureFactors, t)
+}
+
+/**
+ * Minutes from end of mixing to demould-ready:
+ * demouldMinutesRef × (c / c_ref)^m × f(T_slurry) × setFactor, with c_ref the grade's default
+ * consistency, m its water exponent and f its temperature table (the design's model; the
+ * constants are shop starting points the register calibrates). setFactor < 1 is an accelerator,
+ * > 1 a retarder (or the shop's calibration factor).
+ */
+export function demouldReadyMinutes(input: {
+  grade: PlasterGrade
+  consistency: number
+  slurryTempC: number
+  setFactor?: number
+}): number {
+  const i = assertPlasterObject(input, 'input')
+  const grade = assertPlasterGrade(i.grade)
+  const c = assertPlasterConsistency(i.consistency)
+  const setFactor = assertPlasterNumber(i.setFactor ?? 1, 'setFactor', PLASTER_LIMITS.setFactor)
+  const water = (c / grade.consistency.default) ** grade.setTimeWaterExponent
+  return grade.demouldMinutesRef * water * setTimeTemperatureFactor(grade, i.slurryTempC as number) * setFactor
+}
+
+function windowWarnings(grade: PlasterGrade, c: number, t: number, setFactor: number): string[] {
+  const warnings: string[] = []
+  if (t < SLURRY_WARN_C.min) {
+    warnings.push(`Slurry at ${t.toFixed(1)} °C is below ${SLURRY_WARN_C.min} °C: the set slows and becomes unpredictable in the cold; use tempered water.`)
+  }
+  if (t > SLURRY_WARN_C.max) {
+    warnings.push(`Slurry at ${t.toFixed(1)} °C is above ${SLURRY_WARN_C.max} °C: gypsum sets slower again above about 40 °C and not at all near 100 °C.`)
+  }
+  const table = grade.temperatureFactors
+  if (t < table[0]![0] || t > table[table.length - 1]![0]) {
+    warnings.push(`Slurry at ${t.toFixed(1)} °C is outside the grade's temperature table; the nearest table value was used.`)
+  }
+  if (c < grade.consistency.min || c > grade.consistency.max) {
+    warnings.push(`Consistency ${c} is outside this grade's range ${grade.consistency.min}–${grade.consistency.max}.`)
+  }
+  if (setFactor < SET_FACTOR_WARN.min || setFactor > SET_FACTOR_WARN.max) {
+    warnings.push(`Set factor ${setFactor} is outside ${SET_FACTOR_WARN.min}–${SET_FACTOR_WARN.max}: time a test gauge first.`)
+  }
+  return warnings
+}
+
+/**
+ * The demould window, minutes after end of mixing: opens at `demouldReadyMinutes`, closes
+ * `maxDwellMinutes` later (a rubber mould can hold a cast for hours; a rigid or gelatine mould
+ * cannot). Warns on slurry below 5 °C or above 40 °C, consistency outside the grade's range,
+ * and a set factor outside 0.3–3.
+ */
+export function demouldWindow(input: {
+  grade: PlasterGrade
+  consistency: number
+  slurryTempC: number
+  maxDwellMinutes: number
+  setFactor?: number
+}): PlasterDemouldWindow {
+  const i = assertPlasterObject(input, 'input')
+  const grade = assertPlasterGrade(i.grade)
+  const c = assertPlasterConsistency(i.consistency)
+  const t = assertPlasterNumber(i.slurryTempC, 'slurryTempC', PLASTER_LIMITS.slurryTempC)
+  const setFactor = assertPlasterNumber(i.setFactor ?? 1, 'setFactor', PLASTER_LIMITS.setFactor)
+  const dwell = assertPlasterNumber(i.maxDwellMinutes, 'maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
+  const openMinutes = demouldReadyMinutes({ grade, consistency: c, slurryTempC: t, setFactor })
+  return { openMinutes, closeMinutes: openMinutes + dwell, warnings: windowWarnings(grade, c, t, setFactor) }
+}
+
+/**
+ * Upper bound of the slurry's temperature rise, °C, if all the heat of hydration stayed in it:
+ * ΔT = purity × hydrationHeat / C̄, per g of powder, where C̄ is the mean of the heat capacity
+ * before (powder 0.82 + water 4.18 × w J/K) and after setting (gypsum 1.0815 × 1.18618, free
+ * water, impurity as powder). Heat from Southard 1940; heat capacities in plaster-core.
+ * Beta at 0.70 gives about 37 °C, at 0.60 about 42 °C (science.md §6). Real casts lose heat.
+ */
+export function adiabaticRiseC(input: { grade: PlasterGrade; consistency: number }): number {
+  const i = assertPlasterObject(input, 'input')
+  const grade = assertPlasterGrade(i.grade)
+  const w = assertPlasterConsistency(i.consistency) / 100
+  // Water short of full hydration leaves some hemihydrate unreacted (matters only near 18.6).
+  const bound = Math.min(w, grade.purity * HYDRATION_WATER_PER_HEMIHYDRATE)
+  const reacted = bound / HYDRATION_WATER_PER_HEMIHYDRATE
+  const before = HEMIHYDRATE_SPECIFIC_HEAT + w * WATER_SPECIFIC_HEAT
+  const after = (1 - reacted) * HEMIHYDRATE_SPECIFIC_HEAT
+    + (reacted + bound) * GYPSUM_SPECIFIC_HEAT
+    + (w - bound) * WATER_SPECIFIC_HEAT
+  return (reacted * grade.hydrationHeat) / ((before + after) / 2)
+}
+
+/**
+ * Illustrative set curve: hydration α(t) = 1 − exp(−k t^n), Avrami n = 2.5, with k chosen so that
+ * α = 0.9 at the demould-ready time; riseC = α × adiabatic rise (heat released is proportional to
+ * conversion, Karmazsin, ASTM STP on hydration ratio of plasters). Points every `stepMinutes` from
+ * 0, plus `untilMinutes` itself; at most 2001 points.
+ */
+export function setCurve(input: {
+  grade: PlasterGrade
+  consistency: number
+  slurryTempC: number
+  stepMinutes: number
+  untilMinutes: number
+  setFactor?: number
+}): PlasterSetPoint[] {
+  const i = assertPlasterObject(input, 'input')
+  const step = assertPlasterNumber(i.stepMinutes, 'stepMinutes', PLASTER_LIMITS.stepMinutes)
+  const until = assertPlasterNumber(i.untilMinutes, 'untilMinutes', PLASTER_LIMITS.untilMinutes)
+  if (until / step > 2000) {
+    throw new PlasterInputError('stepMinutes', 'stepMinutes must give at most 2000 steps up to untilMinutes')
+  }
+  const ready = demouldReadyMinutes(input)
+  const rise = adiabaticRiseC({ grade: input.grade, consistency: input.consistency })
+  const k = -Math.log(1 - SET_CURVE_HYDRATION_AT_DEMOULD)
+  const point = (minutes: number): PlasterSetPoint => {
+    const hydration = 1 - Math.exp(-k * (minutes / ready) ** SET_CURVE_AVRAMI_EXPONENT)
+    return { minutes, hydration, riseC: hydration * rise }
+  }
+  const points: PlasterSetPoint[] = []
+  for (let n = 0; n * step <= until; n++) points.push(point(n * step))
+  if (points[points.length - 1]!.minutes < until) points.push(point(until))
+  return points
+}
+
+function median(sorted: number[]): number {
+  const mid = Math.floor(sorted.length / 2)
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
+}
+
+/**
+ * The shop's calibration factor for a grade: the median of actual / predicted demould minutes
+ * over the last `lastN` valid samples (default 20; samples in register order, oldest first).
+ * The median keeps one botched pour from dragging the factor. Samples with a non-finite or
+ * non-positive time are ignored. No valid sample gives factor 1. Multiply it into setFactor.
+ */
+export function calibrationFactor(
+  samples: { predictedMinutes: number; actualMinutes: number }[],
+  options: { lastN?: number } = {},
+): { factor: number; count: number } {
+  if (!Array.isArray(samples)) throw new PlasterInputError('samples', 'samples must be an array')
+  const lastN = options.lastN ?? 20
+  if (!Number.isInteger(lastN) || lastN < 1 || lastN > 10000) {
+    throw new PlasterInputError('lastN', 'lastN must be a whole number between 1 and 10000')
+  }
+  const valid = samples.filter(s => typeof s === 'object' && s !== null
+    && Number.isFinite(s.predictedMinutes) && Number.isFinite(s.actualMinutes)
+    && s.predictedMinutes > 0 && s.actualMinutes > 0)
+  const ratios = valid.slice(-lastN).map(s => s.actualMinutes / s.predictedMinutes).sort((a, b) => a - b)
+  if (ratios.length === 0) return { factor: 1, count: 0 }
+  return { factor: median(ratios), count: ratios.length }
+}

@@ -1,0 +1,107 @@
+// Role guard for every route that exists, and workshop tenancy. The route table below must
+// name every file under server/api: a new route without a row here fails the first test.
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { call, signIn } from '../setup/http'
+import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser } from '../setup/fixtures'
+
+type Role = 'lead' | 'caster' | 'finisher' | 'client'
+interface RouteRow { method: string; path: string; roles: Role[] | 'public'; body?: () => Promise<unknown> | unknown; target?: () => Promise<string> }
+
+let patchTarget = 0
+const ROUTES: RouteRow[] = [
+  { method: 'GET', path: '/api/health', roles: 'public' },
+  { method: 'POST', path: '/api/auth/login', roles: 'public' },
+  { method: 'POST', path: '/api/auth/logout', roles: 'public' },
+  { method: 'GET', path: '/api/auth/invitation', roles: 'public' },
+  { method: 'POST', path: '/api/auth/invitation', roles: 'public' },
+  { method: 'POST', path: '/api/auth/password-reset', roles: 'public' },
+  { method: 'POST', path: '/api/auth/password-reset/confirm', roles: 'public' },
+  { method: 'GET', path: '/api/auth/me', roles: ['lead', 'caster', 'finisher', 'client'] },
+  { method: 'GET', path: '/api/users', roles: ['lead'] },
+  { method: 'PATCH', path: '/api/users/[id]', roles: ['lead'], body: () => ({ disabled: false }), target: async () => `/api/users/${patchTarget}` },
+  { method: 'GET', path: '/api/invitations', roles: ['lead'] },
+  { method: 'POST', path: '/api/invitations', roles: ['lead'], body: () => ({ email: `guard-${Math.random().toString(36).slice(2)}@fixture.example.test`, role: 'caster' }) },
+  { method: 'GET', path: '/api/dev/mails', roles: ['lead'] },
+  { method: 'GET', path: '/api/overview', roles: ['lead'] },
+  { method: 'GET', path: '/api/client/jobs', roles: ['client'] },
+]
+
+function routeFiles(dir: string): string[] {
+  return readdirSync(dir).flatMap((f) => {
+    const p = join(dir, f)
+    return statSync(p).isDirectory() ? routeFiles(p) : [p]
+  })
+}
+
+function fileToRoute(file: string, apiDir: string) {
+  const rel = relative(apiDir, file).replace(/\.ts$/, '')
+  const m = rel.match(/^(.*)\.(get|post|patch|put|delete)$/)
+  if (!m) throw new Error(`route file without a method suffix: ${rel}`)
+  const path = '/api/' + m[1]!.replace(/(^|\/)index$/, '')
+  return `${m[2]!.toUpperCase()} ${path.replace(/\/$/, '')}`
+}
+
+const cookies: Partial<Record<Role, string>> = {}
+
+beforeAll(async () => {
+  cookies.lead = await signIn(demo.lead.email, DEMO_PASSWORD)
+  cookies.caster = await signIn(demo.caster1.email, DEMO_PASSWORD)
+  cookies.finisher = await signIn(demo.finisher.email, DEMO_PASSWORD)
+  cookies.client = await signIn(demo.client1.email, DEMO_PASSWORD)
+  patchTarget = (await makeUser(await demoWorkshopId(), 'caster', 'patch-target')).id
+})
+afterAll(closeTestDb)
+
+describe('route table', () => {
+  it('names every route file under server/api', () => {
+    const apiDir = join(import.meta.dirname, '../../server/api')
+    const onDisk = routeFiles(apiDir).map(f => fileToRoute(f, apiDir)).sort()
+    const inTable = ROUTES.map(r => `${r.method} ${r.path}`).sort()
+    expect(inTable).toEqual(onDisk)
+  })
+})
+
+describe('role guard', () => {
+  for (const route of ROUTES.filter(r => r.roles !== 'public')) {
+    it(`${route.method} ${route.path}: 401 signed out, 403 for other roles, allowed for ${(route.roles as Role[]).join(', ')}`, async () => {
+      const path = route.target ? await route.target() : route.path
+      const body = route.body ? await route.body() : undefined
+      expect((await call(path, { method: route.method, body })).status).toBe(401)
+      for (const role of ['lead', 'caster', 'finisher', 'client'] as Role[]) {
+        const r = await call(path, { method: route.method, cookie: cookies[role], body: route.body ? await route.body() : undefined })
+        if ((route.roles as Role[]).includes(role)) expect(r.status, `${role} should be allowed`).toBeLessThan(300)
+        else expect(r.status, `${role} should be refused`).toBe(403)
+      }
+    })
+  }
+})
+
+describe('tenancy', () => {
+  it('one workshop cannot read or change another workshop\'s rows', async () => {
+    const other = await makeOtherWorkshop()
+    const otherLead = await signIn(other.lead.email, DEMO_PASSWORD)
+    const users = await call<{ email: string }[]>('/api/users', { cookie: otherLead })
+    expect(users.status).toBe(200)
+    const emails = users.data.map(u => u.email).sort()
+    expect(emails).toEqual([other.caster.email, other.client.email, other.lead.email].sort())
+    const demoCaster = await call('/api/users', { cookie: cookies.lead })
+    const idInDemo = demoCaster.data.find((u: { email: string }) => u.email === demo.caster1.email).id
+    const patch = await call(`/api/users/${idInDemo}`, { method: 'PATCH', cookie: otherLead, body: { disabled: true } })
+    expect(patch.status).toBe(404)
+    const overview = await call('/api/overview', { cookie: otherLead })
+    expect(overview.data.jobs.map((j: { code: string }) => j.code)).toEqual(['X-1'])
+    const otherClient = await signIn(other.client.email, DEMO_PASSWORD)
+    const jobs = await call('/api/client/jobs', { cookie: otherClient })
+    expect(jobs.data.map((j: { code: string }) => j.code)).toEqual(['X-1'])
+  })
+
+  it('a client sees only the jobs they are a member of', async () => {
+    const jobs1 = await call('/api/client/jobs', { cookie: cookies.client })
+    expect(jobs1.data.map((j: { code: string }) => j.code).sort()).toEqual(['J-2601', 'J-2603'])
+    const c2 = await signIn(demo.client2.email, DEMO_PASSWORD)
+    const jobs2 = await call('/api/client/jobs', { cookie: c2 })
+    expect(jobs2.data.map((j: { code: string }) => j.code)).toEqual(['J-2602'])
+  })
+})

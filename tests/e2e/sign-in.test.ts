@@ -1,0 +1,69 @@
+// Browser journey: each demo role signs in through the form and lands on its own home.
+import { afterAll, beforeAll, beforeEach, describe, expect, it, inject } from 'vitest'
+import type { Page } from 'playwright-core'
+import { openBrowser, screenshot, VIEWPORTS } from '../setup/browser'
+import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
+
+const base = inject('baseUrl')
+let browser: Awaited<ReturnType<typeof openBrowser>>
+
+beforeAll(async () => {
+  browser = await openBrowser()
+})
+afterAll(async () => {
+  await browser?.close()
+})
+beforeEach(async () => {
+  await browser.context.clearCookies()
+})
+
+async function signInThroughForm(page: Page, email: string, password: string) {
+  await page.goto(`${base}/login`)
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+const HOMES = [
+  { key: 'lead', path: '/lead', heading: /Today at Larkspur/, viewport: VIEWPORTS.desktop },
+  { key: 'caster1', path: '/floor', heading: /My pours today/, viewport: VIEWPORTS.tablet },
+  { key: 'finisher', path: '/finishing', heading: /Fettling queue/, viewport: VIEWPORTS.tablet },
+  { key: 'client1', path: '/client', heading: /My jobs/, viewport: VIEWPORTS.phone },
+] as const
+
+describe('sign in as each role', () => {
+  for (const h of HOMES) {
+    it(`${h.key} lands on ${h.path}`, async () => {
+      const user = DEMO_USERS.find(u => u.key === h.key)!
+      const page = await browser.context.newPage()
+      await page.setViewportSize(h.viewport)
+      await signInThroughForm(page, user.email, DEMO_PASSWORD)
+      await page.waitForURL(`${base}${h.path}`)
+      // the URL changes before the new page has rendered: wait for its heading
+      await page.getByRole('heading', { level: 1, name: h.heading }).waitFor()
+      await expect(page.getByTestId('user-name').textContent()).resolves.toBe(user.name)
+      await screenshot(page, `sign-in-${h.key}-home`)
+      // a page of another role sends this user back home
+      await page.goto(`${base}${h.key === 'lead' ? '/client' : '/lead'}`)
+      await page.waitForURL(`${base}${h.path}`)
+      await page.getByRole('button', { name: 'Sign out' }).click()
+      await page.waitForURL(/\/login/)
+      await page.close()
+    })
+  }
+
+  it('shows the server\'s message for a wrong password', async () => {
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, DEMO_USERS[0].email, 'definitely-wrong')
+    await expect(page.getByTestId('login-error').textContent()).resolves.toMatch(/E-mail or password is wrong/)
+    await screenshot(page, 'sign-in-wrong-password')
+    await page.close()
+  })
+
+  it('sends a signed-out visitor to sign-in', async () => {
+    const page = await browser.context.newPage()
+    await page.goto(`${base}/lead/people`)
+    await page.waitForURL(/\/login\?next=/)
+    await page.close()
+  })
+})

@@ -1,0 +1,36 @@
+// Debian's chromium driven by playwright-core, with the flags this closed machine needs.
+import { chromium, type BrowserContext, type Page } from 'playwright-core'
+import { mkdtempSync, mkdirSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+
+export const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/screenshots')
+
+export const VIEWPORTS = {
+  desktop: { width: 1366, height: 860 },
+  tablet: { width: 820, height: 1180 },
+  phone: { width: 390, height: 844 },
+}
+
+export async function openBrowser(viewport = VIEWPORTS.desktop) {
+  const dir = mkdtempSync(join(tmpdir(), 'setline-chromium-'))
+  const context: BrowserContext = await chromium.launchPersistentContext(dir, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    viewport,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+  })
+  return {
+    context,
+    async close() {
+      await context.close()
+      rmSync(dir, { recursive: true, force: true })
+    },
+  }
+}
+
+export async function screenshot(page: Page, name: string) {
+  mkdirSync(SCREENSHOTS, { recursive: true })
+  await page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true })
+}

@@ -1,0 +1,65 @@
+// Small HTTP helpers for API tests against the built server.
+import { inject } from 'vitest'
+
+export interface CallResult<T = any> { status: number; data: T; cookie?: string; headers: Headers }
+
+export function baseUrl() {
+  return inject('baseUrl')
+}
+
+function sessionCookie(headers: Headers): string | undefined {
+  const all = headers.getSetCookie?.() ?? []
+  const c = all.find(h => h.startsWith('setline-session='))
+  return c?.split(';')[0]
+}
+
+export async function call<T = any>(path: string, opts: { method?: string; body?: unknown; rawBody?: string; cookie?: string } = {}): Promise<CallResult<T>> {
+  const headers: Record<string, string> = { accept: 'application/json' }
+  if (opts.cookie) headers.cookie = opts.cookie
+  let body: string | undefined
+  if (opts.rawBody !== undefined) {
+    body = opts.rawBody
+    headers['content-type'] = 'application/json'
+  }
+  else if (opts.body !== undefined) {
+    body = JSON.stringify(opts.body)
+    headers['content-type'] = 'application/json'
+  }
+  const res = await fetch(baseUrl() + path, { method: opts.method ?? 'GET', headers, body, redirect: 'manual' })
+  const text = await res.text()
+  let data: any = text
+  try {
+    data = text ? JSON.parse(text) : null
+  }
+  catch { /* not JSON */ }
+  return { status: res.status, data, cookie: sessionCookie(res.headers), headers: res.headers }
+}
+
+const cookies = new Map<string, string>()
+
+/** Signs in (once per e-mail and test file) and returns the session cookie. */
+export async function signIn(email: string, password: string, fresh = false): Promise<string> {
+  if (!fresh && cookies.has(email)) return cookies.get(email)!
+  const r = await call('/api/auth/login', { method: 'POST', body: { email, password } })
+  if (r.status !== 200 || !r.cookie) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.data)}`)
+  cookies.set(email, r.cookie)
+  return r.cookie
+}
+
+/** Waits for captured mail to a recipient in the server's SMTP fake (read as a lead). */
+export async function waitForMail(leadCookie: string, to: string, subjectPart: string, timeoutMs = 15_000) {
+  const until = Date.now() + timeoutMs
+  while (Date.now() < until) {
+    const r = await call<{ to: string[]; subject: string; text: string }[]>('/api/dev/mails', { cookie: leadCookie })
+    const m = r.data?.find?.(x => x.to.includes(to) && x.subject.includes(subjectPart))
+    if (m) return m
+    await new Promise(res => setTimeout(res, 250))
+  }
+  throw new Error(`no mail to ${to} about "${subjectPart}" within ${timeoutMs} ms`)
+}
+
+export function tokenFrom(text: string): string {
+  const m = text.match(/token=([\w-]+)/)
+  if (!m) throw new Error('no token link in the mail')
+  return m[1]!
+}

@@ -1,0 +1,55 @@
+// vitest globalSetup for the api and e2e projects: starts the built server (.output) against
+// the run's throwaway database, with its own SMTP fake, and stops it afterwards.
+import { spawn, type ChildProcess } from 'node:child_process'
+import { existsSync } from 'node:fs'
+import { randomBytes } from 'node:crypto'
+import { resolve } from 'node:path'
+import type { TestProject } from 'vitest/node'
+import { freePort } from './throwaway-db'
+
+declare module 'vitest' {
+  export interface ProvidedContext { baseUrl: string; databaseUrl: string }
+}
+
+let child: ChildProcess | undefined
+
+export async function startAppServer(env: Record<string, string>) {
+  const root = resolve(import.meta.dirname, '../..')
+  if (!existsSync(resolve(root, '.output/server/index.mjs'))) throw new Error('No build in .output: run npm test (it builds first)')
+  const [port, smtpPort] = [await freePort(), await freePort()]
+  const proc = spawn(process.execPath, [resolve(root, '.output/server/index.mjs')], {
+    cwd: root,
+    env: {
+      ...process.env, HOST: '127.0.0.1', PORT: String(port), APP_URL: `http://127.0.0.1:${port}`,
+      NUXT_SESSION_PASSWORD: randomBytes(24).toString('hex'), MAIL_FAKE: '1', SMTP_PORT: String(smtpPort),
+      MAIL_WORKER_INTERVAL_MS: '500', ...env,
+    },
+    stdio: ['ignore', 'inherit', 'inherit'],
+  })
+  const url = `http://127.0.0.1:${port}`
+  const until = Date.now() + 60_000
+  while (Date.now() < until) {
+    if (proc.exitCode !== null) throw new Error(`the app server exited with ${proc.exitCode}`)
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) return { url, proc }
+    }
+    catch { /* starting */ }
+    await new Promise(r => setTimeout(r, 200))
+  }
+  proc.kill('SIGKILL')
+  throw new Error('the app server did not start within 60 s')
+}
+
+export default async function setup(project: TestProject) {
+  const databaseUrl = process.env.SETLINE_TEST_DATABASE_URL
+  if (!databaseUrl) throw new Error('SETLINE_TEST_DATABASE_URL is not set: run the suite with npm test')
+  const started = await startAppServer({ DATABASE_URL: databaseUrl })
+  child = started.proc
+  project.provide('baseUrl', started.url)
+  project.provide('databaseUrl', databaseUrl)
+  return async () => {
+    child?.kill('SIGTERM')
+    await new Promise(r => setTimeout(r, 300))
+    if (child && child.exitCode === null) child.kill('SIGKILL')
+  }
+}

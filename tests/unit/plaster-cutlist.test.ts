@@ -1,0 +1,132 @@
+import { describe, it, expect } from 'vitest'
+import {
+  PlasterInputError,
+  bagsForKg,
+  cToF,
+  fToC,
+  inToMm,
+  kgToLb,
+  lbToKg,
+  litresToUsGallons,
+  mmToIn,
+  runCutList,
+  usGallonsToLitres,
+} from '../../shared/utils/plaster'
+
+function fieldOf(fn: () => unknown): string | undefined {
+  try {
+    fn()
+  }
+  catch (e) {
+    expect(e).toBeInstanceOf(PlasterInputError)
+    return (e as PlasterInputError).field
+  }
+  return undefined
+}
+
+function sumByWall(cuts: { wall: number; lengthM: number }[]): number[] {
+  const sums: number[] = []
+  for (const c of cuts) sums[c.wall] = (sums[c.wall] ?? 0) + c.lengthM
+  return sums
+}
+
+describe('runCutList', () => {
+  // trade.md worked example: room 4.5 × 3.6 m with a chimney breast projecting 0.35 m, 3 m lengths
+  const room = [4.5, 3.6, 4.5, 3.6, 0.35, 0.35].map(lengthM => ({ lengthM }))
+
+  it('covers the trade.md example room (16.9 m) in 6 lengths plus a spare', () => {
+    const r = runCutList({ walls: room, castLengthM: 3, minPieceM: 0.3, sparesPct: 10 })
+    expect(r.usedLengths).toBe(6) // ceil(16.9 / 3) = 6: pooling offcuts meets the lower bound
+    expect(r.spareLengths).toBe(1) // ceil(6 × 10 %) = 1 (spares rounded up)
+    expect(r.lengths).toBe(7)
+    expect(r.offcutM).toBeCloseTo(6 * 3 - 16.9, 9) // 1.1 m left over
+    const sums = sumByWall(r.cuts)
+    room.forEach((w, i) => expect(sums[i]).toBeCloseTo(w.lengthM, 9))
+  })
+
+  it('lists cuts wall by wall and packs longest first into the first length that holds them', () => {
+    const r = runCutList({ walls: room, castLengthM: 3, minPieceM: 0.3, sparesPct: 0 })
+    expect(r.cuts.map(c => c.wall)).toEqual([0, 0, 1, 1, 2, 2, 3, 3, 4, 5])
+    // The four 3 m pieces take lengths 0–3; the two 1.5 m rests share length 4; the rest share length 5.
+    expect(r.cuts.map(c => c.fromLength)).toEqual([0, 4, 1, 5, 2, 4, 3, 5, 5, 5])
+  })
+
+  it('balances a remainder shorter than minPieceM against the last full length', () => {
+    // 6.2 m with 3 m lengths, min 0.5: 3 + 3 + 0.2 would leave a 0.2 m stub, so 3 + 1.6 + 1.6
+    const r = runCutList({ walls: [{ lengthM: 6.2 }], castLengthM: 3, minPieceM: 0.5, sparesPct: 0 })
+    expect(r.cuts.map(c => c.lengthM).sort((a, b) => a - b)).toEqual([1.6, 1.6, 3].map(x => expect.closeTo(x, 9)))
+  })
+
+  it('splits evenly when even balancing would leave a short piece', () => {
+    // 8.7 m, 3 m lengths, min 2.9: 3 + 2.85 + 2.85 is too short, so three of 2.9 m
+    const r = runCutList({ walls: [{ lengthM: 8.7 }], castLengthM: 3, minPieceM: 2.9, sparesPct: 0 })
+    expect(r.cuts.map(c => c.lengthM)).toEqual([2.9, 2.9, 2.9].map(x => expect.closeTo(x, 9)))
+  })
+
+  it('rounds spares up', () => {
+    const r = runCutList({ walls: [{ lengthM: 3 }], castLengthM: 3, minPieceM: 0, sparesPct: 5 })
+    expect(r).toMatchObject({ usedLengths: 1, spareLengths: 1, lengths: 2 })
+    expect(runCutList({ walls: [{ lengthM: 30 }], castLengthM: 3, minPieceM: 0, sparesPct: 10 }).spareLengths).toBe(1)
+  })
+
+  it('throws a named error on bad input', () => {
+    const ok = { walls: room, castLengthM: 3, minPieceM: 0.3, sparesPct: 10 }
+    expect(fieldOf(() => runCutList({ ...ok, castLengthM: 0 }))).toBe('castLengthM')
+    expect(fieldOf(() => runCutList({ ...ok, castLengthM: -3 }))).toBe('castLengthM')
+    expect(fieldOf(() => runCutList({ ...ok, minPieceM: 3.5 }))).toBe('minPieceM')
+    expect(fieldOf(() => runCutList({ ...ok, sparesPct: -1 }))).toBe('sparesPct')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [] }))).toBe('walls')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 0 }] }))).toBe('walls[0].lengthM')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 4 }, { lengthM: 0.2 }] }))).toBe('walls[1].lengthM')
+    // 3.5 m cannot be cut into pieces of 2–3 m: one is too short, two too long
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 3.5 }], minPieceM: 2 }))).toBe('walls[0].lengthM')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 1000 }], castLengthM: 0.1, minPieceM: 0 }))).toBe('walls')
+  })
+})
+
+describe('bagsForKg', () => {
+  it('rounds up to whole bags', () => {
+    expect(bagsForKg(50, 25)).toBe(2)
+    expect(bagsForKg(50.01, 25)).toBe(3)
+    expect(bagsForKg(0, 25)).toBe(0)
+    expect(bagsForKg(0.3, 0.1)).toBe(3) // float: 0.3 / 0.1 = 2.9999999999999996
+    expect(bagsForKg(0.7, 0.1)).toBe(7) // float: 0.7 / 0.1 = 6.999999999999999
+    // trade.md worked example: ~2 kg plaster/m × 16.9 m ≈ 34 kg ≈ 1.5 bags of 25 kg → 2 bags
+    expect(bagsForKg(2 * 16.9, 25)).toBe(2)
+  })
+
+  it('throws a named error on bad input', () => {
+    expect(fieldOf(() => bagsForKg(-1, 25))).toBe('kg')
+    expect(fieldOf(() => bagsForKg(10, 0))).toBe('bagKg')
+  })
+})
+
+describe('unit conversions (NIST SP 811 exact definitions)', () => {
+  it('uses the exact factors', () => {
+    expect(lbToKg(1)).toBe(0.45359237) // NIST SP 811: 1 lb = 0.45359237 kg exactly
+    expect(inToMm(1)).toBe(25.4) // NIST SP 811: 1 in = 25.4 mm exactly
+    expect(usGallonsToLitres(1)).toBe(3.785411784) // NIST SP 811: 1 US gal = 3.785411784 L exactly
+    expect(kgToLb(0.45359237)).toBeCloseTo(1, 14)
+    expect(mmToIn(25.4)).toBe(1)
+    expect(litresToUsGallons(3.785411784)).toBe(1)
+  })
+
+  it('converts temperatures at the fixed points', () => {
+    expect(cToF(0)).toBe(32)
+    expect(cToF(100)).toBe(212)
+    expect(cToF(-40)).toBe(-40) // the scales cross at −40
+    expect(fToC(120)).toBeCloseTo(48.889, 3) // the 120 °F drying limit (science.md §9)
+    expect(fToC(212)).toBe(100)
+  })
+
+  it('turns 50 lb of plaster at consistency 70 into 4.19 US gallons of water', () => {
+    // Derived: 50 lb × 0.70 = 35 lb = 15.876 kg ≈ 15.876 L at 1.00 kg/L = 4.194 US gal (science.md TC4: 4.20 at 8.34 lb/gal)
+    expect(litresToUsGallons(lbToKg(50) * 0.7)).toBeCloseTo(4.194, 3)
+  })
+
+  it('throws on a non-finite value', () => {
+    expect(fieldOf(() => cToF(Number.NaN))).toBe('tempC')
+    expect(fieldOf(() => kgToLb(Infinity))).toBe('kg')
+    expect(fieldOf(() => inToMm(Number.NaN))).toBe('in')
+  })
+})

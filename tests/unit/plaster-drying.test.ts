@@ -1,0 +1,162 @@
+import { describe, it, expect } from 'vitest'
+import {
+  PlasterInputError,
+  dryingEstimate,
+  dryingGuard,
+  dryness,
+  fToC,
+  saturationVapourPressureKPa,
+  wetBulbC,
+} from '../../shared/utils/plaster'
+
+function expectNear(actual: number, expected: number, relTol: number) {
+  expect(Math.abs(actual / expected - 1)).toBeLessThan(relTol)
+}
+
+function fieldOf(fn: () => unknown): string | undefined {
+  try {
+    fn()
+  }
+  catch (e) {
+    expect(e).toBeInstanceOf(PlasterInputError)
+    return (e as PlasterInputError).field
+  }
+  return undefined
+}
+
+describe('saturationVapourPressureKPa (Buck 1981/1996)', () => {
+  it('matches the IAPWS-95 table values within 0.1 %', () => {
+    // IAPWS-95 as tabulated in the CRC Handbook, recalled from memory (editions differ by < 0.02 %)
+    expectNear(saturationVapourPressureKPa(0), 0.61121, 0.001)
+    expectNear(saturationVapourPressureKPa(10), 1.2282, 0.001)
+    expectNear(saturationVapourPressureKPa(20), 2.3392, 0.001) // plaster-model.md: 2.339 kPa within 0.1 %
+    expectNear(saturationVapourPressureKPa(30), 4.2467, 0.001)
+    expectNear(saturationVapourPressureKPa(40), 7.3844, 0.001)
+    expectNear(saturationVapourPressureKPa(50), 12.352, 0.001)
+  })
+
+  it('gives Buck\'s own constant at 0 °C', () => {
+    expect(saturationVapourPressureKPa(0)).toBe(0.61121) // Buck 1981: e(0 °C) = 6.1121 hPa
+  })
+
+  it('throws a named error outside −40–100 °C', () => {
+    expect(fieldOf(() => saturationVapourPressureKPa(120))).toBe('tempC')
+    expect(fieldOf(() => saturationVapourPressureKPa(Number.NaN))).toBe('tempC')
+  })
+})
+
+describe('wetBulbC (Stull 2011)', () => {
+  it('gives 13.7 °C at 20 °C and 50 % RH, the paper\'s own example', () => {
+    expect(wetBulbC(20, 50)).toBeCloseTo(13.7, 1) // Stull 2011, J. Appl. Meteor. Climatol. 50: 2267
+  })
+
+  it('equals the air temperature in saturated air and never exceeds it', () => {
+    expect(wetBulbC(20, 100)).toBe(20) // saturated air: wet bulb = dry bulb (definition)
+    expect(wetBulbC(-20, 99)).toBeLessThanOrEqual(-20)
+    expect(wetBulbC(20, 99.5)).toBeGreaterThan(wetBulbC(20, 99))
+    expect(wetBulbC(20, 99.5)).toBeLessThan(20)
+  })
+
+  it('takes RH below 5 % at 5 % (the edge of Stull\'s fit)', () => {
+    expect(wetBulbC(10, 0)).toBe(wetBulbC(10, 5))
+  })
+
+  it('throws a named error outside 0–100 % RH and −20–50 °C', () => {
+    expect(fieldOf(() => wetBulbC(20, 101))).toBe('relHumidityPct')
+    expect(fieldOf(() => wetBulbC(20, -1))).toBe('relHumidityPct')
+    expect(fieldOf(() => wetBulbC(55, 50))).toBe('tempC')
+    expect(fieldOf(() => wetBulbC(-25, 50))).toBe('tempC')
+  })
+})
+
+describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
+  it('matches Carrier\'s equation worked by hand', () => {
+    // 1 m², air 20 °C / 50 % RH, 0.5 m/s:
+    //   surface at the wet bulb 13.70 °C (Stull 2011)
+    //   p_s = Buck(13.70) = 0.61121 × exp((18.678 − 0.05842) × 13.70 / 270.84) = 1.5675 kPa
+    //   p_a = 0.5 × Buck(20) = 0.5 × 2.3383 = 1.1692 kPa; Δp = 0.3983 kPa
+    //   Y = 2501 − 2.361 × 13.70 = 2468.7 kJ/kg
+    //   rate = 1 × 0.3983 × (0.089 + 0.0782 × 0.5) / 2468.7 = 0.3983 × 0.1281 / 2468.7
+    //        = 2.067e-5 kg/s = 0.0744 kg/h
+    //   hours = 0.4757 kg (the 1 L beta cast's free water) / 0.0744 × 2 = 12.79 h
+    const d = dryingEstimate({ freeWaterKg: 0.4757, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 50, airSpeedMs: 0.5 })
+    expect(d.wetBulbC).toBeCloseTo(13.7, 1)
+    expect(d.constantRateKgPerHour).toBeCloseTo(0.0744, 4)
+    expect(d.hours).toBeCloseTo(12.79, 1)
+    expect(d.warnings).toEqual([])
+  })
+
+  it('scales with area and the falling-rate factor, and dries faster in moving air', () => {
+    const base = { freeWaterKg: 1, exposedAreaM2: 1, airTempC: 25, relHumidityPct: 40, airSpeedMs: 1 }
+    const one = dryingEstimate(base)
+    expect(dryingEstimate({ ...base, exposedAreaM2: 2 }).hours).toBeCloseTo(one.hours / 2, 10)
+    expect(dryingEstimate({ ...base, fallingRateFactor: 4 }).hours).toBeCloseTo(one.hours * 2, 10)
+    expect(dryingEstimate({ ...base, airSpeedMs: 3 }).hours).toBeLessThan(one.hours)
+    expect(dryingEstimate({ ...base, relHumidityPct: 70 }).hours).toBeGreaterThan(one.hours)
+    expect(dryingEstimate({ ...base, freeWaterKg: 0 }).hours).toBe(0)
+  })
+
+  it('never finishes in saturated air and says so', () => {
+    const d = dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 100, airSpeedMs: 1 })
+    expect(d.constantRateKgPerHour).toBe(0)
+    expect(d.hours).toBe(Infinity)
+    expect(d.warnings.join(' ')).toMatch(/saturated/)
+  })
+
+  it('warns outside Stull\'s RH range and above the 49 °C guard', () => {
+    expect(dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 30, relHumidityPct: 3, airSpeedMs: 1 }).warnings.join(' '))
+      .toMatch(/5–99 %/)
+    expect(dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 50, relHumidityPct: 20, airSpeedMs: 1 }).warnings.join(' '))
+      .toMatch(/49 °C/)
+  })
+
+  it('throws a named error on bad input', () => {
+    const ok = { freeWaterKg: 1, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 50, airSpeedMs: 1 }
+    expect(fieldOf(() => dryingEstimate({ ...ok, exposedAreaM2: 0 }))).toBe('exposedAreaM2')
+    expect(fieldOf(() => dryingEstimate({ ...ok, freeWaterKg: -1 }))).toBe('freeWaterKg')
+    expect(fieldOf(() => dryingEstimate({ ...ok, relHumidityPct: 120 }))).toBe('relHumidityPct')
+    expect(fieldOf(() => dryingEstimate({ ...ok, airSpeedMs: -0.1 }))).toBe('airSpeedMs')
+    expect(fieldOf(() => dryingEstimate({ ...ok, airTempC: 60 }))).toBe('airTempC')
+    expect(fieldOf(() => dryingEstimate({ ...ok, fallingRateFactor: 0.5 }))).toBe('fallingRateFactor')
+  })
+})
+
+describe('dryingGuard', () => {
+  it('passes 49 °C (120 °F) and below, warns above', () => {
+    expect(dryingGuard(40)).toBeNull() // science.md §9: gypsum specimens are commonly dried at 40 °C
+    expect(dryingGuard(49)).toBeNull() // science.md §9: moulds safe from calcination up to 120 °F (49 °C)
+    expect(dryingGuard(fToC(120))).toBeNull() // 48.9 °C
+    expect(dryingGuard(49.5)).toMatch(/above 49 °C/)
+    expect(dryingGuard(65)).toMatch(/combined water/)
+  })
+
+  it('throws on a non-number', () => {
+    expect(fieldOf(() => dryingGuard(Number.NaN))).toBe('tempC')
+  })
+})
+
+describe('dryness', () => {
+  it('reports the free water left against the computed dry mass', () => {
+    const wet = dryness({ weighedKg: 1.5737, dryMassKg: 1.0981 }) // the 1 L beta cast just demoulded
+    expect(wet.freeWaterKg).toBeCloseTo(0.4756, 4)
+    expect(wet.freeWaterPct).toBeCloseTo(43.31, 2) // 0.4756 / 1.0981
+    expect(wet.isDry).toBe(false)
+  })
+
+  it('calls a piece dry within 0.5 % (common practice)', () => {
+    expect(dryness({ weighedKg: 1.104, dryMassKg: 1.1 }).isDry).toBe(true) // 0.36 %
+    expect(dryness({ weighedKg: 1.106, dryMassKg: 1.1 }).isDry).toBe(false) // 0.55 %
+  })
+
+  it('warns when a piece weighs clearly less than its dry mass', () => {
+    const d = dryness({ weighedKg: 1.05, dryMassKg: 1.1 })
+    expect(d.freeWaterKg).toBeLessThan(0)
+    expect(d.isDry).toBe(true)
+    expect(d.warnings).toHaveLength(1)
+  })
+
+  it('throws a named error on bad input', () => {
+    expect(fieldOf(() => dryness({ weighedKg: 0, dryMassKg: 1 }))).toBe('weighedKg')
+    expect(fieldOf(() => dryness({ weighedKg: 1, dryMassKg: -1 }))).toBe('dryMassKg')
+  })
+})
