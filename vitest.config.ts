@@ -1,9 +1,11 @@
 import { defineConfig } from 'vitest/config'
+import { defineVitestProject } from '@nuxt/test-utils/config'
 import { fileURLToPath } from 'node:url'
 
-// Three projects, run by tests/setup/run.ts in order: unit (pure code in shared/),
-// api (the built server over HTTP against a throwaway PostgreSQL) and e2e (Debian's
-// chromium through playwright-core against the same built server).
+// Projects, run by tests/setup/run.ts in order: unit (pure code in shared/), component
+// (Vue components inside a Nuxt environment, tests/nuxt), api (the built server over
+// HTTP against a throwaway PostgreSQL) and e2e (Debian's chromium through playwright-core
+// against the same built server).
 const alias = {
   '~~': fileURLToPath(new URL('./', import.meta.url)),
   '#shared': fileURLToPath(new URL('./shared', import.meta.url)),
@@ -15,8 +17,21 @@ export default defineConfig({
     projects: [
       {
         resolve: { alias },
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', setupFiles: ['tests/setup/unit.ts'] },
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts'],
+          environment: 'node',
+          setupFiles: ['tests/setup/unit.ts'],
+        },
       },
+      await defineVitestProject({
+        test: {
+          name: 'component',
+          include: ['tests/nuxt/**/*.test.ts'],
+          environment: 'nuxt',
+          environmentOptions: { nuxt: { domEnvironment: 'happy-dom' } },
+        },
+      }),
       {
         resolve: { alias },
         test: {

@@ -6,12 +6,15 @@ export interface NavItem { to: string; label: string; icon: string }
 const NAV: Record<Role, NavItem[]> = {
   lead: [
     { to: '/lead', label: 'Today', icon: 'sun' },
+    { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/lead/people', label: 'People', icon: 'users' },
+    { to: '/lead/settings', label: 'Settings', icon: 'settings' },
     { to: '/lead/mails', label: 'Captured mail', icon: 'mail' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],
   caster: [
     { to: '/floor', label: 'My pours', icon: 'flask' },
+    { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],
   finisher: [

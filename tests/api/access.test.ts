@@ -4,7 +4,10 @@ import { readdirSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
+import { GRADE_PRESETS } from '../../shared/utils/plaster'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser } from '../setup/fixtures'
+
+const GRADE_PRESET_MIX = { grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60, consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
 
 type Role = 'lead' | 'caster' | 'finisher' | 'client'
 interface RouteRow { method: string; path: string; roles: Role[] | 'public'; body?: () => Promise<unknown> | unknown; target?: () => Promise<string> }
@@ -26,6 +29,10 @@ const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/dev/mails', roles: ['lead'] },
   { method: 'GET', path: '/api/overview', roles: ['lead'] },
   { method: 'GET', path: '/api/client/jobs', roles: ['client'] },
+  { method: 'GET', path: '/api/workshop', roles: ['lead'] },
+  { method: 'PATCH', path: '/api/workshop', roles: ['lead'], body: async () => (await call('/api/workshop', { cookie: cookies.lead })).data },
+  { method: 'GET', path: '/api/calc/options', roles: ['lead', 'caster', 'finisher'] },
+  { method: 'POST', path: '/api/calc/mix', roles: ['lead', 'caster', 'finisher', 'client'], body: () => ({ ...GRADE_PRESET_MIX }) },
 ]
 
 function routeFiles(dir: string): string[] {

@@ -67,6 +67,7 @@ async function main() {
     step('lint', 'npx', ['eslint', '.'])
     step('typecheck', 'npx', ['nuxt', 'typecheck'])
     vitest('unit', env)
+    vitest('component', env)
     const built = step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
     if (built) {
       vitest('api', env)
@@ -81,7 +82,7 @@ async function main() {
   console.log('\n── summary ──')
   for (const r of results) {
     const counts = r.passed || r.failed ? ` (${r.passed} passed, ${r.failed} failed${r.skipped ? `, ${r.skipped} skipped` : ''})` : ''
-    console.log(`  ${r.ok ? 'ok  ' : 'FAIL'} ${r.name.padEnd(12)} ${r.seconds.toFixed(1).padStart(6)} s${counts}`)
+    console.log(`  ${r.ok ? 'ok  ' : 'FAIL'} ${r.name.padEnd(16)} ${r.seconds.toFixed(1).padStart(6)} s${counts}`)
   }
   const passed = results.reduce((n, r) => n + r.passed, 0)
   const failedTests = results.reduce((n, r) => n + r.failed, 0)

@@ -1,0 +1,44 @@
+// The workshop row (settings). The caller's own workshop only.
+import type { Knex } from 'knex'
+
+export interface WorkshopRow {
+  id: number
+  name: string
+  units: 'metric' | 'imperial'
+  timezone: string
+  shift_start: string
+  shift_end: string
+  working_days: number[]
+  default_shop_temp_c: number
+  default_humidity_pct: number
+  version: number
+}
+
+const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'version']
+
+export const workshopsRepo = {
+  async get(db: Knex, id: number): Promise<WorkshopRow | undefined> {
+    const row: WorkshopRow | undefined = await db('workshops').first(COLUMNS).where({ id })
+    return row
+  },
+  /** Updates when the version matches; returns undefined when someone else changed it first. */
+  async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
+    const [row] = await db('workshops').where({ id, version })
+      .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(COLUMNS)
+    return row
+  },
+}
+
+export function workshopDto(row: WorkshopRow) {
+  return {
+    name: row.name,
+    units: row.units,
+    timezone: row.timezone,
+    shiftStart: row.shift_start.slice(0, 5),
+    shiftEnd: row.shift_end.slice(0, 5),
+    workingDays: row.working_days.map(Number),
+    defaultShopTempC: Number(row.default_shop_temp_c),
+    defaultHumidityPct: Number(row.default_humidity_pct),
+    version: row.version,
+  }
+}

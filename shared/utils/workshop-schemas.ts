@@ -1,0 +1,30 @@
+// The workshop's own settings (lead): display units, timezone, shift hours, working days,
+// and the usual shop conditions that drive demould windows when a day has none entered.
+import { z } from 'zod'
+
+const hhmm = (field: string) => z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: `${field} must be a time as HH:MM` })
+
+function isTimezone(tz: string) {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: tz })
+    return true
+  }
+  catch {
+    return false
+  }
+}
+
+export const workshopSettingsSchema = z.object({
+  version: z.number({ error: 'version must be the version you loaded' }).int().positive(),
+  name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' }),
+  units: z.enum(['metric', 'imperial'], { error: 'units must be metric or imperial' }),
+  timezone: z.string().refine(isTimezone, { error: 'timezone must be an IANA zone such as Europe/London' }),
+  shiftStart: hhmm('shiftStart'),
+  shiftEnd: hhmm('shiftEnd'),
+  workingDays: z.array(z.number().int().min(1).max(7), { error: 'workingDays must list ISO weekdays 1 (Monday) to 7 (Sunday)' })
+    .min(1, { error: 'workingDays must name at least one day' }).max(7),
+  defaultShopTempC: z.number({ error: 'defaultShopTempC must be a number of °C' }).min(-10, { error: 'defaultShopTempC must be between -10 and 45 °C' }).max(45, { error: 'defaultShopTempC must be between -10 and 45 °C' }),
+  defaultHumidityPct: z.number({ error: 'defaultHumidityPct must be a percentage' }).min(0, { error: 'defaultHumidityPct must be between 0 and 100' }).max(100, { error: 'defaultHumidityPct must be between 0 and 100' }),
+}).refine(v => v.shiftStart < v.shiftEnd, { path: ['shiftEnd'], error: 'shiftEnd must be after shiftStart' })
+
+export type WorkshopSettings = z.infer<typeof workshopSettingsSchema>
