@@ -1,0 +1,156 @@
+/**
+ * The timing of one pour on one mould: when the mould is taken (prep start), when the caster
+ * starts gauging, when the demould window opens and closes, and when the mould is free again.
+ *
+ * Timeline (the `slot` of a row in `pours` is slotStart .. slotEnd, half-open like tstzrange):
+ *
+ *   slotStart = mixAt − prep        the mould is cleaned of dust, released and set up
+ *   mixAt                           the caster starts gauging (sifting, soaking, mixing)
+ *   mixAt + pourMinutes             end of mixing: the plaster model's set clock starts here
+ *   demouldOpenAt                   = end of mixing + demouldWindow().openMinutes, rounded up to a whole minute
+ *   demouldCloseAt                  = end of mixing + demouldWindow().closeMinutes (open + the mould's max dwell)
+ *   slotEnd = demouldOpenAt + clean the cast comes out as the window opens, then the mould is cleaned
+ *
+ * Units: instants are Dates; every duration is in minutes. Pure: no I/O, no framework import.
+ */
+import { PLASTER_LIMITS, assertPlasterNumber, type PlasterGrade } from './plaster-core'
+import { demouldWindow } from './plaster-set'
+import { PlanningInputError, assertPlanningDate } from './workshop-calendar'
+
+/**
+ * Minutes from the start of gauging to the end of mixing: 5. Sifting the powder onto the water
+ * and letting it soak takes a minute or two, mixing two to three (trade.md §2: about 2–3 min of
+ * working time once it thickens; common practice). Pouring happens after mixing, inside the set
+ * clock the plaster model already counts, so it is not added again.
+ */
+export const POUR_MIX_MINUTES_DEFAULT = 5
+
+const MINUTE_MS = 60_000
+
+/** Prep and clean limits: a day at most, generous sanity bounds (common practice) that keep typos out. */
+const MOULD_MINUTES_LIMIT = { min: 0, max: 1440, unit: 'min' } as const
+
+/** The mould's part in a pour's timing; all minutes. */
+export interface PourTimingMould {
+  prepMinutes: number
+  cleanMinutes: number
+  maxDwellMinutes: number
+}
+
+/** What sets the clock of one pour. slurryTempC in °C; consistency in parts water per 100 plaster. */
+export interface PourTimingSetInput {
+  mould: PourTimingMould
+  grade: PlasterGrade
+  consistency: number
+  slurryTempC: number
+  setFactor?: number
+  /** minutes from mixAt to the end of mixing; default POUR_MIX_MINUTES_DEFAULT */
+  pourMinutes?: number
+}
+
+/** A pour's timing as offsets in whole minutes from mixAt (prep before it, the rest after it). */
+export interface PourTimingMinutes {
+  prepMinutes: number
+  mixMinutes: number
+  openAfterMix: number
+  closeAfterMix: number
+  cleanMinutes: number
+  warnings: string[]
+}
+
+/** A pour's timing as instants, with the plaster model's warnings. */
+export interface PourTiming {
+  slotStart: Date
+  mixAt: Date
+  demouldOpenAt: Date
+  demouldCloseAt: Date
+  slotEnd: Date
+  warnings: string[]
+}
+
+/**
+ * The timing as minute offsets from mixAt. The window opens at the model's demould-ready time
+ * rounded UP to a whole minute (a board shows minutes, and a cast must never be called ready
+ * early); it closes the mould's max dwell later, so the close is rounded up with it. Offsets in
+ * whole minutes keep every instant of a pour on the minute when mixAt is.
+ */
+export function pourTimingMinutes(input: PourTimingSetInput): PourTimingMinutes {
+  if (typeof input !== 'object' || input === null) throw new PlanningInputError('input', 'input must be an object')
+  const mould = input.mould
+  if (typeof mould !== 'object' || mould === null) throw new PlanningInputError('mould', 'mould must be an object')
+  const prep = assertPlasterNumber(mould.prepMinutes, 'mould.prepMinutes', MOULD_MINUTES_LIMIT)
+  const clean = assertPlasterNumber(mould.cleanMinutes, 'mould.cleanMinutes', MOULD_MINUTES_LIMIT)
+  const mix = assertPlasterNumber(input.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT, 'pourMinutes', MOULD_MINUTES_LIMIT)
+  const dwell = assertPlasterNumber(mould.maxDwellMinutes, 'mould.maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
+  const w = demouldWindow({
+    grade: input.grade,
+    consistency: input.consistency,
+    slurryTempC: input.slurryTempC,
+    setFactor: input.setFactor ?? 1,
+    maxDwellMinutes: dwell,
+  })
+  const openAfterMix = Math.ceil(mix + w.openMinutes - 1e-9)
+  return {
+    prepMinutes: Math.ceil(prep),
+    mixMinutes: mix,
+    openAfterMix,
+    closeAfterMix: openAfterMix + Math.floor(dwell),
+    cleanMinutes: Math.ceil(clean),
+    warnings: w.warnings,
+  }
+}
+
+/** Instants of a pour from its mixAt and its minute offsets. */
+export function pourTimingAt(mixAt: Date, m: PourTimingMinutes): PourTiming {
+  const t = mixAt.getTime()
+  const open = t + m.openAfterMix * MINUTE_MS
+  return {
+    slotStart: new Date(t - m.prepMinutes * MINUTE_MS),
+    mixAt: new Date(t),
+    demouldOpenAt: new Date(open),
+    demouldCloseAt: new Date(t + m.closeAfterMix * MINUTE_MS),
+    slotEnd: new Date(open + m.cleanMinutes * MINUTE_MS),
+    warnings: [...m.warnings],
+  }
+}
+
+/**
+ * A pour's timing given when the caster starts gauging (mixAt). The demould window comes from
+ * the plaster model's `demouldWindow` (minutes after the end of mixing); see the file header for
+ * the timeline. Throws PlanningInputError / PlasterInputError naming a bad field.
+ */
+export function pourTiming(input: PourTimingSetInput & { mixAt: Date }): PourTiming {
+  const mixAt = assertPlanningDate(input?.mixAt, 'mixAt')
+  return pourTimingAt(mixAt, pourTimingMinutes(input))
+}
+
+/** The same timing given the prep start instead, e.g. where the lead drops a bar on the board. */
+export function pourTimingFromSlotStart(input: PourTimingSetInput & { slotStart: Date }): PourTiming {
+  const slotStart = assertPlanningDate(input?.slotStart, 'slotStart')
+  const m = pourTimingMinutes(input)
+  return pourTimingAt(new Date(slotStart.getTime() + m.prepMinutes * MINUTE_MS), m)
+}
+
+/**
+ * The overnight-dwell rule. A window that opens by the end of the shift is fine: someone is
+ * there to demould. A window that opens after the shift ends is fine only if the mould can
+ * hold the set cast until the next shift starts, i.e. "hold" means demouldCloseAt ≥
+ * nextShiftStartAt (the cast is still inside its max dwell when the first caster arrives).
+ * Otherwise the cast overstays its dwell (a rigid or gelatine mould can be damaged, a cast can
+ * stick or crack: plaster-model.md) and this returns the warning; else null.
+ */
+export function dwellWarning(input: {
+  demouldOpenAt: Date
+  demouldCloseAt: Date
+  shiftEndAt: Date
+  nextShiftStartAt: Date
+}): string | null {
+  const open = assertPlanningDate(input?.demouldOpenAt, 'demouldOpenAt').getTime()
+  const close = assertPlanningDate(input.demouldCloseAt, 'demouldCloseAt').getTime()
+  const shiftEnd = assertPlanningDate(input.shiftEndAt, 'shiftEndAt').getTime()
+  const next = assertPlanningDate(input.nextShiftStartAt, 'nextShiftStartAt').getTime()
+  if (open <= shiftEnd || close >= next) return null
+  const shortBy = Math.ceil((next - close) / MINUTE_MS)
+  return `The demould window opens after the shift ends and closes ${shortBy} min before the next shift starts: `
+    + 'this mould cannot hold the cast overnight.'
+}
