@@ -207,7 +207,9 @@ interface Ctx {
   pourMinutes: number
   casters: CasterBook | null
   tempOf: (day: string) => number
-  timings: Map<string, PourTimingMinutes>
+  /** per item × mould (itemIndex × mould count + mould order), then per slurry °C */
+  timings: Map<number, Map<number, PourTimingMinutes>>
+  mouldCount: number
 }
 
 /** Lowest index ≥ lo whose end is after t (ends ascending). */
@@ -249,13 +251,19 @@ class CasterBook {
     })
   }
 
-  /** A caster free for [start, end), or the earliest instant one of the blocking mixes ends. */
-  pick(start: number, end: number): { id: string } | { retryAt: number } {
+  /**
+   * A caster free for the whole mix [start, start + ms), or the earliest later start at which
+   * some caster is (each caster's mixes are walked forward to the first gap long enough).
+   */
+  pick(start: number, ms: number): { id: string } | { retryAt: number } {
     let retryAt = Infinity
     for (const lane of this.lanes) {
-      const i = firstEndAfter(lane.ends, start)
-      if (i === lane.ends.length || lane.starts[i]! >= end) return { id: lane.id }
-      retryAt = Math.min(retryAt, lane.ends[i]!)
+      let s = start
+      for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
+        s = Math.max(s, lane.ends[i]!)
+      }
+      if (s === start) return { id: lane.id }
+      retryAt = Math.min(retryAt, s)
     }
     return { retryAt }
   }
@@ -276,8 +284,10 @@ function laneConflictEnd(lane: Lane, start: number, end: number): number {
 
 /** The pour's minute offsets for this item, mould and slurry temperature (cached: the model validates every call). */
 function timingFor(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number, slurryTempC: number): PourTimingMinutes {
-  const key = `${itemIndex}|${lane.order}|${slurryTempC}`
-  let m = ctx.timings.get(key)
+  const key = itemIndex * ctx.mouldCount + lane.order
+  let byTemp = ctx.timings.get(key)
+  if (!byTemp) ctx.timings.set(key, byTemp = new Map())
+  let m = byTemp.get(slurryTempC)
   if (!m) {
     try {
       m = pourTimingMinutes({
@@ -293,7 +303,7 @@ function timingFor(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number, s
       if (e instanceof PlanningInputError || !(e instanceof Error) || !('field' in e)) throw e
       throw new PlanningInputError(`items[${itemIndex}].${String(e.field)}`, e.message)
     }
-    ctx.timings.set(key, m)
+    byTemp.set(slurryTempC, m)
   }
   return m
 }
@@ -351,7 +361,7 @@ function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: numb
       t = ceilMinute(busyEnd)
       continue
     }
-    const caster = ctx.casters?.pick(fit.mixAt, fit.mixAt + m.mixMinutes * MINUTE_MS) ?? { id: null }
+    const caster = ctx.casters?.pick(fit.mixAt, m.mixMinutes * MINUTE_MS) ?? { id: null }
     if ('retryAt' in caster) {
       t = ceilMinute(caster.retryAt - m.prepMinutes * MINUTE_MS)
       continue
@@ -574,6 +584,7 @@ function buildCtx(input: PlanPoursInput): Ctx {
     casters: o.casters?.length ? new CasterBook(o.casters, input.existingPours, pourMinutes * MINUTE_MS) : null,
     tempOf: day => (Object.hasOwn(temps, day) ? temps[day]! : defaultTemp),
     timings: new Map(),
+    mouldCount: input.moulds.length,
   }
 }
 

@@ -6,7 +6,7 @@
  * Pure: no I/O, no framework import. Bad input throws PlanningInputError (a PlasterInputError,
  * so the routes' existing 422 mapping names the field).
  */
-import { TZDate } from '@date-fns/tz'
+import { TZDate, tzOffset } from '@date-fns/tz'
 import { PlasterInputError } from './plaster-core'
 
 /** Bad planner or calendar input; `field` names the offending field. */
@@ -37,6 +37,7 @@ export interface ShiftWindow {
 }
 
 const DAY_MS = 86_400_000
+const MINUTE_MS = 60_000
 
 /** 'HH:MM' or 'HH:MM:SS' → minutes after local midnight. */
 export function parseShiftClock(value: unknown, field: string): number {
@@ -57,11 +58,16 @@ export function assertPlanningDate(value: unknown, field: string): Date {
   return value
 }
 
+/** Zones already checked: building an Intl.DateTimeFormat costs milliseconds. */
+const knownTimezones = new Set<string>()
+
 function assertTimezone(value: unknown): string {
+  if (typeof value === 'string' && knownTimezones.has(value)) return value
   try {
     if (typeof value !== 'string' || value === '') throw new RangeError('empty')
     // Intl throws RangeError for a name outside the IANA database it carries.
     new Intl.DateTimeFormat('en', { timeZone: value })
+    knownTimezones.add(value)
     return value
   }
   catch {
@@ -90,9 +96,59 @@ function checkCalendar(cal: WorkshopShiftCalendar): CheckedCalendar {
 
 const pad = (n: number) => String(n).padStart(2, '0')
 
-/** The instant of local wall-clock `minutes` after midnight on the local date y-m-d (month 0-based). */
-function localInstant(tz: string, y: number, m: number, d: number, minutes: number): Date {
-  return new Date(new TZDate(y, m, d, Math.floor(minutes / 60), minutes % 60, 0, 0, tz).getTime())
+type ZoneOffset = (t: number) => number
+
+/**
+ * The zone's UTC offset in minutes (tzOffset: the IANA data through Intl, as TZDate uses) for
+ * instants around [fromMs, toMs]. Intl is slow (tens of µs a call), so the offset is sampled
+ * weekly and each change is bisected to the millisecond; lookups are then a binary search.
+ * This misses only a zone that changes and changes back within one week, which no zone does.
+ */
+function zoneOffsets(tz: string, fromMs: number, toMs: number): ZoneOffset {
+  const off = (t: number) => tzOffset(tz, new Date(t))
+  const a = fromMs - 2 * DAY_MS
+  const b = toMs + 2 * DAY_MS
+  const at = [a]
+  const offsets = [off(a)]
+  for (let t = a; t < b;) {
+    const next = Math.min(t + 7 * DAY_MS, b)
+    const o = off(next)
+    if (o !== offsets[offsets.length - 1]) {
+      let [lo, hi] = [t, next]
+      while (hi - lo > 1) {
+        const mid = Math.floor((lo + hi) / 2)
+        if (off(mid) === o) hi = mid
+        else lo = mid
+      }
+      at.push(hi)
+      offsets.push(o)
+    }
+    t = next
+  }
+  return (t) => {
+    if (t < a || t > b) return off(t)
+    let i = at.length - 1
+    while (at[i]! > t) i--
+    return offsets[i]!
+  }
+}
+
+/**
+ * The instant of local wall-clock `minutes` after midnight on the local date y-m-d (month
+ * 0-based): the wall clock read as UTC less the zone's offset, accepted when the offset at the
+ * result agrees (the usual two-pass conversion). A time repeated at a fall-back change gets the
+ * instant that agrees first; a time inside a spring-forward gap moves forward by the gap, as
+ * TZDate does (07:30 is never in a gap in Europe/London, whose changes happen at 01:00 UTC).
+ */
+function localInstant(offset: ZoneOffset, y: number, m: number, d: number, minutes: number): Date {
+  const wall = Date.UTC(y, m, d, Math.floor(minutes / 60), minutes % 60)
+  const o1 = offset(wall)
+  const c1 = wall - o1 * MINUTE_MS
+  const o2 = offset(c1)
+  if (o2 === o1) return new Date(c1)
+  const c2 = wall - o2 * MINUTE_MS
+  if (offset(c2) === o2) return new Date(c2)
+  return new Date(Math.max(c1, c2))
 }
 
 /**
@@ -107,16 +163,17 @@ export function shiftWindows(input: WorkshopShiftCalendar & { from: Date; to: Da
   const from = assertPlanningDate(input.from, 'from').getTime()
   const to = assertPlanningDate(input.to, 'to').getTime()
   const local = new TZDate(from, cal.timezone)
+  const offset = zoneOffsets(cal.timezone, from, to)
   // Walk local dates with UTC date arithmetic (no DST there), from the local date of `from`.
   let date = Date.UTC(local.getFullYear(), local.getMonth(), local.getDate())
   const windows: ShiftWindow[] = []
   for (;;) {
     const u = new Date(date)
     const [y, m, d] = [u.getUTCFullYear(), u.getUTCMonth(), u.getUTCDate()]
-    const start = localInstant(cal.timezone, y, m, d, cal.startMin)
+    const start = localInstant(offset, y, m, d, cal.startMin)
     if (start.getTime() >= to) break
     const isoDay = u.getUTCDay() === 0 ? 7 : u.getUTCDay()
-    const end = localInstant(cal.timezone, y, m, d, cal.endMin)
+    const end = localInstant(offset, y, m, d, cal.endMin)
     if (cal.days.has(isoDay) && end.getTime() > from) windows.push({ day: `${y}-${pad(m + 1)}-${pad(d)}`, start, end })
     date += DAY_MS
   }
