@@ -54,8 +54,9 @@ export interface PlannerExistingPour {
 }
 
 /**
- * An open job item. `mouldIds`: the item's mould, then any other moulds that cast the same
- * profile (order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
+ * An open job item. `mouldIds`: the item's mould (job_items.mould_id); `alternativeMouldIds`:
+ * other moulds that cast the same profile. Together, in that order, they are the candidates
+ * (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
  */
 export interface PlannerItem {
   itemId: string
@@ -65,6 +66,7 @@ export interface PlannerItem {
   sampleReleased: boolean
   piecesRemaining: number
   mouldIds: string[]
+  alternativeMouldIds?: string[]
   grade: PlasterGrade
   consistency: number
   /** overrides options.setFactor for this item (e.g. a retarder in its mix) */
@@ -498,6 +500,8 @@ function checkItem(it: PlannerItem, i: number): void {
   if (typeof it.sampleReleased !== 'boolean') throw new PlanningInputError(`${f}.sampleReleased`, `${f}.sampleReleased must be true or false`)
   plannerNumber(it.piecesRemaining, `${f}.piecesRemaining`, 0, 1e6, true)
   plannerArray<string>(it.mouldIds, `${f}.mouldIds`).forEach((id, j) => plannerString(id, `${f}.mouldIds[${j}]`))
+  plannerArray<string>(it.alternativeMouldIds ?? [], `${f}.alternativeMouldIds`)
+    .forEach((id, j) => plannerString(id, `${f}.alternativeMouldIds[${j}]`))
   if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
 }
 
@@ -648,8 +652,9 @@ function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: n
     const msg = 'The job waits for the client to approve its sample cast; the run is not released to the board.'
     return { item, placed: [], unplaced: unplacedOf(item, 'sample-awaiting-approval', pieces, msg) }
   }
-  item.mouldIds.forEach(id => named.add(id))
-  const candidates = [...new Set(item.mouldIds)].map(id => lanes.get(id)).filter((l): l is Lane => l !== undefined)
+  const ids = [...new Set([...item.mouldIds, ...(item.alternativeMouldIds ?? [])])]
+  ids.forEach(id => named.add(id))
+  const candidates = ids.map(id => lanes.get(id)).filter((l): l is Lane => l !== undefined)
   if (candidates.length === 0) {
     const msg = 'None of the item\'s moulds can be used: unknown, in repair or retired.'
     return { item, placed: [], unplaced: unplacedOf(item, 'no-usable-mould', pieces, msg) }

@@ -51,7 +51,7 @@ const inputArb: fc.Arbitrary<PlanPoursInput> = fc.record({
   days: fc.integer({ min: 1, max: 10 }),
   mouldCount: fc.integer({ min: 1, max: 5 }),
   shopC: fc.integer({ min: -5, max: 35 }),
-  casters: fc.option(fc.constantFrom(['c1'], ['c1', 'c2'])),
+  casters: fc.option(fc.constantFrom<string[]>(['c1'], ['c1', 'c2'])),
   projectionDays: fc.integer({ min: 0, max: 20 }),
 }).chain(({ calendar, fromDay, days, mouldCount, shopC, casters, projectionDays }) => {
   const ids = Array.from({ length: mouldCount }, (_, i) => String(i + 1))
@@ -92,7 +92,7 @@ describe('planPours properties', () => {
         const it = items.get(p.itemId)!
         expect(['repair', 'retired']).not.toContain(m.state)
         expect(it.sampleReleased).toBe(true)
-        expect(it.mouldIds).toContain(p.mouldId)
+        expect([...it.mouldIds, ...(it.alternativeMouldIds ?? [])]).toContain(p.mouldId)
         expect(p.slotStart.getTime()).toBeLessThan(input.to.getTime())
         perMould.set(m.id, (perMould.get(m.id) ?? 0) + 1)
         perItem.set(it.itemId, (perItem.get(it.itemId) ?? 0) + 1)

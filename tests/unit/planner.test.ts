@@ -129,7 +129,7 @@ describe('planPours: dwell and moulds', () => {
     expect(alone.unplaced).toEqual([expect.objectContaining({ itemId: '1', reason: 'mould-life-reached', pieces: 5 })])
     expect(alone.moulds).toEqual([expect.objectContaining({ mouldId: '1', reason: 'expected-life' })])
     expect(alone.jobs[0]).toMatchObject({ piecesPlanned: 5, projectedDate: null, onTime: false })
-    const shared = plan({ moulds, items: [item('1', { piecesRemaining: 8, mouldIds: ['1', '2'] })] }).result
+    const shared = plan({ moulds, items: [item('1', { piecesRemaining: 8, mouldIds: ['1'], alternativeMouldIds: ['2'] })] }).result
     expect(shared.pours.filter(p => p.mouldId === '1')).toHaveLength(5)
     expect(shared.pours.filter(p => p.mouldId === '2')).toHaveLength(3)
     expect(shared.unplaced).toEqual([])
