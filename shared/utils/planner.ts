@@ -26,7 +26,8 @@
  */
 import type { PlasterGrade } from './plaster-core'
 import { dwellWarning, pourTimingAt, pourTimingMinutes, POUR_MIX_MINUTES_DEFAULT, type PourTimingMinutes } from './pour-timing'
-import { PlanningInputError, assertPlanningDate, shiftWindows, type ShiftWindow, type WorkshopShiftCalendar } from './workshop-calendar'
+import { assertPlanPoursInput } from './planner-input'
+import { PlanningInputError, shiftWindows, type ShiftWindow, type WorkshopShiftCalendar } from './workshop-calendar'
 
 /** Mould states as in `moulds.state`. */
 export type PlannerMouldState = 'ready' | 'in_use' | 'cleaning' | 'repair' | 'retired'
@@ -457,83 +458,6 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
   return { item, placed, unplaced: null }
 }
 
-function plannerNumber(value: unknown, field: string, min: number, max: number, integer = false): number {
-  const ok = typeof value === 'number' && Number.isFinite(value) && value >= min && value <= max
-    && (!integer || Number.isInteger(value))
-  if (!ok) throw new PlanningInputError(field, `${field} must be ${integer ? 'a whole number' : 'a number'} from ${min} to ${max}`)
-  return value as number
-}
-
-function plannerString(value: unknown, field: string): string {
-  if (typeof value !== 'string' || value === '') throw new PlanningInputError(field, `${field} must be a non-empty string`)
-  return value
-}
-
-function plannerArray<T>(value: unknown, field: string): T[] {
-  if (!Array.isArray(value)) throw new PlanningInputError(field, `${field} must be an array`)
-  return value as T[]
-}
-
-const MOULD_STATES: readonly PlannerMouldState[] = ['ready', 'in_use', 'cleaning', 'repair', 'retired']
-const LOCAL_DATE = /^\d{4}-\d{2}-\d{2}$/
-
-function checkMould(m: PlannerMould, i: number): void {
-  const f = `moulds[${i}]`
-  plannerString(m?.id, `${f}.id`)
-  if (typeof m.code !== 'string') throw new PlanningInputError(`${f}.code`, `${f}.code must be a string`)
-  if (!MOULD_STATES.includes(m.state)) throw new PlanningInputError(`${f}.state`, `${f}.state must be one of ${MOULD_STATES.join(', ')}`)
-  plannerNumber(m.prepMinutes, `${f}.prepMinutes`, 0, 1440)
-  plannerNumber(m.cleanMinutes, `${f}.cleanMinutes`, 0, 1440)
-  plannerNumber(m.maxDwellMinutes, `${f}.maxDwellMinutes`, 0, 10080)
-  plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
-  if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 1, 1e9, true)
-}
-
-function checkItem(it: PlannerItem, i: number): void {
-  const f = `items[${i}]`
-  plannerString(it?.itemId, `${f}.itemId`)
-  plannerString(it.jobId, `${f}.jobId`)
-  if (typeof it.jobCode !== 'string') throw new PlanningInputError(`${f}.jobCode`, `${f}.jobCode must be a string`)
-  if (it.dueOn !== null && !(typeof it.dueOn === 'string' && LOCAL_DATE.test(it.dueOn))) {
-    throw new PlanningInputError(`${f}.dueOn`, `${f}.dueOn must be 'YYYY-MM-DD' or null`)
-  }
-  if (typeof it.sampleReleased !== 'boolean') throw new PlanningInputError(`${f}.sampleReleased`, `${f}.sampleReleased must be true or false`)
-  plannerNumber(it.piecesRemaining, `${f}.piecesRemaining`, 0, 1e6, true)
-  plannerArray<string>(it.mouldIds, `${f}.mouldIds`).forEach((id, j) => plannerString(id, `${f}.mouldIds[${j}]`))
-  plannerArray<string>(it.alternativeMouldIds ?? [], `${f}.alternativeMouldIds`)
-    .forEach((id, j) => plannerString(id, `${f}.alternativeMouldIds[${j}]`))
-  if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
-}
-
-function checkExisting(p: PlannerExistingPour, i: number): void {
-  const f = `existingPours[${i}]`
-  plannerString(p?.mouldId, `${f}.mouldId`)
-  const s = assertPlanningDate(p.slotStart, `${f}.slotStart`)
-  const e = assertPlanningDate(p.slotEnd, `${f}.slotEnd`)
-  if (e.getTime() < s.getTime()) throw new PlanningInputError(`${f}.slotEnd`, `${f}.slotEnd must not be before slotStart`)
-  if (p.mixAt != null) assertPlanningDate(p.mixAt, `${f}.mixAt`)
-}
-
-/** Checks the whole input, naming the first bad field. Grades and consistencies are checked by the plaster model when used. */
-function checkPlanInput(input: PlanPoursInput): void {
-  if (typeof input !== 'object' || input === null) throw new PlanningInputError('input', 'input must be an object')
-  const from = assertPlanningDate(input.from, 'from')
-  if (assertPlanningDate(input.to, 'to').getTime() <= from.getTime()) throw new PlanningInputError('to', 'to must be after from')
-  const moulds = plannerArray<PlannerMould>(input.moulds, 'moulds')
-  moulds.forEach(checkMould)
-  if (new Set(moulds.map(m => m.id)).size !== moulds.length) throw new PlanningInputError('moulds', 'mould ids must be unique')
-  plannerArray<PlannerExistingPour>(input.existingPours, 'existingPours').forEach(checkExisting)
-  plannerArray<PlannerItem>(input.items, 'items').forEach(checkItem)
-  for (const [day, c] of Object.entries(input.shopTempByDay ?? {})) plannerNumber(c, `shopTempByDay.${day}`, -20, 50)
-  if (input.defaultShopTempC !== undefined) plannerNumber(input.defaultShopTempC, 'defaultShopTempC', -20, 50)
-  const o = input.options ?? {}
-  if (o.setFactor !== undefined) plannerNumber(o.setFactor, 'options.setFactor', 1e-3, 10)
-  if (o.pourMinutes !== undefined) plannerNumber(o.pourMinutes, 'options.pourMinutes', 0, 1440)
-  if (o.projectionDays !== undefined) plannerNumber(o.projectionDays, 'options.projectionDays', 0, 730, true)
-  if (o.startAt !== undefined) assertPlanningDate(o.startAt, 'options.startAt')
-  if (o.casters !== undefined) plannerArray<string>(o.casters, 'options.casters').forEach((c, j) => plannerString(c, `options.casters[${j}]`))
-}
-
 /** Digit-only ids compare as numbers (bigint ids), others as plain strings. */
 function compareIds(a: string, b: string): number {
   if (/^\d+$/.test(a) && /^\d+$/.test(b) && a.length !== b.length) return a.length - b.length
@@ -668,7 +592,7 @@ function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: n
  * `pours` are the proposed pours starting before `to`, in time order.
  */
 export function planPours(input: PlanPoursInput): PlanPoursResult {
-  checkPlanInput(input)
+  assertPlanPoursInput(input)
   const ctx = buildCtx(input)
   const lanes = buildLanes(input)
   const order = input.items.map((item, index) => ({ item, index })).sort((a, b) => compareItems(a.item, b.item))
