@@ -25,7 +25,15 @@
  * Ids are strings (PostgreSQL bigints arrive as strings). Pure: no I/O, no framework import.
  */
 import type { PlasterGrade } from './plaster-core'
-import { dwellWarning, pourTimingAt, pourTimingMinutes, POUR_MIX_MINUTES_DEFAULT, type PourTimingMinutes } from './pour-timing'
+import {
+  dwellWarning,
+  pourSetMinutes,
+  pourTimingAt,
+  pourTimingOnMould,
+  POUR_MIX_MINUTES_DEFAULT,
+  type PourSetMinutes,
+  type PourTimingMinutes,
+} from './pour-timing'
 import { assertPlanPoursInput } from './planner-input'
 import { PlanningInputError, shiftWindows, type ShiftWindow, type WorkshopShiftCalendar } from './workshop-calendar'
 
@@ -212,6 +220,8 @@ interface Ctx {
   tempOf: (day: string) => number
   /** per item × mould (itemIndex × mould count + mould order), then per slurry °C */
   timings: Map<number, Map<number, PourTimingMinutes>>
+  /** per item, then per slurry °C */
+  setMinutes: Map<number, Map<number, PourSetMinutes>>
   mouldCount: number
 }
 
@@ -285,29 +295,32 @@ function laneConflictEnd(lane: Lane, start: number, end: number): number {
   return i < lane.busyEnd.length && lane.busyStart[i]! < end ? lane.busyEnd[i]! : -1
 }
 
-/** The pour's minute offsets for this item, mould and slurry temperature (cached: the model validates every call). */
-function timingFor(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number, slurryTempC: number): PourTimingMinutes {
-  const key = itemIndex * ctx.mouldCount + lane.order
-  let byTemp = ctx.timings.get(key)
-  if (!byTemp) ctx.timings.set(key, byTemp = new Map())
-  let m = byTemp.get(slurryTempC)
-  if (!m) {
+/** The plaster's timing of this item at this slurry temperature (cached: the model validates every call). */
+function setMinutesFor(ctx: Ctx, item: PlannerItem, itemIndex: number, slurryTempC: number): PourSetMinutes {
+  let byTemp = ctx.setMinutes.get(itemIndex)
+  if (!byTemp) ctx.setMinutes.set(itemIndex, byTemp = new Map())
+  let set = byTemp.get(slurryTempC)
+  if (!set) {
     try {
-      m = pourTimingMinutes({
-        mould: lane.mould,
-        grade: item.grade,
-        consistency: item.consistency,
-        slurryTempC,
-        setFactor: item.setFactor ?? ctx.setFactor,
-        pourMinutes: ctx.pourMinutes,
-      })
+      const setFactor = item.setFactor ?? ctx.setFactor
+      set = pourSetMinutes({ grade: item.grade, consistency: item.consistency, slurryTempC, setFactor, pourMinutes: ctx.pourMinutes })
     }
     catch (e) {
       if (e instanceof PlanningInputError || !(e instanceof Error) || !('field' in e)) throw e
       throw new PlanningInputError(`items[${itemIndex}].${String(e.field)}`, e.message)
     }
-    byTemp.set(slurryTempC, m)
+    byTemp.set(slurryTempC, set)
   }
+  return set
+}
+
+/** The pour's minute offsets for this item, mould and slurry temperature (cached per item × mould). */
+function timingFor(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number, slurryTempC: number): PourTimingMinutes {
+  const key = itemIndex * ctx.mouldCount + lane.order
+  let byTemp = ctx.timings.get(key)
+  if (!byTemp) ctx.timings.set(key, byTemp = new Map())
+  let m = byTemp.get(slurryTempC)
+  if (!m) byTemp.set(slurryTempC, m = pourTimingOnMould(setMinutesFor(ctx, item, itemIndex, slurryTempC), lane.mould))
   return m
 }
 
@@ -433,20 +446,47 @@ function unplacedOf(item: PlannerItem, reason: PlannerUnplacedReason, pieces: nu
   return { itemId: item.itemId, jobId: item.jobId, reason, pieces, message }
 }
 
-/** Places the item's pieces one by one on the candidate mould where each starts earliest. */
+/**
+ * After a commit, drops the remembered placements it spoils: the committed mould's, and any
+ * that counted on the same caster for an overlapping mix and finds no other caster free then
+ * (one that does just changes caster). The rest stay the earliest on their mould, because a
+ * commit only ever takes mould and caster time away.
+ */
+function forgetSpoiled(ctx: Ctx, known: Map<Lane, Placement | null>, done: Placement): void {
+  known.delete(done.lane)
+  if (done.casterId === null) return
+  const end = done.mixAt + done.timing.mixMinutes * MINUTE_MS
+  for (const [lane, p] of known) {
+    const ms = p ? p.timing.mixMinutes * MINUTE_MS : 0
+    if (!p || p.casterId !== done.casterId || p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
+    const other = ctx.casters!.pick(p.mixAt, ms)
+    if ('id' in other) p.casterId = other.id
+    else known.delete(lane)
+  }
+}
+
+/**
+ * Places the item's pieces one by one on the candidate mould where each starts earliest. Each
+ * mould's earliest placement is remembered between pieces, so an item that many moulds cast
+ * costs a comparison per mould and piece, not a search.
+ */
 function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]): ItemRun {
   const placed: Placement[] = []
+  const known = new Map<Lane, Placement | null>()
   for (let n = 0; n < item.piecesRemaining; n++) {
     const left = item.piecesRemaining - n
-    const usable = lanes.filter(l => !l.worn)
-    if (usable.length === 0) {
+    let best: Placement | null = null
+    let usable = 0
+    for (const lane of lanes) {
+      if (lane.worn) continue
+      usable++
+      let p = known.get(lane)
+      if (p === undefined) known.set(lane, p = earliestOnLane(ctx, lane, item, itemIndex))
+      if (p && (!best || betterPlacement(p, best))) best = p
+    }
+    if (usable === 0) {
       const msg = `Every mould for this item has reached its expected life; ${left} piece(s) need a new or repaired mould.`
       return { item, placed, unplaced: unplacedOf(item, 'mould-life-reached', left, msg) }
-    }
-    let best: Placement | null = null
-    for (const lane of usable) {
-      const p = earliestOnLane(ctx, lane, item, itemIndex)
-      if (p && (!best || betterPlacement(p, best))) best = p
     }
     if (!best) {
       const msg = `No free mould time inside shift hours within the planning horizon for ${left} piece(s).`
@@ -454,6 +494,7 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
     }
     commitPlacement(ctx, best)
     placed.push(best)
+    forgetSpoiled(ctx, known, best)
   }
   return { item, placed, unplaced: null }
 }
@@ -512,6 +553,7 @@ function buildCtx(input: PlanPoursInput): Ctx {
     casters: o.casters?.length ? new CasterBook(o.casters, input.existingPours, pourMinutes * MINUTE_MS) : null,
     tempOf: day => (Object.hasOwn(temps, day) ? temps[day]! : defaultTemp),
     timings: new Map(),
+    setMinutes: new Map(),
     mouldCount: input.moulds.length,
   }
 }

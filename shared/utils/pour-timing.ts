@@ -68,36 +68,56 @@ export interface PourTiming {
   warnings: string[]
 }
 
+/** The plaster's part of a pour's timing, in minutes after mixAt; the same on any mould. */
+export interface PourSetMinutes {
+  mixMinutes: number
+  openAfterMix: number
+  warnings: string[]
+}
+
 /**
- * The timing as minute offsets from mixAt. The window opens at the model's demould-ready time
- * rounded UP to a whole minute (a board shows minutes, and a cast must never be called ready
- * early); it closes the mould's max dwell later, so the close is rounded up with it. Offsets in
- * whole minutes keep every instant of a pour on the minute when mixAt is.
+ * When the window opens, in whole minutes after mixAt: the model's demould-ready time after the
+ * end of mixing, rounded UP (a board shows minutes, and a cast must never be called ready early).
  */
-export function pourTimingMinutes(input: PourTimingSetInput): PourTimingMinutes {
+export function pourSetMinutes(input: Omit<PourTimingSetInput, 'mould'>): PourSetMinutes {
   if (typeof input !== 'object' || input === null) throw new PlanningInputError('input', 'input must be an object')
-  const mould = input.mould
-  if (typeof mould !== 'object' || mould === null) throw new PlanningInputError('mould', 'mould must be an object')
-  const prep = assertPlasterNumber(mould.prepMinutes, 'mould.prepMinutes', MOULD_MINUTES_LIMIT)
-  const clean = assertPlasterNumber(mould.cleanMinutes, 'mould.cleanMinutes', MOULD_MINUTES_LIMIT)
   const mix = assertPlasterNumber(input.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT, 'pourMinutes', MOULD_MINUTES_LIMIT)
-  const dwell = assertPlasterNumber(mould.maxDwellMinutes, 'mould.maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
   const w = demouldWindow({
     grade: input.grade,
     consistency: input.consistency,
     slurryTempC: input.slurryTempC,
     setFactor: input.setFactor ?? 1,
-    maxDwellMinutes: dwell,
+    maxDwellMinutes: 0,
   })
-  const openAfterMix = Math.ceil(mix + w.openMinutes - 1e-9)
+  // The epsilon keeps a float like 35.000000001 from becoming 36.
+  return { mixMinutes: mix, openAfterMix: Math.ceil(mix + w.openMinutes - 1e-9), warnings: w.warnings }
+}
+
+/**
+ * A pour's minute offsets on a given mould: prep and clean rounded up to whole minutes, and
+ * the window closing the mould's max dwell after it opens (whole minutes, rounded down: never
+ * later than the mould allows). Offsets in whole minutes keep every instant of a pour on the
+ * minute when mixAt is.
+ */
+export function pourTimingOnMould(set: PourSetMinutes, mould: PourTimingMould): PourTimingMinutes {
+  if (typeof mould !== 'object' || mould === null) throw new PlanningInputError('mould', 'mould must be an object')
+  const prep = assertPlasterNumber(mould.prepMinutes, 'mould.prepMinutes', MOULD_MINUTES_LIMIT)
+  const clean = assertPlasterNumber(mould.cleanMinutes, 'mould.cleanMinutes', MOULD_MINUTES_LIMIT)
+  const dwell = assertPlasterNumber(mould.maxDwellMinutes, 'mould.maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
   return {
     prepMinutes: Math.ceil(prep),
-    mixMinutes: mix,
-    openAfterMix,
-    closeAfterMix: openAfterMix + Math.floor(dwell),
+    mixMinutes: set.mixMinutes,
+    openAfterMix: set.openAfterMix,
+    closeAfterMix: set.openAfterMix + Math.floor(dwell),
     cleanMinutes: Math.ceil(clean),
-    warnings: w.warnings,
+    warnings: set.warnings,
   }
+}
+
+/** The timing as minute offsets from mixAt: pourSetMinutes on the mould (pourTimingOnMould). */
+export function pourTimingMinutes(input: PourTimingSetInput): PourTimingMinutes {
+  if (typeof input !== 'object' || input === null) throw new PlanningInputError('input', 'input must be an object')
+  return pourTimingOnMould(pourSetMinutes(input), input.mould)
 }
 
 /** Instants of a pour from its mixAt and its minute offsets. */
