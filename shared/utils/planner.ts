@@ -134,9 +134,11 @@ export interface ProposedPour {
 }
 
 /**
- * Per job. finishesOn: local date the job's last cast comes out, when every piece is placed
- * before `to`; projectedDate: the same date from the schedule continued past `to` (null when
- * some piece cannot be placed at all). onTime: projectedDate ≤ dueOn (any date when dueOn is null).
+ * Per job. finishesOn: local date the job's last cast comes out of its mould (fettling and
+ * drying follow and are not planned here), when every piece is placed before `to`;
+ * projectedDate: the same date from the schedule continued past `to` (null when some piece
+ * cannot be placed at all, e.g. a sample still awaiting approval). onTime: projectedDate ≤ dueOn
+ * (any date when dueOn is null); a job with nothing left to cast is on time with no dates.
  */
 export interface PlannerJobOutcome {
   jobId: string
