@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import { GRADE_PRESETS, type PlasterGradePresetKey } from '../../shared/utils/plaster'
+import { pourTiming } from '../../shared/utils/pour-timing'
 import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould, type PlannerMouldState } from '../../shared/utils/planner'
 import { DAY, MIN, expectInsideShifts, expectNoOverlaps } from './planner-helpers'
 
@@ -94,6 +95,11 @@ describe('planPours properties', () => {
         expect(it.sampleReleased).toBe(true)
         expect([...it.mouldIds, ...(it.alternativeMouldIds ?? [])]).toContain(p.mouldId)
         expect(p.slotStart.getTime()).toBeLessThan(input.to.getTime())
+        // The board's own timing of the same pour agrees; an overnight slot runs on to the next morning.
+        const t = pourTiming({ mixAt: p.mixAt, mould: m, grade: it.grade, consistency: it.consistency, slurryTempC: p.slurryTempC, setFactor: p.setFactor })
+        expect([t.slotStart, t.demouldOpenAt, t.demouldCloseAt]).toEqual([p.slotStart, p.demouldOpenAt, p.demouldCloseAt])
+        if (p.overnight) expect(p.slotEnd.getTime()).toBeGreaterThanOrEqual(t.slotEnd.getTime())
+        else expect(p.slotEnd).toEqual(t.slotEnd)
         perMould.set(m.id, (perMould.get(m.id) ?? 0) + 1)
         perItem.set(it.itemId, (perItem.get(it.itemId) ?? 0) + 1)
       }

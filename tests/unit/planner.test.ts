@@ -64,6 +64,15 @@ describe('planPours: order and cycle', () => {
     expect(hhmm(later.pours[0]!.slotStart)).toBe('10:01') // rounded up to the minute
   })
 
+  it('keeps the shift in local time across the spring clock change', () => {
+    // Friday 2026-03-27 is GMT; Monday 2026-03-30 is BST, so 07:30 local is 06:30 UTC.
+    const { result } = plan({ from: at('2026-03-27T00:00:00Z'), to: at('2026-03-31T00:00:00Z'), items: [item('1', { piecesRemaining: 10 })] })
+    expect(result.pours.map(p => [p.day, p.slotStart.toISOString()]).filter((_, i) => i % 9 === 0)).toEqual([
+      ['2026-03-27', '2026-03-27T07:30:00.000Z'],
+      ['2026-03-30', '2026-03-30T06:30:00.000Z'],
+    ])
+  })
+
   it('uses the day\'s shop temperature and skips a day below freezing', () => {
     const shopTempByDay = { '2026-12-07': 10, '2026-12-08': -2 }
     const { result } = plan({ shopTempByDay, items: [item('1', { piecesRemaining: 12 })] })
