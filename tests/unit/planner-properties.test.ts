@@ -22,7 +22,7 @@ const mouldArb = (id: string) => fc.record({
   state: fc.constantFrom(...states),
   prepMinutes: fc.integer({ min: 0, max: 30 }),
   cleanMinutes: fc.integer({ min: 0, max: 30 }),
-  maxDwellMinutes: fc.constantFrom(0, 60, 120, 600, 960, 2000),
+  maxDwellMinutes: fc.constantFrom(0, 60, 120, 600, 960, 1440, 2000, 3000),
   pulls: fc.integer({ min: 0, max: 50 }),
   life: fc.option(fc.integer({ min: 0, max: 20 })),
 }).map(({ life, ...m }): PlannerMould => ({ ...m, id, code: `M${id}`, benchId: null, expectedPulls: life === null ? null : m.pulls + life }))
@@ -30,7 +30,7 @@ const mouldArb = (id: string) => fc.record({
 const itemArb = (index: number, mouldIds: string[]) => fc.record({
   job: fc.integer({ min: 1, max: 3 }),
   dueDay: fc.option(fc.integer({ min: 1, max: 28 })),
-  sampleReleased: fc.boolean(),
+  sampleReleased: fc.constantFrom(true, true, true, false),
   piecesRemaining: fc.integer({ min: 0, max: 15 }),
   moulds: fc.uniqueArray(fc.constantFrom(...mouldIds, 'unknown'), { minLength: 1, maxLength: 3 }),
   grade: fc.constantFrom(...presetKeys).map(k => GRADE_PRESETS[k]),
@@ -51,7 +51,7 @@ const inputArb: fc.Arbitrary<PlanPoursInput> = fc.record({
   fromDay: fc.integer({ min: 0, max: 360 }),
   days: fc.integer({ min: 1, max: 10 }),
   mouldCount: fc.integer({ min: 1, max: 5 }),
-  shopC: fc.integer({ min: -5, max: 35 }),
+  shopC: fc.integer({ min: -2, max: 35 }),
   casters: fc.option(fc.constantFrom<string[]>(['c1'], ['c1', 'c2'])),
   projectionDays: fc.integer({ min: 0, max: 20 }),
 }).chain(({ calendar, fromDay, days, mouldCount, shopC, casters, projectionDays }) => {
