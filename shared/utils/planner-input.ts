@@ -35,7 +35,7 @@ function checkMould(m: PlannerMould, i: number): void {
   plannerNumber(m.cleanMinutes, `${f}.cleanMinutes`, 0, 1440)
   plannerNumber(m.maxDwellMinutes, `${f}.maxDwellMinutes`, 0, 10080)
   plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
-  if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 1, 1e9, true)
+  if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 0, 1e9, true)
 }
 
 function checkItem(it: PlannerItem, i: number): void {
