@@ -8,7 +8,7 @@
  *   mixAt                           the caster starts gauging (sifting, soaking, mixing)
  *   mixAt + pourMinutes             end of mixing: the plaster model's set clock starts here
  *   demouldOpenAt                   = end of mixing + demouldWindow().openMinutes, rounded up to a whole minute
- *   demouldCloseAt                  = end of mixing + demouldWindow().closeMinutes (open + the mould's max dwell)
+ *   demouldCloseAt                  = demouldOpenAt + the mould's max dwell (demouldWindow's close = open + dwell)
  *   slotEnd = demouldOpenAt + clean the cast comes out as the window opens, then the mould is cleaned
  *
  * Units: instants are Dates; every duration is in minutes. Pure: no I/O, no framework import.
@@ -19,8 +19,9 @@ import { PlanningInputError, assertPlanningDate } from './workshop-calendar'
 
 /**
  * Minutes from the start of gauging to the end of mixing: 5. Sifting the powder onto the water
- * and letting it soak takes a minute or two, mixing two to three (trade.md §2: about 2–3 min of
- * working time once it thickens; common practice). Pouring happens after mixing, inside the set
+ * and letting it soak takes a minute or two, mixing two to three (common practice; a fine casting
+ * plaster gives about 2–3 min of working time once it thickens: dbipottery.com, in the design's
+ * research/trade.md §2). Pouring happens after mixing, inside the set
  * clock the plaster model already counts, so it is not added again.
  */
 export const POUR_MIX_MINUTES_DEFAULT = 5
