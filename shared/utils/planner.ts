@@ -1,0 +1,656 @@
+/**
+ * The planner: fills the pour board from open job items ("fill from open items").
+ *
+ * Greedy, earliest due date first, one piece per pour. Every mould keeps a free-time cursor
+ * (the end of its last proposed pour) and its existing pours as a sorted interval list, so a
+ * placement looks only forward from the cursor and never scans all pours: the run is about
+ * O(pieces × moulds per item) plus the calendar. Rules, in the order they bite:
+ * - items sorted by job due date (no date last), then job code, then item id;
+ * - an item whose job waits for sample approval is not placed (reported in `unplaced`);
+ * - moulds in repair or retired are never used; a mould stops once pulls + planned pours reach
+ *   its expected life (reported in `moulds`);
+ * - a pour never overlaps another pour on the same mould, existing or proposed (slots are
+ *   half-open, like the tstzrange slots the database's exclusion constraint compares);
+ * - prep starts at or after the shift start, gauging ends by the shift end, and the demould
+ *   window opens by the shift end, unless the mould's max dwell holds the cast until the next
+ *   shift starts (dwellWarning); such an overnight pour ends its slot at the next shift start +
+ *   clean, since the cast comes out only then. Among an item's moulds a placement without that
+ *   overnight note wins over one with it on the same shift day;
+ * - with `casters` given, a caster gauges one mix at a time;
+ * - each piece goes on the item's mould where it can start earliest (same day: no overnight
+ *   note first; then earliest prep start, earliest slot end, the item's mould order).
+ * The schedule runs on past `to` for `projectionDays` (default 365) to tell when late jobs
+ * would finish; only pours starting before `to` are returned.
+ *
+ * Ids are strings (PostgreSQL bigints arrive as strings). Pure: no I/O, no framework import.
+ */
+import type { PlasterGrade } from './plaster-core'
+import {
+  dwellWarning,
+  pourSetMinutes,
+  pourTimingAt,
+  pourTimingOnMould,
+  POUR_MIX_MINUTES_DEFAULT,
+  type PourSetMinutes,
+  type PourTimingMinutes,
+} from './pour-timing'
+import { assertPlanPoursInput } from './planner-input'
+import { PlanningInputError, shiftWindows, type ShiftWindow, type WorkshopShiftCalendar } from './workshop-calendar'
+
+/** Mould states as in `moulds.state`. */
+export type PlannerMouldState = 'ready' | 'in_use' | 'cleaning' | 'repair' | 'retired'
+
+/** A mould as the planner sees it; minutes for durations; expectedPulls null = no known life. */
+export interface PlannerMould {
+  id: string
+  code: string
+  benchId: string | null
+  state: PlannerMouldState
+  prepMinutes: number
+  cleanMinutes: number
+  maxDwellMinutes: number
+  pulls: number
+  expectedPulls: number | null
+}
+
+/** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
+export interface PlannerExistingPour {
+  mouldId: string
+  slotStart: Date
+  slotEnd: Date
+  casterId?: string | null
+  mixAt?: Date | null
+}
+
+/**
+ * An open job item. `mouldIds`: the item's mould (job_items.mould_id); `alternativeMouldIds`:
+ * other moulds that cast the same profile. Together, in that order, they are the candidates
+ * (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
+ */
+export interface PlannerItem {
+  itemId: string
+  jobId: string
+  jobCode: string
+  dueOn: string | null
+  sampleReleased: boolean
+  piecesRemaining: number
+  mouldIds: string[]
+  alternativeMouldIds?: string[]
+  grade: PlasterGrade
+  consistency: number
+  /** overrides options.setFactor for this item (e.g. a retarder in its mix) */
+  setFactor?: number
+}
+
+/** Options; setFactor default 1, startAt default `from`, pourMinutes default POUR_MIX_MINUTES_DEFAULT. */
+export interface PlanPoursOptions {
+  setFactor?: number
+  startAt?: Date
+  pourMinutes?: number
+  /** caster ids; when given, each pour gets a caster free for its whole gauging */
+  casters?: string[]
+  projectionDays?: number
+}
+
+/**
+ * Input of planPours. shopTempByDay: °C per local date; days missing use defaultShopTempC
+ * (default 20 °C, the plaster model's reference). The slurry is taken at the shop's
+ * temperature (water and powder stored in the shop: common practice); a day below 0 °C gets
+ * no pours (the gauging water would freeze).
+ */
+export interface PlanPoursInput {
+  calendar: WorkshopShiftCalendar
+  from: Date
+  to: Date
+  moulds: PlannerMould[]
+  existingPours: PlannerExistingPour[]
+  items: PlannerItem[]
+  shopTempByDay?: Record<string, number>
+  defaultShopTempC?: number
+  options?: PlanPoursOptions
+}
+
+/** One proposed pour. slotStart..slotEnd is the `slot` to book; day is its shift's local date. */
+export interface ProposedPour {
+  itemId: string
+  jobId: string
+  jobCode: string
+  mouldId: string
+  mouldCode: string
+  benchId: string | null
+  casterId: string | null
+  day: string
+  slotStart: Date
+  mixAt: Date
+  demouldOpenAt: Date
+  demouldCloseAt: Date
+  slotEnd: Date
+  slurryTempC: number
+  consistency: number
+  setFactor: number
+  /** the window opens after the shift; the mould holds the cast until the next shift starts */
+  overnight: boolean
+  warnings: string[]
+}
+
+/**
+ * Per job. finishesOn: local date the job's last cast comes out of its mould (fettling and
+ * drying follow and are not planned here), when every piece is placed before `to`;
+ * projectedDate: the same date from the schedule continued past `to` (null when some piece
+ * cannot be placed at all, e.g. a sample still awaiting approval). onTime: projectedDate ≤ dueOn
+ * (any date when dueOn is null); a job with nothing left to cast is on time with no dates.
+ */
+export interface PlannerJobOutcome {
+  jobId: string
+  jobCode: string
+  dueOn: string | null
+  piecesPlanned: number
+  piecesRemaining: number
+  finishesOn: string | null
+  onTime: boolean
+  projectedDate: string | null
+}
+
+/** Why pieces of an item could not be placed at all (not even in the projection). */
+export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon'
+
+export interface PlannerUnplaced {
+  itemId: string
+  jobId: string
+  reason: PlannerUnplacedReason
+  pieces: number
+  message: string
+}
+
+/** A mould an open item names but the planner would not (further) use. */
+export interface PlannerMouldNote {
+  mouldId: string
+  code: string
+  reason: 'repair' | 'retired' | 'expected-life'
+  message: string
+}
+
+export interface PlanPoursResult {
+  pours: ProposedPour[]
+  jobs: PlannerJobOutcome[]
+  unplaced: PlannerUnplaced[]
+  moulds: PlannerMouldNote[]
+}
+
+const MINUTE_MS = 60_000
+const DAY_MS = 86_400_000
+const ceilMinute = (t: number) => Math.ceil(t / MINUTE_MS) * MINUTE_MS
+
+interface Lane {
+  mould: PlannerMould
+  order: number
+  cursor: number
+  busyStart: number[]
+  busyEnd: number[]
+  busyPtr: number
+  planned: number
+  worn: boolean
+}
+
+interface Win {
+  day: string
+  start: number
+  end: number
+}
+
+interface Placement {
+  lane: Lane
+  dayIndex: number
+  slotStart: number
+  mixAt: number
+  slotEnd: number
+  outDayIndex: number
+  overnight: boolean
+  casterId: string | null
+  timing: PourTimingMinutes
+  slurryTempC: number
+}
+
+interface Ctx {
+  wins: Win[]
+  winEnds: number[]
+  earliest: number
+  to: number
+  setFactor: number
+  pourMinutes: number
+  casters: CasterBook | null
+  tempOf: (day: string) => number
+  /** per item × mould (itemIndex × mould count + mould order), then per slurry °C */
+  timings: Map<number, Map<number, PourTimingMinutes>>
+  /** per item, then per slurry °C */
+  setMinutes: Map<number, Map<number, PourSetMinutes>>
+  mouldCount: number
+}
+
+/** Lowest index ≥ lo whose end is after t (ends ascending). */
+function firstEndAfter(ends: readonly number[], t: number, lo = 0): number {
+  let hi = ends.length
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1
+    if (ends[mid]! > t) hi = mid
+    else lo = mid + 1
+  }
+  return lo
+}
+
+/** Sorts and merges [start, end) intervals into parallel ascending arrays. */
+function mergeIntervals(list: [number, number][]): { starts: number[]; ends: number[] } {
+  const sorted = [...list].sort((a, b) => a[0] - b[0])
+  const starts: number[] = []
+  const ends: number[] = []
+  for (const [s, e] of sorted) {
+    const last = ends.length - 1
+    if (last >= 0 && s < ends[last]!) ends[last] = Math.max(ends[last]!, e)
+    else {
+      starts.push(s)
+      ends.push(e)
+    }
+  }
+  return { starts, ends }
+}
+
+/** Each caster's gauging intervals, so one caster never has two mixes at once. */
+class CasterBook {
+  private readonly lanes: { id: string; starts: number[]; ends: number[] }[]
+
+  constructor(ids: string[], existing: PlannerExistingPour[], mixMs: number) {
+    this.lanes = ids.map((id) => {
+      const mixes = existing.filter(p => p.casterId === id && p.mixAt)
+        .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
+      return { id, ...mergeIntervals(mixes) }
+    })
+  }
+
+  /**
+   * A caster free for the whole mix [start, start + ms), or the earliest later start at which
+   * some caster is (each caster's mixes are walked forward to the first gap long enough).
+   */
+  pick(start: number, ms: number): { id: string } | { retryAt: number } {
+    let retryAt = Infinity
+    for (const lane of this.lanes) {
+      let s = start
+      for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
+        s = Math.max(s, lane.ends[i]!)
+      }
+      if (s === start) return { id: lane.id }
+      retryAt = Math.min(retryAt, s)
+    }
+    return { retryAt }
+  }
+
+  book(id: string, start: number, end: number): void {
+    const lane = this.lanes.find(l => l.id === id)!
+    const i = firstEndAfter(lane.ends, start)
+    lane.starts.splice(i, 0, start)
+    lane.ends.splice(i, 0, end)
+  }
+}
+
+/** End of the first existing pour on the lane that overlaps [start, end), or −1. */
+function laneConflictEnd(lane: Lane, start: number, end: number): number {
+  const i = firstEndAfter(lane.busyEnd, start, lane.busyPtr)
+  return i < lane.busyEnd.length && lane.busyStart[i]! < end ? lane.busyEnd[i]! : -1
+}
+
+/** The plaster's timing of this item at this slurry temperature (cached: the model validates every call). */
+function setMinutesFor(ctx: Ctx, item: PlannerItem, itemIndex: number, slurryTempC: number): PourSetMinutes {
+  let byTemp = ctx.setMinutes.get(itemIndex)
+  if (!byTemp) ctx.setMinutes.set(itemIndex, byTemp = new Map())
+  let set = byTemp.get(slurryTempC)
+  if (!set) {
+    try {
+      const setFactor = item.setFactor ?? ctx.setFactor
+      set = pourSetMinutes({ grade: item.grade, consistency: item.consistency, slurryTempC, setFactor, pourMinutes: ctx.pourMinutes })
+    }
+    catch (e) {
+      if (e instanceof PlanningInputError || !(e instanceof Error) || !('field' in e)) throw e
+      throw new PlanningInputError(`items[${itemIndex}].${String(e.field)}`, e.message)
+    }
+    byTemp.set(slurryTempC, set)
+  }
+  return set
+}
+
+/** The pour's minute offsets for this item, mould and slurry temperature (cached per item × mould). */
+function timingFor(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number, slurryTempC: number): PourTimingMinutes {
+  const key = itemIndex * ctx.mouldCount + lane.order
+  let byTemp = ctx.timings.get(key)
+  if (!byTemp) ctx.timings.set(key, byTemp = new Map())
+  let m = byTemp.get(slurryTempC)
+  if (!m) byTemp.set(slurryTempC, m = pourTimingOnMould(setMinutesFor(ctx, item, itemIndex, slurryTempC), lane.mould))
+  return m
+}
+
+type ShiftFit = Pick<Placement, 'slotStart' | 'mixAt' | 'slotEnd' | 'outDayIndex' | 'overnight'>
+
+/**
+ * Fits a pour whose prep starts at t (inside shift d) to the shift rules: the window opens by
+ * the shift end; or else the gauging still ends inside the shift and the window still holds at
+ * the next shift start (gauging is then put off, at the earliest, until the dwell reaches it).
+ */
+function fitInShift(ctx: Ctx, d: number, t: number, m: PourTimingMinutes): ShiftFit | null {
+  const w = ctx.wins[d]!
+  const mixAt = t + m.prepMinutes * MINUTE_MS
+  const open = mixAt + m.openAfterMix * MINUTE_MS
+  if (open <= w.end) return { slotStart: t, mixAt, slotEnd: open + m.cleanMinutes * MINUTE_MS, outDayIndex: d, overnight: false }
+  const next = ctx.wins[d + 1]
+  if (!next) return null
+  const holdMix = Math.max(mixAt, ceilMinute(next.start - m.closeAfterMix * MINUTE_MS))
+  if (holdMix + m.mixMinutes * MINUTE_MS > w.end) return null
+  const holdOpen = holdMix + m.openAfterMix * MINUTE_MS
+  const warning = dwellWarning({
+    demouldOpenAt: new Date(holdOpen),
+    demouldCloseAt: new Date(holdMix + m.closeAfterMix * MINUTE_MS),
+    shiftEndAt: new Date(w.end),
+    nextShiftStartAt: new Date(next.start),
+  })
+  const outAt = Math.max(holdOpen, next.start)
+  if (warning || outAt > next.end) return null
+  const slotStart = holdMix - m.prepMinutes * MINUTE_MS
+  return { slotStart, mixAt: holdMix, slotEnd: outAt + m.cleanMinutes * MINUTE_MS, outDayIndex: d + 1, overnight: true }
+}
+
+/** The earliest placement of one piece of `item` on `lane` at or after its cursor, or null within the horizon. */
+function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number): Placement | null {
+  const wins = ctx.wins
+  let t = ceilMinute(Math.max(lane.cursor, ctx.earliest))
+  let d = firstEndAfter(ctx.winEnds, t)
+  while (d < wins.length) {
+    const w = wins[d]!
+    if (t < w.start) t = w.start
+    const slurryTempC = ctx.tempOf(w.day)
+    if (t >= w.end || slurryTempC < 0) {
+      d++
+      continue
+    }
+    const m = timingFor(ctx, lane, item, itemIndex, slurryTempC)
+    const fit = fitInShift(ctx, d, t, m)
+    if (!fit) {
+      d++
+      continue
+    }
+    const busyEnd = laneConflictEnd(lane, fit.slotStart, fit.slotEnd)
+    if (busyEnd >= 0) {
+      t = ceilMinute(busyEnd)
+      continue
+    }
+    const caster = ctx.casters?.pick(fit.mixAt, m.mixMinutes * MINUTE_MS) ?? { id: null }
+    if ('retryAt' in caster) {
+      t = ceilMinute(caster.retryAt - m.prepMinutes * MINUTE_MS)
+      continue
+    }
+    return { ...fit, lane, dayIndex: d, casterId: caster.id, timing: m, slurryTempC }
+  }
+  return null
+}
+
+/** Same shift day first, then no overnight note, then earliest prep start, then earliest slot end. */
+function betterPlacement(a: Placement, b: Placement): boolean {
+  if (a.dayIndex !== b.dayIndex) return a.dayIndex < b.dayIndex
+  if (a.overnight !== b.overnight) return !a.overnight
+  if (a.slotStart !== b.slotStart) return a.slotStart < b.slotStart
+  return a.slotEnd < b.slotEnd
+}
+
+/** Books the placement: moves the mould's cursor, counts the pull, books the caster. */
+function commitPlacement(ctx: Ctx, p: Placement): void {
+  const lane = p.lane
+  lane.cursor = p.slotEnd
+  lane.busyPtr = firstEndAfter(lane.busyEnd, lane.cursor, lane.busyPtr)
+  lane.planned++
+  const life = lane.mould.expectedPulls
+  if (life !== null && lane.mould.pulls + lane.planned >= life) lane.worn = true
+  if (p.casterId !== null) ctx.casters!.book(p.casterId, p.mixAt, p.mixAt + p.timing.mixMinutes * MINUTE_MS)
+}
+
+function toProposedPour(ctx: Ctx, item: PlannerItem, p: Placement): ProposedPour {
+  const at = pourTimingAt(new Date(p.mixAt), p.timing)
+  const m = p.lane.mould
+  const warnings = [...at.warnings]
+  if (p.overnight) {
+    warnings.push(`The demould window opens after the shift ends; the cast stays in the mould until the shift of ${ctx.wins[p.outDayIndex]!.day} starts.`)
+  }
+  return {
+    itemId: item.itemId,
+    jobId: item.jobId,
+    jobCode: item.jobCode,
+    mouldId: m.id,
+    mouldCode: m.code,
+    benchId: m.benchId,
+    casterId: p.casterId,
+    day: ctx.wins[p.dayIndex]!.day,
+    slotStart: at.slotStart,
+    mixAt: at.mixAt,
+    demouldOpenAt: at.demouldOpenAt,
+    demouldCloseAt: at.demouldCloseAt,
+    slotEnd: new Date(p.slotEnd),
+    slurryTempC: p.slurryTempC,
+    consistency: item.consistency,
+    setFactor: item.setFactor ?? ctx.setFactor,
+    overnight: p.overnight,
+    warnings,
+  }
+}
+
+/** What one item contributed: its placements in order, and the unplaced rest if any. */
+interface ItemRun {
+  item: PlannerItem
+  placed: Placement[]
+  unplaced: PlannerUnplaced | null
+}
+
+function unplacedOf(item: PlannerItem, reason: PlannerUnplacedReason, pieces: number, message: string): PlannerUnplaced {
+  return { itemId: item.itemId, jobId: item.jobId, reason, pieces, message }
+}
+
+/**
+ * After a commit, drops the remembered placements it spoils: the committed mould's, and any
+ * that counted on the same caster for an overlapping mix and finds no other caster free then
+ * (one that does just changes caster). The rest stay the earliest on their mould, because a
+ * commit only ever takes mould and caster time away.
+ */
+function forgetSpoiled(ctx: Ctx, known: Map<Lane, Placement | null>, done: Placement): void {
+  known.delete(done.lane)
+  if (done.casterId === null) return
+  const end = done.mixAt + done.timing.mixMinutes * MINUTE_MS
+  for (const [lane, p] of known) {
+    const ms = p ? p.timing.mixMinutes * MINUTE_MS : 0
+    if (!p || p.casterId !== done.casterId || p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
+    const other = ctx.casters!.pick(p.mixAt, ms)
+    if ('id' in other) p.casterId = other.id
+    else known.delete(lane)
+  }
+}
+
+/**
+ * Places the item's pieces one by one on the candidate mould where each starts earliest. Each
+ * mould's earliest placement is remembered between pieces, so an item that many moulds cast
+ * costs a comparison per mould and piece, not a search.
+ */
+function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]): ItemRun {
+  const placed: Placement[] = []
+  const known = new Map<Lane, Placement | null>()
+  for (let n = 0; n < item.piecesRemaining; n++) {
+    const left = item.piecesRemaining - n
+    let best: Placement | null = null
+    let usable = 0
+    for (const lane of lanes) {
+      if (lane.worn) continue
+      usable++
+      let p = known.get(lane)
+      if (p === undefined) known.set(lane, p = earliestOnLane(ctx, lane, item, itemIndex))
+      if (p && (!best || betterPlacement(p, best))) best = p
+    }
+    if (usable === 0) {
+      const msg = `Every mould for this item has reached its expected life; ${left} piece(s) need a new or repaired mould.`
+      return { item, placed, unplaced: unplacedOf(item, 'mould-life-reached', left, msg) }
+    }
+    if (!best) {
+      const msg = `No free mould time inside shift hours within the planning horizon for ${left} piece(s).`
+      return { item, placed, unplaced: unplacedOf(item, 'no-slot-in-horizon', left, msg) }
+    }
+    commitPlacement(ctx, best)
+    placed.push(best)
+    forgetSpoiled(ctx, known, best)
+  }
+  return { item, placed, unplaced: null }
+}
+
+/** Digit-only ids compare as numbers (bigint ids), others as plain strings. */
+function compareIds(a: string, b: string): number {
+  if (/^\d+$/.test(a) && /^\d+$/.test(b) && a.length !== b.length) return a.length - b.length
+  return a < b ? -1 : a > b ? 1 : 0
+}
+
+/** Earliest due date first (no date last), then job code, then item id. */
+function compareItems(a: PlannerItem, b: PlannerItem): number {
+  if (a.dueOn !== b.dueOn) {
+    if (a.dueOn === null) return 1
+    if (b.dueOn === null) return -1
+    return a.dueOn < b.dueOn ? -1 : 1
+  }
+  if (a.jobCode !== b.jobCode) return a.jobCode < b.jobCode ? -1 : 1
+  return compareIds(a.itemId, b.itemId)
+}
+
+function buildLanes(input: PlanPoursInput): Map<string, Lane> {
+  const busy = new Map<string, [number, number][]>()
+  for (const p of input.existingPours) {
+    const list = busy.get(p.mouldId) ?? []
+    list.push([p.slotStart.getTime(), p.slotEnd.getTime()])
+    busy.set(p.mouldId, list)
+  }
+  const lanes = new Map<string, Lane>()
+  input.moulds.forEach((mould, order) => {
+    if (mould.state === 'repair' || mould.state === 'retired') return
+    const { starts, ends } = mergeIntervals(busy.get(mould.id) ?? [])
+    const worn = mould.expectedPulls !== null && mould.pulls >= mould.expectedPulls
+    lanes.set(mould.id, { mould, order, cursor: -Infinity, busyStart: starts, busyEnd: ends, busyPtr: 0, planned: 0, worn })
+  })
+  return lanes
+}
+
+function buildCtx(input: PlanPoursInput): Ctx {
+  const o = input.options ?? {}
+  const from = input.from.getTime()
+  const to = input.to.getTime()
+  const projectionDays = o.projectionDays ?? 365
+  const wins = shiftWindows({ ...input.calendar, from: input.from, to: new Date(to + projectionDays * DAY_MS) })
+    .map((w: ShiftWindow): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
+  const pourMinutes = o.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT
+  const temps = input.shopTempByDay ?? {}
+  const defaultTemp = input.defaultShopTempC ?? 20
+  return {
+    wins,
+    winEnds: wins.map(w => w.end),
+    earliest: Math.max(from, o.startAt?.getTime() ?? from),
+    to,
+    setFactor: o.setFactor ?? 1,
+    pourMinutes,
+    casters: o.casters?.length ? new CasterBook(o.casters, input.existingPours, pourMinutes * MINUTE_MS) : null,
+    tempOf: day => (Object.hasOwn(temps, day) ? temps[day]! : defaultTemp),
+    timings: new Map(),
+    setMinutes: new Map(),
+    mouldCount: input.moulds.length,
+  }
+}
+
+function mouldNotes(input: PlanPoursInput, lanes: Map<string, Lane>, named: Set<string>): PlannerMouldNote[] {
+  const notes: PlannerMouldNote[] = []
+  for (const m of input.moulds) {
+    if (!named.has(m.id)) continue
+    if (m.state === 'repair' || m.state === 'retired') {
+      notes.push({ mouldId: m.id, code: m.code, reason: m.state, message: `Mould ${m.code} is ${m.state === 'repair' ? 'in repair' : 'retired'}: not planned.` })
+    }
+    const lane = lanes.get(m.id)
+    if (lane?.worn) {
+      const message = `Mould ${m.code} reaches its expected life of ${m.expectedPulls} pulls `
+        + `(${m.pulls} so far, ${lane.planned} planned): plan a remake.`
+      notes.push({ mouldId: m.id, code: m.code, reason: 'expected-life', message })
+    }
+  }
+  return notes
+}
+
+interface JobTally {
+  out: PlannerJobOutcome
+  last: string | null
+  complete: boolean
+  inRange: boolean
+}
+
+/** Per job, in planning order: pieces planned before `to`, and the day its last cast comes out. */
+function summariseJobs(ctx: Ctx, runs: ItemRun[]): PlannerJobOutcome[] {
+  const jobs = new Map<string, JobTally>()
+  for (const { item, placed, unplaced } of runs) {
+    let j = jobs.get(item.jobId)
+    if (!j) {
+      const out = { jobId: item.jobId, jobCode: item.jobCode, dueOn: item.dueOn, piecesPlanned: 0, piecesRemaining: 0, finishesOn: null, onTime: false, projectedDate: null }
+      j = { out, last: null, complete: true, inRange: true }
+      jobs.set(item.jobId, j)
+    }
+    j.out.piecesRemaining += item.piecesRemaining
+    if (unplaced) j.complete = false
+    for (const p of placed) {
+      if (p.slotStart < ctx.to) j.out.piecesPlanned++
+      else j.inRange = false
+      const day = ctx.wins[p.outDayIndex]!.day
+      if (j.last === null || day > j.last) j.last = day
+    }
+  }
+  return [...jobs.values()].map(({ out, last, complete, inRange }) => {
+    // Nothing left to cast: on time, with no date to report.
+    if (out.piecesRemaining === 0) return { ...out, onTime: true }
+    const projectedDate = complete ? last : null
+    const finishesOn = complete && inRange ? last : null
+    const onTime = projectedDate !== null && (out.dueOn === null || projectedDate <= out.dueOn)
+    return { ...out, projectedDate, finishesOn, onTime }
+  })
+}
+
+function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>): ItemRun {
+  const pieces = item.piecesRemaining
+  if (pieces === 0) return { item, placed: [], unplaced: null }
+  if (!item.sampleReleased) {
+    const msg = 'The job waits for the client to approve its sample cast; the run is not released to the board.'
+    return { item, placed: [], unplaced: unplacedOf(item, 'sample-awaiting-approval', pieces, msg) }
+  }
+  const ids = [...new Set([...item.mouldIds, ...(item.alternativeMouldIds ?? [])])]
+  ids.forEach(id => named.add(id))
+  const candidates = ids.map(id => lanes.get(id)).filter((l): l is Lane => l !== undefined)
+  if (candidates.length === 0) {
+    const msg = 'None of the item\'s moulds can be used: unknown, in repair or retired.'
+    return { item, placed: [], unplaced: unplacedOf(item, 'no-usable-mould', pieces, msg) }
+  }
+  return placeItem(ctx, item, index, candidates)
+}
+
+/**
+ * Fills the board from open job items; see the file header for the rules. Throws
+ * PlanningInputError (or the plaster model's PlasterInputError) naming the first bad field.
+ * `pours` are the proposed pours starting before `to`, in time order.
+ */
+export function planPours(input: PlanPoursInput): PlanPoursResult {
+  assertPlanPoursInput(input)
+  const ctx = buildCtx(input)
+  const lanes = buildLanes(input)
+  const order = input.items.map((item, index) => ({ item, index })).sort((a, b) => compareItems(a.item, b.item))
+  const named = new Set<string>()
+  const runs: ItemRun[] = []
+  const pours: ProposedPour[] = []
+  for (const { item, index } of order) {
+    const run = runItem(ctx, lanes, item, index, named)
+    runs.push(run)
+    for (const p of run.placed) {
+      if (p.slotStart < ctx.to) pours.push(toProposedPour(ctx, item, p))
+    }
+  }
+  pours.sort((a, b) => a.slotStart.getTime() - b.slotStart.getTime() || compareIds(a.mouldId, b.mouldId))
+  const unplaced = runs.flatMap(r => (r.unplaced ? [r.unplaced] : []))
+  return { pours, jobs: summariseJobs(ctx, runs), unplaced, moulds: mouldNotes(input, lanes, named) }
+}

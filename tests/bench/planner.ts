@@ -1,0 +1,130 @@
+/**
+ * Planner benchmark (a plain script, run with tsx; `npm run bench` runs it through run.ts).
+ * A synthetic workshop: 60 moulds on 6 benches, 20 working days, 2,000 pieces across 80 items
+ * and 25 jobs, 40 existing pours and 4 casters, all from a seeded PRNG so every run plans the
+ * same board. Prints the median and p95 of 5 timed runs after a warm-up; never asserts. A second
+ * run lets every item use every mould, the planner's worst case for candidates per piece.
+ */
+import { performance } from 'node:perf_hooks'
+import { GRADE_PRESETS } from '../../shared/utils/plaster'
+import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould } from '../../shared/utils/planner'
+
+const TARGET_MS = 1000
+const RUNS = 5
+
+/** mulberry32: a small, well-known seeded PRNG, enough for repeatable synthetic data. */
+function prng(seed: number): () => number {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6D2B79F5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+const rand = prng(20261202)
+const int = (min: number, max: number) => min + Math.floor(rand() * (max - min + 1))
+
+function buildMoulds(): PlannerMould[] {
+  return Array.from({ length: 60 }, (_, i): PlannerMould => ({
+    id: String(i + 1),
+    code: `M${String(i + 1).padStart(3, '0')}`,
+    benchId: String((i % 6) + 1),
+    state: i % 29 === 28 ? 'repair' : 'ready',
+    prepMinutes: int(8, 20),
+    cleanMinutes: int(8, 15),
+    maxDwellMinutes: rand() < 0.3 ? int(600, 1200) : int(60, 240),
+    pulls: int(0, 200),
+    expectedPulls: rand() < 0.8 ? int(300, 600) : null,
+  }))
+}
+
+function buildItems(): PlannerItem[] {
+  const grades = [GRADE_PRESETS['beta-casting'], GRADE_PRESETS['beta-fibrous'], GRADE_PRESETS['alpha-casting']]
+  const items: PlannerItem[] = []
+  let left = 2000
+  for (let i = 0; i < 80; i++) {
+    const pieces = i === 79 ? left : Math.min(left, int(10, 40))
+    left -= pieces
+    const job = i % 25
+    const grade = grades[int(0, 2)]!
+    const mould = int(1, 60)
+    const alternatives = Array.from({ length: int(0, 2) }, () => String(int(1, 60)))
+    items.push({
+      itemId: String(i + 1),
+      jobId: String(job + 1),
+      jobCode: `J-${String(job + 1).padStart(3, '0')}`,
+      dueOn: `2027-01-${String(8 + job).padStart(2, '0')}`,
+      sampleReleased: job !== 24,
+      piecesRemaining: pieces,
+      mouldIds: [String(mould), ...alternatives],
+      grade,
+      consistency: grade.consistency.default,
+    })
+  }
+  return items
+}
+
+function buildInput(): PlanPoursInput {
+  const from = new Date('2027-01-04T00:00:00Z')
+  const to = new Date('2027-02-01T00:00:00Z') // four weeks, Mon–Fri: 20 working days
+  const shopTempByDay: Record<string, number> = {}
+  for (let d = 4; d <= 31; d++) shopTempByDay[`2027-01-${String(d).padStart(2, '0')}`] = int(8, 22)
+  const existingPours = Array.from({ length: 40 }, (_, i) => {
+    const start = new Date(Date.UTC(2027, 0, 4 + (i % 5), 8 + (i % 6), 0))
+    return { mouldId: String((i % 60) + 1), slotStart: start, slotEnd: new Date(start.getTime() + 60 * 60_000) }
+  })
+  return {
+    calendar: { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] },
+    from,
+    to,
+    moulds: buildMoulds(),
+    existingPours,
+    items: buildItems(),
+    shopTempByDay,
+    defaultShopTempC: 15,
+    options: { casters: ['c1', 'c2', 'c3', 'c4'] },
+  }
+}
+
+function percentile(sorted: number[], p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!
+}
+
+/** The same pieces, but every item castable on every ready mould: the most candidates per piece. */
+function wideInput(base: PlanPoursInput): PlanPoursInput {
+  const all = base.moulds.map(m => m.id)
+  return { ...base, items: base.items.map(i => ({ ...i, mouldIds: all })) }
+}
+
+/**
+ * Wall-clock median and p95 of RUNS timed runs after a warm-up, plus the median CPU time of the
+ * process (user + system), which a busy shared machine disturbs less than the wall clock.
+ */
+function measure(name: string, input: PlanPoursInput): void {
+  planPours(input) // warm-up: JIT, Intl's zone data and the timing caches' first fill
+  const wall: number[] = []
+  const cpu: number[] = []
+  let result = planPours(input)
+  for (let r = 0; r < RUNS; r++) {
+    const c0 = process.cpuUsage()
+    const t0 = performance.now()
+    result = planPours(input)
+    wall.push(performance.now() - t0)
+    const c = process.cpuUsage(c0)
+    cpu.push((c.user + c.system) / 1000)
+  }
+  wall.sort((a, b) => a - b)
+  cpu.sort((a, b) => a - b)
+  const pieces = input.items.reduce((s, i) => s + i.piecesRemaining, 0)
+  const late = result.jobs.filter(j => !j.onTime).length
+  console.log(`${name}: ${pieces} pieces, ${input.items.length} items, 25 jobs, ${input.moulds.length} moulds, 20 working days`)
+  console.log(`  wall median ${percentile(wall, 50).toFixed(1)} ms, p95 ${percentile(wall, 95).toFixed(1)} ms; cpu median ${percentile(cpu, 50).toFixed(1)} ms; ${RUNS} runs (target: under ${TARGET_MS} ms)`)
+  console.log(`  pours placed in range: ${result.pours.length}; jobs not on time: ${late}; unplaced items: ${result.unplaced.length}`)
+}
+
+const input = buildInput()
+measure('planner', input)
+measure('planner, every item on every mould', wideInput(input))
