@@ -30,6 +30,8 @@ export default defineNuxtConfig({
   nitro: {
     experimental: { websocket: true },
   },
+  // pre-bundled in development so the first visit does not reload the page
+  vite: { optimizeDeps: { include: ['socket.io-client', 'chart.js', 'vue-chartjs'] } },
   typescript: { strict: true },
   telemetry: false,
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },

@@ -91,9 +91,9 @@ interface Ctx { grades: Ids; lots: Ids; benches: Ids; moulds: Ids; orgs: Ids; us
 
 async function seedJobs(k: Knex, workshopId: number, c: Ctx) {
   const job = (row: Record<string, unknown>) => insertId(k, 'jobs', { workshop_id: workshopId, ...row })
-  const fernhill = await job({ code: 'J-2601', title: 'Drawing-room cornice', site: 'Fernhill House, east wing (invented)', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(21), sample_required: true, sample_state: 'approved', sample_comment: 'Crisp enrichment, go ahead.', sample_decided_by: c.users.client1, sample_decided_at: localDay(-6, 10) })
-  const alder = await job({ code: 'J-2602', title: 'Ceiling centres for six flats', site: 'Alder Street (invented)', client_org_id: c.orgs['Quayside Interiors'], due_on: isoDay(35), sample_required: true, sample_state: 'awaiting_approval' })
-  const mill = await job({ code: 'J-2603', title: 'Stair corbels', site: 'Mill Lane stair hall (invented)', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(42), notes: 'Client to confirm paint finish.' })
+  const fernhill = await job({ code: 'J-2601', title: 'Drawing-room cornice', site: 'Fernhill House, east wing', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(21), sample_required: true, sample_state: 'approved', sample_comment: 'Crisp enrichment, go ahead.', sample_decided_by: c.users.client1, sample_decided_at: localDay(-6, 10) })
+  const alder = await job({ code: 'J-2602', title: 'Ceiling centres for six flats', site: 'Alder Street', client_org_id: c.orgs['Quayside Interiors'], due_on: isoDay(35), sample_required: true, sample_state: 'awaiting_approval' })
+  const mill = await job({ code: 'J-2603', title: 'Stair corbels', site: 'Mill Lane stair hall', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(42), notes: 'Client to confirm paint finish.' })
   await k('job_members').insert([
     { workshop_id: workshopId, job_id: fernhill, user_id: c.users.client1 },
     { workshop_id: workshopId, job_id: mill, user_id: c.users.client1 },

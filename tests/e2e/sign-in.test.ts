@@ -42,6 +42,8 @@ describe('sign in as each role', () => {
       // the URL changes before the new page has rendered: wait for its heading
       await page.getByRole('heading', { level: 1, name: h.heading }).waitFor()
       await expect(page.getByTestId('user-name').textContent()).resolves.toBe(user.name)
+      // the live connection comes up over socket.io on the same port
+      await page.locator('[data-testid="live-status"][data-status="online"]').waitFor()
       await screenshot(page, `sign-in-${h.key}-home`)
       // a page of another role sends this user back home
       await page.goto(`${base}${h.key === 'lead' ? '/client' : '/lead'}`)

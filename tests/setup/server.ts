@@ -8,7 +8,7 @@ import type { TestProject } from 'vitest/node'
 import { freePort } from './throwaway-db'
 
 declare module 'vitest' {
-  export interface ProvidedContext { baseUrl: string; databaseUrl: string }
+  export interface ProvidedContext { baseUrl: string; databaseUrl: string; sessionPassword: string }
 }
 
 let child: ChildProcess | undefined
@@ -21,7 +21,7 @@ export async function startAppServer(env: Record<string, string>) {
     cwd: root,
     env: {
       ...process.env, HOST: '127.0.0.1', PORT: String(port), APP_URL: `http://127.0.0.1:${port}`,
-      NUXT_SESSION_PASSWORD: randomBytes(24).toString('hex'), MAIL_FAKE: '1', SMTP_PORT: String(smtpPort),
+      MAIL_FAKE: '1', SMTP_PORT: String(smtpPort),
       MAIL_WORKER_INTERVAL_MS: '500', ...env,
     },
     stdio: ['ignore', 'inherit', 'inherit'],
@@ -43,10 +43,12 @@ export async function startAppServer(env: Record<string, string>) {
 export default async function setup(project: TestProject) {
   const databaseUrl = process.env.SETLINE_TEST_DATABASE_URL
   if (!databaseUrl) throw new Error('SETLINE_TEST_DATABASE_URL is not set: run the suite with npm test')
-  const started = await startAppServer({ DATABASE_URL: databaseUrl })
+  const sessionPassword = randomBytes(24).toString('hex')
+  const started = await startAppServer({ DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword })
   child = started.proc
   project.provide('baseUrl', started.url)
   project.provide('databaseUrl', databaseUrl)
+  project.provide('sessionPassword', sessionPassword)
   return async () => {
     child?.kill('SIGTERM')
     await new Promise(r => setTimeout(r, 300))

@@ -9,5 +9,7 @@ export default defineEventHandler(async (event) => {
     working_days: [...new Set(s.workingDays)].sort(), default_shop_temp_c: s.defaultShopTempC, default_humidity_pct: s.defaultHumidityPct,
   })
   if (!row) conflict('The settings were changed by someone else; reload to see them')
-  return workshopDto(row)
+  const dto = workshopDto(row)
+  emitToWorkshop(actor.workshopId, { type: 'workshop.updated', id: actor.workshopId, version: dto.version, row: dto })
+  return dto
 })

@@ -1,0 +1,15 @@
+// Live events: a service emits one after its transaction commits, to the workshop's room
+// (and, for what a client may see, to the job's room). Pages patch or refetch on them.
+export interface LiveEvent<Row = unknown> {
+  type: string
+  id: number | string
+  version?: number
+  row?: Row
+  /** Which session caused it, so the page that did the change can skip its own echo. */
+  origin?: string
+}
+
+export const liveRooms = {
+  workshop: (id: number) => `workshop:${id}`,
+  job: (id: number) => `job:${id}`,
+}
