@@ -6,6 +6,7 @@ export interface NavItem { to: string; label: string; icon: string }
 const NAV: Record<Role, NavItem[]> = {
   lead: [
     { to: '/lead', label: 'Today', icon: 'sun' },
+    { to: '/lead/board', label: 'Pour board', icon: 'board' },
     { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/lead/people', label: 'People', icon: 'users' },
     { to: '/lead/settings', label: 'Settings', icon: 'settings' },
