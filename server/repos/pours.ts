@@ -185,3 +185,19 @@ export const pourFactsRepo = {
     return db('plaster_lots').first('id', 'lot_code', 'bags_received', 'bag_kg', 'grade_id').where({ workshop_id: workshopId, id })
   },
 }
+
+/** The day sheet's reads: bench order, and each lot of the given grades with its stock left. */
+export const daySheetRepo = {
+  benches(db: Knex, workshopId: number) {
+    return db('benches').select('id', 'name', 'sort_order').where({ workshop_id: workshopId }).orderBy(['sort_order', 'name'])
+  },
+  grades(db: Knex, workshopId: number, ids: number[]) {
+    return db('plaster_grades').select('id', 'name', 'bag_kg').where({ workshop_id: workshopId }).whereIn('id', ids)
+  },
+  lots(db: Knex, workshopId: number, gradeIds: number[]) {
+    return db('plaster_lots as l').select('l.id', 'l.grade_id', 'l.lot_code', 'l.received_on', 'l.use_by', 'l.bags_received', 'l.bag_kg')
+      .select(db.raw(`(SELECT coalesce(sum(coalesce(p.plaster_kg_actual, p.plaster_kg_planned)), 0)::float8 FROM pours p
+        WHERE p.workshop_id = l.workshop_id AND p.lot_id = l.id AND p.state <> 'void') AS used_kg`))
+      .where({ 'l.workshop_id': workshopId }).whereIn('l.grade_id', gradeIds).whereNull('l.archived_at')
+  },
+}

@@ -95,10 +95,10 @@ async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Da
  * The row to write for a planned pour and its warnings: every rule of the board in one place.
  * `selfId` is the pour being moved, left out of its own clash, caster, life and lot counts.
  */
-export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId?: number): Promise<PourWrite> {
+export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId?: number, recompute = false): Promise<PourWrite> {
   const named = await loadNamed(trx, ws.id, p)
   const isSample = p.isSample ?? false
-  refuse(named, isSample)
+  if (!recompute) refuse(named, isSample)
   const { mould, item, caster, grade, lot } = named
   const gradeModel = plasterGradeFromRow(grade)
   const consistency = p.consistency ?? (item?.consistency ? Number(item.consistency) : gradeModel.consistency.default)
@@ -110,7 +110,8 @@ export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, 
     mould: { prepMinutes: mould.prep_minutes, cleanMinutes: mould.clean_minutes, maxDwellMinutes: mould.max_dwell_minutes },
   }))
   const batch = plasterOr422(() => batchForCavity({ cavityLitres: Number(mould.cavity_litres), consistency, grade: gradeModel, wastePct: POUR_WASTE_PCT }))
-  await refuseClash(trx, ws, mould.id, t.slotStart, t.slotEnd, selfId)
+  const clipped = recompute ? await clipToNext(trx, ws, mould.id, t, selfId!) : null
+  if (!recompute) await refuseClash(trx, ws, mould.id, t.slotStart, t.slotEnd, selfId)
   const near = caster ? await poursRepo.casterMixesNear(trx, ws.id, caster.id, t.mixAt, selfId) : []
   const lotLeft = lot ? Number(lot.bags_received) * Number(lot.bag_kg) - (await poursRepo.lotUsedKg(trx, ws.id, lot.id, selfId)) - batch.plasterKg : 0
   const warnings = pourWarnings({
@@ -122,12 +123,27 @@ export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, 
     mouldPlannedPours: (await poursRepo.openOnMould(trx, ws.id, mould.id, selfId)) + 1,
     lot: lot ? { code: lot.lot_code, leftKg: lotLeft } : null,
   }, ws.timezone)
+  if (clipped) warnings.push(clipped)
   return {
     job_item_id: item?.id ?? null, mould_id: mould.id, caster_id: caster?.id ?? null, grade_id: grade.id, lot_id: lot?.id ?? null,
     is_sample: isSample, consistency, set_factor: setFactor, slotStart: t.slotStart, slotEnd: t.slotEnd, mix_at: t.mixAt,
     demould_open_at: t.demouldOpenAt, demould_close_at: t.demouldCloseAt,
     plaster_kg_planned: batch.plasterKg, water_kg_planned: batch.waterKg, warnings,
   }
+}
+
+/**
+ * A recomputed pour (its shop day changed) keeps its slotStart; when its longer set would
+ * now run into the next pour on the mould, the slot ends where that pour starts (the
+ * exclusion constraint allows no overlap) and the pour carries a warning: the lead decides
+ * which one moves, the shop-day entry does not fail.
+ */
+async function clipToNext(trx: Knex, ws: WorkshopRow, mouldId: number, t: { slotStart: Date; slotEnd: Date; demouldOpenAt: Date }, selfId: number) {
+  const next = await poursRepo.nextStart(trx, ws.id, mouldId, t.slotStart, selfId)
+  if (!next || next.getTime() >= t.slotEnd.getTime()) return null
+  t.slotEnd = next
+  return `With the day's shop temperature this cast is ready at ${boardClock(t.demouldOpenAt, ws.timezone)}, `
+    + `after the next pour on this mould starts at ${boardClock(next, ws.timezone)}: move one of them.`
 }
 
 export async function loadWorkshop(db: Knex, workshopId: number): Promise<WorkshopRow> {
