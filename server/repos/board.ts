@@ -1,0 +1,43 @@
+// The board's read besides its pours: the workshop, benches, moulds, shop days, open job
+// items and casters in ONE query (json subselects), so the whole board is two queries.
+import type { Knex } from 'knex'
+
+export interface BoardContextRow {
+  timezone: string
+  shift_start: string
+  shift_end: string
+  working_days: number[]
+  units: 'metric' | 'imperial'
+  default_shop_temp_c: number
+  benches: { id: number; name: string; sort_order: number }[]
+  moulds: { id: number; code: string; casts: string; bench_id: number | null; bench_name: string | null; state: string; pulls: number; expected_pulls: number | null }[]
+  shop_days: { day: string; temp_c: number; humidity_pct: number }[]
+  job_items: { id: number; job_id: number; job_code: string; description: string; mould_id: number | null; pieces_needed: number; pieces_planned: number; released: boolean }[]
+  casters: { id: number; name: string }[]
+}
+
+const SQL = `SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.units, w.default_shop_temp_c,
+  (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
+     FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,
+  (SELECT coalesce(json_agg(json_build_object('id', m.id, 'code', m.code, 'casts', m.casts, 'bench_id', m.bench_id, 'bench_name', b.name,
+       'state', m.state, 'pulls', m.pulls, 'expected_pulls', m.expected_pulls) ORDER BY b.sort_order NULLS LAST, m.code), '[]')
+     FROM moulds m LEFT JOIN benches b ON b.id = m.bench_id AND b.workshop_id = w.id
+     WHERE m.workshop_id = w.id AND m.state <> 'retired') AS moulds,
+  (SELECT coalesce(json_agg(json_build_object('day', s.day, 'temp_c', s.temp_c, 'humidity_pct', s.humidity_pct) ORDER BY s.day), '[]')
+     FROM shop_days s WHERE s.workshop_id = w.id AND s.day BETWEEN :from::date AND :to::date) AS shop_days,
+  (SELECT coalesce(json_agg(json_build_object('id', i.id, 'job_id', j.id, 'job_code', j.code, 'description', i.description,
+       'mould_id', i.mould_id, 'pieces_needed', i.pieces_needed,
+       'pieces_planned', (SELECT count(*) FROM pours p WHERE p.workshop_id = w.id AND p.job_item_id = i.id AND p.state <> 'void'),
+       'released', NOT j.sample_required OR j.sample_state = 'approved') ORDER BY j.due_on NULLS LAST, j.code, i.sort_order, i.id), '[]')
+     FROM job_items i JOIN jobs j ON j.id = i.job_id AND j.workshop_id = w.id
+     WHERE i.workshop_id = w.id AND j.state = 'open') AS job_items,
+  (SELECT coalesce(json_agg(json_build_object('id', u.id, 'name', u.name) ORDER BY u.name), '[]')
+     FROM users u WHERE u.workshop_id = w.id AND u.role IN ('caster', 'lead') AND u.disabled_at IS NULL) AS casters
+  FROM workshops w WHERE w.id = :workshopId`
+
+export const boardRepo = {
+  async context(db: Knex, workshopId: number, from: string, to: string): Promise<BoardContextRow | undefined> {
+    const r = await db.raw(SQL, { workshopId, from, to })
+    return r.rows[0]
+  },
+}

@@ -1,0 +1,37 @@
+// The caster's day sheet: the day's pours by bench and the plaster to fetch from the store.
+import type { Knex } from 'knex'
+import { daySheetRepo, poursRepo, type PourDtoRow } from '../repos/pours'
+import { lotStockKg, lotToOpen, requisitionLine } from '../../shared/utils/board-rules'
+
+function sheetPour(p: PourDtoRow) {
+  return {
+    id: p.id, mouldCode: p.mould_code, casts: p.casts, jobCode: p.job_code, itemDescription: p.item_description, casterName: p.caster_name,
+    mixAt: p.mix_at.toISOString(), demouldOpenAt: p.demould_open_at.toISOString(), demouldCloseAt: p.demould_close_at.toISOString(),
+    gradeName: p.grade_name, consistency: Number(p.consistency), plasterKg: Number(p.plaster_kg_planned), waterKg: Number(p.water_kg_planned),
+  }
+}
+export type DaySheetPour = ReturnType<typeof sheetPour>
+
+async function requisition(db: Knex, workshopId: number, day: string, pours: PourDtoRow[]) {
+  const gradeIds = [...new Set(pours.map(p => p.grade_id))]
+  if (!gradeIds.length) return []
+  const [grades, lots] = await Promise.all([daySheetRepo.grades(db, workshopId, gradeIds), daySheetRepo.lots(db, workshopId, gradeIds)])
+  return grades.sort((a, b) => a.name.localeCompare(b.name)).map((g) => {
+    const line = requisitionLine({ gradeId: g.id, gradeName: g.name, bagKg: Number(g.bag_kg) },
+      pours.filter(p => p.grade_id === g.id).map(p => ({ plasterKg: Number(p.plaster_kg_planned), waterKg: Number(p.water_kg_planned) })))
+    const open = lotToOpen(lots.filter(l => l.grade_id === g.id).map(l => ({
+      lotId: l.id, lotCode: l.lot_code, receivedOn: l.received_on, useBy: l.use_by,
+      stockKg: lotStockKg({ bagsReceived: l.bags_received, bagKg: Number(l.bag_kg) }, Number(l.used_kg)),
+    })), day)
+    return { ...line, lotToOpen: open ? { lotId: open.lotId, lotCode: open.lotCode, useBy: open.useBy, stockKg: open.stockKg } : null }
+  })
+}
+
+export async function daySheet(workshopId: number, day: string) {
+  const db = useDb()
+  const [pours, benches] = await Promise.all([poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId)])
+  const groups = benches.map(b => ({ benchId: b.id as number | null, benchName: b.name as string | null, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
+  const loose = pours.filter(p => p.bench_id === null).map(sheetPour)
+  if (loose.length) groups.push({ benchId: null, benchName: null, pours: loose })
+  return { day, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
+}
