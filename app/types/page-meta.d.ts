@@ -6,6 +6,8 @@ declare module '#app' {
     roles?: Role[]
     /** Pages anyone may open signed out (sign-in, links from e-mails, cautions). */
     public?: boolean
+    /** Pages that use the full width of the window (the board). */
+    wide?: boolean
   }
 }
 

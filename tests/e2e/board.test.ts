@@ -1,0 +1,114 @@
+// Browser journey on the pour board: the lead creates a pour on an empty slot, drags it
+// to another mould, is refused a clash, then runs the planner and accepts its plan.
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import type { Locator, Page } from 'playwright-core'
+import { openBrowser, screenshot } from '../setup/browser'
+import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
+
+const base = inject('baseUrl')
+let browser: Awaited<ReturnType<typeof openBrowser>>
+beforeAll(async () => {
+  browser = await openBrowser({ width: 1600, height: 1000 })
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+/** A Monday about ten weeks ahead, clear of the demo's pours and of other tests' days. */
+function quietMonday() {
+  const d = new Date(Date.now() + 70 * 86_400_000)
+  d.setUTCDate(d.getUTCDate() + ((8 - d.getUTCDay()) % 7))
+  return d.toISOString().slice(0, 10)
+}
+
+async function resourceId(page: Page, code: string) {
+  const cell = page.locator('.fc-datagrid-cell[data-resource-id]', { hasText: code }).first()
+  return (await cell.getAttribute('data-resource-id'))!
+}
+
+/** The point on a mould's lane at a wall-clock time of the shown day. */
+async function pointAt(page: Page, code: string, clock: string, offsetMin = 0) {
+  const lane = page.locator(`.fc-timeline-lane[data-resource-id="${await resourceId(page, code)}"]`).first()
+  const slot = page.locator(`.fc-timeline-slot-lane[data-date*="T${clock}"]`).first()
+  const [l, s] = [await lane.boundingBox(), await slot.boundingBox()]
+  return { x: s!.x + 2 + (s!.width * offsetMin) / 15, y: l!.y + l!.height / 2 }
+}
+
+async function drag(page: Page, from: { x: number; y: number }, to: { x: number; y: number }) {
+  await page.mouse.move(from.x, from.y)
+  await page.mouse.down()
+  await page.mouse.move(from.x + 5, from.y + 2, { steps: 3 })
+  await page.mouse.move(to.x, to.y, { steps: 12 })
+  await page.mouse.up()
+}
+
+async function expectMessage(page: Page, pattern: RegExp) {
+  await expect.poll(async () => (await page.getByTestId('board-message').textContent({ timeout: 1000 }).catch(() => '')) ?? '', { timeout: 10_000 }).toMatch(pattern)
+}
+
+/** Picks the first option whose text contains `text` (option labels carry counts that change). */
+async function selectByText(select: Locator, text: string) {
+  const value = await select.locator('option', { hasText: text }).first().getAttribute('value')
+  await select.selectOption(value!)
+}
+
+function bars(page: Page): Locator {
+  return page.locator('[data-testid="pour-bar"]')
+}
+
+describe('pour board', () => {
+  it('creates, drags, refuses a clash, plans and accepts', async () => {
+    const lead = DEMO_USERS.find(u => u.key === 'lead')!
+    const page = await browser.context.newPage()
+    await page.goto(`${base}/login`)
+    await page.getByLabel('E-mail').fill(lead.email)
+    await page.getByLabel('Password').fill(DEMO_PASSWORD)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor()
+    await page.goto(`${base}/lead/board`)
+    await page.getByRole('heading', { level: 1, name: 'Pour board' }).waitFor()
+    const day = quietMonday()
+    await page.locator('#board-date').fill(day)
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${day}"]`).first().waitFor()
+
+    // create on an empty slot: select 09:00–09:30 on CB-12
+    await drag(page, await pointAt(page, 'CB-12', '09:00'), await pointAt(page, 'CB-12', '09:15', 14))
+    await page.getByRole('dialog', { name: 'New pour' }).waitFor()
+    await selectByText(page.getByLabel('Job item'), 'J-2603 · Scroll corbels')
+    await page.getByRole('button', { name: 'Put on the board' }).click()
+    await expectMessage(page, /Planned J-2603 on CB-12 at 09:00/)
+    await expect.poll(() => bars(page).count()).toBe(1)
+    await screenshot(page, 'board-created')
+
+    // drag the bar across to RS-05
+    const bar = await bars(page).first().boundingBox()
+    await drag(page, { x: bar!.x + 10, y: bar!.y + bar!.height / 2 }, await pointAt(page, 'RS-05', '09:00', 1))
+    await expectMessage(page, /Moved J-2603 to RS-05/)
+
+    // a second pour on CB-12, then try to move it onto the first: refused with the reason
+    await drag(page, await pointAt(page, 'CB-12', '09:00'), await pointAt(page, 'CB-12', '09:15', 14))
+    await page.getByRole('dialog', { name: 'New pour' }).waitFor()
+    await selectByText(page.getByLabel('Job item'), 'J-2603 · Scroll corbels')
+    await page.getByRole('button', { name: 'Put on the board' }).click()
+    await expectMessage(page, /Planned J-2603 on CB-12/)
+    await page.getByRole('button', { name: /Open pour J-2603 on CB-12/ }).click()
+    await selectByText(page.locator('#move-mould'), 'RS-05')
+    await page.getByRole('button', { name: 'Move pour' }).click()
+    await expect.poll(async () => await page.getByRole('dialog').getByRole('alert').textContent().catch(() => ''), { timeout: 10_000 }).toMatch(/taken|overlap/i)
+    await screenshot(page, 'board-clash-refused')
+    await page.getByRole('button', { name: 'Close' }).click()
+
+    // the planner fills the day from open items; the lead accepts
+    await page.locator('#plan-from').fill(day)
+    await page.locator('#plan-to').fill(day)
+    await page.getByRole('button', { name: 'Preview plan' }).click()
+    await expect.poll(async () => (await page.getByTestId('plan-summary').textContent().catch(() => '')) ?? '', { timeout: 20_000 }).toMatch(/\d+ pours proposed/)
+    const proposed = Number((await page.getByTestId('plan-summary').textContent())!.match(/(\d+) pours/)![1])
+    expect(proposed).toBeGreaterThan(0)
+    await screenshot(page, 'board-plan-preview')
+    await page.getByRole('button', { name: 'Accept plan' }).click()
+    await expectMessage(page, new RegExp(`Plan accepted: ${proposed} pours written`))
+    await screenshot(page, 'board-plan-accepted')
+    await page.close()
+  }, 120_000)
+})
