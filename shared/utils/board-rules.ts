@@ -6,6 +6,7 @@
  * Units: masses kg, water litres (1 kg/L, as the plaster model's MIX_WATER_DENSITY), minutes.
  * Pure: no I/O, no framework import.
  */
+import { TZDate } from '@date-fns/tz'
 import { bagsForKg } from './plaster-cutlist'
 import { MIX_WATER_DENSITY } from './plaster-core'
 import { POUR_MIX_MINUTES_DEFAULT, dwellWarning } from './pour-timing'
@@ -150,4 +151,10 @@ export function pourDwellWarning(calendar: WorkshopShiftCalendar, t: { mixAt: Da
     shiftEndAt: shift.end,
     nextShiftStartAt: nextShiftStart(calendar, new Date(Math.max(shift.end.getTime(), mix))),
   })
+}
+
+/** The instant a local day 'YYYY-MM-DD' starts (local midnight) in a timezone. */
+export function boardDayStart(day: string, timezone: string): Date {
+  const [y, m, d] = day.split('-').map(Number) as [number, number, number]
+  return new Date(new TZDate(y, m - 1, d, timezone).getTime())
 }

@@ -87,4 +87,5 @@ export const plannerAcceptSchema = z.object({
     slotStart: instant('slotStart'),
     casterId: bodyId('casterId').nullable().optional(),
   }), { error: 'pours must be a list' }).min(1, { error: 'pours must list at least one pour' }).max(2000, { error: 'pours must list at most 2000 pours' }),
-})
+}).refine(v => v.from <= v.to, { path: ['to'], error: 'to must be on or after from' })
+  .refine(v => boardDaySpan(v.from, v.to) <= BOARD_MAX_DAYS, { path: ['to'], error: `the range must be at most ${BOARD_MAX_DAYS} days` })

@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { GRADE_PRESETS } from '../../shared/utils/plaster'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser } from '../setup/fixtures'
+import { boardFixture } from '../setup/board-fixtures'
 
 const GRADE_PRESET_MIX = { grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60, consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
 
@@ -13,6 +14,15 @@ type Role = 'lead' | 'caster' | 'finisher' | 'client'
 interface RouteRow { method: string; path: string; roles: Role[] | 'public'; body?: () => Promise<unknown> | unknown; target?: () => Promise<string> }
 
 let patchTarget = 0
+let fx: Awaited<ReturnType<typeof boardFixture>> | undefined
+const board = async () => (fx ??= await boardFixture('access'))
+/** A fresh mould each call, so the lead's request (the only one allowed) always succeeds. */
+const freshMould = async () => (await board()).mould()
+/** A fresh planned pour (version 1) on its own mould, for the routes that change one. */
+async function freshPour() {
+  const r = await call('/api/pours', { method: 'POST', cookie: cookies.lead, body: { mouldId: await freshMould(), slotStart: '2027-09-01T09:00:00Z' } })
+  return r.data.id as number
+}
 const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/health', roles: 'public' },
   { method: 'POST', path: '/api/auth/login', roles: 'public' },
@@ -33,6 +43,16 @@ const ROUTES: RouteRow[] = [
   { method: 'PATCH', path: '/api/workshop', roles: ['lead'], body: async () => (await call('/api/workshop', { cookie: cookies.lead })).data },
   { method: 'GET', path: '/api/calc/options', roles: ['lead', 'caster', 'finisher'] },
   { method: 'POST', path: '/api/calc/mix', roles: ['lead', 'caster', 'finisher', 'client'], body: () => ({ ...GRADE_PRESET_MIX }) },
+  { method: 'GET', path: '/api/board', roles: ['lead', 'caster', 'finisher'], target: async () => '/api/board?from=2027-09-01&to=2027-09-02' },
+  { method: 'POST', path: '/api/pours', roles: ['lead'], body: async () => ({ mouldId: await freshMould(), slotStart: '2027-09-01T09:00:00Z' }) },
+  { method: 'PATCH', path: '/api/pours/[id]', roles: ['lead'], body: () => ({ version: 1, slotStart: '2027-09-01T11:00:00Z' }), target: async () => `/api/pours/${await freshPour()}` },
+  { method: 'POST', path: '/api/pours/[id]/void', roles: ['lead'], body: () => ({ version: 1, reason: 'access test' }), target: async () => `/api/pours/${await freshPour()}/void` },
+  { method: 'GET', path: '/api/shop-days', roles: ['lead', 'caster', 'finisher'], target: async () => '/api/shop-days?from=2027-09-01&to=2027-09-02' },
+  { method: 'PUT', path: '/api/shop-days/[day]', roles: ['lead'], body: () => ({ tempC: 18, humidityPct: 50 }), target: async () => '/api/shop-days/2027-09-03' },
+  { method: 'POST', path: '/api/planner/preview', roles: ['lead'], body: () => ({ from: '2027-09-06', to: '2027-09-07' }) },
+  { method: 'POST', path: '/api/planner/accept', roles: ['lead'], body: async () => ({ from: '2027-09-01', to: '2027-09-01', pours: [{ jobItemId: await (await board()).item(await (await board()).job(), null), mouldId: await freshMould(), slotStart: '2027-09-01T13:00:00Z' }] }) },
+  { method: 'GET', path: '/api/day-sheet', roles: ['lead', 'caster'], target: async () => '/api/day-sheet?day=2027-09-01' },
+  { method: 'GET', path: '/api/day-sheet/export', roles: ['lead', 'caster'], target: async () => '/api/day-sheet/export?day=2027-09-01' },
 ]
 
 function routeFiles(dir: string): string[] {

@@ -1,0 +1,34 @@
+// The planner's reads: everything planPours needs about a workshop, each in its workshop.
+import type { Knex } from 'knex'
+
+export const planningRepo = {
+  moulds(db: Knex, workshopId: number) {
+    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls')
+      .where({ workshop_id: workshopId }).orderBy('code')
+  },
+  /** Items of open jobs with the pieces still to plan (needed less the item's non-void pours). */
+  openItems(db: Knex, workshopId: number) {
+    return db('job_items as i').join('jobs as j', function () {
+      this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'i.workshop_id')
+    })
+      .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed',
+        'j.code as job_code', 'j.due_on', 'j.sample_required', 'j.sample_state')
+      .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.workshop_id = i.workshop_id AND p.job_item_id = i.id AND p.state <> 'void') AS pours`))
+      .where({ 'i.workshop_id': workshopId, 'j.state': 'open' })
+      .orderBy(['i.id'])
+  },
+  grades(db: Knex, workshopId: number) {
+    return db('plaster_grades').select('*').where({ workshop_id: workshopId }).orderBy('id')
+  },
+  /** Non-void pours still taking a mould at or after `from`. */
+  pours(db: Knex, workshopId: number, from: Date) {
+    return db('pours').select('mould_id', 'caster_id', 'mix_at', db.raw('lower(slot) AS slot_start'), db.raw('upper(slot) AS slot_end'))
+      .where({ workshop_id: workshopId }).whereNot('state', 'void').whereRaw('upper(slot) > ?', [from.toISOString()])
+  },
+  shopDays(db: Knex, workshopId: number, fromDay: string) {
+    return db('shop_days').select('day', 'temp_c').where({ workshop_id: workshopId }).where('day', '>=', fromDay)
+  },
+  casters(db: Knex, workshopId: number) {
+    return db('users').select('id').where({ workshop_id: workshopId, role: 'caster' }).whereNull('disabled_at').orderBy('id')
+  },
+}

@@ -1,0 +1,104 @@
+// Fill the board from open job items: the planner's input read from the database (preview),
+// and the lead's accepted proposal written in one transaction (accept).
+import type { Knex } from 'knex'
+import type { Actor } from '../utils/auth'
+import type { WorkshopRow } from '../repos/workshops'
+import { planningRepo } from '../repos/planning'
+import { poursRepo } from '../repos/pours'
+import { loadWorkshop, planPourRow, withOverlapAnswer, workshopCalendar } from './pours'
+import { boardDayStart } from '../../shared/utils/board-rules'
+import { planPours, type PlanPoursInput, type PlannerItem } from '../../shared/utils/planner'
+import { PlasterInputError } from '../../shared/utils/plaster-core'
+
+const DAY_MS = 86_400_000
+const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_MS).toISOString().slice(0, 10)
+
+async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string) {
+  const start = boardDayStart(from, ws.timezone)
+  const end = boardDayStart(nextDay(to), ws.timezone)
+  const [moulds, rows, grades, pours, days, casters] = await Promise.all([
+    planningRepo.moulds(db, ws.id), planningRepo.openItems(db, ws.id), planningRepo.grades(db, ws.id),
+    planningRepo.pours(db, ws.id, start), planningRepo.shopDays(db, ws.id, from), planningRepo.casters(db, ws.id),
+  ])
+  const gradeById = new Map(grades.map(g => [g.id, g]))
+  const descriptions = new Map<string, string>()
+  const items: PlannerItem[] = []
+  for (const r of rows) {
+    const grade = gradeById.get(r.grade_id) ?? grades.find(g => !g.archived_at)
+    const remaining = r.pieces_needed - r.pours
+    if (!grade || remaining <= 0) continue
+    const model = plasterGradeFromRow(grade)
+    descriptions.set(String(r.id), r.description)
+    items.push({
+      itemId: String(r.id), jobId: String(r.job_id), jobCode: r.job_code, dueOn: r.due_on,
+      sampleReleased: !r.sample_required || r.sample_state === 'approved', piecesRemaining: remaining,
+      mouldIds: r.mould_id ? [String(r.mould_id)] : [], grade: model,
+      consistency: r.consistency ? Number(r.consistency) : model.consistency.default,
+    })
+  }
+  const input: PlanPoursInput = {
+    calendar: workshopCalendar(ws), from: start, to: end, items,
+    moulds: moulds.map(m => ({
+      id: String(m.id), code: m.code, benchId: m.bench_id ? String(m.bench_id) : null, state: m.state, prepMinutes: m.prep_minutes,
+      cleanMinutes: m.clean_minutes, maxDwellMinutes: m.max_dwell_minutes, pulls: m.pulls, expectedPulls: m.expected_pulls,
+    })),
+    existingPours: pours.map(p => ({ mouldId: String(p.mould_id), slotStart: p.slot_start, slotEnd: p.slot_end, casterId: p.caster_id ? String(p.caster_id) : null, mixAt: p.mix_at })),
+    shopTempByDay: Object.fromEntries(days.map(d => [d.day, Number(d.temp_c)])),
+    defaultShopTempC: Number(ws.default_shop_temp_c),
+    // Never propose a pour in the past: the plan starts now when the range already began.
+    options: { startAt: new Date(Math.max(Date.now(), start.getTime())), casters: casters.map(c => String(c.id)) },
+  }
+  return { input, descriptions }
+}
+
+export async function previewPlan(actor: Actor, range: { from: string; to: string }) {
+  const db = useDb()
+  const ws = await loadWorkshop(db, actor.workshopId)
+  const { input, descriptions } = await plannerInput(db, ws, range.from, range.to)
+  let result: ReturnType<typeof planPours>
+  try {
+    result = planPours(input)
+  }
+  catch (e) {
+    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
+    throw e
+  }
+  return {
+    pours: result.pours.map(p => ({
+      jobItemId: Number(p.itemId), jobId: Number(p.jobId), jobCode: p.jobCode, itemDescription: descriptions.get(p.itemId) ?? null,
+      mouldId: Number(p.mouldId), mouldCode: p.mouldCode, benchId: p.benchId ? Number(p.benchId) : null,
+      casterId: p.casterId ? Number(p.casterId) : null, day: p.day, slotStart: p.slotStart.toISOString(), mixAt: p.mixAt.toISOString(),
+      demouldOpenAt: p.demouldOpenAt.toISOString(), demouldCloseAt: p.demouldCloseAt.toISOString(), slotEnd: p.slotEnd.toISOString(),
+      slurryTempC: p.slurryTempC, consistency: p.consistency, setFactor: p.setFactor, overnight: p.overnight, warnings: p.warnings,
+    })),
+    jobs: result.jobs.map(j => ({ ...j, jobId: Number(j.jobId) })),
+    unplaced: result.unplaced.map(u => ({ ...u, itemId: Number(u.itemId), jobId: Number(u.jobId) })),
+    moulds: result.moulds.map(m => ({ ...m, mouldId: Number(m.mouldId) })),
+  }
+}
+
+export interface AcceptedPour { jobItemId: number; mouldId: number; slotStart: Date; casterId?: number | null }
+
+/** Writes the accepted pours, all or none: any refusal (an overlap above all) rolls back every one. */
+export async function acceptPlan(actor: Actor, range: { from: string; to: string }, pours: AcceptedPour[]) {
+  const db = useDb()
+  const ws = await loadWorkshop(db, actor.workshopId)
+  const start = boardDayStart(range.from, ws.timezone).getTime()
+  const end = boardDayStart(nextDay(range.to), ws.timezone).getTime()
+  pours.forEach((p, i) => {
+    const t = p.slotStart.getTime()
+    if (t < start || t >= end) unprocessable([{ field: `pours.${i}.slotStart`, message: `must fall between ${range.from} and ${range.to}` }])
+  })
+  let last: { id: number; start: Date; end: Date } | null = null
+  const created = await withOverlapAnswer(ws, () => last, () => db.transaction(async (trx) => {
+    for (const p of pours) {
+      const write = await planPourRow(trx, ws, { jobItemId: p.jobItemId, mouldId: p.mouldId, slotStart: p.slotStart, casterId: p.casterId ?? null })
+      last = { id: write.mould_id, start: write.slotStart, end: write.slotEnd }
+      const pourId = await poursRepo.insert(trx, ws.id, actor.id, write)
+      await poursRepo.event(trx, { workshopId: ws.id, pourId, type: 'pour.planned', actorId: actor.id, data: { planner: true, mouldId: write.mould_id, jobItemId: write.job_item_id, slotStart: write.slotStart, warnings: write.warnings } })
+    }
+    return pours.length
+  }))
+  emitToWorkshop(ws.id, { type: 'board.refreshed', id: ws.id })
+  return { created }
+}

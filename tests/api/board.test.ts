@@ -1,0 +1,182 @@
+// The board read, shop conditions and the day sheet: shapes, ranges, overdue, roles, tenancy.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { baseUrl, call, signIn } from '../setup/http'
+import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
+import { boardFixture } from '../setup/board-fixtures'
+
+// April 2027 is BST (UTC+1): local 09:00 is 08:00Z. Days far from the demo's and other files'.
+const local = (day: string, hhmm: string) => `${day}T${hhmm}:00+01:00`
+let lead = ''
+let fx: Awaited<ReturnType<typeof boardFixture>>
+
+beforeAll(async () => {
+  lead = await signIn(demo.lead.email, DEMO_PASSWORD)
+  fx = await boardFixture('board')
+})
+afterAll(closeTestDb)
+
+const post = (body: Record<string, unknown>) => call('/api/pours', { method: 'POST', cookie: lead, body })
+const board = (from: string, to: string, cookie = lead) => call(`/api/board?from=${from}&to=${to}`, { cookie })
+
+describe('GET /api/board', () => {
+  it('returns the calendar, benches, moulds, the range\'s non-void pours, items and casters', async () => {
+    const mouldId = await fx.mould()
+    const worn = await fx.mould({ pulls: 95, expected_pulls: 100 })
+    const job = await fx.job()
+    const item = await fx.item(job, mouldId, { pieces_needed: 5 })
+    const waiting = await fx.item(await fx.job({ sample_required: true, sample_state: 'awaiting_cast' }), worn)
+    const inside = (await post({ mouldId, slotStart: local('2027-04-05', '09:00'), jobItemId: item, casterId: fx.casterId })).data
+    await post({ mouldId, slotStart: local('2027-04-08', '09:00'), jobItemId: item })
+    const voided = (await post({ mouldId, slotStart: local('2027-04-06', '09:00'), jobItemId: item })).data
+    await call(`/api/pours/${voided.id}/void`, { method: 'POST', cookie: lead, body: { version: 1, reason: 'test' } })
+    const r = await board('2027-04-05', '2027-04-06')
+    expect(r.status).toBe(200)
+    expect(r.data.workshop).toMatchObject({ timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5], units: 'metric' })
+    expect(typeof r.data.workshop.defaultShopTempC).toBe('number')
+    expect(r.data.benches).toContainEqual({ id: fx.benchId, name: expect.any(String), sortOrder: 90 })
+    const mine = r.data.pours.filter((p: { mouldId: number }) => p.mouldId === mouldId)
+    expect(mine.map((p: { id: number }) => p.id)).toEqual([inside.id])
+    expect(mine[0]).toEqual({ ...inside, overdue: false })
+    const moulds = new Map(r.data.moulds.map((m: { id: number }) => [m.id, m]))
+    expect(moulds.get(mouldId)).toMatchObject({ benchId: fx.benchId, state: 'ready', pulls: 0, expectedPulls: 100, lifeFlag: false })
+    expect(moulds.get(worn)).toMatchObject({ lifeFlag: true })
+    const items = new Map(r.data.jobItems.map((i: { id: number }) => [i.id, i]))
+    expect(items.get(item)).toMatchObject({ jobId: job, mouldId, piecesNeeded: 5, piecesPlanned: 2, released: true })
+    expect(items.get(waiting)).toMatchObject({ released: false })
+    expect(r.data.casters).toContainEqual({ id: fx.casterId, name: fx.casterName })
+    expect(r.data.shopDays).toEqual([])
+  })
+
+  it('includes a pour that starts before the range but runs into it', async () => {
+    const mouldId = await fx.mould({ max_dwell_minutes: 900 })
+    const late = (await post({ mouldId, slotStart: local('2027-04-13', '23:40') })).data
+    const r = await board('2027-04-14', '2027-04-14')
+    expect(r.data.pours.map((p: { id: number }) => p.id)).toContain(late.id)
+  })
+
+  it('marks a pour whose window has closed as overdue', async () => {
+    const mouldId = await fx.mould({ max_dwell_minutes: 30 })
+    const past = (await post({ mouldId, slotStart: '2025-06-02T09:00:00+01:00' })).data
+    expect(past.overdue).toBe(true)
+    const r = await board('2025-06-02', '2025-06-02')
+    expect(r.data.pours.find((p: { id: number }) => p.id === past.id).overdue).toBe(true)
+  })
+
+  it('refuses a range over 31 days or a bad day, naming the field', async () => {
+    for (const [q, field] of [['from=2027-01-01&to=2027-02-01', 'query.to'], ['from=2027-01-05&to=2027-01-04', 'query.to'],
+      ['from=soon&to=2027-01-04', 'query.from'], ['to=2027-01-04', 'query.from']] as const) {
+      const r = await call(`/api/board?${q}`, { cookie: lead })
+      expect(r.status, q).toBe(422)
+      expect(r.data.data.problems[0].field).toBe(field)
+    }
+    expect((await board('2027-01-01', '2027-01-31')).status).toBe(200)
+  })
+
+  it('staff read it, clients do not; another workshop sees none of these pours', async () => {
+    for (const who of [demo.caster1, demo.finisher]) expect((await board('2027-04-05', '2027-04-06', await signIn(who.email, DEMO_PASSWORD))).status).toBe(200)
+    expect((await board('2027-04-05', '2027-04-06', await signIn(demo.client1.email, DEMO_PASSWORD))).status).toBe(403)
+    const other = await makeOtherWorkshop()
+    const theirs = await board('2027-04-05', '2027-04-06', await signIn(other.lead.email, DEMO_PASSWORD))
+    expect(theirs.status).toBe(200)
+    expect(theirs.data.pours).toEqual([])
+    expect(theirs.data.moulds).toEqual([])
+    expect(theirs.data.casters.map((c: { name: string }) => c.name)).toEqual(['Fixture other-caster', 'Fixture other-lead'])
+  })
+})
+
+describe('shop days', () => {
+  it('a colder day re-times that day\'s planned pours, keeping their prep start', async () => {
+    const [a, b] = [await fx.mould(), await fx.mould()]
+    const p1 = (await post({ mouldId: a, slotStart: local('2027-04-12', '09:00') })).data
+    const p2 = (await post({ mouldId: b, slotStart: local('2027-04-12', '10:00') })).data
+    const r = await call('/api/shop-days/2027-04-12', { method: 'PUT', cookie: lead, body: { tempC: 8, humidityPct: 70 } })
+    expect(r.status).toBe(200)
+    expect(r.data).toEqual({ day: '2027-04-12', tempC: 8, humidityPct: 70, moved: 2 })
+    const after = (await board('2027-04-12', '2027-04-12')).data
+    for (const before of [p1, p2]) {
+      const now = after.pours.find((p: { id: number }) => p.id === before.id)
+      expect(now.slotStart).toBe(before.slotStart)
+      expect(now.version).toBe(2)
+      expect(Date.parse(now.demouldOpenAt)).toBeGreaterThan(Date.parse(before.demouldOpenAt))
+    }
+    expect(after.shopDays).toEqual([{ day: '2027-04-12', tempC: 8, humidityPct: 70 }])
+    const again = await call('/api/shop-days/2027-04-12', { method: 'PUT', cookie: lead, body: { tempC: 8, humidityPct: 60 } })
+    expect(again.data.moved).toBe(0)
+    const list = await call('/api/shop-days?from=2027-04-01&to=2027-04-30', { cookie: lead })
+    expect(list.data).toEqual([{ day: '2027-04-12', tempC: 8, humidityPct: 60 }])
+  })
+
+  it('a pour that would now run into the next one on its mould is kept with a warning', async () => {
+    const m = await fx.mould()
+    const first = (await post({ mouldId: m, slotStart: local('2027-04-15', '09:00') })).data
+    const next = (await post({ mouldId: m, slotStart: first.slotEnd })).data
+    expect(next.slotStart).toBe(first.slotEnd)
+    const r = await call('/api/shop-days/2027-04-15', { method: 'PUT', cookie: lead, body: { tempC: 6, humidityPct: 70 } })
+    expect(r.status).toBe(200)
+    const pours = (await board('2027-04-15', '2027-04-15')).data.pours
+    const f = pours.find((p: { id: number }) => p.id === first.id)
+    expect(f.slotEnd).toBe(next.slotStart)
+    expect(f.warnings.join(' ')).toContain('move one of them')
+  })
+
+  it('names bad fields; only a lead enters conditions', async () => {
+    for (const [path, body, field] of [['/api/shop-days/2027-04-16', { tempC: 90, humidityPct: 50 }, 'tempC'],
+      ['/api/shop-days/2027-04-16', { tempC: 10 }, 'humidityPct'], ['/api/shop-days/2027-02-30', { tempC: 10, humidityPct: 50 }, 'params.day']] as const) {
+      const r = await call(path, { method: 'PUT', cookie: lead, body })
+      expect(r.status, field).toBe(422)
+      expect(r.data.data.problems[0].field).toBe(field)
+    }
+    const caster = await signIn(demo.caster1.email, DEMO_PASSWORD)
+    expect((await call('/api/shop-days/2027-04-16', { method: 'PUT', cookie: caster, body: { tempC: 10, humidityPct: 50 } })).status).toBe(403)
+    expect((await call('/api/shop-days?from=2027-04-01&to=2027-04-30', { cookie: caster })).status).toBe(200)
+  })
+})
+
+describe('day sheet', () => {
+  it('lists the day\'s pours by bench and the plaster to fetch, with the lot to open first', async () => {
+    const [a, b] = [await fx.mould(), await fx.mould({ bench_id: null })]
+    const job = await fx.job()
+    const item = await fx.item(job, a)
+    const oldest = await fx.lot({ received_on: '2019-01-02', use_by: null, bags_received: 4 })
+    const p1 = (await post({ mouldId: a, slotStart: local('2027-04-20', '09:00'), jobItemId: item, casterId: fx.casterId })).data
+    const p2 = (await post({ mouldId: b, slotStart: local('2027-04-20', '10:00') })).data
+    const r = await call('/api/day-sheet?day=2027-04-20', { cookie: lead })
+    expect(r.status).toBe(200)
+    expect(r.data.day).toBe('2027-04-20')
+    const bench = r.data.benches.find((x: { benchId: number }) => x.benchId === fx.benchId)
+    expect(bench.pours).toEqual([expect.objectContaining({
+      id: p1.id, mouldCode: p1.mouldCode, casts: expect.any(String), jobCode: p1.jobCode, itemDescription: p1.itemDescription,
+      casterName: fx.casterName, mixAt: p1.mixAt, demouldOpenAt: p1.demouldOpenAt, demouldCloseAt: p1.demouldCloseAt,
+      gradeName: p1.gradeName, consistency: 70, plasterKg: p1.plasterKg, waterKg: p1.waterKg,
+    })])
+    const loose = r.data.benches.find((x: { benchId: number | null }) => x.benchId === null)
+    expect(loose.pours.map((p: { id: number }) => p.id)).toContain(p2.id)
+    const line = r.data.requisition.find((l: { gradeId: number }) => l.gradeId === fx.gradeId)
+    const kg = p1.plasterKg + (p2.gradeId === fx.gradeId ? p2.plasterKg : 0)
+    expect(line.plasterKg).toBeCloseTo(kg, 6)
+    expect(line.bags).toBe(Math.ceil(kg / 25))
+    expect(line.bagKg).toBe(25)
+    expect(line.lotToOpen).toMatchObject({ lotId: oldest, useBy: null, stockKg: 100 })
+  })
+
+  it('exports the sheet as a CSV attachment', async () => {
+    const m = await fx.mould()
+    const p = (await post({ mouldId: m, slotStart: local('2027-04-21', '09:00') })).data
+    const res = await fetch(`${baseUrl()}/api/day-sheet/export?day=2027-04-21`, { headers: { cookie: lead } })
+    expect(res.status).toBe(200)
+    expect(res.headers.get('content-type')).toContain('text/csv')
+    expect(res.headers.get('content-disposition')).toContain('attachment; filename="day-sheet-2027-04-21.csv"')
+    const text = await res.text()
+    expect(text.split('\n')[0]).toContain('section,bench,mould')
+    expect(text).toContain(p.mouldCode)
+    expect(text).toContain('requisition')
+  })
+
+  it('a caster reads it; a finisher does not; a bad day is a 422', async () => {
+    expect((await call('/api/day-sheet?day=2027-04-20', { cookie: await signIn(demo.caster1.email, DEMO_PASSWORD) })).status).toBe(200)
+    expect((await call('/api/day-sheet?day=2027-04-20', { cookie: await signIn(demo.finisher.email, DEMO_PASSWORD) })).status).toBe(403)
+    const bad = await call('/api/day-sheet?day=20-04-2027', { cookie: lead })
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.problems[0].field).toBe('query.day')
+  })
+})
