@@ -3,7 +3,7 @@
 import type { Knex } from 'knex'
 
 export async function updateVersioned<T>(db: Knex, table: string, where: { workshopId: number; id: number; version: number }, patch: Record<string, unknown>, columns: readonly string[], what: string): Promise<T> {
-  let rows: T[]
+  let rows: unknown[]
   try {
     rows = await db(table).where({ workshop_id: where.workshopId, id: where.id, version: where.version })
       .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(columns as string[])
@@ -11,7 +11,7 @@ export async function updateVersioned<T>(db: Knex, table: string, where: { works
   catch (err) {
     rethrowDbError(err, UNIQUE_LABELS)
   }
-  if (rows[0]) return rows[0]
+  if (rows[0]) return rows[0] as T
   const exists = await db(table).where({ workshop_id: where.workshopId, id: where.id }).first('id')
   if (!exists) notFound(what)
   conflict(`This ${what.toLowerCase()} was changed by someone else; reload and try again`)
