@@ -6,6 +6,11 @@ export interface NavItem { to: string; label: string; icon: string }
 const NAV: Record<Role, NavItem[]> = {
   lead: [
     { to: '/lead', label: 'Today', icon: 'sun' },
+    { to: '/lead/jobs', label: 'Jobs', icon: 'clipboard' },
+    { to: '/lead/moulds', label: 'Moulds', icon: 'shapes' },
+    { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
+    { to: '/lead/lots', label: 'Lots', icon: 'package' },
+    { to: '/lead/benches', label: 'Benches', icon: 'bench' },
     { to: '/lead/people', label: 'People', icon: 'users' },
     { to: '/lead/mails', label: 'Captured mail', icon: 'mail' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },

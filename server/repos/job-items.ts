@@ -1,30 +1,11 @@
 // Every knex call for job_items, joined with the mould and grade the calculator needs.
 import type { Knex } from 'knex'
+import type { ItemRow } from '#shared/types/catalogue'
+
+export type { ItemRow }
 
 export const ITEM_COLUMNS = ['id', 'job_id', 'mould_id', 'profile', 'description', 'quantity', 'run_m', 'walls', 'min_piece_m',
   'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version'] as const
-
-export interface ItemRow {
-  id: number
-  job_id: number
-  mould_id: number | null
-  profile: string | null
-  description: string
-  quantity: number | null
-  run_m: number | null
-  walls: { lengthM: number }[] | null
-  min_piece_m: number | null
-  spares_pct: number
-  pieces_needed: number
-  grade_id: number | null
-  consistency: number | null
-  sort_order: number
-  version: number
-  mould_code?: string | null
-  cavity_litres?: number | null
-  cast_length_m?: number | null
-  grade_name?: string | null
-}
 
 export interface ItemColumns {
   mould_id: number | null

@@ -1,6 +1,9 @@
 // Every knex call for jobs and job_members.
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { JobRow } from '#shared/types/catalogue'
+
+export type { JobRow }
 
 export const JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'notes', 'state', 'sample_required', 'sample_state',
   'sample_comment', 'sample_decided_by', 'sample_decided_at', 'version', 'created_at'] as const
@@ -8,22 +11,6 @@ export const JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'notes', 's
 /** What a client may see of a job: never notes or other internal fields. */
 export const CLIENT_JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'state', 'sample_required', 'sample_state',
   'sample_comment', 'sample_decided_at'] as const
-
-export interface JobRow {
-  id: number
-  code: string
-  title: string
-  site: string | null
-  due_on: string | null
-  notes: string | null
-  state: string
-  sample_required: boolean
-  sample_state: string
-  sample_comment: string | null
-  sample_decided_by: number | null
-  sample_decided_at: string | null
-  version: number
-}
 
 export interface JobInput { code?: string; title?: string; site?: string | null; dueOn?: string | null; notes?: string | null; state?: string; sampleRequired?: boolean }
 

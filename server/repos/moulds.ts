@@ -1,32 +1,13 @@
 // Every knex call for moulds, their pour history and their state-change events.
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { MouldRow } from '#shared/types/catalogue'
+
+export type { MouldRow }
 
 export const MOULD_COLUMNS = ['id', 'bench_id', 'code', 'casts', 'material', 'cavity_litres', 'cast_length_m', 'prep_minutes',
   'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'state', 'state_changed_by', 'state_changed_at',
   'state_reason', 'version'] as const
-
-export interface MouldRow {
-  id: number
-  bench_id: number | null
-  bench_name?: string | null
-  code: string
-  casts: string
-  material: string
-  cavity_litres: number
-  cast_length_m: number | null
-  prep_minutes: number
-  clean_minutes: number
-  max_dwell_minutes: number
-  pulls: number
-  expected_pulls: number | null
-  state: string
-  state_changed_by: number | null
-  state_changed_by_name?: string | null
-  state_changed_at: string | null
-  state_reason: string | null
-  version: number
-}
 
 export interface MouldInput {
   code?: string

@@ -2,22 +2,9 @@
 import type { Knex } from 'knex'
 import type { LotPourSums } from '#shared/utils/catalogue'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { LotRow } from '#shared/types/catalogue'
 
 export const LOT_COLUMNS = ['id', 'grade_id', 'lot_code', 'bags_received', 'bag_kg', 'received_on', 'use_by', 'notes', 'archived_at', 'version'] as const
-
-export interface LotRow {
-  id: number
-  grade_id: number
-  grade_name: string
-  lot_code: string
-  bags_received: number
-  bag_kg: number
-  received_on: string
-  use_by: string | null
-  notes: string | null
-  archived_at: string | null
-  version: number
-}
 
 export interface LotInput { gradeId?: number; lotCode?: string; bagsReceived?: number; bagKg?: number; receivedOn?: string; useBy?: string | null; notes?: string | null; archived?: boolean }
 
