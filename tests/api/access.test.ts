@@ -121,6 +121,10 @@ describe('route table', () => {
 })
 
 describe('role guard', () => {
+  // the decision target put client1 on an extra job; the tenancy checks below expect the demo's own
+  afterAll(async () => {
+    await testDb()('job_members').where({ job_id: t.decisionJob }).del()
+  })
   for (const route of ROUTES.filter(r => r.roles !== 'public')) {
     it(`${route.method} ${route.path}: 401 signed out, 403 for other roles, allowed for ${(route.roles as Role[]).join(', ')}`, async () => {
       const path = route.target ? await route.target() : route.path
