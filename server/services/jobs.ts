@@ -11,15 +11,28 @@ import { inviteUser } from './accounts'
 import { PlasterInputError } from '#shared/utils/plaster-core'
 import type { JobItemCreateInput } from '#shared/utils/job-schemas'
 
-/** The item's plan: pieces (with the cut list for a run) and plaster in kg and bags when the mould and grade are known. */
+/**
+ * The item's plan: pieces (with the cut list for a run) and plaster in kg and bags when the mould
+ * and grade are known. A plan the model refuses (say the mould's cast length was edited so a wall
+ * no longer cuts) is shown as missing rather than failing the whole job.
+ */
 function itemPlan(item: ItemRow, grades: Map<number, GradeRow>) {
   const grade = item.grade_id ? grades.get(item.grade_id) : undefined
   const run = item.walls && item.cast_length_m
     ? { walls: item.walls, castLengthM: item.cast_length_m, minPieceM: item.min_piece_m ?? DEFAULT_MIN_PIECE_M, sparesPct: item.spares_pct }
     : null
-  const { cutList } = run ? itemPiecesNeeded({ run }) : { cutList: null }
+  const attempt = <T>(fn: () => T): T | null => {
+    try {
+      return fn()
+    }
+    catch (err) {
+      if (err instanceof PlasterInputError) return null
+      throw err
+    }
+  }
+  const cutList = run ? attempt(() => itemPiecesNeeded({ run }).cutList) : null
   const plaster = grade && item.cavity_litres
-    ? itemPlaster({ pieces: item.pieces_needed, cavityLitres: item.cavity_litres, consistency: item.consistency ?? grade.consistency_default, grade: gradeFromRow(grade), bagKg: grade.bag_kg })
+    ? attempt(() => itemPlaster({ pieces: item.pieces_needed, cavityLitres: item.cavity_litres!, consistency: item.consistency ?? grade.consistency_default, grade: gradeFromRow(grade), bagKg: grade.bag_kg }))
     : null
   return { cutList, plaster, bagKg: grade?.bag_kg ?? null }
 }

@@ -134,7 +134,8 @@ describe('clients on a job', () => {
 
   it('an existing client is added at once; a staff e-mail is refused', async () => {
     const job = await newJob()
-    const r = await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: demo.client2.email } })
+    const existing = await makeUser(await demoWorkshopId(), 'client', 'existing-client')
+    const r = await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: existing.email } })
     expect(r.status).toBe(200)
     expect(r.data.status).toBe('added')
     expect((await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: demo.caster1.email } })).status).toBe(409)
@@ -168,15 +169,18 @@ describe('sample approval', () => {
 
   it('asking for changes needs a comment; a client who is not a member gets 404', async () => {
     const ws = await demoWorkshopId()
+    // a fixture client, so the demo clients' job lists stay as the other files expect
+    const other = await makeUser(ws, 'client', 'changes-client')
+    const otherCookie = await signIn(other.email, DEMO_PASSWORD)
     const job = await newJob({ sampleRequired: true })
     await call(`/api/jobs/${job.id}/sample`, { method: 'POST', cookie: lead, body: { state: 'awaiting_approval', version: 1 } })
-    expect((await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: client, body: { decision: 'approved' } })).status).toBe(404)
-    await testDb()('job_members').insert({ workshop_id: ws, job_id: job.id, user_id: (await testDb()('users').where({ email: demo.client1.email }).first('id')).id })
-    const noComment = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: client, body: { decision: 'changes_requested' } })
+    expect((await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'approved' } })).status).toBe(404)
+    await testDb()('job_members').insert({ workshop_id: ws, job_id: job.id, user_id: other.id })
+    const noComment = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'changes_requested' } })
     expect(noComment.data.data.problems[0].field).toBe('comment')
-    const bad = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: client, body: { decision: 'maybe' } })
+    const bad = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'maybe' } })
     expect(bad.data.data.problems[0].field).toBe('decision')
-    const changes = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: client, body: { decision: 'changes_requested', comment: 'Deeper egg, please' } })
+    const changes = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'changes_requested', comment: 'Deeper egg, please' } })
     expect(changes.data).toMatchObject({ sample_state: 'changes_requested', sample_comment: 'Deeper egg, please', released: false })
   })
 
