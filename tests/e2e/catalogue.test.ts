@@ -47,6 +47,11 @@ describe('lead sets up a mould and a job', () => {
     await screenshot(page, 'catalogue-mould-form')
     await page.getByRole('button', { name: 'Add mould' }).click()
     await page.getByRole('heading', { level: 1, name: new RegExp(code) }).waitFor()
+    await page.getByLabel('New state').selectOption('repair')
+    await page.getByLabel('Reason').fill('Flange torn at the return')
+    await page.getByRole('button', { name: 'Change state' }).click()
+    await page.getByText(/moved it from ready to repair: “Flange torn at the return”/).waitFor()
+    await screenshot(page, 'catalogue-mould-detail')
 
     await page.getByRole('link', { name: 'Jobs' }).click()
     await page.getByRole('heading', { level: 1, name: 'Jobs' }).waitFor()
