@@ -56,6 +56,9 @@ export const jobsRepo = {
   addMember(db: Knex, workshopId: number, jobId: number, userId: number) {
     return db('job_members').insert({ workshop_id: workshopId, job_id: jobId, user_id: userId }).onConflict(['job_id', 'user_id']).ignore()
   },
+  removeMember(db: Knex, workshopId: number, jobId: number, userId: number) {
+    return db('job_members').where({ workshop_id: workshopId, job_id: jobId, user_id: userId }).del()
+  },
   async insert(db: Knex, workshopId: number, input: JobInput): Promise<JobRow> {
     try {
       const [row] = await db('jobs').insert({

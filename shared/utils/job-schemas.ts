@@ -90,4 +90,9 @@ export const jobItemParamsSchema = z.object({
   itemId: z.coerce.number().int().positive({ message: 'itemId must be a positive whole number' }),
 })
 
+export const jobMemberParamsSchema = z.object({
+  id: z.coerce.number().int().positive({ message: 'id must be a positive whole number' }),
+  userId: z.coerce.number().int().positive({ message: 'userId must be a positive whole number' }),
+})
+
 export type JobItemCreateInput = z.infer<typeof jobItemCreateSchema>

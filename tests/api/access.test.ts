@@ -13,7 +13,7 @@ interface RouteRow { method: string; path: string; roles: Role[] | 'public'; bod
 let patchTarget = 0
 const STAFF: Role[] = ['lead', 'caster', 'finisher']
 /** Rows the catalogue and job routes act on, made in beforeAll. */
-const t = { grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '' }
+const t = { grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
 const rnd = () => Math.random().toString(36).slice(2, 8).toUpperCase()
 const ver = async (table: string, id: number) => Number((await testDb()(table).where({ id }).first('version')).version)
 const gradeBody = () => ({ name: `Guard grade ${rnd()}`, bagKg: 25, grade: (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous')) })
@@ -59,6 +59,7 @@ const ROUTES: RouteRow[] = [
   { method: 'PATCH', path: '/api/jobs/[id]/items/[itemId]', roles: ['lead'], body: async () => ({ kind: 'pieces', profile: 'Guard', description: 'Guard item', quantity: 3, version: await ver('job_items', t.item) }), target: async () => `/api/jobs/${t.job}/items/${t.item}` },
   { method: 'DELETE', path: '/api/jobs/[id]/items/[itemId]', roles: ['lead'], target: async () => `/api/jobs/${t.job}/items/${t.delItem}` },
   { method: 'POST', path: '/api/jobs/[id]/members', roles: ['lead'], body: () => ({ email: t.memberEmail }), target: async () => `/api/jobs/${t.job}/members` },
+  { method: 'DELETE', path: '/api/jobs/[id]/members/[userId]', roles: ['lead'], target: async () => `/api/jobs/${t.job}/members/${t.memberId}` },
   { method: 'POST', path: '/api/jobs/[id]/sample', roles: ['lead'], body: async () => ({ state: 'awaiting_approval', version: await ver('jobs', t.sampleJob) }), target: async () => `/api/jobs/${t.sampleJob}/sample` },
   { method: 'POST', path: '/api/jobs/[id]/sample-decision', roles: ['client'], body: () => ({ decision: 'approved' }), target: async () => `/api/jobs/${t.decisionJob}/sample-decision` },
   { method: 'GET', path: '/api/jobs/[id]/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/export` },
@@ -83,6 +84,8 @@ async function makeTargets() {
   await k('job_members').insert({ workshop_id: ws, job_id: t.decisionJob, user_id: client1 })
   t.clientJob = Number((await k('jobs').where({ workshop_id: ws, code: 'J-2601' }).first('id')).id)
   t.memberEmail = (await makeUser(ws, 'client', 'guard-member')).email
+  t.memberId = (await makeUser(ws, 'client', 'guard-removed')).id
+  await k('job_members').insert({ workshop_id: ws, job_id: t.job, user_id: t.memberId })
 }
 
 function routeFiles(dir: string): string[] {

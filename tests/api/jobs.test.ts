@@ -140,6 +140,18 @@ describe('clients on a job', () => {
     expect(r.data.status).toBe('added')
     expect((await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: demo.caster1.email } })).status).toBe(409)
   })
+
+  it('a lead takes a client off a job; the client then gets 404 for it', async () => {
+    const job = await newJob()
+    const member = await makeUser(await demoWorkshopId(), 'client', 'removed-client')
+    await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: member.email } })
+    const memberCookie = await signIn(member.email, DEMO_PASSWORD)
+    expect((await call(`/api/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(200)
+    expect((await call(`/api/jobs/${job.id}/members/${member.id}`, { method: 'DELETE', cookie: lead })).status).toBe(204)
+    expect((await call(`/api/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(404)
+    expect((await call(`/api/jobs/${job.id}/members/${member.id}`, { method: 'DELETE', cookie: lead })).status).toBe(404)
+    expect((await call(`/api/jobs/${job.id}/members/abc`, { method: 'DELETE', cookie: lead })).data.data.problems[0].field).toBe('params.userId')
+  })
 })
 
 describe('sample approval', () => {

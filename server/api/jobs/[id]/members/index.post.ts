@@ -1,4 +1,4 @@
-import { addClientMember } from '../../../services/jobs'
+import { addClientMember } from '../../../../services/jobs'
 // Put a client on the job by e-mail (lead): an existing client is added, a new one invited.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
