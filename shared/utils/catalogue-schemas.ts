@@ -36,7 +36,7 @@ export function numberIn(field: string, min: number, max: number, unit: string, 
   return n.max(max, { error: message })
 }
 /** A calendar day 'YYYY-MM-DD'. */
-export function isoDay(field: string) {
+export function dayField(field: string) {
   return z.string({ error: `${field} must be a date` }).regex(/^\d{4}-\d{2}-\d{2}$/, `${field} must be a date (YYYY-MM-DD)`)
     .refine(v => !Number.isNaN(Date.parse(v + 'T00:00:00Z')), `${field} must be a real date`)
 }
@@ -61,8 +61,8 @@ export const lotFields = z.object({
   lotCode: code('lotCode'),
   bagsReceived: numberIn('bagsReceived', 1, 10000, 'bags', { int: true }),
   bagKg: numberIn('bagKg', 0, 100, 'kg', { exclusive: true }),
-  receivedOn: isoDay('receivedOn'),
-  useBy: isoDay('useBy').nullable().optional(),
+  receivedOn: dayField('receivedOn'),
+  useBy: dayField('useBy').nullable().optional(),
   notes: optionalText('notes', 2000),
 })
 const useByAfterReceived = (v: { receivedOn?: string; useBy?: string | null }) => !v.useBy || !v.receivedOn || v.useBy >= v.receivedOn

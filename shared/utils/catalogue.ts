@@ -20,8 +20,8 @@ export const MOULD_LIFE_WARN_SHARE = 0.9
 /** Bowl and strike-off waste added to each batch of a job's plaster estimate, % (common practice; the demo seed uses the same). */
 export const ITEM_WASTE_PCT = 5
 
-export const POUR_STATES = ['planned', 'mixing', 'setting', 'demoulded', 'void'] as const
-export type CataloguePourState = (typeof POUR_STATES)[number]
+export const CATALOGUE_POUR_STATES = ['planned', 'mixing', 'setting', 'demoulded', 'void'] as const
+export type CataloguePourState = (typeof CATALOGUE_POUR_STATES)[number]
 
 /** Pours of one lot summed per state: actualKg over pours with a recorded weight, plannedKg over the rest. */
 export interface LotPourSums {

@@ -1,7 +1,7 @@
 // Shared zod schemas for jobs, job items, client members and the sample decision.
 import { z } from 'zod'
 import { PLASTER_LIMITS } from './plaster-core'
-import { isoDay, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
+import { dayField, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
 
 export const JOB_STATES = ['open', 'on_hold', 'done', 'cancelled'] as const
 export const SAMPLE_STATES = ['not_required', 'awaiting_cast', 'awaiting_approval', 'approved', 'changes_requested'] as const
@@ -21,7 +21,7 @@ export const jobFields = z.object({
   code: requiredText('code', 40).regex(/^[\w.\-/ ]+$/, 'code may use letters, digits, spaces and . - / _'),
   title: requiredText('title', 160),
   site: optionalText('site', 300),
-  dueOn: isoDay('dueOn').nullable().optional(),
+  dueOn: dayField('dueOn').nullable().optional(),
   notes: optionalText('notes', 4000),
   state: z.enum(JOB_STATES, { error: 'state must be open, on_hold, done or cancelled' }).optional(),
   sampleRequired: z.boolean({ error: 'sampleRequired must be true or false' }).optional(),
