@@ -7,6 +7,11 @@ const NAV: Record<Role, NavItem[]> = {
   lead: [
     { to: '/lead', label: 'Today', icon: 'sun' },
     { to: '/lead/board', label: 'Pour board', icon: 'board' },
+    { to: '/lead/jobs', label: 'Jobs', icon: 'clipboard' },
+    { to: '/lead/moulds', label: 'Moulds', icon: 'shapes' },
+    { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
+    { to: '/lead/lots', label: 'Lots', icon: 'package' },
+    { to: '/lead/benches', label: 'Benches', icon: 'bench' },
     { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/lead/people', label: 'People', icon: 'users' },
     { to: '/lead/settings', label: 'Settings', icon: 'settings' },

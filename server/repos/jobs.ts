@@ -1,5 +1,26 @@
-// Every knex call for jobs (more verbs arrive with the catalogue issue).
+// Every knex call for jobs and job_members.
 import type { Knex } from 'knex'
+import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { JobRow } from '#shared/types/catalogue'
+
+export type { JobRow }
+
+export const JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'notes', 'state', 'sample_required', 'sample_state',
+  'sample_comment', 'sample_decided_by', 'sample_decided_at', 'version', 'created_at'] as const
+
+/** What a client may see of a job: never notes or other internal fields. */
+export const CLIENT_JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'state', 'sample_required', 'sample_state',
+  'sample_comment', 'sample_decided_at'] as const
+
+export interface JobInput { code?: string; title?: string; site?: string | null; dueOn?: string | null; notes?: string | null; state?: string; sampleRequired?: boolean }
+
+function toColumns(i: JobInput) {
+  const map: [keyof JobInput, string][] = [['code', 'code'], ['title', 'title'], ['site', 'site'], ['dueOn', 'due_on'],
+    ['notes', 'notes'], ['state', 'state'], ['sampleRequired', 'sample_required']]
+  return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
+}
+
+const itemCount = 'SELECT count(*)::int FROM job_items i WHERE i.job_id = j.id AND i.workshop_id = j.workshop_id'
 
 export const jobsRepo = {
   /** Jobs a client user is a member of, in their workshop only. */
@@ -10,7 +31,57 @@ export const jobsRepo = {
       })
       .where({ 'j.workshop_id': workshopId, 'm.user_id': userId })
       .select('j.id', 'j.code', 'j.title', 'j.site', 'j.due_on', 'j.state', 'j.sample_state')
-      .select(db.raw('(SELECT count(*)::int FROM job_items i WHERE i.job_id = j.id AND i.workshop_id = j.workshop_id) AS item_count'))
+      .select(db.raw(`(${itemCount}) AS item_count`))
       .orderByRaw('j.due_on NULLS LAST')
+  },
+  list(db: Knex, workshopId: number) {
+    return db('jobs as j').where('j.workshop_id', workshopId)
+      .select(JOB_COLUMNS.map(c => `j.${c}`))
+      .select(db.raw(`(${itemCount}) AS item_count`))
+      .select(db.raw('(SELECT count(*)::int FROM job_members m WHERE m.job_id = j.id AND m.workshop_id = j.workshop_id) AS member_count'))
+      .orderByRaw('j.due_on NULLS LAST, j.code')
+  },
+  byId(db: Knex, workshopId: number, id: number): Promise<JobRow | undefined> {
+    return db('jobs').first(JOB_COLUMNS).where({ workshop_id: workshopId, id })
+  },
+  async isMember(db: Knex, workshopId: number, jobId: number, userId: number) {
+    return !!(await db('job_members').first('job_id').where({ workshop_id: workshopId, job_id: jobId, user_id: userId }))
+  },
+  members(db: Knex, workshopId: number, jobId: number) {
+    return db('job_members as m').join('users as u', function () {
+      this.on('u.id', 'm.user_id').andOn('u.workshop_id', 'm.workshop_id')
+    }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId })
+      .select('u.id', 'u.name', 'u.email').orderBy('u.name')
+  },
+  addMember(db: Knex, workshopId: number, jobId: number, userId: number) {
+    return db('job_members').insert({ workshop_id: workshopId, job_id: jobId, user_id: userId }).onConflict(['job_id', 'user_id']).ignore()
+  },
+  removeMember(db: Knex, workshopId: number, jobId: number, userId: number) {
+    return db('job_members').where({ workshop_id: workshopId, job_id: jobId, user_id: userId }).del()
+  },
+  async insert(db: Knex, workshopId: number, input: JobInput): Promise<JobRow> {
+    try {
+      const [row] = await db('jobs').insert({
+        workshop_id: workshopId, ...toColumns(input),
+        sample_state: input.sampleRequired ? 'awaiting_cast' : 'not_required',
+      }).returning(JOB_COLUMNS)
+      return row
+    }
+    catch (err) {
+      rethrowDbError(err, UNIQUE_LABELS)
+    }
+  },
+  update(db: Knex, workshopId: number, id: number, version: number, input: JobInput & { sampleState?: string }) {
+    const cols: Record<string, unknown> = toColumns(input)
+    if (input.sampleState) cols.sample_state = input.sampleState
+    return updateVersioned<JobRow>(db, 'jobs', { workshopId, id, version }, cols, JOB_COLUMNS, 'Job')
+  },
+  /** The client's decision, only while the sample awaits approval; 0 rows when it no longer does. */
+  decideSample(db: Knex, workshopId: number, id: number, d: { decision: string; comment: string | null; userId: number }): Promise<JobRow[]> {
+    return db('jobs').where({ workshop_id: workshopId, id, sample_state: 'awaiting_approval' })
+      .update({
+        sample_state: d.decision, sample_comment: d.comment, sample_decided_by: d.userId, sample_decided_at: db.fn.now(),
+        version: db.raw('version + 1'), updated_at: db.fn.now(),
+      }).returning(JOB_COLUMNS)
   },
 }

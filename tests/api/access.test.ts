@@ -4,8 +4,8 @@ import { readdirSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
-import { GRADE_PRESETS } from '../../shared/utils/plaster'
-import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser } from '../setup/fixtures'
+import { GRADE_PRESETS, plasterGradeFromPreset } from '../../shared/utils/plaster'
+import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 
 const GRADE_PRESET_MIX = { grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60, consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
@@ -23,6 +23,14 @@ async function freshPour() {
   const r = await call('/api/pours', { method: 'POST', cookie: cookies.lead, body: { mouldId: await freshMould(), slotStart: '2027-09-01T09:00:00Z' } })
   return r.data.id as number
 }
+const STAFF: Role[] = ['lead', 'caster', 'finisher']
+/** Rows the catalogue and job routes act on, made in beforeAll. */
+const t = { grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
+const rnd = () => Math.random().toString(36).slice(2, 8).toUpperCase()
+const ver = async (table: string, id: number) => Number((await testDb()(table).where({ id }).first('version')).version)
+const gradeBody = () => ({ name: `Guard grade ${rnd()}`, bagKg: 25, grade: (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous')) })
+const mouldBody = () => ({ code: `G-${rnd()}`, casts: 'Guard', material: 'silicone', cavityLitres: 1, prepMinutes: 5, cleanMinutes: 5, maxDwellMinutes: 60, pulls: 0 })
+
 const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/health', roles: 'public' },
   { method: 'POST', path: '/api/auth/login', roles: 'public' },
@@ -53,7 +61,58 @@ const ROUTES: RouteRow[] = [
   { method: 'POST', path: '/api/planner/accept', roles: ['lead'], body: async () => ({ from: '2027-09-01', to: '2027-09-01', pours: [{ jobItemId: await (await board()).item(await (await board()).job(), null), mouldId: await freshMould(), slotStart: '2027-09-01T13:00:00Z' }] }) },
   { method: 'GET', path: '/api/day-sheet', roles: ['lead', 'caster'], target: async () => '/api/day-sheet?day=2027-09-01' },
   { method: 'GET', path: '/api/day-sheet/export', roles: ['lead', 'caster'], target: async () => '/api/day-sheet/export?day=2027-09-01' },
+  { method: 'GET', path: '/api/grades', roles: STAFF },
+  { method: 'POST', path: '/api/grades', roles: ['lead'], body: gradeBody },
+  { method: 'PATCH', path: '/api/grades/[id]', roles: ['lead'], body: async () => ({ notes: 'guard', version: await ver('plaster_grades', t.grade) }), target: async () => `/api/grades/${t.grade}` },
+  { method: 'GET', path: '/api/lots', roles: STAFF },
+  { method: 'POST', path: '/api/lots', roles: ['lead'], body: () => ({ gradeId: t.grade, lotCode: `G-${rnd()}`, bagsReceived: 2, bagKg: 25, receivedOn: '2026-12-01' }) },
+  { method: 'PATCH', path: '/api/lots/[id]', roles: ['lead'], body: async () => ({ notes: 'guard', version: await ver('plaster_lots', t.lot) }), target: async () => `/api/lots/${t.lot}` },
+  { method: 'GET', path: '/api/lots/export', roles: ['lead'] },
+  { method: 'GET', path: '/api/benches', roles: STAFF },
+  { method: 'POST', path: '/api/benches', roles: ['lead'], body: () => ({ name: `Guard ${rnd()}`, kind: 'casting', sortOrder: 5 }) },
+  { method: 'PATCH', path: '/api/benches/[id]', roles: ['lead'], body: async () => ({ kind: 'flat casting', version: await ver('benches', t.bench) }), target: async () => `/api/benches/${t.bench}` },
+  { method: 'GET', path: '/api/moulds', roles: STAFF },
+  { method: 'POST', path: '/api/moulds', roles: ['lead'], body: mouldBody },
+  { method: 'GET', path: '/api/moulds/[id]', roles: STAFF, target: async () => `/api/moulds/${t.mould}` },
+  { method: 'PATCH', path: '/api/moulds/[id]', roles: ['lead'], body: async () => ({ casts: 'Guard edit', version: await ver('moulds', t.mould) }), target: async () => `/api/moulds/${t.mould}` },
+  { method: 'POST', path: '/api/moulds/[id]/state', roles: ['lead'], body: async () => ({ state: 'cleaning', version: await ver('moulds', t.mould) }), target: async () => `/api/moulds/${t.mould}/state` },
+  { method: 'GET', path: '/api/moulds/export', roles: ['lead'] },
+  { method: 'GET', path: '/api/jobs', roles: STAFF },
+  { method: 'POST', path: '/api/jobs', roles: ['lead'], body: () => ({ code: `G-${rnd()}`, title: 'Guard job' }) },
+  { method: 'GET', path: '/api/jobs/[id]', roles: ['lead', 'caster', 'finisher', 'client'], target: async () => `/api/jobs/${t.clientJob}` },
+  { method: 'PATCH', path: '/api/jobs/[id]', roles: ['lead'], body: async () => ({ site: 'Guard site', version: await ver('jobs', t.job) }), target: async () => `/api/jobs/${t.job}` },
+  { method: 'POST', path: '/api/jobs/[id]/items', roles: ['lead'], body: () => ({ kind: 'pieces', profile: 'Guard', description: 'Guard item', quantity: 2 }), target: async () => `/api/jobs/${t.job}/items` },
+  { method: 'PATCH', path: '/api/jobs/[id]/items/[itemId]', roles: ['lead'], body: async () => ({ kind: 'pieces', profile: 'Guard', description: 'Guard item', quantity: 3, version: await ver('job_items', t.item) }), target: async () => `/api/jobs/${t.job}/items/${t.item}` },
+  { method: 'DELETE', path: '/api/jobs/[id]/items/[itemId]', roles: ['lead'], target: async () => `/api/jobs/${t.job}/items/${t.delItem}` },
+  { method: 'POST', path: '/api/jobs/[id]/members', roles: ['lead'], body: () => ({ email: t.memberEmail }), target: async () => `/api/jobs/${t.job}/members` },
+  { method: 'DELETE', path: '/api/jobs/[id]/members/[userId]', roles: ['lead'], target: async () => `/api/jobs/${t.job}/members/${t.memberId}` },
+  { method: 'POST', path: '/api/jobs/[id]/sample', roles: ['lead'], body: async () => ({ state: 'awaiting_approval', version: await ver('jobs', t.sampleJob) }), target: async () => `/api/jobs/${t.sampleJob}/sample` },
+  { method: 'POST', path: '/api/jobs/[id]/sample-decision', roles: ['client'], body: () => ({ decision: 'approved' }), target: async () => `/api/jobs/${t.decisionJob}/sample-decision` },
+  { method: 'GET', path: '/api/jobs/[id]/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/export` },
 ]
+
+/** The rows the guarded routes act on, in the demo workshop. */
+async function makeTargets() {
+  const k = testDb()
+  const ws = await demoWorkshopId()
+  const id = async (table: string, row: Record<string, unknown>) => Number((await k(table).insert({ workshop_id: ws, ...row }).returning('id'))[0].id)
+  const g = gradeBody().grade
+  t.grade = await id('plaster_grades', { name: `Guard ${rnd()}`, form: g.form, powder_density: g.powderDensity, consistency_min: 60, consistency_max: 80, consistency_default: 70, demould_minutes_ref: 40, set_time_water_exponent: 1.2, temperature_factors: JSON.stringify(g.temperatureFactors), hydration_heat: g.hydrationHeat, set_expansion_pct: 0.2, purity: 1 })
+  t.lot = await id('plaster_lots', { grade_id: t.grade, lot_code: `G-${rnd()}`, bags_received: 3, bag_kg: 25, received_on: '2026-12-01' })
+  t.bench = await id('benches', { name: `Guard ${rnd()}` })
+  t.mould = await id('moulds', { code: `G-${rnd()}`, casts: 'Guard', material: 'silicone', cavity_litres: 1 })
+  t.job = await id('jobs', { code: `G-${rnd()}`, title: 'Guard job' })
+  t.item = await id('job_items', { job_id: t.job, description: 'Guard', profile: 'Guard', quantity: 1, pieces_needed: 1 })
+  t.delItem = await id('job_items', { job_id: t.job, description: 'Guard', profile: 'Guard', quantity: 1, pieces_needed: 1 })
+  t.sampleJob = await id('jobs', { code: `G-${rnd()}`, title: 'Guard sample', sample_required: true, sample_state: 'awaiting_cast' })
+  t.decisionJob = await id('jobs', { code: `G-${rnd()}`, title: 'Guard decision', sample_required: true, sample_state: 'awaiting_approval' })
+  const client1 = Number((await k('users').where({ email: demo.client1.email }).first('id')).id)
+  await k('job_members').insert({ workshop_id: ws, job_id: t.decisionJob, user_id: client1 })
+  t.clientJob = Number((await k('jobs').where({ workshop_id: ws, code: 'J-2601' }).first('id')).id)
+  t.memberEmail = (await makeUser(ws, 'client', 'guard-member')).email
+  t.memberId = (await makeUser(ws, 'client', 'guard-removed')).id
+  await k('job_members').insert({ workshop_id: ws, job_id: t.job, user_id: t.memberId })
+}
 
 function routeFiles(dir: string): string[] {
   return readdirSync(dir).flatMap((f) => {
@@ -78,6 +137,7 @@ beforeAll(async () => {
   cookies.finisher = await signIn(demo.finisher.email, DEMO_PASSWORD)
   cookies.client = await signIn(demo.client1.email, DEMO_PASSWORD)
   patchTarget = (await makeUser(await demoWorkshopId(), 'caster', 'patch-target')).id
+  await makeTargets()
 })
 afterAll(closeTestDb)
 
@@ -91,6 +151,10 @@ describe('route table', () => {
 })
 
 describe('role guard', () => {
+  // the decision target put client1 on an extra job; the tenancy checks below expect the demo's own
+  afterAll(async () => {
+    await testDb()('job_members').where({ job_id: t.decisionJob }).del()
+  })
   for (const route of ROUTES.filter(r => r.roles !== 'public')) {
     it(`${route.method} ${route.path}: 401 signed out, 403 for other roles, allowed for ${(route.roles as Role[]).join(', ')}`, async () => {
       const path = route.target ? await route.target() : route.path

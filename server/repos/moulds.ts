@@ -1,0 +1,104 @@
+// Every knex call for moulds, their pour history and their state-change events.
+import type { Knex } from 'knex'
+import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { MouldRow } from '#shared/types/catalogue'
+
+export type { MouldRow }
+
+export const MOULD_COLUMNS = ['id', 'bench_id', 'code', 'casts', 'material', 'cavity_litres', 'cast_length_m', 'prep_minutes',
+  'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'state', 'state_changed_by', 'state_changed_at',
+  'state_reason', 'version'] as const
+
+export interface MouldInput {
+  code?: string
+  casts?: string
+  material?: string
+  benchId?: number | null
+  cavityLitres?: number
+  castLengthM?: number | null
+  prepMinutes?: number
+  cleanMinutes?: number
+  maxDwellMinutes?: number
+  pulls?: number
+  expectedPulls?: number | null
+}
+
+function toColumns(i: MouldInput) {
+  const map: [keyof MouldInput, string][] = [['code', 'code'], ['casts', 'casts'], ['material', 'material'], ['benchId', 'bench_id'],
+    ['cavityLitres', 'cavity_litres'], ['castLengthM', 'cast_length_m'], ['prepMinutes', 'prep_minutes'], ['cleanMinutes', 'clean_minutes'],
+    ['maxDwellMinutes', 'max_dwell_minutes'], ['pulls', 'pulls'], ['expectedPulls', 'expected_pulls']]
+  return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
+}
+
+function listQuery(db: Knex, workshopId: number) {
+  return db('moulds as m')
+    .leftJoin('benches as b', function () {
+      this.on('b.id', 'm.bench_id').andOn('b.workshop_id', 'm.workshop_id')
+    })
+    .leftJoin('users as u', function () {
+      this.on('u.id', 'm.state_changed_by').andOn('u.workshop_id', 'm.workshop_id')
+    })
+    .where('m.workshop_id', workshopId)
+    .select(MOULD_COLUMNS.map(c => `m.${c}`)).select('b.name as bench_name', 'u.name as state_changed_by_name')
+}
+
+export const mouldsRepo = {
+  list(db: Knex, workshopId: number): Promise<MouldRow[]> {
+    return listQuery(db, workshopId).orderBy('m.code')
+  },
+  byId(db: Knex, workshopId: number, id: number): Promise<MouldRow | undefined> {
+    return listQuery(db, workshopId).where('m.id', id).first()
+  },
+  async insert(db: Knex, workshopId: number, actorId: number, input: MouldInput) {
+    try {
+      const [row] = await db('moulds').insert({ workshop_id: workshopId, ...toColumns(input), state_changed_by: actorId, state_changed_at: db.fn.now() })
+        .returning(MOULD_COLUMNS)
+      return row as MouldRow
+    }
+    catch (err) {
+      rethrowDbError(err, UNIQUE_LABELS)
+    }
+  },
+  update(db: Knex, workshopId: number, id: number, version: number, input: MouldInput) {
+    return updateVersioned<MouldRow>(db, 'moulds', { workshopId, id, version }, toColumns(input), MOULD_COLUMNS, 'Mould')
+  },
+  setState(db: Knex, workshopId: number, id: number, version: number, s: { state: string; reason: string | null; actorId: number }) {
+    return updateVersioned<MouldRow>(db, 'moulds', { workshopId, id, version },
+      { state: s.state, state_reason: s.reason, state_changed_by: s.actorId, state_changed_at: db.fn.now() }, MOULD_COLUMNS, 'Mould')
+  },
+  /** The mould's pours, newest first: job, item, caster, lot, result. */
+  pours(db: Knex, workshopId: number, mouldId: number, limit = 100) {
+    return db('pours as p')
+      .leftJoin('job_items as i', function () {
+        this.on('i.id', 'p.job_item_id').andOn('i.workshop_id', 'p.workshop_id')
+      })
+      .leftJoin('jobs as j', function () {
+        this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'i.workshop_id')
+      })
+      .leftJoin('users as c', function () {
+        this.on('c.id', 'p.caster_id').andOn('c.workshop_id', 'p.workshop_id')
+      })
+      .leftJoin('plaster_lots as l', function () {
+        this.on('l.id', 'p.lot_id').andOn('l.workshop_id', 'p.workshop_id')
+      })
+      .where({ 'p.workshop_id': workshopId, 'p.mould_id': mouldId })
+      .select('p.id', 'p.state', 'p.mix_at', 'p.demoulded_at', 'p.result', 'p.defect', 'p.is_sample', 'p.consistency',
+        'j.code as job_code', 'i.description as item', 'c.name as caster', 'l.lot_code')
+      .orderBy('p.mix_at', 'desc').limit(limit)
+  },
+  /** State changes and other register entries about the mould, newest first. */
+  events(db: Knex, workshopId: number, mouldId: number) {
+    return db('events as e').leftJoin('users as u', 'u.id', 'e.actor_id')
+      .where({ 'e.workshop_id': workshopId, 'e.entity': 'mould', 'e.entity_id': String(mouldId) })
+      .select('e.id', 'e.type', 'e.at', 'e.data', 'u.name as actor').orderBy('e.at', 'desc').limit(100)
+  },
+  /** Moulds for the CSV export, by code. */
+  exportQuery(db: Knex, workshopId: number) {
+    return db('moulds as m').leftJoin('benches as b', function () {
+      this.on('b.id', 'm.bench_id').andOn('b.workshop_id', 'm.workshop_id')
+    }).where('m.workshop_id', workshopId)
+      .select('m.code', 'm.casts', 'm.material', 'b.name as bench', 'm.cavity_litres', 'm.cast_length_m', 'm.prep_minutes',
+        'm.clean_minutes', 'm.max_dwell_minutes', 'm.pulls', 'm.expected_pulls', 'm.state', 'm.state_reason')
+      .orderBy('m.code')
+  },
+}

@@ -1,0 +1,57 @@
+// Every knex call for plaster_grades. A grade row holds the PlasterGrade fields plus the
+// shop's bag mass and the calibration the register fills in from recorded demoulds.
+import type { Knex } from 'knex'
+import type { PlasterGrade } from '#shared/utils/plaster-core'
+import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { GradeRow } from '#shared/types/catalogue'
+
+export type { GradeRow }
+
+export const GRADE_COLUMNS = ['id', 'name', 'preset_key', 'form', 'powder_density', 'consistency_min', 'consistency_max',
+  'consistency_default', 'demould_minutes_ref', 'set_time_water_exponent', 'temperature_factors', 'hydration_heat',
+  'set_expansion_pct', 'purity', 'bag_kg', 'calibration_factor', 'calibration_count', 'calibration_applied', 'notes',
+  'archived_at', 'version', 'updated_at'] as const
+
+function gradeColumns(g: PlasterGrade) {
+  return {
+    form: g.form, powder_density: g.powderDensity, consistency_min: g.consistency.min, consistency_max: g.consistency.max,
+    consistency_default: g.consistency.default, demould_minutes_ref: g.demouldMinutesRef,
+    set_time_water_exponent: g.setTimeWaterExponent, temperature_factors: JSON.stringify(g.temperatureFactors),
+    hydration_heat: g.hydrationHeat, set_expansion_pct: g.setExpansionPct, purity: g.purity,
+  }
+}
+
+export interface GradeInput { name?: string; presetKey?: string | null; bagKg?: number; notes?: string | null; grade?: PlasterGrade; archived?: boolean }
+
+function toColumns(input: GradeInput, db: Knex) {
+  return {
+    ...(input.name !== undefined && { name: input.name }),
+    ...(input.presetKey !== undefined && { preset_key: input.presetKey }),
+    ...(input.bagKg !== undefined && { bag_kg: input.bagKg }),
+    ...(input.notes !== undefined && { notes: input.notes }),
+    ...(input.grade && gradeColumns(input.grade)),
+    ...(input.archived !== undefined && { archived_at: input.archived ? db.fn.now() : null }),
+  }
+}
+
+export const gradesRepo = {
+  list(db: Knex, workshopId: number): Promise<GradeRow[]> {
+    return db('plaster_grades').select(GRADE_COLUMNS).where({ workshop_id: workshopId })
+      .orderByRaw('archived_at IS NOT NULL, name')
+  },
+  byId(db: Knex, workshopId: number, id: number): Promise<GradeRow | undefined> {
+    return db('plaster_grades').first(GRADE_COLUMNS).where({ workshop_id: workshopId, id })
+  },
+  async insert(db: Knex, workshopId: number, input: GradeInput): Promise<GradeRow> {
+    try {
+      const [row] = await db('plaster_grades').insert({ workshop_id: workshopId, ...toColumns(input, db) }).returning(GRADE_COLUMNS)
+      return row
+    }
+    catch (err) {
+      rethrowDbError(err, UNIQUE_LABELS)
+    }
+  },
+  update(db: Knex, workshopId: number, id: number, version: number, input: GradeInput): Promise<GradeRow> {
+    return updateVersioned<GradeRow>(db, 'plaster_grades', { workshopId, id, version }, toColumns(input, db), GRADE_COLUMNS, 'Plaster grade')
+  },
+}

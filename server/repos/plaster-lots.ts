@@ -1,0 +1,77 @@
+// Every knex call for plaster_lots, and the per-lot pour sums that stock on hand is computed from.
+import type { Knex } from 'knex'
+import type { LotPourSums } from '#shared/utils/catalogue'
+import { UNIQUE_LABELS, updateVersioned } from './versioned'
+import type { LotRow } from '#shared/types/catalogue'
+
+export const LOT_COLUMNS = ['id', 'grade_id', 'lot_code', 'bags_received', 'bag_kg', 'received_on', 'use_by', 'notes', 'archived_at', 'version'] as const
+
+export interface LotInput { gradeId?: number; lotCode?: string; bagsReceived?: number; bagKg?: number; receivedOn?: string; useBy?: string | null; notes?: string | null; archived?: boolean }
+
+function toColumns(input: LotInput, db: Knex) {
+  return {
+    ...(input.gradeId !== undefined && { grade_id: input.gradeId }),
+    ...(input.lotCode !== undefined && { lot_code: input.lotCode }),
+    ...(input.bagsReceived !== undefined && { bags_received: input.bagsReceived }),
+    ...(input.bagKg !== undefined && { bag_kg: input.bagKg }),
+    ...(input.receivedOn !== undefined && { received_on: input.receivedOn }),
+    ...(input.useBy !== undefined && { use_by: input.useBy }),
+    ...(input.notes !== undefined && { notes: input.notes }),
+    ...(input.archived !== undefined && { archived_at: input.archived ? db.fn.now() : null }),
+  }
+}
+
+export const lotsRepo = {
+  list(db: Knex, workshopId: number): Promise<LotRow[]> {
+    return db('plaster_lots as l').join('plaster_grades as g', function () {
+      this.on('g.id', 'l.grade_id').andOn('g.workshop_id', 'l.workshop_id')
+    }).where('l.workshop_id', workshopId)
+      .select(LOT_COLUMNS.map(c => `l.${c}`)).select('g.name as grade_name')
+      .orderByRaw('l.archived_at IS NOT NULL, l.received_on DESC, l.lot_code')
+  },
+  byId(db: Knex, workshopId: number, id: number) {
+    return db('plaster_lots').first(LOT_COLUMNS).where({ workshop_id: workshopId, id })
+  },
+  /** Plaster per lot and pour state: recorded actual kg, and planned kg of pours without an actual. */
+  async pourSums(db: Knex, workshopId: number): Promise<Map<number, LotPourSums[]>> {
+    const rows: { lot_id: number; state: LotPourSums['state']; actual_kg: number; planned_kg: number }[] = await db('pours')
+      .where({ workshop_id: workshopId }).whereNotNull('lot_id').groupBy('lot_id', 'state')
+      .select('lot_id', 'state')
+      .select(db.raw('coalesce(sum(plaster_kg_actual), 0)::float8 AS actual_kg'))
+      .select(db.raw('coalesce(sum(plaster_kg_planned) FILTER (WHERE plaster_kg_actual IS NULL), 0)::float8 AS planned_kg'))
+    const byLot = new Map<number, LotPourSums[]>()
+    for (const r of rows) {
+      const list = byLot.get(r.lot_id) ?? []
+      list.push({ state: r.state, actualKg: r.actual_kg, plannedWithoutActualKg: r.planned_kg })
+      byLot.set(r.lot_id, list)
+    }
+    return byLot
+  },
+  async insert(db: Knex, workshopId: number, input: LotInput) {
+    try {
+      const [row] = await db('plaster_lots').insert({ workshop_id: workshopId, ...toColumns(input, db) }).returning(LOT_COLUMNS)
+      return row
+    }
+    catch (err) {
+      rethrowDbError(err, UNIQUE_LABELS)
+    }
+  },
+  update(db: Knex, workshopId: number, id: number, version: number, input: LotInput) {
+    return updateVersioned(db, 'plaster_lots', { workshopId, id, version }, toColumns(input, db), LOT_COLUMNS, 'Lot')
+  },
+  /** Lots for the CSV export, newest delivery first. */
+  exportQuery(db: Knex, workshopId: number) {
+    return db('plaster_lots as l').join('plaster_grades as g', function () {
+      this.on('g.id', 'l.grade_id').andOn('g.workshop_id', 'l.workshop_id')
+    }).where('l.workshop_id', workshopId)
+      .select('l.lot_code', 'g.name as grade', 'l.bags_received', 'l.bag_kg', 'l.received_on', 'l.use_by', 'l.notes')
+      .select(db.raw('l.archived_at IS NOT NULL AS archived')).orderBy('l.received_on', 'desc')
+  },
+}
+
+/** Today as a calendar day in the workshop's own zone (use-by dates are calendar days there). */
+export async function workshopToday(db: Knex, workshopId: number): Promise<string> {
+  const r = await db('workshops').where({ id: workshopId })
+    .first(db.raw('to_char((now() AT TIME ZONE timezone)::date, \'YYYY-MM-DD\') AS today'))
+  return r.today
+}

@@ -1,0 +1,113 @@
+// Shared zod schemas for the catalogue (plaster grades, lots, benches, moulds): the forms and
+// the routes validate with the same objects, so a field's message is the same on both sides.
+import { z } from 'zod'
+import { plasterGradeSchema } from './plaster-schema'
+
+export const MOULD_MATERIALS = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine'] as const
+export const MOULD_STATES = ['ready', 'in_use', 'cleaning', 'repair', 'retired'] as const
+export const GRADE_PRESET_KEYS = ['beta-casting', 'beta-fibrous', 'alpha-casting'] as const
+
+export const MOULD_MATERIAL_LABELS: Record<(typeof MOULD_MATERIALS)[number], string> = {
+  silicone: 'Silicone rubber',
+  polyurethane: 'Polyurethane rubber',
+  grp_case: 'Rigid glass-fibre case',
+  plaster_piece: 'Plaster piece mould',
+  gelatine: 'Gelatine',
+}
+export const MOULD_STATE_LABELS: Record<(typeof MOULD_STATES)[number], string> = {
+  ready: 'Ready', in_use: 'In use', cleaning: 'Cleaning', repair: 'Repair', retired: 'Retired',
+}
+
+/** A required trimmed text of at most `max` characters, with the field name in each message. */
+export function requiredText(field: string, max: number) {
+  return z.string({ error: `${field} is required` }).trim().min(1, `${field} is required`).max(max, `${field} must be at most ${max} characters`)
+}
+/** Optional text: empty becomes null. */
+export function optionalText(field: string, max: number) {
+  return z.string({ error: `${field} must be text` }).trim().max(max, `${field} must be at most ${max} characters`)
+    .transform(v => (v === '' ? null : v)).nullable().optional()
+}
+/** A number in [min, max] (or (min, max] when exclusive), with its unit in the message. */
+export function numberIn(field: string, min: number, max: number, unit: string, opts: { int?: boolean; exclusive?: boolean } = {}) {
+  const message = `${field} must be ${opts.exclusive ? `greater than ${min} and at most` : `between ${min} and`} ${max} ${unit}`.trim()
+  let n = z.number({ error: message })
+  if (opts.int) n = n.int({ error: `${field} must be a whole number` })
+  n = opts.exclusive ? n.gt(min, { error: message }) : n.gte(min, { error: message })
+  return n.max(max, { error: message })
+}
+/** A calendar day 'YYYY-MM-DD'. */
+export function dayField(field: string) {
+  return z.string({ error: `${field} must be a date` }).regex(/^\d{4}-\d{2}-\d{2}$/, `${field} must be a date (YYYY-MM-DD)`)
+    .refine(v => !Number.isNaN(Date.parse(v + 'T00:00:00Z')), `${field} must be a real date`)
+}
+export const versionField = z.number({ error: 'version is required (the version you saw)' }).int('version must be a whole number').positive('version must be positive')
+const code = (field: string) => requiredText(field, 40).regex(/^[\w.\-/ ]+$/, `${field} may use letters, digits, spaces and . - / _`)
+
+export const gradeFields = z.object({
+  name: requiredText('name', 80),
+  presetKey: z.enum(GRADE_PRESET_KEYS, { error: 'presetKey must be one of the presets' }).nullable().optional(),
+  bagKg: numberIn('bagKg', 0, 100, 'kg', { exclusive: true }),
+  notes: optionalText('notes', 2000),
+  grade: plasterGradeSchema,
+})
+export const gradeCreateSchema = gradeFields
+export const gradePatchSchema = gradeFields.partial().extend({
+  archived: z.boolean({ error: 'archived must be true or false' }).optional(),
+  version: versionField,
+})
+
+export const lotFields = z.object({
+  gradeId: z.number({ error: 'gradeId is required' }).int().positive('gradeId is required'),
+  lotCode: code('lotCode'),
+  bagsReceived: numberIn('bagsReceived', 1, 10000, 'bags', { int: true }),
+  bagKg: numberIn('bagKg', 0, 100, 'kg', { exclusive: true }),
+  receivedOn: dayField('receivedOn'),
+  useBy: dayField('useBy').nullable().optional(),
+  notes: optionalText('notes', 2000),
+})
+const useByAfterReceived = (v: { receivedOn?: string; useBy?: string | null }) => !v.useBy || !v.receivedOn || v.useBy >= v.receivedOn
+export const lotCreateSchema = lotFields.refine(useByAfterReceived, { message: 'useBy must not be before receivedOn', path: ['useBy'] })
+export const lotPatchSchema = lotFields.partial().extend({
+  archived: z.boolean({ error: 'archived must be true or false' }).optional(),
+  version: versionField,
+}).refine(useByAfterReceived, { message: 'useBy must not be before receivedOn', path: ['useBy'] })
+
+export const benchFields = z.object({
+  name: requiredText('name', 60),
+  kind: requiredText('kind', 60),
+  lengthM: numberIn('lengthM', 0, 50, 'm', { exclusive: true }).nullable().optional(),
+  sortOrder: numberIn('sortOrder', 0, 1000, '', { int: true }),
+})
+export const benchCreateSchema = benchFields
+export const benchPatchSchema = benchFields.partial().extend({
+  archived: z.boolean({ error: 'archived must be true or false' }).optional(),
+  version: versionField,
+})
+
+export const mouldFields = z.object({
+  code: code('code'),
+  casts: requiredText('casts', 200),
+  material: z.enum(MOULD_MATERIALS, { error: 'material must be silicone, polyurethane, grp_case, plaster_piece or gelatine' }),
+  benchId: z.number({ error: 'benchId must be a bench' }).int().positive().nullable().optional(),
+  cavityLitres: numberIn('cavityLitres', 0, 1000, 'L', { exclusive: true }),
+  castLengthM: numberIn('castLengthM', 0, 20, 'm', { exclusive: true }).nullable().optional(),
+  prepMinutes: numberIn('prepMinutes', 0, 600, 'min', { int: true }),
+  cleanMinutes: numberIn('cleanMinutes', 0, 600, 'min', { int: true }),
+  maxDwellMinutes: numberIn('maxDwellMinutes', 0, 10080, 'min', { int: true }),
+  pulls: numberIn('pulls', 0, 100000, 'pulls', { int: true }),
+  expectedPulls: numberIn('expectedPulls', 1, 100000, 'pulls', { int: true }).nullable().optional(),
+})
+export const mouldCreateSchema = mouldFields
+export const mouldPatchSchema = mouldFields.partial().extend({ version: versionField })
+
+/** A state change needs a reason when the mould leaves service (repair, retired). */
+export const mouldStateSchema = z.object({
+  state: z.enum(MOULD_STATES, { error: 'state must be ready, in_use, cleaning, repair or retired' }),
+  reason: optionalText('reason', 500),
+  version: versionField,
+}).refine(v => !['repair', 'retired'].includes(v.state) || !!v.reason, { message: 'reason is required for repair or retirement', path: ['reason'] })
+
+export type GradeCreateInput = z.infer<typeof gradeCreateSchema>
+export type LotCreateInput = z.infer<typeof lotCreateSchema>
+export type BenchCreateInput = z.infer<typeof benchCreateSchema>
+export type MouldCreateInput = z.infer<typeof mouldCreateSchema>
