@@ -32,7 +32,7 @@ function itemPlan(item: ItemRow, grades: Map<number, GradeRow>) {
   }
   const cutList = run ? attempt(() => itemPiecesNeeded({ run }).cutList) : null
   const plaster = grade && item.cavity_litres
-    ? attempt(() => itemPlaster({ pieces: item.pieces_needed, cavityLitres: item.cavity_litres!, consistency: item.consistency ?? grade.consistency_default, grade: gradeFromRow(grade), bagKg: grade.bag_kg }))
+    ? attempt(() => itemPlaster({ pieces: item.pieces_needed, cavityLitres: item.cavity_litres!, consistency: item.consistency ?? grade.consistency_default, grade: plasterGradeFromRow(grade), bagKg: grade.bag_kg }))
     : null
   return { cutList, plaster, bagKg: grade?.bag_kg ?? null }
 }

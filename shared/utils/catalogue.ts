@@ -96,29 +96,30 @@ export function mouldLife(input: { pulls: number; expectedPulls: number | null }
 /** The columns of a plaster_grades row the model needs. */
 export interface GradeRowLike {
   form: 'beta' | 'alpha'
-  powder_density: number
-  consistency_min: number
-  consistency_max: number
-  consistency_default: number
-  demould_minutes_ref: number
-  set_time_water_exponent: number
+  powder_density: number | string
+  consistency_min: number | string
+  consistency_max: number | string
+  consistency_default: number | string
+  demould_minutes_ref: number | string
+  set_time_water_exponent: number | string
   temperature_factors: [number, number][]
-  hydration_heat: number
-  set_expansion_pct: number
-  purity: number
+  hydration_heat: number | string
+  set_expansion_pct: number | string
+  purity: number | string
 }
 
-export function gradeFromRow(r: GradeRowLike): PlasterGrade {
+/** A plaster_grades row as the plaster model's PlasterGrade (numerics coerced, whatever the driver gave). */
+export function plasterGradeFromRow(r: GradeRowLike): PlasterGrade {
   return {
     form: r.form,
-    powderDensity: r.powder_density,
-    consistency: { min: r.consistency_min, max: r.consistency_max, default: r.consistency_default },
-    demouldMinutesRef: r.demould_minutes_ref,
-    setTimeWaterExponent: r.set_time_water_exponent,
-    temperatureFactors: r.temperature_factors,
-    hydrationHeat: r.hydration_heat,
-    setExpansionPct: r.set_expansion_pct,
-    purity: r.purity,
+    powderDensity: Number(r.powder_density),
+    consistency: { min: Number(r.consistency_min), max: Number(r.consistency_max), default: Number(r.consistency_default) },
+    demouldMinutesRef: Number(r.demould_minutes_ref),
+    setTimeWaterExponent: Number(r.set_time_water_exponent),
+    temperatureFactors: r.temperature_factors.map(([t, f]) => [Number(t), Number(f)] as [number, number]),
+    hydrationHeat: Number(r.hydration_heat),
+    setExpansionPct: Number(r.set_expansion_pct),
+    purity: Number(r.purity),
   }
 }
 

@@ -20,30 +20,3 @@ export const mixRequestSchema = mixInputSchema
   })
 
 export type MixRequest = z.infer<typeof mixRequestSchema>
-
-/** The plaster_grades columns as the plaster model's PlasterGrade. */
-export function plasterGradeFromRow(row: {
-  form: 'beta' | 'alpha'
-  powder_density: number
-  consistency_min: number
-  consistency_max: number
-  consistency_default: number
-  demould_minutes_ref: number
-  set_time_water_exponent: number
-  temperature_factors: [number, number][]
-  hydration_heat: number
-  set_expansion_pct: number
-  purity: number
-}) {
-  return {
-    form: row.form,
-    powderDensity: Number(row.powder_density),
-    consistency: { min: Number(row.consistency_min), max: Number(row.consistency_max), default: Number(row.consistency_default) },
-    demouldMinutesRef: Number(row.demould_minutes_ref),
-    setTimeWaterExponent: Number(row.set_time_water_exponent),
-    temperatureFactors: row.temperature_factors.map(([t, f]) => [Number(t), Number(f)] as [number, number]),
-    hydrationHeat: Number(row.hydration_heat),
-    setExpansionPct: Number(row.set_expansion_pct),
-    purity: Number(row.purity),
-  }
-}

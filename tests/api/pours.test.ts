@@ -5,7 +5,7 @@ import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { batchForCavity } from '../../shared/utils/plaster'
-import { plasterGradeFromRow } from '../../shared/utils/mix-request'
+import { plasterGradeFromRow } from '../../shared/utils/catalogue'
 import { pourTimingFromSlotStart } from '../../shared/utils/pour-timing'
 
 // Monday 1 March 2027 (GMT, so local = UTC), far from the demo's days; shift 07:30–16:00.

@@ -2,7 +2,7 @@
 // catalogue schemas. Check values are worked by hand from the definitions in catalogue.ts.
 import { describe, expect, it } from 'vitest'
 import {
-  LOW_STOCK_BAGS, gradeFromRow, itemPiecesNeeded, itemPlaster, jobReleased, lotStock, lotUsedKg, mouldLife,
+  LOW_STOCK_BAGS, plasterGradeFromRow, itemPiecesNeeded, itemPlaster, jobReleased, lotStock, lotUsedKg, mouldLife,
 } from '../../shared/utils/catalogue'
 import { GRADE_PRESETS, batchForCavity } from '../../shared/utils/plaster'
 import { lotCreateSchema, mouldCreateSchema, mouldStateSchema } from '../../shared/utils/catalogue-schemas'
@@ -74,7 +74,7 @@ describe('items', () => {
   it('maps a grade row to the model and releases a job only without a sample or after approval', () => {
     const g = GRADE_PRESETS['alpha-casting']
     const row = { form: g.form, powder_density: g.powderDensity, consistency_min: 28, consistency_max: 40, consistency_default: 35, demould_minutes_ref: 45, set_time_water_exponent: 1.2, temperature_factors: g.temperatureFactors.map(([t, f]): [number, number] => [t, f]), hydration_heat: g.hydrationHeat, set_expansion_pct: 0.15, purity: 1 }
-    expect(gradeFromRow(row).consistency).toEqual({ min: 28, max: 40, default: 35 })
+    expect(plasterGradeFromRow(row).consistency).toEqual({ min: 28, max: 40, default: 35 })
     expect(jobReleased({ sample_required: true, sample_state: 'awaiting_approval' })).toBe(false)
     expect(jobReleased({ sample_required: true, sample_state: 'approved' })).toBe(true)
     expect(jobReleased({ sample_required: false, sample_state: 'not_required' })).toBe(true)
