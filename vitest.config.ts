@@ -1,6 +1,7 @@
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 import { fileURLToPath } from 'node:url'
+import { realpathSync } from 'node:fs'
 
 // Projects, run by tests/setup/run.ts in order: unit (pure code in shared/), component
 // (Vue components inside a Nuxt environment, tests/nuxt), api (the built server over
@@ -24,7 +25,10 @@ export default defineConfig({
           setupFiles: ['tests/setup/unit.ts'],
         },
       },
+      // A git worktree may link node_modules to another checkout; vite serves files by their
+      // real path, so allow that path (the same folder when node_modules is not a link).
       await defineVitestProject({
+        server: { fs: { allow: [realpathSync(fileURLToPath(new URL('./node_modules', import.meta.url))), fileURLToPath(new URL('./', import.meta.url))] } },
         test: {
           name: 'component',
           include: ['tests/nuxt/**/*.test.ts'],

@@ -1,7 +1,8 @@
 // Planning, moving and voiding pours: every refusal and warning rule, role, tenancy,
 // validation naming the field, and two simultaneous bookings of one mould.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { io, type Socket } from 'socket.io-client'
+import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { batchForCavity } from '../../shared/utils/plaster'
@@ -276,6 +277,32 @@ describe('concurrency', () => {
       expect(results.find(r => r.status === 409)!.data.message).toContain('This mould is already taken')
       const n = await fx.k('pours').where({ mould_id: m }).whereNot('state', 'void').count({ n: '*' }).first()
       expect(Number(n!.n)).toBe(1)
+    }
+  })
+})
+
+describe('live updates', () => {
+  it('staff hear pour.created, pour.updated and pour.voided with the PourDto', async () => {
+    const caster = await signIn(demo.caster1.email, DEMO_PASSWORD)
+    const s: Socket = io(baseUrl(), { path: '/socket.io/', transports: ['websocket'], extraHeaders: { cookie: caster }, reconnection: false, forceNew: true })
+    try {
+      await new Promise((resolve, reject) => {
+        s.once('connect', () => resolve(null))
+        s.once('connect_error', reject)
+      })
+      const seen: { type: string; id: number; version: number; row: { id: number; state: string } }[] = []
+      s.on('live', e => seen.push(e))
+      const m = await fx.mould()
+      const p = (await post({ mouldId: m, slotStart: at('09:00', '2027-03-11') })).data
+      await call(`/api/pours/${p.id}`, { method: 'PATCH', cookie: lead, body: { version: 1, slotStart: at('10:00', '2027-03-11') } })
+      await call(`/api/pours/${p.id}/void`, { method: 'POST', cookie: lead, body: { version: 2, reason: 'test' } })
+      const until = Date.now() + 5000
+      while (seen.filter(e => e.id === p.id).length < 3 && Date.now() < until) await new Promise(r => setTimeout(r, 50))
+      const mine = seen.filter(e => e.id === p.id)
+      expect(mine.map(e => [e.type, e.version, e.row.state])).toEqual([['pour.created', 1, 'planned'], ['pour.updated', 2, 'planned'], ['pour.voided', 3, 'void']])
+    }
+    finally {
+      s.close()
     }
   })
 })
