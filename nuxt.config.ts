@@ -16,6 +16,7 @@ export default defineNuxtConfig({
     '@fontsource/atkinson-hyperlegible-next/400.css',
     '@fontsource/atkinson-hyperlegible-next/600.css',
     '@fontsource/atkinson-hyperlegible-next/700.css',
+    '~/assets/css/print.css',
   ],
   runtimeConfig: {
     session: {

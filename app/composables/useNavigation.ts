@@ -7,6 +7,7 @@ const NAV: Record<Role, NavItem[]> = {
   lead: [
     { to: '/lead', label: 'Today', icon: 'sun' },
     { to: '/lead/board', label: 'Pour board', icon: 'board' },
+    { to: '/day-sheet', label: 'Day sheet', icon: 'sheet' },
     { to: '/lead/jobs', label: 'Jobs', icon: 'clipboard' },
     { to: '/lead/moulds', label: 'Moulds', icon: 'shapes' },
     { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
@@ -20,6 +21,7 @@ const NAV: Record<Role, NavItem[]> = {
   ],
   caster: [
     { to: '/floor', label: 'My pours', icon: 'flask' },
+    { to: '/day-sheet', label: 'Day sheet', icon: 'sheet' },
     { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],

@@ -95,6 +95,15 @@ export const poursRepo = {
       ORDER BY lower(p.slot), p.id`, { workshopId, from: day, to: day, ...(states ? { states } : {}) })
     return r.rows
   },
+  /**
+   * Locks mould rows (in id order) until the transaction ends, so bookings of one mould run
+   * one after another: without it two concurrent inserts can each wait on the other's row
+   * while PostgreSQL checks the exclusion constraint, and one dies of a deadlock.
+   */
+  async lockMoulds(db: Knex, workshopId: number, ids: number[]) {
+    const unique = [...new Set(ids)].sort((a, b) => a - b)
+    if (unique.length) await db('moulds').select('id').where({ workshop_id: workshopId }).whereIn('id', unique).orderBy('id').forUpdate()
+  },
   /** The pour row for a change, locked until the transaction ends. */
   forUpdate(db: Knex, workshopId: number, id: number) {
     return db('pours').first('id', 'version', 'state', 'job_item_id', 'mould_id', 'caster_id', 'grade_id', 'lot_id', 'is_sample',

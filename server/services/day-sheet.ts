@@ -29,9 +29,11 @@ async function requisition(db: Knex, workshopId: number, day: string, pours: Pou
 
 export async function daySheet(workshopId: number, day: string) {
   const db = useDb()
-  const [pours, benches] = await Promise.all([poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId)])
+  const [pours, benches, workshop] = await Promise.all([
+    poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId), db('workshops').first('timezone').where({ id: workshopId }),
+  ])
   const groups = benches.map(b => ({ benchId: b.id as number | null, benchName: b.name as string | null, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
   const loose = pours.filter(p => p.bench_id === null).map(sheetPour)
   if (loose.length) groups.push({ benchId: null, benchName: null, pours: loose })
-  return { day, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
+  return { day, timezone: workshop.timezone as string, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
 }

@@ -91,6 +91,8 @@ export async function acceptPlan(actor: Actor, range: { from: string; to: string
   })
   let last: { id: number; start: Date; end: Date } | null = null
   const created = await withOverlapAnswer(ws, () => last, () => db.transaction(async (trx) => {
+    // every mould of the plan locked up front, in id order, so two accepts cannot deadlock
+    await poursRepo.lockMoulds(trx, ws.id, pours.map(p => p.mouldId))
     for (const p of pours) {
       const write = await planPourRow(trx, ws, { jobItemId: p.jobItemId, mouldId: p.mouldId, slotStart: p.slotStart, casterId: p.casterId ?? null })
       last = { id: write.mould_id, start: write.slotStart, end: write.slotEnd }

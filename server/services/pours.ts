@@ -96,6 +96,7 @@ async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Da
  * `selfId` is the pour being moved, left out of its own clash, caster, life and lot counts.
  */
 export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId?: number, recompute = false): Promise<PourWrite> {
+  if (!recompute) await poursRepo.lockMoulds(trx, ws.id, [p.mouldId])
   const named = await loadNamed(trx, ws.id, p)
   const isSample = p.isSample ?? false
   if (!recompute) refuse(named, isSample)
@@ -162,7 +163,10 @@ export async function withOverlapAnswer<T>(ws: WorkshopRow, mould: () => { id: n
   }
   catch (e) {
     const m = mould()
-    if ((e as { code?: string })?.code === '23P01' && m) await refuseClash(useDb(), ws, m.id, m.start, m.end)
+    // 23P01: the exclusion constraint refused; 40P01: a deadlock while checking it (moulds are
+    // locked first, so this should not happen, but the answer is the same)
+    const code = (e as { code?: string })?.code
+    if ((code === '23P01' || code === '40P01') && m) await refuseClash(useDb(), ws, m.id, m.start, m.end)
     rethrowDbError(e, { pours_no_overlap: 'This mould is already taken at that time' })
   }
 }

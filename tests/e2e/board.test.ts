@@ -83,8 +83,9 @@ describe('pour board', () => {
     await screenshot(page, 'board-created')
 
     // drag the bar across to RS-05
+    const target = await pointAt(page, 'RS-05', '09:00', 1) // may scroll: measure the bar after it
     const bar = await bars(page).first().boundingBox()
-    await drag(page, { x: bar!.x + 10, y: bar!.y + bar!.height / 2 }, await pointAt(page, 'RS-05', '09:00', 1))
+    await drag(page, { x: bar!.x + 10, y: bar!.y + bar!.height / 2 }, target)
     await expectMessage(page, /Moved J-2603 to RS-05/)
 
     // a second pour on CB-12, then try to move it onto the first: refused with the reason
@@ -111,6 +112,12 @@ describe('pour board', () => {
     await page.getByRole('button', { name: 'Accept plan' }).click()
     await expectMessage(page, new RegExp(`Plan accepted: ${proposed} pours written`))
     await screenshot(page, 'board-plan-accepted')
+
+    // the day sheet of that day lists the pours and what plaster to fetch
+    await page.locator(`a[href="/day-sheet?day=${day}"]`).click()
+    await page.getByRole('heading', { level: 1, name: new RegExp(`Day sheet ${day}`) }).waitFor()
+    await expect(page.getByTestId('requisition').textContent()).resolves.toMatch(/\d+ × 25 kg/)
+    await screenshot(page, 'day-sheet')
     await page.close()
   }, 120_000)
 })
