@@ -1,0 +1,104 @@
+/**
+ * Board benchmark (plain tsx script; `npm run bench` runs it through run.ts). A throwaway
+ * PostgreSQL with a synthetic workshop of 60 moulds on 6 benches and 1,500 pours over 14
+ * days; the built server (run `npm test` or `npx nuxt build` first) answers GET /api/board
+ * for the 14 days, timed beside the raw SQL that reads the same pour rows. Prints p50/p95 and
+ * the ratio (target: within 2x of raw SQL, p95 under 30 ms); never asserts.
+ */
+import { performance } from 'node:perf_hooks'
+import { existsSync } from 'node:fs'
+import { randomBytes } from 'node:crypto'
+import knex from 'knex'
+import { Hash } from '@adonisjs/hash'
+import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
+import { startThrowawayDb } from '../setup/throwaway-db'
+import { startAppServer } from '../setup/server'
+import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
+import { GRADE_PRESETS } from '../../shared/utils/plaster'
+
+const RUNS = 40
+const FROM = '2027-03-01'
+const TO = '2027-03-14'
+
+function percentile(xs: number[], p: number) {
+  const s = [...xs].sort((a, b) => a - b)
+  return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!
+}
+
+async function seed(url: string) {
+  const k = knex({ client: 'pg', connection: url })
+  const [ws] = await k('workshops').insert({ name: 'Bench workshop' }).returning('id')
+  const w = ws.id
+  const hash = await new Hash(new Scrypt(SCRYPT_OPTIONS)).make('bench-password-1')
+  await k('users').insert({ workshop_id: w, email: 'bench-lead@bench.example.test', name: 'Bench lead', role: 'lead', password_hash: hash })
+  const g = GRADE_PRESETS['beta-casting']
+  const [grade] = await k('plaster_grades').insert({
+    workshop_id: w, name: 'Bench grade', form: g.form, powder_density: g.powderDensity, consistency_min: g.consistency.min,
+    consistency_max: g.consistency.max, consistency_default: g.consistency.default, demould_minutes_ref: g.demouldMinutesRef,
+    set_time_water_exponent: g.setTimeWaterExponent, temperature_factors: JSON.stringify(g.temperatureFactors),
+    hydration_heat: g.hydrationHeat, set_expansion_pct: g.setExpansionPct, purity: g.purity,
+  }).returning('id')
+  // 6 benches, 60 moulds, one job with an item per mould, 25 one-hour pours per mould over 14 days
+  await k.raw(`INSERT INTO benches (workshop_id, name, sort_order) SELECT ?, 'Bench ' || b, b FROM generate_series(1, 6) b`, [w])
+  await k.raw(`INSERT INTO moulds (workshop_id, bench_id, code, casts, material, cavity_litres)
+    SELECT ?, (SELECT id FROM benches WHERE workshop_id = ? AND sort_order = 1 + (m % 6)), 'M' || lpad(m::text, 3, '0'), 'Synthetic', 'silicone', 4
+    FROM generate_series(1, 60) m`, [w, w])
+  const [job] = await k('jobs').insert({ workshop_id: w, code: 'B-1', title: 'Bench job' }).returning('id')
+  await k.raw(`INSERT INTO job_items (workshop_id, job_id, mould_id, description, quantity, pieces_needed, grade_id, consistency)
+    SELECT ?, ?, id, 'Item for ' || code, 25, 25, ?, 70 FROM moulds WHERE workshop_id = ?`, [w, job.id, grade.id, w])
+  await k.raw(`INSERT INTO pours (workshop_id, job_item_id, mould_id, grade_id, consistency, slot, mix_at, demould_open_at, demould_close_at, plaster_kg_planned, water_kg_planned)
+    SELECT ?, i.id, m.id, ?, 70,
+      tstzrange(t, t + interval '1 hour'), t + interval '10 minutes', t + interval '45 minutes', t + interval '3 hours', 3.7, 2.6
+    FROM moulds m JOIN job_items i ON i.mould_id = m.id, generate_series(0, 24) n,
+      LATERAL (SELECT timestamptz '2027-03-01 07:30+00' + (n / 2) * interval '1 day' + (n % 2) * interval '4 hours' AS t) s
+    WHERE m.workshop_id = ?`, [w, grade.id, w])
+  const count = Number((await k('pours').where({ workshop_id: w }).count('* as n').first())!.n)
+  await k.destroy()
+  return { workshopId: Number(w), pours: count }
+}
+
+async function main() {
+  if (!existsSync('.output/server/index.mjs')) throw new Error('no build in .output: run `npx nuxt build` (or npm test) first')
+  const db = await startThrowawayDb()
+  let app: Awaited<ReturnType<typeof startAppServer>> | undefined
+  try {
+    const { workshopId, pours } = await seed(db.url)
+    app = await startAppServer({ DATABASE_URL: db.url, NUXT_SESSION_PASSWORD: randomBytes(24).toString('hex'), MAIL_FAKE: '0', SMTP_PORT: '9' })
+    const login = await fetch(`${app.url}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'bench-lead@bench.example.test', password: 'bench-password-1' }) })
+    const cookie = login.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
+    const api: number[] = []
+    let rows = 0
+    for (let i = 0; i < RUNS + 5; i++) {
+      const t = performance.now()
+      const r = await fetch(`${app.url}/api/board?from=${FROM}&to=${TO}`, { headers: { cookie } })
+      const body = await r.json() as { pours: unknown[] }
+      if (i >= 5) api.push(performance.now() - t)
+      rows = body.pours.length
+    }
+    const k = knex({ client: 'pg', connection: db.url, pool: { min: 1, max: 1 } })
+    const sql: number[] = []
+    for (let i = 0; i < RUNS + 5; i++) {
+      const t = performance.now()
+      await k.raw(`SELECT p.*, m.code, b.name AS bench, g.name AS grade, j.code AS job, i.description
+        FROM pours p JOIN moulds m ON m.id = p.mould_id LEFT JOIN benches b ON b.id = m.bench_id
+        JOIN plaster_grades g ON g.id = p.grade_id LEFT JOIN job_items i ON i.id = p.job_item_id LEFT JOIN jobs j ON j.id = i.job_id
+        WHERE p.workshop_id = ? AND p.state <> 'void' AND p.slot && tstzrange(?::timestamptz, ?::timestamptz)`, [workshopId, `${FROM}T00:00:00Z`, '2027-03-15T00:00:00Z'])
+      if (i >= 5) sql.push(performance.now() - t)
+    }
+    await k.destroy()
+    const [a50, a95, s50, s95] = [percentile(api, 50), percentile(api, 95), percentile(sql, 50), percentile(sql, 95)]
+    console.log(`board data, 60 moulds x 14 days: ${pours} pours seeded, ${rows} returned; ${RUNS} timed requests after 5 warm-ups`)
+    console.log(`  GET /api/board  p50 ${a50.toFixed(1)} ms  p95 ${a95.toFixed(1)} ms   (target p95 < 30 ms)`)
+    console.log(`  raw SQL         p50 ${s50.toFixed(1)} ms  p95 ${s95.toFixed(1)} ms`)
+    console.log(`  ratio (p50)     ${(a50 / s50).toFixed(2)}x   (target within 2x)`)
+  }
+  finally {
+    app?.proc.kill('SIGTERM')
+    db.stop()
+  }
+}
+
+main().catch((err) => {
+  console.error(err)
+  process.exit(1)
+})
