@@ -22,8 +22,17 @@ export interface StoredPhotoRow extends PhotoRow { workshop_id: number; thumb_ke
 export const PHOTO_COLUMNS = ['id', 'job_id', 'piece_id', 'pour_id', 'caption', 'shared', 'uploaded_by', 'width', 'height', 'bytes', 'created_at'] as const
 
 export interface PhotoInsert {
-  jobId: number; pieceId: number | null; pourId: number | null; caption: string | null; shared: boolean
-  uploadedBy: number; thumbKey: string; displayKey: string; width: number; height: number; bytes: number
+  jobId: number
+  pieceId: number | null
+  pourId: number | null
+  caption: string | null
+  shared: boolean
+  uploadedBy: number
+  thumbKey: string
+  displayKey: string
+  width: number
+  height: number
+  bytes: number
 }
 
 export const photosRepo = {

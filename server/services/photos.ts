@@ -72,7 +72,7 @@ export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUpl
   const processed = await processAll(files)
   const keys: string[] = []
   try {
-    const stored = []
+    const stored: (PhotoVariants & { bytes: number; thumbKey: string; displayKey: string })[] = []
     for (const p of processed) {
       const thumbKey = newPhotoKey()
       const displayKey = newPhotoKey()

@@ -3,7 +3,7 @@
 // orientation, and write two WebP variants. sharp writes no metadata unless asked to
 // (withMetadata / keepMetadata / keepExif), so EXIF, GPS, XMP and ICC text never reach the
 // output (sharp docs, "Output options: keepMetadata").
-import sharp from 'sharp'
+import sharp, { type Metadata } from 'sharp'
 
 export interface PhotoLimits { maxBytes: number; maxPixels: number }
 export interface PhotoVariants {
@@ -36,9 +36,11 @@ const heicMessage = 'HEIC photos cannot be read on this server: set the camera t
 async function checkHeader(input: Buffer, limits: PhotoLimits) {
   if (input.length === 0) throw new PhotoRejected(422, 'the file is empty')
   if (input.length > limits.maxBytes) throw new PhotoRejected(413, `the file is larger than ${Math.round(limits.maxBytes / 1048576)} MB`)
-  let meta: sharp.Metadata
+  let meta: Metadata
   try {
-    meta = await sharp(input, { limitInputPixels: limits.maxPixels }).metadata()
+    // metadata() reads the header only, so no pixel limit is needed here; we compare the
+    // declared size ourselves to say why a picture is refused
+    meta = await sharp(input, { limitInputPixels: false }).metadata()
   }
   catch {
     throw new PhotoRejected(415, looksLikeHeic(input) ? heicMessage : 'the file is not a photo Setline can read (JPEG, PNG or WebP)')
