@@ -24,3 +24,13 @@ export function pixelBombPng(side = 10_000) {
     .png({ compressionLevel: 9 })
     .toBuffer()
 }
+
+export interface UploadFile { name: string; data: Buffer; type?: string }
+
+/** A multipart upload body as the job page sends it. */
+export function photoForm(files: UploadFile[], fields: Record<string, string> = {}) {
+  const form = new FormData()
+  for (const f of files) form.append('files', new Blob([new Uint8Array(f.data)], { type: f.type ?? 'image/jpeg' }), f.name)
+  for (const [k, v] of Object.entries(fields)) form.append(k, v)
+  return form
+}
