@@ -189,7 +189,7 @@ describe('client progress', () => {
     const r = await call(`/api/client/jobs/${jobId}/progress`, { cookie: c.client })
     expect(r.status).toBe(200)
     expect(r.data.items).toEqual([{ id: itemId, description: expect.any(String), pieces_needed: 6, planned: 5, cast: 5, fettled: 4, dry: 3, dispatched: 1 }])
-    expect(new Date(r.data.expected_completion_at).toISOString()).toBe(new Date(latest.at).toISOString())
+    expect(new Date(r.data.expected_completion_at).toISOString()).toBe(new Date(latest!.at).toISOString())
     expect(JSON.stringify(r.data)).not.toMatch(new RegExp(`${fx.casterName}|caster|defect|notes`, 'i'))
     expect((await call(`/api/client/jobs/${jobId}/progress`, { cookie: c.client2 })).status).toBe(404)
     const empty = await fx.job()
