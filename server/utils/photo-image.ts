@@ -52,20 +52,29 @@ async function checkHeader(input: Buffer, limits: PhotoLimits) {
   }
 }
 
-function variant(input: Buffer, limits: PhotoLimits, px: number, quality: number) {
-  return sharp(input, { limitInputPixels: limits.maxPixels, failOn: 'error' })
+/**
+ * Decodes once to upright pixels at display size (JPEG shrink-on-load keeps this cheap), then
+ * encodes the display variant and a thumbnail from those pixels. Raw pixels carry no metadata.
+ */
+export async function webpVariants(input: Buffer, maxPixels: number) {
+  const { data, info } = await sharp(input, { limitInputPixels: maxPixels, failOn: 'error' })
     .rotate()
-    .resize({ width: px, height: px, fit: 'inside', withoutEnlargement: true })
-    .webp({ quality })
+    .resize({ width: DISPLAY_PX, height: DISPLAY_PX, fit: 'inside', withoutEnlargement: true })
+    .raw()
     .toBuffer({ resolveWithObject: true })
+  const raw = { raw: { width: info.width, height: info.height, channels: info.channels } }
+  const [display, thumb] = await Promise.all([
+    sharp(data, raw).webp({ quality: 82 }).toBuffer(),
+    sharp(data, raw).resize({ width: THUMB_PX, height: THUMB_PX, fit: 'inside', withoutEnlargement: true }).webp({ quality: 75 }).toBuffer(),
+  ])
+  return { display, thumb, width: info.width, height: info.height }
 }
 
 /** Validates one upload and returns its WebP variants, or throws PhotoRejected with a 4xx. */
 export async function processPhoto(input: Buffer, limits: PhotoLimits): Promise<PhotoVariants> {
   await checkHeader(input, limits)
   try {
-    const [thumb, display] = await Promise.all([variant(input, limits, THUMB_PX, 75), variant(input, limits, DISPLAY_PX, 82)])
-    return { thumb: thumb.data, display: display.data, width: display.info.width, height: display.info.height }
+    return await webpVariants(input, limits.maxPixels)
   }
   catch (err) {
     // a header that reads but pixels that do not (truncated or corrupt data)
