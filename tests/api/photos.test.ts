@@ -167,7 +167,7 @@ describe('who sees and changes a photo', () => {
 
 describe('client progress', () => {
   let fx: Awaited<ReturnType<typeof boardFixture>> | undefined
-  // the browser journeys share this database: take our moulds and bench off the board again
+  // the browser journeys share this database: take our jobs, moulds and bench off the board again
   afterAll(async () => {
     if (!fx) return
     const moulds = fx.k('moulds').where({ bench_id: fx.benchId }).select('id')
@@ -176,6 +176,7 @@ describe('client progress', () => {
     await fx.k('pours').whereIn('mould_id', fx.k('moulds').where({ bench_id: fx.benchId }).select('id')).del()
     await fx.k('moulds').where({ bench_id: fx.benchId }).del()
     await fx.k('benches').where({ id: fx.benchId }).del()
+    await fx.k('jobs').where('code', 'like', `${fx.tag}-%`).del()
   })
   it('counts planned, cast, fettled, dry and dispatched per item, with the expected completion', async () => {
     fx = await boardFixture('progress')
