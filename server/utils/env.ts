@@ -17,6 +17,14 @@ const envSchema = z.object({
   MAIL_FAKE: flag.default(false),
   MAIL_WORKER_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(5000),
   LOGIN_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),
+  PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(15 * 1024 * 1024),
+  PHOTO_MAX_PIXELS: z.coerce.number().int().min(1_000_000).max(268_402_689).default(50_000_000),
+  PHOTO_STORAGE_DIR: z.string().min(1).default('.data/photos'),
+  S3_ENDPOINT: z.url({ message: 'S3_ENDPOINT must be a URL' }).optional(),
+  S3_BUCKET: z.string().min(1).optional(),
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  S3_REGION: z.string().min(1).default('auto'),
 })
 
 export type AppEnv = z.infer<typeof envSchema>

@@ -7,11 +7,22 @@ import { call, signIn } from '../setup/http'
 import { GRADE_PRESETS, plasterGradeFromPreset } from '../../shared/utils/plaster'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 
 const GRADE_PRESET_MIX = { grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60, consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
 
 type Role = 'lead' | 'caster' | 'finisher' | 'client'
-interface RouteRow { method: string; path: string; roles: Role[] | 'public'; body?: () => Promise<unknown> | unknown; target?: () => Promise<string> }
+interface RouteRow {
+  method: string
+  path: string
+  roles: Role[] | 'public'
+  body?: () => Promise<unknown> | unknown
+  target?: () => Promise<string>
+  /** a multipart body instead of JSON */
+  form?: () => Promise<FormData>
+  /** a fresh target for every call (a delete that the first allowed call uses up) */
+  freshTarget?: boolean
+}
 
 let patchTarget = 0
 let fx: Awaited<ReturnType<typeof boardFixture>> | undefined
@@ -25,7 +36,7 @@ async function freshPour() {
 }
 const STAFF: Role[] = ['lead', 'caster', 'finisher']
 /** Rows the catalogue and job routes act on, made in beforeAll. */
-const t = { grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
+const t = { photo: '', grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
 const rnd = () => Math.random().toString(36).slice(2, 8).toUpperCase()
 const ver = async (table: string, id: number) => Number((await testDb()(table).where({ id }).first('version')).version)
 const gradeBody = () => ({ name: `Guard grade ${rnd()}`, bagKg: 25, grade: (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous')) })
@@ -89,7 +100,21 @@ const ROUTES: RouteRow[] = [
   { method: 'POST', path: '/api/jobs/[id]/sample', roles: ['lead'], body: async () => ({ state: 'awaiting_approval', version: await ver('jobs', t.sampleJob) }), target: async () => `/api/jobs/${t.sampleJob}/sample` },
   { method: 'POST', path: '/api/jobs/[id]/sample-decision', roles: ['client'], body: () => ({ decision: 'approved' }), target: async () => `/api/jobs/${t.decisionJob}/sample-decision` },
   { method: 'GET', path: '/api/jobs/[id]/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/export` },
+  { method: 'GET', path: '/api/jobs/[id]/photos', roles: ['lead', 'caster', 'finisher', 'client'], target: async () => `/api/jobs/${t.clientJob}/photos` },
+  { method: 'POST', path: '/api/jobs/[id]/photos', roles: STAFF, form: async () => photoForm([{ name: 'guard.jpg', data: await jpegWithGps(64, 48) }]), target: async () => `/api/jobs/${t.job}/photos` },
+  { method: 'PATCH', path: '/api/photos/[id]', roles: STAFF, body: () => ({ caption: 'Guard caption' }), target: async () => `/api/photos/${t.photo}` },
+  // the uploader or a lead: the photo is the lead's, so other staff are refused
+  { method: 'DELETE', path: '/api/photos/[id]', roles: ['lead'], freshTarget: true, target: async () => `/api/photos/${await leadPhoto(t.job, false)}` },
+  { method: 'GET', path: '/api/photos/[id]/[variant]', roles: ['lead', 'caster', 'finisher', 'client'], target: async () => `/api/photos/${t.photo}/thumb` },
+  { method: 'GET', path: '/api/client/jobs/[id]/progress', roles: ['client'], target: async () => `/api/client/jobs/${t.clientJob}/progress` },
 ]
+
+/** A photo the demo lead uploads to a job. */
+async function leadPhoto(jobId: number, shared: boolean) {
+  const r = await call(`/api/jobs/${jobId}/photos`, { method: 'POST', cookie: cookies.lead, form: photoForm([{ name: 'guard.jpg', data: await jpegWithGps(64, 48) }], { shared: String(shared) }) })
+  if (r.status !== 201) throw new Error(`photo upload failed: ${r.status} ${JSON.stringify(r.data)}`)
+  return r.data[0].id as string
+}
 
 /** The rows the guarded routes act on, in the demo workshop. */
 async function makeTargets() {
@@ -112,6 +137,7 @@ async function makeTargets() {
   t.memberEmail = (await makeUser(ws, 'client', 'guard-member')).email
   t.memberId = (await makeUser(ws, 'client', 'guard-removed')).id
   await k('job_members').insert({ workshop_id: ws, job_id: t.job, user_id: t.memberId })
+  t.photo = await leadPhoto(t.clientJob, true)
 }
 
 function routeFiles(dir: string): string[] {
@@ -159,9 +185,11 @@ describe('role guard', () => {
     it(`${route.method} ${route.path}: 401 signed out, 403 for other roles, allowed for ${(route.roles as Role[]).join(', ')}`, async () => {
       const path = route.target ? await route.target() : route.path
       const body = route.body ? await route.body() : undefined
-      expect((await call(path, { method: route.method, body })).status).toBe(401)
+      const form = route.form ? await route.form() : undefined
+      expect((await call(path, { method: route.method, body, form })).status).toBe(401)
       for (const role of ['lead', 'caster', 'finisher', 'client'] as Role[]) {
-        const r = await call(path, { method: route.method, cookie: cookies[role], body: route.body ? await route.body() : undefined })
+        const target = route.freshTarget ? await route.target!() : path
+        const r = await call(target, { method: route.method, cookie: cookies[role], body: route.body ? await route.body() : undefined, form: route.form ? await route.form() : undefined })
         if ((route.roles as Role[]).includes(role)) expect(r.status, `${role} should be allowed`).toBeLessThan(300)
         else expect(r.status, `${role} should be refused`).toBe(403)
       }

@@ -13,11 +13,13 @@ function sessionCookie(headers: Headers): string | undefined {
   return c?.split(';')[0]
 }
 
-export async function call<T = any>(path: string, opts: { method?: string; body?: unknown; rawBody?: string; cookie?: string } = {}): Promise<CallResult<T>> {
+export async function call<T = any>(path: string, opts: { method?: string; body?: unknown; rawBody?: string; form?: FormData; cookie?: string } = {}): Promise<CallResult<T>> {
   const headers: Record<string, string> = { accept: 'application/json' }
   if (opts.cookie) headers.cookie = opts.cookie
-  let body: string | undefined
-  if (opts.rawBody !== undefined) {
+  let body: string | FormData | undefined
+  // fetch sets the multipart content type with its boundary itself
+  if (opts.form) body = opts.form
+  else if (opts.rawBody !== undefined) {
     body = opts.rawBody
     headers['content-type'] = 'application/json'
   }

@@ -1,0 +1,39 @@
+// The counts behind a client's progress view: per item, pours planned (not void) and pieces
+// by how far they have come. Only counts and the item's own description leave this module.
+import type { Knex } from 'knex'
+
+export interface ItemProgressRow {
+  id: number
+  description: string
+  pieces_needed: number
+  planned: number
+  cast: number
+  fettled: number
+  dry: number
+  dispatched: number
+}
+
+const FETTLED = ['drying', 'ready', 'packed', 'dispatched']
+const DRY = ['ready', 'packed', 'dispatched']
+
+export const progressRepo = {
+  items(db: Knex, workshopId: number, jobId: number): Promise<ItemProgressRow[]> {
+    const inList = (states: string[]) => states.map(() => '?').join(', ')
+    return db('job_items as i').where({ 'i.workshop_id': workshopId, 'i.job_id': jobId })
+      .select('i.id', 'i.description', 'i.pieces_needed')
+      .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.job_item_id = i.id AND p.workshop_id = i.workshop_id AND p.state <> 'void') AS planned`))
+      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id) AS cast`))
+      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(FETTLED)})) AS fettled`, FETTLED))
+      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(DRY)})) AS dry`, DRY))
+      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state = 'dispatched') AS dispatched`))
+      .orderBy([{ column: 'i.sort_order' }, { column: 'i.id' }])
+  },
+  /** The latest demould opening of the job's pours that are not void: when the last cast can come out. */
+  async expectedCompletion(db: Knex, workshopId: number, jobId: number): Promise<Date | null> {
+    const row = await db('pours as p').join('job_items as i', function () {
+      this.on('i.id', 'p.job_item_id').andOn('i.workshop_id', 'p.workshop_id')
+    }).where({ 'p.workshop_id': workshopId, 'i.job_id': jobId }).whereNot('p.state', 'void')
+      .max({ at: 'p.demould_open_at' }).first()
+    return (row?.at as Date | null) ?? null
+  },
+}
