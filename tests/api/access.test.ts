@@ -45,6 +45,10 @@ const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/invitations', roles: ['lead'] },
   { method: 'POST', path: '/api/invitations', roles: ['lead'], body: () => ({ email: `guard-${Math.random().toString(36).slice(2)}@fixture.example.test`, role: 'caster' }) },
   { method: 'GET', path: '/api/dev/mails', roles: ['lead'] },
+  { method: 'POST', path: '/api/dev/mails/refuse', roles: ['lead'], body: () => ({ count: 0 }) },
+  { method: 'GET', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'] },
+  { method: 'PATCH', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'], body: () => ({ job_ready: true }) },
+  { method: 'GET', path: '/api/quality', roles: ['lead'], target: async () => '/api/quality?from=2027-01-01&to=2027-01-31' },
   { method: 'GET', path: '/api/overview', roles: ['lead'] },
   { method: 'GET', path: '/api/client/jobs', roles: ['client'] },
   { method: 'GET', path: '/api/workshop', roles: ['lead'] },
@@ -89,6 +93,8 @@ const ROUTES: RouteRow[] = [
   { method: 'POST', path: '/api/jobs/[id]/sample', roles: ['lead'], body: async () => ({ state: 'awaiting_approval', version: await ver('jobs', t.sampleJob) }), target: async () => `/api/jobs/${t.sampleJob}/sample` },
   { method: 'POST', path: '/api/jobs/[id]/sample-decision', roles: ['client'], body: () => ({ decision: 'approved' }), target: async () => `/api/jobs/${t.decisionJob}/sample-decision` },
   { method: 'GET', path: '/api/jobs/[id]/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/export` },
+  { method: 'GET', path: '/api/jobs/[id]/register', roles: ['lead'], target: async () => `/api/jobs/${t.job}/register` },
+  { method: 'GET', path: '/api/jobs/[id]/register/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/register/export` },
 ]
 
 /** The rows the guarded routes act on, in the demo workshop. */
