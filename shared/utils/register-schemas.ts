@@ -36,4 +36,7 @@ export const registerQuerySchema = fromTo({
   pageSize: intIn('pageSize', 1, 200).default(50),
 })
 
+const YEAR_DAYS = 366
+/** Whole-period figures read every pour of the period, so the period is at most a year. */
 export const qualityQuerySchema = fromTo({ from: day('from'), to: day('to') })
+  .refine(q => (Date.parse(q.to) - Date.parse(q.from)) / 86_400_000 < YEAR_DAYS, { error: `the period must be at most ${YEAR_DAYS} days`, path: ['to'] })

@@ -76,7 +76,29 @@ describe('register', () => {
   })
 })
 
-/** Resident and peak memory (kB) of the process listening on the app server's port. */
+describe('quality figures', () => {
+  it('gives defect rates by mould, caster and temperature band, and the grade calibration', async () => {
+    const [a, b] = [await fx.mould(), await fx.mould()]
+    const item = await fx.item(t.job, a)
+    await pours(4, a, item, '2029-02-05T09:00:00Z', { shopTemp: 22 })
+    await pours(2, b, item, '2029-02-06T09:00:00Z', { result: 'defect', shopTemp: 8, caster: fx.caster2Id })
+    const r = await call('/api/quality?from=2029-02-01&to=2029-02-28', { cookie: lead })
+    expect(r.status).toBe(200)
+    const codes = await fx.k('moulds').whereIn('id', [a, b]).orderBy('id').pluck('code')
+    expect(r.data.byMould.filter((m: { key: string }) => codes.includes(m.key))).toEqual([
+      { key: codes[0], pours: 4, defects: 0, rate: 0 }, { key: codes[1], pours: 2, defects: 2, rate: 1 },
+    ])
+    expect(r.data.byTemperature).toEqual(expect.arrayContaining([{ key: '< 10 °C', pours: 2, defects: 2, rate: 1 }, { key: '20–25 °C', pours: 4, defects: 0, rate: 0 }]))
+    // planned opening 25 min after mixing started, demoulded after 35: ratio 1.4
+    expect(r.data.calibration.find((c: { grade: string }) => c.grade === fx.grade.name)).toMatchObject({ count: 6, factor: 1.4, predictedMinutes: 25, actualMinutes: 35 })
+    const bad = await call('/api/quality?from=2029-02-01&to=2031-02-28', { cookie: lead })
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.problems[0].field).toBe('query.to')
+    expect((await call('/api/quality?from=2029-02-01', { cookie: lead })).data.data.problems[0].field).toBe('query.to')
+  })
+})
+
+/** Resident memory (kB) of the process listening on the app server's port. */
 function serverMemory() {
   const port = new URL(baseUrl()).port
   const out = execFileSync('ss', ['-ltnpH', `sport = :${port}`]).toString()
