@@ -1,5 +1,6 @@
 // Starts the in-process SMTP fake when MAIL_FAKE=1, the outbox worker and the overdue-demould check.
 import { notifyOverdueDemoulds } from '../services/notify'
+
 export default defineNitroPlugin(async (nitro) => {
   const env = appEnv()
   if (env.MAIL_FAKE) {

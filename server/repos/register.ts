@@ -19,11 +19,33 @@ const REGISTER_SELECT = [
 
 // a type alias, not an interface: sendCsvRows takes Record<string, unknown> rows
 export type RegisterRow = {
-  pour_id: number; state: string; is_sample: boolean; mark: string | null; piece_state: string | null; item: string
-  mould: string; grade: string; lot: string | null; consistency: string; plaster_kg_actual: string | null; water_kg_actual: string | null
-  water_temp_c: string | null; powder_temp_c: string | null; shop_temp_c: string | null; slurry_temp_c: string | null
-  mix_planned: string; mixing_at: string | null; poured_at: string | null; demould_open: string; demould_close: string; demoulded_at: string | null
-  caster: string | null; result: string | null; defect: string | null; backdated: boolean; photos: number
+  pour_id: number
+  state: string
+  is_sample: boolean
+  mark: string | null
+  piece_state: string | null
+  item: string
+  mould: string
+  grade: string
+  lot: string | null
+  consistency: string
+  plaster_kg_actual: string | null
+  water_kg_actual: string | null
+  water_temp_c: string | null
+  powder_temp_c: string | null
+  shop_temp_c: string | null
+  slurry_temp_c: string | null
+  mix_planned: string
+  mixing_at: string | null
+  poured_at: string | null
+  demould_open: string
+  demould_close: string
+  demoulded_at: string | null
+  caster: string | null
+  result: string | null
+  defect: string | null
+  backdated: boolean
+  photos: number
 }
 
 /** The job's pours joined to everything the register shows, filtered; no select, no order. */

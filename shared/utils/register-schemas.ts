@@ -15,28 +15,26 @@ const intIn = (field: string, min: number, max: number) => z.coerce.number({ err
   .int({ error: `${field} must be a whole number from ${min} to ${max}` })
   .min(min, { error: `${field} must be a whole number from ${min} to ${max}` }).max(max, { error: `${field} must be a whole number from ${min} to ${max}` })
 
-const fromTo = <T extends z.ZodRawShape>(shape: T) => z.object(shape).refine(q => !q.from || !q.to || q.from <= q.to, { error: 'to must not be before from', path: ['to'] })
+const ordered = (q: { from?: string; to?: string }) => !q.from || !q.to || q.from <= q.to
+const ORDER = { error: 'to must not be before from', path: ['to'] }
 
-export const registerFilterSchema = fromTo({
+const filterShape = {
   from: day('from').optional(),
   to: day('to').optional(),
   result: z.enum(['sound', 'defect'], { error: 'result must be sound or defect' }).optional(),
   mould: queryId('mould').optional(),
   caster: queryId('caster').optional(),
-})
+}
+export const registerFilterSchema = z.object(filterShape).refine(ordered, ORDER)
 export type RegisterFilter = z.infer<typeof registerFilterSchema>
 
-export const registerQuerySchema = fromTo({
-  from: day('from').optional(),
-  to: day('to').optional(),
-  result: z.enum(['sound', 'defect'], { error: 'result must be sound or defect' }).optional(),
-  mould: queryId('mould').optional(),
-  caster: queryId('caster').optional(),
+export const registerQuerySchema = z.object({
+  ...filterShape,
   page: intIn('page', 1, 100_000).default(1),
   pageSize: intIn('pageSize', 1, 200).default(50),
-})
+}).refine(ordered, ORDER)
 
 const YEAR_DAYS = 366
 /** Whole-period figures read every pour of the period, so the period is at most a year. */
-export const qualityQuerySchema = fromTo({ from: day('from'), to: day('to') })
+export const qualityQuerySchema = z.object({ from: day('from'), to: day('to') }).refine(ordered, ORDER)
   .refine(q => (Date.parse(q.to) - Date.parse(q.from)) / 86_400_000 < YEAR_DAYS, { error: `the period must be at most ${YEAR_DAYS} days`, path: ['to'] })
