@@ -97,6 +97,13 @@ export async function notifySampleDecision(trx: Knex, workshopId: number, input:
  * demould window closed, one mail per pour and lead (dedupe key overdue:pourId:leadId). A cast
  * left past its window can crack or stick in the mould, so the lead hears of it once.
  */
+/**
+ * Only windows that closed in the last two days: a pour forgotten for longer is old news (the
+ * board shows it), and the bound keeps a first run on an old database from mailing its history
+ * and keeps pours whose leads turned the kind off from filling every batch.
+ */
+const OVERDUE_LOOKBACK_MS = 2 * 86_400_000
+
 export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
   const overdue: { id: number; workshop_id: number; code: string; demould_close_at: Date; timezone: string; job_code: string | null }[] = await db('pours as p')
     .join('moulds as m', function () {
@@ -110,6 +117,7 @@ export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
       this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'p.workshop_id')
     })
     .whereIn('p.state', ['planned', 'mixing', 'setting']).where('p.demould_close_at', '<', now)
+    .where('p.demould_close_at', '>', new Date(now.getTime() - OVERDUE_LOOKBACK_MS))
     .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`))
     .select('p.id', 'p.workshop_id', 'm.code', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
     .orderBy('p.id').limit(200)
