@@ -93,17 +93,17 @@ export async function notifySampleDecision(trx: Knex, workshopId: number, input:
 }
 
 /**
- * The periodic overdue-demould check: non-void pours still planned, mixing or setting whose
- * demould window closed, one mail per pour and lead (dedupe key overdue:pourId:leadId). A cast
- * left past its window can crack or stick in the mould, so the lead hears of it once.
- */
-/**
  * Only windows that closed in the last two days: a pour forgotten for longer is old news (the
  * board shows it), and the bound keeps a first run on an old database from mailing its history
  * and keeps pours whose leads turned the kind off from filling every batch.
  */
 const OVERDUE_LOOKBACK_MS = 2 * 86_400_000
 
+/**
+ * The periodic overdue-demould check: non-void pours still planned, mixing or setting whose
+ * demould window closed, one mail per pour and lead (dedupe key overdue:pourId:leadId). A cast
+ * left past its window can crack or stick in the mould, so the lead hears of it once.
+ */
 export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
   const overdue: { id: number; workshop_id: number; code: string; demould_close_at: Date; timezone: string; job_code: string | null }[] = await db('pours as p')
     .join('moulds as m', function () {
