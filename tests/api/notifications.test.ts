@@ -68,16 +68,19 @@ describe('notifications', () => {
   })
 
   it('the outbox retries after the SMTP fake refuses once: attempts ≥ 2, then sent', async () => {
-    const member = await makeUser(ws, 'client', 'retry')
-    const job = await sampleJob([member.id])
-    // let anything already queued go first, so the refusal falls on this test's mail
-    await new Promise(r => setTimeout(r, 1200))
-    expect((await call('/api/dev/mails/refuse', { method: 'POST', cookie: lead, body: { count: 1 } })).data).toEqual({ refusing: 1 })
-    await call(`/api/jobs/${job.id}/sample`, { method: 'POST', cookie: lead, body: { state: 'awaiting_approval', version: job.version } })
-    await waitForMail(lead, member.email, job.code)
-    const [row] = await outbox({ to_email: member.email })
+    // the fake refuses whichever message comes next; if another test's mail took the refusal,
+    // try again with a fresh job (at most three rounds)
+    let row: { status: string; kind: string; attempts: number } | undefined
+    for (let round = 0; round < 3 && !(row && row.attempts >= 2); round++) {
+      const member = await makeUser(ws, 'client', 'retry')
+      const job = await sampleJob([member.id])
+      expect((await call('/api/dev/mails/refuse', { method: 'POST', cookie: lead, body: { count: 1 } })).data).toEqual({ refusing: 1 })
+      await call(`/api/jobs/${job.id}/sample`, { method: 'POST', cookie: lead, body: { state: 'awaiting_approval', version: job.version } })
+      await waitForMail(lead, member.email, job.code)
+      row = (await outbox({ to_email: member.email }))[0]
+    }
     expect(row).toMatchObject({ status: 'sent', kind: 'sample_ready' })
-    expect(row.attempts).toBeGreaterThanOrEqual(2)
+    expect(row!.attempts).toBeGreaterThanOrEqual(2)
     expect((await call('/api/dev/mails/refuse', { method: 'POST', cookie: lead, body: { count: -1 } })).status).toBe(422)
   })
 
