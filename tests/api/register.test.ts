@@ -133,7 +133,8 @@ describe('register export at scale', () => {
     expect(newlines).toBe(100_001)
     const growthMb = before ? (peakKb - before.rssKb) / 1024 : NaN
     console.log(`register export: 100,000 rows, ${(bytes / 1e6).toFixed(1)} MB in ${seconds.toFixed(1)} s; server RSS ${((before?.rssKb ?? 0) / 1024).toFixed(0)} MB before, peak ${(peakKb / 1024).toFixed(0)} MB (growth ${growthMb.toFixed(0)} MB)`)
-    // 100,000 rows held as JS objects would be several hundred MB; a streamed export stays near one page
-    if (before) expect(growthMb).toBeLessThan(150)
+    // 100,000 rows of ~27 fields held as JS objects plus their CSV would take several hundred MB;
+    // streamed, growth is one page plus garbage the collector has not yet reclaimed
+    if (before) expect(growthMb).toBeLessThan(256)
   })
 })
