@@ -82,9 +82,11 @@ describe('pour board', () => {
     await expect.poll(() => bars(page).count()).toBe(1)
     await screenshot(page, 'board-created')
 
-    // drag the bar across to RS-05
+    // drag the bar across to RS-05; find the target first, since scrolling RS-05 into view
+    // (below the fold once other tests have added moulds) moves the bar
+    const target = await pointAt(page, 'RS-05', '09:00', 1)
     const bar = await bars(page).first().boundingBox()
-    await drag(page, { x: bar!.x + 10, y: bar!.y + bar!.height / 2 }, await pointAt(page, 'RS-05', '09:00', 1))
+    await drag(page, { x: bar!.x + 10, y: bar!.y + bar!.height / 2 }, target)
     await expectMessage(page, /Moved J-2603 to RS-05/)
 
     // a second pour on CB-12, then try to move it onto the first: refused with the reason
