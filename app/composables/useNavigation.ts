@@ -13,6 +13,7 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
     { to: '/lead/lots', label: 'Lots', icon: 'package' },
     { to: '/lead/benches', label: 'Benches', icon: 'bench' },
+    { to: '/lead/quality', label: 'Quality', icon: 'chart' },
     { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/lead/people', label: 'People', icon: 'users' },
     { to: '/lead/settings', label: 'Settings', icon: 'settings' },

@@ -57,4 +57,15 @@ export const usersRepo = {
       .returning(PUBLIC_COLUMNS)
     return row
   },
+  async notifyPrefs(db: Knex, workshopId: number, id: number): Promise<unknown> {
+    const row = await db('users').where({ workshop_id: workshopId, id }).first('notify_prefs')
+    return row?.notify_prefs
+  },
+  /** Merges the given flags into notify_prefs (jsonb ||), leaving the other kinds as they were. */
+  async mergeNotifyPrefs(db: Knex, workshopId: number, id: number, flags: Record<string, boolean>): Promise<unknown> {
+    const [row] = await db('users').where({ workshop_id: workshopId, id })
+      .update({ notify_prefs: db.raw('notify_prefs || ?::jsonb', [JSON.stringify(flags)]), updated_at: db.fn.now() })
+      .returning('notify_prefs')
+    return row?.notify_prefs
+  },
 }

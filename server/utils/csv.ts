@@ -16,15 +16,26 @@ async function* pages(query: Knex.QueryBuilder) {
   }
 }
 
+type CsvColumns = { key: string; header: string }[]
+
 /** Sends `query`'s rows as a CSV attachment; `query` must be ordered so pages do not overlap. */
-export function sendCsv(event: H3Event, filename: string, query: Knex.QueryBuilder, columns: { key: string; header: string }[]) {
+export function sendCsv(event: H3Event, filename: string, query: Knex.QueryBuilder, columns: CsvColumns) {
+  return sendCsvRows(event, filename, pages(query), columns)
+}
+
+/**
+ * Sends rows from any async source (a keyset-paged repo reader, say) as a CSV attachment.
+ * Readable.from pulls the next row only when csv-stringify and the socket want more, so a slow
+ * download holds back the database reads instead of piling rows up in memory.
+ */
+export function sendCsvRows(event: H3Event, filename: string, source: AsyncIterable<Record<string, unknown>>, columns: CsvColumns) {
   setResponseHeaders(event, {
     'content-type': 'text/csv; charset=utf-8',
     'content-disposition': `attachment; filename="${filename.replace(/[^\w.-]/g, '_')}"`,
     'cache-control': 'no-store',
   })
   const csv = stringify({ header: true, columns, cast: { boolean: v => (v ? 'yes' : 'no'), date: v => v.toISOString() } })
-  const rows = Readable.from(pages(query))
+  const rows = Readable.from(source)
   rows.on('error', err => csv.destroy(err))
   return sendStream(event, rows.pipe(csv))
 }

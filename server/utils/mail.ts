@@ -43,9 +43,13 @@ export async function queueMail(db: Knex, mail: OutgoingMail) {
 
 const MAX_ATTEMPTS = 8
 
-/** Backoff after the n-th failed attempt: 15 s, 1 min, 2¼ min, … capped at one hour. */
-export function retryDelaySeconds(attempts: number) {
-  return Math.min(3600, 15 * attempts * attempts)
+/**
+ * Backoff after the n-th failed attempt: base·n² seconds (with the default base of 15 s:
+ * 15 s, 1 min, 2¼ min, …) capped at one hour. Quadratic backoff is common practice for
+ * outboxes; the base is MAIL_RETRY_BASE_SECONDS so tests can retry within a second.
+ */
+export function retryDelaySeconds(attempts: number, baseSeconds = appEnv().MAIL_RETRY_BASE_SECONDS) {
+  return Math.min(3600, baseSeconds * attempts * attempts)
 }
 
 let running: Promise<number> | undefined

@@ -56,6 +56,10 @@ const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/invitations', roles: ['lead'] },
   { method: 'POST', path: '/api/invitations', roles: ['lead'], body: () => ({ email: `guard-${Math.random().toString(36).slice(2)}@fixture.example.test`, role: 'caster' }) },
   { method: 'GET', path: '/api/dev/mails', roles: ['lead'] },
+  { method: 'POST', path: '/api/dev/mails/refuse', roles: ['lead'], body: () => ({ count: 0 }) },
+  { method: 'GET', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'] },
+  { method: 'PATCH', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'], body: () => ({ job_ready: true }) },
+  { method: 'GET', path: '/api/quality', roles: ['lead'], target: async () => '/api/quality?from=2027-01-01&to=2027-01-31' },
   { method: 'GET', path: '/api/overview', roles: ['lead'] },
   { method: 'GET', path: '/api/client/jobs', roles: ['client'] },
   { method: 'GET', path: '/api/workshop', roles: ['lead'] },
@@ -107,6 +111,8 @@ const ROUTES: RouteRow[] = [
   { method: 'DELETE', path: '/api/photos/[id]', roles: ['lead'], freshTarget: true, target: async () => `/api/photos/${await leadPhoto(t.job, false)}` },
   { method: 'GET', path: '/api/photos/[id]/[variant]', roles: ['lead', 'caster', 'finisher', 'client'], target: async () => `/api/photos/${t.photo}/thumb` },
   { method: 'GET', path: '/api/client/jobs/[id]/progress', roles: ['client'], target: async () => `/api/client/jobs/${t.clientJob}/progress` },
+  { method: 'GET', path: '/api/jobs/[id]/register', roles: ['lead'], target: async () => `/api/jobs/${t.job}/register` },
+  { method: 'GET', path: '/api/jobs/[id]/register/export', roles: ['lead'], target: async () => `/api/jobs/${t.job}/register/export` },
 ]
 
 /** A photo the demo lead uploads to a job. */
