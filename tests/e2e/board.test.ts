@@ -65,6 +65,7 @@ describe('pour board', () => {
     const lead = DEMO_USERS.find(u => u.key === 'lead')!
     const page = await browser.context.newPage()
     await page.goto(`${base}/login`)
+    await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
     await page.getByLabel('E-mail').fill(lead.email)
     await page.getByLabel('Password').fill(DEMO_PASSWORD)
     await page.getByRole('button', { name: 'Sign in' }).click()

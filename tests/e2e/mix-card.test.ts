@@ -17,6 +17,7 @@ describe('mix card', () => {
     const caster = DEMO_USERS.find(u => u.key === 'caster1')!
     const page = await browser.context.newPage()
     await page.goto(`${base}/login`)
+    await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
     await page.getByLabel('E-mail').fill(caster.email)
     await page.getByLabel('Password').fill(DEMO_PASSWORD)
     await page.getByRole('button', { name: 'Sign in' }).click()

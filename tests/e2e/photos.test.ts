@@ -32,6 +32,7 @@ afterAll(async () => {
 
 async function signIn(page: Page, email: string, home: string) {
   await page.goto(`${base}/login`)
+  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(DEMO_PASSWORD)
   await page.getByRole('button', { name: 'Sign in' }).click()

@@ -19,6 +19,7 @@ beforeEach(async () => {
 
 async function signInThroughForm(page: Page, email: string, password: string) {
   await page.goto(`${base}/login`)
+  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
