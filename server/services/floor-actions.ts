@@ -16,15 +16,14 @@ import { pourSetMinutes, pourTiming } from '../../shared/utils/pour-timing'
 import { POUR_WASTE_PCT, boardLocalDay } from '../../shared/utils/board-rules'
 import { runOnce } from './actions'
 import { loadWorkshop } from './pours'
-import { floorCards, type FloorCardDto } from './floor-today'
+import { floorCards } from './floor-today'
+import type { FloorActionResult } from '../../shared/types/floor'
 
 const MINUTE_MS = 60_000
 /** A tablet's clock may run a little ahead of the server's: two minutes of grace (common practice). */
 const CLOCK_SKEW_MS = 2 * MINUTE_MS
 /** An action recorded more than a minute after it happened counts as back-dated. */
 const BACKDATED_AFTER_MS = MINUTE_MS
-
-export interface FloorActionResult { card: FloorCardDto; piece: { id: number; mark: string } | null }
 
 interface StepContext { trx: Knex; actor: Actor; row: FloorPourRow; at: Date; backdated: boolean }
 

@@ -6,33 +6,10 @@ import { poursRepo, daySheetRepo } from '../repos/pours'
 import { floorRepo, type FloorActualsRow } from '../repos/floor'
 import { BURN_CAUTION } from '../../shared/utils/plaster'
 import { boardLocalDay } from '../../shared/utils/board-rules'
+import type { FloorCardDto, FloorCaution } from '../../shared/types/floor'
 import { loadWorkshop, pourDto, type PourDto } from './pours'
 
-export type FloorCaution = 'heat' | 'dust'
-
-export interface FloorCardDto {
-  pour: PourDto
-  mould: { code: string; casts: string; cavityLitres: number; state: string }
-  bench: { id: number; name: string } | null
-  actual: {
-    mixingAt: string | null
-    pouredAt: string | null
-    demouldedAt: string | null
-    backdated: boolean
-    plasterKg: number | null
-    waterKg: number | null
-    waterTempC: number | null
-    powderTempC: number | null
-    shopTempC: number | null
-    slurryTempC: number | null
-    result: 'sound' | 'defect' | null
-    defect: string | null
-    lotCode: string | null
-    pieceMark: string | null
-  }
-  lots: { id: number; lotCode: string; leftKg: number }[]
-  cautions: FloorCaution[]
-}
+export type { FloorCardDto }
 
 const num = (v: string | number | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? d.toISOString() : null)
