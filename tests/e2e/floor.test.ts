@@ -33,6 +33,7 @@ async function pourNow() {
 }
 
 async function signInAs(page: Page, email: string) {
+  await page.context().clearCookies()
   await page.goto(`${base}/login`)
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(DEMO_PASSWORD)
