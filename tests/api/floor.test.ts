@@ -26,8 +26,8 @@ beforeAll(async () => {
 })
 afterAll(closeTestDb)
 
-/** A planned pour on a fresh mould (far from today unless `slotStart` says otherwise), for caster 1. */
-async function plannedPour(slotStart = '2027-04-05T09:00:00Z', casterId = fx.casterId) {
+/** A planned pour on a fresh mould (a Wednesday past the board journey's quiet Mondays, unless `slotStart` says otherwise), for caster 1. */
+async function plannedPour(slotStart = '2028-04-05T09:00:00Z', casterId = fx.casterId) {
   const mouldId = await fx.mould()
   const r = await call('/api/pours', { method: 'POST', cookie: lead, body: { mouldId, slotStart, jobItemId: itemId, casterId } })
   expect(r.status, JSON.stringify(r.data)).toBe(201)
@@ -75,7 +75,7 @@ describe('POST /api/pours/:id/actions: start mixing', () => {
 
   it('refuses a stale version with 409, and its replay gets the same 409 without a change', async () => {
     const p = await plannedPour()
-    await call(`/api/pours/${p.id}`, { method: 'PATCH', cookie: lead, body: { version: 1, slotStart: '2027-04-05T10:00:00Z' } })
+    await call(`/api/pours/${p.id}`, { method: 'PATCH', cookie: lead, body: { version: 1, slotStart: '2028-04-05T10:00:00Z' } })
     const body = { actionId: randomUUID(), kind: 'start_mixing', version: 1, waterTempC: 18 }
     const r = await call(`/api/pours/${p.id}/actions`, { method: 'POST', cookie: caster, body })
     expect(r.status).toBe(409)
