@@ -2,6 +2,7 @@
 // name every file under server/api: a new route without a row here fails the first test.
 import { readdirSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
+import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { GRADE_PRESETS, plasterGradeFromPreset } from '../../shared/utils/plaster'
@@ -33,6 +34,13 @@ const freshMould = async () => (await board()).mould()
 async function freshPour() {
   const r = await call('/api/pours', { method: 'POST', cookie: cookies.lead, body: { mouldId: await freshMould(), slotStart: '2027-09-01T09:00:00Z' } })
   return r.data.id as number
+}
+/** A fresh pour and one action id for it: every allowed role sends the same action (a replay answers 200). */
+const floorAction = { path: '', actionId: '' }
+async function freshFloorAction() {
+  floorAction.path = `/api/pours/${await freshPour()}/actions`
+  floorAction.actionId = randomUUID()
+  return floorAction.path
 }
 const STAFF: Role[] = ['lead', 'caster', 'finisher']
 /** Rows the catalogue and job routes act on, made in beforeAll. */
@@ -69,6 +77,8 @@ const ROUTES: RouteRow[] = [
   { method: 'GET', path: '/api/board', roles: ['lead', 'caster', 'finisher'], target: async () => '/api/board?from=2027-09-01&to=2027-09-02' },
   { method: 'POST', path: '/api/pours', roles: ['lead'], body: async () => ({ mouldId: await freshMould(), slotStart: '2027-09-01T09:00:00Z' }) },
   { method: 'PATCH', path: '/api/pours/[id]', roles: ['lead'], body: () => ({ version: 1, slotStart: '2027-09-01T11:00:00Z' }), target: async () => `/api/pours/${await freshPour()}` },
+  { method: 'POST', path: '/api/pours/[id]/actions', roles: ['lead', 'caster'], body: () => ({ actionId: floorAction.actionId, kind: 'start_mixing', version: 1, waterTempC: 18 }), target: freshFloorAction },
+  { method: 'GET', path: '/api/floor/today', roles: ['lead', 'caster'] },
   { method: 'POST', path: '/api/pours/[id]/void', roles: ['lead'], body: () => ({ version: 1, reason: 'access test' }), target: async () => `/api/pours/${await freshPour()}/void` },
   { method: 'GET', path: '/api/shop-days', roles: ['lead', 'caster', 'finisher'], target: async () => '/api/shop-days?from=2027-09-01&to=2027-09-02' },
   { method: 'PUT', path: '/api/shop-days/[day]', roles: ['lead'], body: () => ({ tempC: 18, humidityPct: 50 }), target: async () => '/api/shop-days/2027-09-03' },

@@ -1,0 +1,151 @@
+// The floor's offline outbox: every pour action gets its UUID on the tablet and is kept in
+// IndexedDB (through idb) until the server has answered it. Sent in order when online, again
+// after a drop (the browser's 'online' event, the socket's reconnect, a slow retry timer).
+// The server answers a replay of an id with its first answer, so sending twice is harmless
+// (architecture.md, "Offline actions"). A refusal (409, 422) stays in the history, shown.
+import { defineStore } from 'pinia'
+import { openDB, type IDBPDatabase } from 'idb'
+import type { FloorActionKind } from '#shared/utils/floor-schemas'
+
+export type OutboxStatus = 'pending' | 'done' | 'refused'
+
+export interface OutboxEntry {
+  id: string
+  pourId: number
+  kind: FloorActionKind
+  label: string
+  body: Record<string, unknown>
+  /** When the caster tapped it (device clock), ISO. */
+  tappedAt: string
+  status: OutboxStatus
+  tries: number
+  message?: string
+  result?: unknown
+  settledAt?: string
+}
+
+const DB_NAME = 'setline-floor'
+/** An action sent more than a minute after the tap carries the tap's time (it is then back-dated). */
+const LATE_AFTER_MS = 60_000
+const RETRY_MS = 15_000
+const HISTORY_KEEP = 40
+
+let dbp: Promise<IDBPDatabase> | undefined
+function outboxDb() {
+  dbp ??= openDB(DB_NAME, 1, {
+    upgrade(db) {
+      db.createObjectStore('outbox', { keyPath: 'id' })
+      db.createObjectStore('cache')
+    },
+  })
+  return dbp
+}
+
+/**
+ * A version-4 UUID (RFC 9562 §5.4). crypto.randomUUID exists only in secure contexts; a shop
+ * tablet may reach Setline over plain http on the workshop's network, getRandomValues works there.
+ */
+export function outboxUuid() {
+  const b = crypto.getRandomValues(new Uint8Array(16))
+  b[6] = (b[6]! & 0x0f) | 0x40
+  b[8] = (b[8]! & 0x3f) | 0x80
+  const h = [...b].map(x => x.toString(16).padStart(2, '0')).join('')
+  return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`
+}
+
+/** A network failure or a server hiccup: keep the action and try again later. */
+function transient(e: unknown) {
+  const status = (e as { response?: { status?: number } })?.response?.status
+  return !status || status >= 500 || status === 401 || status === 408 || status === 429
+}
+
+export const useOutboxStore = defineStore('outbox', () => {
+  const entries = ref<OutboxEntry[]>([])
+  const sending = ref(false)
+  const settled = new Set<(e: OutboxEntry) => void>()
+  let timer: ReturnType<typeof setInterval> | undefined
+  let again = false
+
+  const pending = computed(() => entries.value.filter(e => e.status === 'pending'))
+  const history = computed(() => entries.value.filter(e => e.status !== 'pending').slice(-HISTORY_KEEP).reverse())
+
+  async function save(e: OutboxEntry) {
+    await (await outboxDb()).put('outbox', toRaw(e))
+  }
+
+  async function start() {
+    if (timer || import.meta.server) return
+    const all = (await (await outboxDb()).getAll('outbox')) as OutboxEntry[]
+    entries.value = all.sort((a, b) => a.tappedAt.localeCompare(b.tappedAt))
+    window.addEventListener('online', () => flush())
+    timer = setInterval(() => pending.value.length && flush(), RETRY_MS)
+    void flush()
+  }
+
+  async function enqueue(e: Omit<OutboxEntry, 'id' | 'tappedAt' | 'status' | 'tries'>) {
+    const entry: OutboxEntry = { ...e, id: outboxUuid(), tappedAt: new Date().toISOString(), status: 'pending', tries: 0 }
+    entries.value.push(entry)
+    await save(entry)
+    void flush()
+    return entry
+  }
+
+  function bodyOf(e: OutboxEntry) {
+    const late = !e.body.at && Date.now() - Date.parse(e.tappedAt) > LATE_AFTER_MS
+    return { ...e.body, actionId: e.id, kind: e.kind, ...(late ? { at: e.tappedAt } : {}) }
+  }
+
+  async function settle(e: OutboxEntry, status: OutboxStatus, patch: Partial<OutboxEntry>) {
+    Object.assign(e, patch, { status, settledAt: new Date().toISOString() })
+    await save(e)
+    settled.forEach(fn => fn(e))
+  }
+
+  /** Sends pending actions one by one, in the order they were tapped; stops at the first network failure. */
+  async function flush() {
+    if (import.meta.server) return
+    if (sending.value) {
+      again = true
+      return
+    }
+    sending.value = true
+    again = false
+    let failed = false
+    try {
+      for (const e of [...pending.value]) {
+        e.tries++
+        try {
+          const result = await $fetch(`/api/pours/${e.pourId}/actions`, { method: 'POST', body: bodyOf(e) })
+          await settle(e, 'done', { result })
+        }
+        catch (err) {
+          if (transient(err)) {
+            await save(e)
+            failed = true
+            break
+          }
+          const data = (err as { data?: { message?: string } }).data
+          await settle(e, 'refused', { message: data?.message ?? 'The server refused this action' })
+        }
+      }
+    }
+    finally {
+      sending.value = false
+    }
+    if (again && !failed) await flush()
+  }
+
+  function onSettled(fn: (e: OutboxEntry) => void) {
+    settled.add(fn)
+    return () => settled.delete(fn)
+  }
+
+  async function cachePut(key: string, value: unknown) {
+    await (await outboxDb()).put('cache', JSON.parse(JSON.stringify(value)), key)
+  }
+  async function cacheGet<T>(key: string): Promise<T | undefined> {
+    return (await (await outboxDb()).get('cache', key)) as T | undefined
+  }
+
+  return { entries, pending, history, sending, start, enqueue, flush, onSettled, cachePut, cacheGet }
+})

@@ -1,0 +1,72 @@
+// Exactly-once actions: a tablet gives every action a UUID and may send it again and again
+// (an outbox replays after a Wi-Fi drop without knowing whether the first copy landed). The
+// first answer is stored in processed_actions in the same transaction as the change; any
+// replay gets that answer back with the same status and changes nothing. A refusal (409, or
+// a 422 about the data's meaning) is stored too, so its replay is refused the same way.
+// Idempotency keys stored with the response: common practice for retried writes
+// (the IETF httpapi draft "The Idempotency-Key HTTP Header Field").
+import type { Knex } from 'knex'
+import type { Actor } from '../utils/auth'
+import { processedActionsRepo } from '../repos/processed-actions'
+
+export interface ActionOutcome<T> {
+  /** The body to answer with (stored for replays). */
+  result: T
+  /** Runs after commit, only the first time (live events). */
+  after?: () => void
+}
+
+export interface ActionAnswer<T> { status: number; result: T; replayed: boolean }
+
+/** Statuses whose answer is stored: success and refusals about the action's meaning. */
+const STORED_REFUSALS = new Set([409, 422])
+
+interface HttpishError { statusCode?: number; message?: string; data?: unknown }
+
+function refusalBody(e: HttpishError) {
+  return { statusCode: e.statusCode, message: e.message, data: e.data ?? null }
+}
+
+/** Throws the stored refusal again, as the first answer was thrown. */
+function rethrowStored(status: number, result: unknown): never {
+  const r = (result ?? {}) as { message?: string; data?: Record<string, unknown> | null }
+  throw createError({ statusCode: status, message: r.message ?? 'This action was refused', data: { ...(r.data ?? {}), replayed: true } })
+}
+
+/** The stored answer for an action id, when there is one for this actor's workshop. */
+function replay<T>(actor: Actor, found: NonNullable<Awaited<ReturnType<typeof processedActionsRepo.find>>>): ActionAnswer<T> {
+  if (found.workshop_id !== actor.workshopId) conflict('This action id was already used; the tablet must make a new one')
+  if (found.status >= 400) rethrowStored(found.status, found.result)
+  return { status: found.status, result: found.result as T, replayed: true }
+}
+
+/**
+ * Runs `work` once per action id inside one transaction, with the id's answer recorded in it.
+ * A stored answer is returned (or its refusal thrown again) instead of running `work`.
+ */
+export async function runOnce<T>(actor: Actor, actionId: string, kind: string, work: (trx: Knex.Transaction) => Promise<ActionOutcome<T>>): Promise<ActionAnswer<T>> {
+  const db = useDb()
+  let outcome: ActionOutcome<T> | undefined
+  let refusal: HttpishError | undefined
+  const answer = await db.transaction(async (trx): Promise<ActionAnswer<T>> => {
+    await processedActionsRepo.lock(trx, actionId)
+    const found = await processedActionsRepo.find(trx, actionId)
+    if (found) return replay<T>(actor, found)
+    try {
+      // a savepoint: a refused action leaves nothing behind but its stored refusal
+      outcome = await trx.transaction(inner => work(inner))
+    }
+    catch (e) {
+      const status = (e as HttpishError)?.statusCode
+      if (!status || !STORED_REFUSALS.has(status)) throw e
+      refusal = e as HttpishError
+      await processedActionsRepo.insert(trx, { id: actionId, workshopId: actor.workshopId, userId: actor.id, kind, status, result: refusalBody(refusal) })
+      return { status, result: undefined as T, replayed: false }
+    }
+    await processedActionsRepo.insert(trx, { id: actionId, workshopId: actor.workshopId, userId: actor.id, kind, status: 200, result: outcome.result })
+    return { status: 200, result: outcome.result, replayed: false }
+  })
+  if (refusal) throw refusal
+  outcome?.after?.()
+  return answer
+}

@@ -1,0 +1,71 @@
+// The caster's day on the floor: today's pours (the workshop's local day) as cards with what a
+// caster needs at the bench: mould, batch weights, the demould window, lots in stock, cautions.
+import type { Knex } from 'knex'
+import type { Actor } from '../utils/auth'
+import { poursRepo, daySheetRepo } from '../repos/pours'
+import { floorRepo, type FloorActualsRow } from '../repos/floor'
+import { BURN_CAUTION } from '../../shared/utils/plaster'
+import { boardLocalDay } from '../../shared/utils/board-rules'
+import type { FloorCardDto, FloorCaution } from '../../shared/types/floor'
+import { loadWorkshop, pourDto, type PourDto } from './pours'
+
+export type { FloorCardDto }
+
+const num = (v: string | number | null) => (v === null ? null : Number(v))
+const iso = (d: Date | null) => (d ? d.toISOString() : null)
+
+function actualOf(a: FloorActualsRow): FloorCardDto['actual'] {
+  return {
+    mixingAt: iso(a.mixing_at), pouredAt: iso(a.poured_at), demouldedAt: iso(a.demoulded_at), backdated: a.backdated,
+    plasterKg: num(a.plaster_kg_actual), waterKg: num(a.water_kg_actual), waterTempC: num(a.water_temp_c), powderTempC: num(a.powder_temp_c),
+    shopTempC: num(a.shop_temp_c), slurryTempC: num(a.slurry_temp_c), result: a.result, defect: a.defect, lotCode: a.lot_code, pieceMark: a.piece_mark,
+  }
+}
+
+/** Heat when the gauge is big enough to burn (BURN_CAUTION); dust whenever powder is still to be mixed. */
+function cautionsOf(p: PourDto): FloorCaution[] {
+  const out: FloorCaution[] = []
+  if (p.state === 'planned' || p.state === 'mixing') out.push('dust')
+  if (p.state !== 'demoulded' && p.plasterKg + p.waterKg >= BURN_CAUTION.slurryKg) out.push('heat')
+  return out
+}
+
+/** Cards for the given pours, in the order given. */
+export async function floorCards(db: Knex, workshopId: number, ids: number[]): Promise<FloorCardDto[]> {
+  if (!ids.length) return []
+  const rows = (await Promise.all(ids.map(id => poursRepo.dto(db, workshopId, id)))).filter(r => !!r)
+  const actuals = new Map((await floorRepo.actuals(db, workshopId, ids)).map(a => [Number(a.id), a]))
+  const gradeIds = [...new Set(rows.map(r => Number(r.grade_id)))]
+  const lots = await daySheetRepo.lots(db, workshopId, gradeIds)
+  return rows.map((r) => {
+    const a = actuals.get(Number(r.id))!
+    const pour = pourDto(r)
+    return {
+      pour,
+      mould: { code: r.mould_code, casts: r.casts, cavityLitres: Number(a.cavity_litres), state: a.mould_state },
+      bench: r.bench_id ? { id: Number(r.bench_id), name: r.bench_name! } : null,
+      actual: actualOf(a),
+      lots: lots.filter(l => Number(l.grade_id) === Number(r.grade_id))
+        .map(l => ({ id: Number(l.id), lotCode: l.lot_code as string, leftKg: Number(l.bags_received) * Number(l.bag_kg) - Number(l.used_kg) }))
+        .filter(l => l.leftKg > 0 || Number(r.lot_id) === l.id),
+      cautions: cautionsOf(pour),
+    }
+  })
+}
+
+/**
+ * Today's pours for the floor: a caster's own; a lead's all (or one caster's with casterId).
+ * A pour whose prep starts today, plus any earlier pour still mixing or setting (a cast left
+ * overnight must still be demoulded), in slot order.
+ */
+export async function floorToday(actor: Actor, casterId?: number) {
+  const db = useDb()
+  const ws = await loadWorkshop(db, actor.workshopId)
+  const day = boardLocalDay(new Date(), ws.timezone)
+  const today = await poursRepo.startingOn(db, ws.id, day)
+  const open = await floorRepo.openBefore(db, ws.id, day)
+  const who = actor.role === 'caster' ? actor.id : casterId
+  const ids = [...open, ...today.map(r => Number(r.id))].filter((id, i, all) => all.indexOf(id) === i)
+  const cards = await floorCards(db, ws.id, ids)
+  return { day, timezone: ws.timezone, cards: cards.filter(c => who === undefined || c.pour.casterId === who) }
+}
