@@ -2,7 +2,7 @@
 // to another mould, is refused a clash, then runs the planner and accepts its plan.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import type { Locator, Page } from 'playwright-core'
-import { openBrowser, screenshot } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 
 const base = inject('baseUrl')
@@ -60,11 +60,7 @@ describe('pour board', () => {
   it('creates, drags, refuses a clash, plans and accepts', async () => {
     const lead = DEMO_USERS.find(u => u.key === 'lead')!
     const page = await browser.context.newPage()
-    await page.goto(`${base}/login`)
-    await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-    await page.getByLabel('E-mail').fill(lead.email)
-    await page.getByLabel('Password').fill(DEMO_PASSWORD)
-    await page.getByRole('button', { name: 'Sign in' }).click()
+    await signInThroughForm(page, base, lead.email, DEMO_PASSWORD)
     await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor()
     await page.goto(`${base}/lead/board`)
     await page.getByRole('heading', { level: 1, name: 'Pour board' }).waitFor()

@@ -2,7 +2,7 @@
 // item from walls; a client approves a sample; the catalogue pages show their warnings.
 import { afterAll, beforeAll, beforeEach, describe, expect, it, inject } from 'vitest'
 import type { Page } from 'playwright-core'
-import { openBrowser, screenshot, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
 
 const base = inject('baseUrl')
@@ -20,14 +20,7 @@ beforeEach(async () => {
   await browser.context.clearCookies()
 })
 
-async function signIn(page: Page, email: string, home: string) {
-  await page.goto(`${base}/login`)
-  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(DEMO_PASSWORD)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(`${base}${home}`)
-}
+const signIn = (page: Page, email: string, home: string) => signInThroughForm(page, base, email, DEMO_PASSWORD, home)
 
 describe('lead sets up a mould and a job', () => {
   it('creates a run mould, then a job with a run item from walls', async () => {

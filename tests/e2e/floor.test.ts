@@ -3,7 +3,7 @@
 // wait in the outbox and land exactly once when the Wi-Fi comes back.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import type { Page } from 'playwright-core'
-import { VIEWPORTS, openBrowser, screenshot } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 
@@ -34,12 +34,7 @@ async function pourNow() {
 
 async function signInAs(page: Page, email: string) {
   await page.context().clearCookies()
-  await page.goto(`${base}/login`)
-  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(DEMO_PASSWORD)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(u => !u.pathname.startsWith('/login'))
+  await signInThroughForm(page, base, email, DEMO_PASSWORD)
 }
 
 const card = (page: Page, id: number) => page.locator(`[data-testid="floor-card"][data-pour-id="${id}"]`)

@@ -1,6 +1,6 @@
 // Browser journey: a caster opens the mix card, adds water, and sees the demould window move.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
-import { openBrowser, screenshot, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 
 const base = inject('baseUrl')
@@ -16,11 +16,7 @@ describe('mix card', () => {
   it('moves the demould window when the consistency changes, with the set curve drawn', async () => {
     const caster = DEMO_USERS.find(u => u.key === 'caster1')!
     const page = await browser.context.newPage()
-    await page.goto(`${base}/login`)
-    await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-    await page.getByLabel('E-mail').fill(caster.email)
-    await page.getByLabel('Password').fill(DEMO_PASSWORD)
-    await page.getByRole('button', { name: 'Sign in' }).click()
+    await signInThroughForm(page, base, caster.email, DEMO_PASSWORD)
     await page.getByRole('heading', { level: 1, name: /My pours/ }).waitFor()
     await page.getByRole('link', { name: 'Mix card' }).click()
     await page.getByRole('heading', { level: 1, name: 'Mix card' }).waitFor()

@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
-import { openBrowser, screenshot, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
 
 const base = inject('baseUrl')
@@ -30,14 +30,7 @@ afterAll(async () => {
   await closeTestDb()
 })
 
-async function signIn(page: Page, email: string, home: string) {
-  await page.goto(`${base}/login`)
-  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(DEMO_PASSWORD)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(`${base}${home}`)
-}
+const signIn = (page: Page, email: string, home: string) => signInThroughForm(page, base, email, DEMO_PASSWORD, home)
 
 /** A picture with something to see: a warm plaster tone and a darker band. */
 async function picture(tone: string) {

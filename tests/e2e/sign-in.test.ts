@@ -1,7 +1,6 @@
 // Browser journey: each demo role signs in through the form and lands on its own home.
 import { afterAll, beforeAll, beforeEach, describe, expect, it, inject } from 'vitest'
-import type { Page } from 'playwright-core'
-import { openBrowser, screenshot, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, submitSignIn, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 
 const base = inject('baseUrl')
@@ -17,14 +16,6 @@ beforeEach(async () => {
   await browser.context.clearCookies()
 })
 
-async function signInThroughForm(page: Page, email: string, password: string) {
-  await page.goto(`${base}/login`)
-  await page.locator('html[data-hydrated]').waitFor() // a click before hydration would submit the form natively
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-}
-
 const HOMES = [
   { key: 'lead', path: '/lead', heading: /Today at Larkspur/, viewport: VIEWPORTS.desktop },
   { key: 'caster1', path: '/floor', heading: /My pours today/, viewport: VIEWPORTS.tablet },
@@ -38,7 +29,7 @@ describe('sign in as each role', () => {
       const user = DEMO_USERS.find(u => u.key === h.key)!
       const page = await browser.context.newPage()
       await page.setViewportSize(h.viewport)
-      await signInThroughForm(page, user.email, DEMO_PASSWORD)
+      await submitSignIn(page, base, user.email, DEMO_PASSWORD)
       await page.waitForURL(`${base}${h.path}`)
       // the URL changes before the new page has rendered: wait for its heading
       await page.getByRole('heading', { level: 1, name: h.heading }).waitFor()
@@ -57,7 +48,7 @@ describe('sign in as each role', () => {
 
   it('shows the server\'s message for a wrong password', async () => {
     const page = await browser.context.newPage()
-    await signInThroughForm(page, DEMO_USERS[0].email, 'definitely-wrong')
+    await submitSignIn(page, base, DEMO_USERS[0].email, 'definitely-wrong')
     await expect(page.getByTestId('login-error').textContent()).resolves.toMatch(/E-mail or password is wrong/)
     await screenshot(page, 'sign-in-wrong-password')
     await page.close()

@@ -34,3 +34,22 @@ export async function screenshot(page: Page, name: string) {
   mkdirSync(SCREENSHOTS, { recursive: true })
   await page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true })
 }
+
+/** Fills and submits the sign-in form without waiting for where it lands (a refusal stays on /login). */
+export async function submitSignIn(page: Page, base: string, email: string, password: string) {
+  await page.goto(`${base}/login`)
+  await page.locator('html[data-hydrated]').waitFor()
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/**
+ * Signs in through the form as a real user would: waits for hydration first (a click before
+ * it would submit the form natively), then for the page to leave /login (or reach `home`).
+ */
+export async function signInThroughForm(page: Page, base: string, email: string, password: string, home?: string) {
+  await submitSignIn(page, base, email, password)
+  if (home) await page.waitForURL(`${base}${home}`)
+  else await page.waitForURL(u => !u.pathname.startsWith('/login'))
+}
