@@ -47,6 +47,7 @@ export interface FloorActualsRow {
   defect: string | null
   lot_code: string | null
   piece_mark: string | null
+  piece_id: string | null
   cavity_litres: string
   mould_state: string
 }
@@ -119,7 +120,7 @@ export const floorRepo = {
       .leftJoin('pieces as pc', 'pc.pour_id', 'p.id')
       .select('p.id', 'p.mixing_at', 'p.poured_at', 'p.demoulded_at', 'p.backdated', 'p.plaster_kg_actual', 'p.water_kg_actual',
         'p.water_temp_c', 'p.powder_temp_c', 'p.shop_temp_c', 'p.slurry_temp_c', 'p.result', 'p.defect', 'l.lot_code',
-        'pc.mark as piece_mark', 'm.cavity_litres', 'm.state as mould_state')
+        'pc.mark as piece_mark', 'pc.id as piece_id', 'm.cavity_litres', 'm.state as mould_state')
       .where({ 'p.workshop_id': workshopId }).whereIn('p.id', ids)
   },
 }

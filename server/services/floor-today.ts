@@ -19,6 +19,7 @@ function actualOf(a: FloorActualsRow): FloorCardDto['actual'] {
     mixingAt: iso(a.mixing_at), pouredAt: iso(a.poured_at), demouldedAt: iso(a.demoulded_at), backdated: a.backdated,
     plasterKg: num(a.plaster_kg_actual), waterKg: num(a.water_kg_actual), waterTempC: num(a.water_temp_c), powderTempC: num(a.powder_temp_c),
     shopTempC: num(a.shop_temp_c), slurryTempC: num(a.slurry_temp_c), result: a.result, defect: a.defect, lotCode: a.lot_code, pieceMark: a.piece_mark,
+    pieceId: a.piece_id === null ? null : Number(a.piece_id),
   }
 }
 

@@ -55,7 +55,7 @@ export function notifySampleReady(trx: Knex, workshopId: number, job: JobRef & {
 
 /**
  * To the job's client members: new shared photos. Batched by the dedupe key: the first call of
- * a workshop-local day queues the mail, later calls that day are absorbed (photos issue calls this).
+ * a workshop-local day queues the mail, later calls that day are absorbed.
  */
 export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: number) {
   const job = await jobRef(trx, workshopId, jobId)
@@ -69,7 +69,7 @@ export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: n
   }))
 }
 
-/** To the job's client members: the job is ready for dispatch (the finishing issue calls this). */
+/** To the job's client members: the job is ready for dispatch (called when the last needed piece is ready). */
 export async function notifyJobReady(trx: Knex, workshopId: number, jobId: number) {
   const job = await jobRef(trx, workshopId, jobId)
   if (!job) return 0

@@ -5,6 +5,7 @@ import type { Knex } from 'knex'
 import type { Storage } from 'unstorage'
 import type { Actor } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
+import { notifyPhotosShared } from './notify'
 import { photosRepo, type PhotoRow, type StoredPhotoRow } from '../repos/photos'
 import { PhotoRejected, processPhoto, type PhotoVariants } from '../utils/photo-image'
 import { newPhotoKey, photoStorage, readPhotoFile } from '../utils/storage'
@@ -82,10 +83,14 @@ export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUpl
       await store.setItemRaw(displayKey, p.display)
       stored.push({ ...p, thumbKey, displayKey })
     }
-    const rows = await db.transaction(trx => Promise.all(stored.map(s => photosRepo.insert(trx, actor.workshopId, {
-      jobId, ...links, caption: fields.caption, shared: fields.shared, uploadedBy: actor.id,
-      thumbKey: s.thumbKey, displayKey: s.displayKey, width: s.width, height: s.height, bytes: s.bytes,
-    }))))
+    const rows = await db.transaction(async (trx) => {
+      const inserted = await Promise.all(stored.map(s => photosRepo.insert(trx, actor.workshopId, {
+        jobId, ...links, caption: fields.caption, shared: fields.shared, uploadedBy: actor.id,
+        thumbKey: s.thumbKey, displayKey: s.displayKey, width: s.width, height: s.height, bytes: s.bytes,
+      })))
+      if (inserted.some(r => r.shared)) await notifyPhotosShared(trx, actor.workshopId, jobId)
+      return inserted
+    })
     for (const row of rows) emitPhoto(actor, 'photo.created', row, row.shared)
     return rows
   }
@@ -106,8 +111,13 @@ export async function listPhotos(actor: Actor, jobId: number) {
 export async function updatePhoto(actor: Actor, id: string, input: PhotoPatch) {
   const db = useDb()
   const before = await visiblePhoto(db, actor, id)
-  const row = await photosRepo.update(db, actor.workshopId, id, input)
-  if (!row) notFound('Photo')
+  const row = await db.transaction(async (trx) => {
+    const updated = await photosRepo.update(trx, actor.workshopId, id, input)
+    if (!updated) notFound('Photo')
+    // newly shared: the job's clients hear about it (batched to one mail per job and day)
+    if (updated.shared && !before.shared) await notifyPhotosShared(trx, actor.workshopId, updated.job_id)
+    return updated
+  })
   emitPhoto(actor, 'photo.updated', row, row.shared || before.shared)
   return row
 }

@@ -23,6 +23,7 @@ export interface FloorCardDto {
     defect: string | null
     lotCode: string | null
     pieceMark: string | null
+    pieceId: number | null
   }
   lots: { id: number; lotCode: string; leftKg: number }[]
   cautions: FloorCaution[]

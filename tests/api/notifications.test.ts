@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeUser, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 
 let lead = ''
 let ws = 0
@@ -65,6 +66,24 @@ describe('notifications', () => {
     const mail = await waitForMail(lead, demo.lead.email, `${job.code}: Fixture decider asked for changes`)
     expect(mail.text).toContain('Deeper fillet')
     expect(await outbox({ to_email: quietLead.email, kind: 'sample_decision' })).toEqual([])
+  })
+
+  it('shared photos reach the job\'s clients once per job and day: not while unshared, once when shared, batched after', async () => {
+    const member = await makeUser(ws, 'client', 'photos')
+    const job = (await call('/api/jobs', { method: 'POST', cookie: lead, body: { code: `P-${uid()}`, title: 'Photo job' } })).data as { id: number; code: string }
+    await testDb()('job_members').insert({ workshop_id: ws, job_id: job.id, user_id: member.id })
+    const jpeg = await jpegWithGps(640, 480)
+    const upload = (fields: Record<string, string>) => call(`/api/jobs/${job.id}/photos`, { method: 'POST', cookie: lead, form: photoForm([{ name: 'rose.jpg', data: jpeg }], fields) })
+    const hidden = await upload({ caption: 'Not yet' })
+    expect(hidden.status).toBe(201)
+    expect(await outbox({ to_email: member.email })).toEqual([])
+    const shared = await call(`/api/photos/${hidden.data[0].id}`, { method: 'PATCH', cookie: lead, body: { shared: true } })
+    expect(shared.status).toBe(200)
+    const mail = await waitForMail(lead, member.email, `New photos of ${job.code}`)
+    expect(mail.text).toContain(`/client/jobs/${job.id}`)
+    // a second shared photo the same day is absorbed into the first mail
+    expect((await upload({ shared: 'true' })).status).toBe(201)
+    expect(await outbox({ to_email: member.email, kind: 'photos_shared' })).toHaveLength(1)
   })
 
   it('the outbox retries after the SMTP fake refuses once: attempts ≥ 2, then sent', async () => {

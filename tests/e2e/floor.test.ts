@@ -1,8 +1,9 @@
 // Browser journeys on the caster's tablet (820×1180): a caster starts mixing, marks poured
-// and demoulded on a card while the lead's board follows live; then, offline, three steps
+// and demoulded on a card (with a photo of the piece) while the lead's board follows live; then, offline, three steps
 // wait in the outbox and land exactly once when the Wi-Fi comes back.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import type { Page } from 'playwright-core'
+import sharp from 'sharp'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
@@ -85,6 +86,15 @@ describe('floor', () => {
       await expect.poll(() => stateOf(page, p.id), { timeout: 15_000 }).toBe('demoulded')
       await expect.poll(barState, { timeout: 15_000 }).toMatch(/demoulded/i)
       await expect.poll(() => card(page, p.id).textContent(), { timeout: 15_000 }).toMatch(/Piece .*-001/)
+      // a photo of the piece just out of the mould, from the tablet
+      await card(page, p.id).getByRole('button', { name: 'Photo of this piece' }).click()
+      const jpeg = await sharp({ create: { width: 800, height: 600, channels: 3, background: '#e8e1d4' } }).jpeg().toBuffer()
+      await card(page, p.id).locator('input[type=file]').first().setInputFiles({ name: 'demould.jpg', mimeType: 'image/jpeg', buffer: jpeg })
+      await card(page, p.id).getByLabel('Caption').fill('Straight out of the mould')
+      await card(page, p.id).getByRole('button', { name: 'Upload photo' }).click()
+      await expect.poll(() => card(page, p.id).getByTestId('floor-photo').textContent(), { timeout: 15_000 }).toMatch(/1 photo added to .*-001/)
+      const piece = await fx.k('pieces').where({ pour_id: p.id }).first('id')
+      expect(await fx.k('photos').where({ piece_id: piece.id }).pluck('caption')).toEqual(['Straight out of the mould'])
       await page.setViewportSize({ width: 1180, height: 820 })
       await screenshot(page, 'floor-card-demoulded-landscape')
       await screenshot(board, 'floor-lead-board-live')
