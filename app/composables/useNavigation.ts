@@ -8,6 +8,7 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/lead', label: 'Today', icon: 'sun' },
     { to: '/lead/board', label: 'Pour board', icon: 'board' },
     { to: '/day-sheet', label: 'Day sheet', icon: 'sheet' },
+    { to: '/finishing', label: 'Finishing', icon: 'hammer' },
     { to: '/lead/jobs', label: 'Jobs', icon: 'clipboard' },
     { to: '/lead/moulds', label: 'Moulds', icon: 'shapes' },
     { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
@@ -27,7 +28,7 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],
   finisher: [
-    { to: '/finishing', label: 'Fettling queue', icon: 'hammer' },
+    { to: '/finishing', label: 'Finishing', icon: 'hammer' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],
   client: [

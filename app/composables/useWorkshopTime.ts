@@ -7,6 +7,8 @@ export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
   return {
     /** 'HH:mm' of an instant in the workshop's zone. */
     clock: (iso: string) => DateTime.fromISO(iso, { zone: z() }).toFormat('HH:mm'),
+    /** A short weekday, day, month and time of an instant, e.g. 'Tue 4 Mar 14:30'. */
+    when: (iso: string) => DateTime.fromISO(iso, { zone: z() }).toFormat('ccc d LLL HH:mm'),
     /** 'yyyy-MM-dd' of an instant in the workshop's zone. */
     day: (iso: string | Date) => (typeof iso === 'string' ? DateTime.fromISO(iso, { zone: z() }) : DateTime.fromJSDate(iso, { zone: z() })).toISODate()!,
     /** Today in the workshop's zone. */

@@ -1,18 +1,24 @@
-// The floor's offline outbox: every pour action gets its UUID on the tablet and is kept in
-// IndexedDB (through idb) until the server has answered it. Sent in order when online, again
-// after a drop (the browser's 'online' event, the socket's reconnect, a slow retry timer).
-// The server answers a replay of an id with its first answer, so sending twice is harmless
-// (architecture.md, "Offline actions"). A refusal (409, 422) stays in the history, shown.
+// The tablets' offline outbox: every floor (pour) and finishing (piece) action gets its UUID
+// on the tablet and is kept in IndexedDB (through idb) until the server has answered it. Sent
+// in order when online, again after a drop (the browser's 'online' event, the socket's
+// reconnect, a slow retry timer). The server answers a replay of an id with its first answer,
+// so sending twice is harmless (architecture.md, "Offline actions"). A refusal (409, 422)
+// stays in the history, shown.
 import { defineStore } from 'pinia'
 import { openDB, type IDBPDatabase } from 'idb'
-import type { FloorActionKind } from '#shared/utils/floor-schemas'
 
 export type OutboxStatus = 'pending' | 'done' | 'refused'
 
 export interface OutboxEntry {
   id: string
-  pourId: number
-  kind: FloorActionKind
+  /** the action route to POST to, e.g. /api/pieces/12/actions (entries queued before it existed were pours: see urlOf) */
+  url?: string
+  /** the pour a floor action is about */
+  pourId?: number
+  /** the piece a finishing action is about */
+  pieceId?: number
+  /** the action's kind (a FloorActionKind or a FinishingActionKind) */
+  kind: string
   label: string
   body: Record<string, unknown>
   /** When the caster tapped it (device clock), ISO. */
@@ -51,6 +57,11 @@ export function outboxUuid() {
   b[8] = (b[8]! & 0x3f) | 0x80
   const h = [...b].map(x => x.toString(16).padStart(2, '0')).join('')
   return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`
+}
+
+/** Where an entry goes: its url, or (an entry queued by an older floor page) its pour's action route. */
+function urlOf(e: OutboxEntry) {
+  return e.url ?? `/api/pours/${e.pourId}/actions`
 }
 
 /** A network failure or a server hiccup: keep the action and try again later. */
@@ -115,7 +126,7 @@ export const useOutboxStore = defineStore('outbox', () => {
       for (const e of [...pending.value]) {
         e.tries++
         try {
-          const result = await $fetch(`/api/pours/${e.pourId}/actions`, { method: 'POST', body: bodyOf(e) })
+          const result = await $fetch(urlOf(e), { method: 'POST', body: bodyOf(e) })
           await settle(e, 'done', { result })
         }
         catch (err) {

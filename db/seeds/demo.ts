@@ -7,6 +7,7 @@ import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
 import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '../../shared/utils/plaster'
+import { finishingDryBy } from '../../shared/utils/finishing'
 import { DEMO_PASSWORD, DEMO_USERS } from './demo-people'
 
 const TZ = 'Europe/London'
@@ -162,4 +163,10 @@ async function seedPour(k: Knex, workshopId: number, c: Ctx, p: PourSeed) {
   })
   await k('moulds').where({ id: m.id }).increment('pulls', 1)
   await k('events').insert({ workshop_id: workshopId, entity: 'pour', entity_id: String(pourId), type: 'pour.demoulded', actor_id: c.users[p.caster], at: at(win.openMinutes + 6), data: JSON.stringify({ result: 'sound', piece: pieceId, mark: p.mark }) })
+  if (p.pieceState !== 'drying') return
+  // put to dry an hour after demoulding, in a drying room at 24 °C and 50 %, with its dry-by
+  const fettledAt = at(win.openMinutes + 66)
+  const dry = finishingDryBy({ from: fettledAt, wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg, cavityLitres: Number(m.cavity_litres), airTempC: 24, relHumidityPct: 50 })
+  await k('pieces').where({ id: pieceId }).update({ dry_by: dry.dryBy, drying_temp_c: 24, drying_humidity_pct: 50 })
+  await k('events').insert({ workshop_id: workshopId, entity: 'piece', entity_id: String(pieceId), type: 'piece.fettled', actor_id: c.users.finisher, at: fettledAt, data: JSON.stringify({ from: 'to_fettle', to: 'drying', mark: p.mark, dryingTempC: 24, dryingHumidityPct: 50 }) })
 }

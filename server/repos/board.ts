@@ -1,6 +1,7 @@
 // The board's read besides its pours: the workshop, benches, moulds, shop days, open job
 // items and casters in ONE query (json subselects), so the whole board is two queries.
 import type { Knex } from 'knex'
+import { COUNTED_POUR } from './planning'
 
 export interface BoardContextRow {
   timezone: string
@@ -27,7 +28,7 @@ const SQL = `SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.un
      FROM shop_days s WHERE s.workshop_id = w.id AND s.day BETWEEN :from::date AND :to::date) AS shop_days,
   (SELECT coalesce(json_agg(json_build_object('id', i.id, 'job_id', j.id, 'job_code', j.code, 'description', i.description,
        'mould_id', i.mould_id, 'pieces_needed', i.pieces_needed,
-       'pieces_planned', (SELECT count(*) FROM pours p WHERE p.workshop_id = w.id AND p.job_item_id = i.id AND p.state <> 'void'),
+       'pieces_planned', (SELECT count(*) FROM pours p WHERE p.workshop_id = w.id AND p.job_item_id = i.id AND ${COUNTED_POUR}),
        'released', NOT j.sample_required OR j.sample_state = 'approved') ORDER BY j.due_on NULLS LAST, j.code, i.sort_order, i.id), '[]')
      FROM job_items i JOIN jobs j ON j.id = i.job_id AND j.workshop_id = w.id
      WHERE i.workshop_id = w.id AND j.state = 'open') AS job_items,

@@ -1,6 +1,10 @@
 // The counts behind a client's progress view: per item, pours planned (not void) and pieces
 // by how far they have come. Only counts and the item's own description leave this module.
+// A rejected piece drops out of "planned" and "cast" (its replacement is planned and cast in
+// its place), so the counts never pass what was ordered because of a bad cast, and the client
+// is not shown that anything was rejected.
 import type { Knex } from 'knex'
+import { COUNTED_POUR } from './planning'
 
 export interface ItemProgressRow {
   id: number
@@ -21,8 +25,8 @@ export const progressRepo = {
     const inList = (states: string[]) => states.map(() => '?').join(', ')
     return db('job_items as i').where({ 'i.workshop_id': workshopId, 'i.job_id': jobId })
       .select('i.id', 'i.description', 'i.pieces_needed')
-      .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.job_item_id = i.id AND p.workshop_id = i.workshop_id AND p.state <> 'void') AS planned`))
-      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id) AS cast`))
+      .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.job_item_id = i.id AND p.workshop_id = i.workshop_id AND ${COUNTED_POUR}) AS planned`))
+      .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state <> 'rejected') AS cast`))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(FETTLED)})) AS fettled`, FETTLED))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(DRY)})) AS dry`, DRY))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state = 'dispatched') AS dispatched`))

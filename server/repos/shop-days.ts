@@ -12,6 +12,9 @@ export const shopDaysRepo = {
     const row = await db('shop_days').first('temp_c').where({ workshop_id: workshopId, day })
     return row ? Number(row.temp_c) : null
   },
+  on(db: Knex, workshopId: number, day: string): Promise<ShopDayRow | undefined> {
+    return db('shop_days').first('day', 'temp_c', 'humidity_pct').where({ workshop_id: workshopId, day })
+  },
   async upsert(db: Knex, workshopId: number, setBy: number, v: { day: string; tempC: number; humidityPct: number }): Promise<ShopDayRow> {
     const [row] = await db('shop_days')
       .insert({ workshop_id: workshopId, day: v.day, temp_c: v.tempC, humidity_pct: v.humidityPct, set_by: setBy })

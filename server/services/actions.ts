@@ -9,6 +9,25 @@ import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import { processedActionsRepo } from '../repos/processed-actions'
 
+const MINUTE_MS = 60_000
+/** A tablet's clock may run a little ahead of the server's: two minutes of grace (common practice). */
+const CLOCK_SKEW_MS = 2 * MINUTE_MS
+/** An action recorded more than a minute after it happened counts as back-dated. */
+const BACKDATED_AFTER_MS = MINUTE_MS
+
+/**
+ * When a tablet action happened: now, or the real time the user entered (`at`, ISO), never
+ * ahead of the server's clock and never before the entity's previous step. Kept as back-dated
+ * when more than a minute old (the register shows it as recorded late).
+ */
+export function actionTime(atIso: string | undefined, previous: Date | null) {
+  const now = Date.now()
+  const at = atIso ? new Date(atIso) : new Date(now)
+  if (at.getTime() > now + CLOCK_SKEW_MS) unprocessable([{ field: 'at', message: 'at cannot be in the future' }])
+  if (previous && at.getTime() < previous.getTime()) unprocessable([{ field: 'at', message: `at must be after the previous step (${previous.toISOString()})` }])
+  return { at, backdated: now - at.getTime() > BACKDATED_AFTER_MS }
+}
+
 export interface ActionOutcome<T> {
   /** The body to answer with (stored for replays). */
   result: T

@@ -14,16 +14,12 @@ import { PlasterInputError } from '../../shared/utils/plaster-core'
 import { PlanningInputError } from '../../shared/utils/workshop-calendar'
 import { pourSetMinutes, pourTiming } from '../../shared/utils/pour-timing'
 import { POUR_WASTE_PCT, boardLocalDay } from '../../shared/utils/board-rules'
-import { runOnce } from './actions'
+import { actionTime, runOnce } from './actions'
 import { loadWorkshop } from './pours'
 import { floorCards } from './floor-today'
 import type { FloorActionResult } from '../../shared/types/floor'
 
 const MINUTE_MS = 60_000
-/** A tablet's clock may run a little ahead of the server's: two minutes of grace (common practice). */
-const CLOCK_SKEW_MS = 2 * MINUTE_MS
-/** An action recorded more than a minute after it happened counts as back-dated. */
-const BACKDATED_AFTER_MS = MINUTE_MS
 
 interface StepContext { trx: Knex; actor: Actor; row: FloorPourRow; at: Date; backdated: boolean }
 
@@ -47,15 +43,6 @@ async function lockForStep(trx: Knex, actor: Actor, id: number, input: FloorActi
   }
   if (row.version !== input.version) conflict('This pour was changed by someone else; reload to see it', { state: row.state, version: row.version })
   return row
-}
-
-/** When it happened: now, or the real time the caster entered (never ahead, never before the last step). */
-function actionTime(input: FloorActionInput, previous: Date | null) {
-  const now = Date.now()
-  const at = input.at ? new Date(input.at) : new Date(now)
-  if (at.getTime() > now + CLOCK_SKEW_MS) unprocessable([{ field: 'at', message: 'at cannot be in the future' }])
-  if (previous && at.getTime() < previous.getTime()) unprocessable([{ field: 'at', message: `at must be after the previous step (${previous.toISOString()})` }])
-  return { at, backdated: now - at.getTime() > BACKDATED_AFTER_MS }
 }
 
 async function gradeAndMould(c: StepContext) {
@@ -159,7 +146,7 @@ export function pourAction(actor: Actor, pourId: number, input: FloorActionInput
   return runOnce<FloorActionResult>(actor, input.actionId, `pour.${input.kind}`, async (trx) => {
     const row = await lockForStep(trx, actor, pourId, input)
     const previous = input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null
-    const c: StepContext = { trx, actor, row, ...actionTime(input, previous) }
+    const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }
     const piece = await (STEPS[input.kind] as (c: StepContext, i: FloorActionInput) => Promise<{ id: number; mark: string } | null>)(c, input)
     const [card] = await floorCards(trx, actor.workshopId, [pourId])
     return {

@@ -159,6 +159,7 @@ export const PLASTER_LIMITS = {
   fallingRateFactor: { min: 1, max: 20, unit: 'multiplier on drying time' },
   weighedKg: { min: 0, max: 10000, unit: 'kg', minExclusive: true },
   dryMassKg: { min: 0, max: 10000, unit: 'kg', minExclusive: true },
+  castThicknessMm: { min: 0, max: 500, unit: 'mm', minExclusive: true },
   castLengthM: { min: 0, max: 20, unit: 'm', minExclusive: true },
   minPieceM: { min: 0, max: 20, unit: 'm' },
   wallLengthM: { min: 0, max: 1000, unit: 'm', minExclusive: true },

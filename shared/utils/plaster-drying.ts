@@ -54,6 +54,25 @@ export function wetBulbC(tempC: number, relHumidityPct: number): number {
   return Math.min(tw, t)
 }
 
+/**
+ * The section a cast is taken to have when only its volume is known: 25 mm, within the
+ * 20–30 mm that solid cast ornament is commonly made (common practice, no source; fibrous
+ * work is thinner and dries sooner, a solid corbel thicker and later).
+ */
+export const PLASTER_CAST_THICKNESS_MM = 25
+
+/**
+ * Exposed area of a cast known only by its volume, m²: a shell of the given section with both
+ * faces drying (racked off the floor, as drying racks hold casts), edges ignored:
+ * A = 2 × V / t. An estimate for `dryingEstimate`'s area, no more: the weighing decides dry.
+ */
+export function castExposedAreaM2(input: { volumeLitres: number; thicknessMm?: number }): number {
+  const i = assertPlasterObject(input, 'input')
+  const litres = assertPlasterNumber(i.volumeLitres, 'volumeLitres', PLASTER_LIMITS.cavityLitres)
+  const mm = assertPlasterNumber(i.thicknessMm ?? PLASTER_CAST_THICKNESS_MM, 'thicknessMm', PLASTER_LIMITS.castThicknessMm)
+  return (2 * litres / 1000) / (mm / 1000)
+}
+
 /** Result of `dryingEstimate`. */
 export interface PlasterDryingEstimate {
   /** kg of water per hour evaporating from the wet surface in the constant-rate period */

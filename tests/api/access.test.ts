@@ -8,6 +8,7 @@ import { call, signIn } from '../setup/http'
 import { GRADE_PRESETS, plasterGradeFromPreset } from '../../shared/utils/plaster'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { finishingFixture } from '../setup/finishing-fixtures'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 
 const GRADE_PRESET_MIX = { grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60, consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
@@ -42,9 +43,29 @@ async function freshFloorAction() {
   floorAction.actionId = randomUUID()
   return floorAction.path
 }
+/** A fresh piece to fettle and one action id for it (every allowed role sends the same action: a replay answers 200). */
+let finishing: Awaited<ReturnType<typeof finishingFixture>> | undefined
+const pieceAction = { path: '', actionId: '' }
+async function freshPieceAction() {
+  finishing ??= await finishingFixture('access-finish')
+  pieceAction.path = `/api/pieces/${(await finishing.piece()).id}/actions`
+  pieceAction.actionId = randomUUID()
+  return pieceAction.path
+}
+/** A job with one packed piece (set straight in the database: the finishing tests drive the steps). */
+const dispatchAction = { actionId: '', pieceId: 0 }
+async function freshDispatch() {
+  finishing ??= await finishingFixture('access-finish')
+  const job = await finishing.job()
+  const piece = await finishing.piece({ itemId: await finishing.item(job, null) })
+  await testDb()('pieces').where({ id: piece.id }).update({ state: 'packed' })
+  dispatchAction.actionId = randomUUID()
+  dispatchAction.pieceId = piece.id
+  return `/api/jobs/${job}/dispatches`
+}
 const STAFF: Role[] = ['lead', 'caster', 'finisher']
 /** Rows the catalogue and job routes act on, made in beforeAll. */
-const t = { photo: '', grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
+const t = { photo: '', dispatch: 0, grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
 const rnd = () => Math.random().toString(36).slice(2, 8).toUpperCase()
 const ver = async (table: string, id: number) => Number((await testDb()(table).where({ id }).first('version')).version)
 const gradeBody = () => ({ name: `Guard grade ${rnd()}`, bagKg: 25, grade: (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous')) })
@@ -79,6 +100,11 @@ const ROUTES: RouteRow[] = [
   { method: 'PATCH', path: '/api/pours/[id]', roles: ['lead'], body: () => ({ version: 1, slotStart: '2027-09-01T11:00:00Z' }), target: async () => `/api/pours/${await freshPour()}` },
   { method: 'POST', path: '/api/pours/[id]/actions', roles: ['lead', 'caster'], body: () => ({ actionId: floorAction.actionId, kind: 'start_mixing', version: 1, waterTempC: 18 }), target: freshFloorAction },
   { method: 'GET', path: '/api/floor/today', roles: ['lead', 'caster'] },
+  { method: 'POST', path: '/api/pieces/[id]/actions', roles: ['lead', 'finisher'], body: () => ({ actionId: pieceAction.actionId, kind: 'fettled', version: 1 }), target: freshPieceAction },
+  { method: 'GET', path: '/api/finishing', roles: ['lead', 'finisher'] },
+  { method: 'POST', path: '/api/jobs/[id]/dispatches', roles: ['lead'], body: () => ({ actionId: dispatchAction.actionId, pieceIds: [dispatchAction.pieceId] }), target: freshDispatch },
+  { method: 'GET', path: '/api/jobs/[id]/dispatches', roles: ['lead', 'finisher'], target: async () => `/api/jobs/${t.job}/dispatches` },
+  { method: 'GET', path: '/api/dispatches/[id]', roles: ['lead', 'finisher'], target: async () => `/api/dispatches/${t.dispatch}` },
   { method: 'POST', path: '/api/pours/[id]/void', roles: ['lead'], body: () => ({ version: 1, reason: 'access test' }), target: async () => `/api/pours/${await freshPour()}/void` },
   { method: 'GET', path: '/api/shop-days', roles: ['lead', 'caster', 'finisher'], target: async () => '/api/shop-days?from=2027-09-01&to=2027-09-02' },
   { method: 'PUT', path: '/api/shop-days/[day]', roles: ['lead'], body: () => ({ tempC: 18, humidityPct: 50 }), target: async () => '/api/shop-days/2027-09-03' },
@@ -154,6 +180,7 @@ async function makeTargets() {
   t.memberId = (await makeUser(ws, 'client', 'guard-removed')).id
   await k('job_members').insert({ workshop_id: ws, job_id: t.job, user_id: t.memberId })
   t.photo = await leadPhoto(t.clientJob, true)
+  t.dispatch = await id('dispatches', { job_id: t.job, note_no: `G-${rnd()}`, dispatched_at: new Date() })
 }
 
 function routeFiles(dir: string): string[] {

@@ -19,7 +19,7 @@ beforeEach(async () => {
 const HOMES = [
   { key: 'lead', path: '/lead', heading: /Today at Larkspur/, viewport: VIEWPORTS.desktop },
   { key: 'caster1', path: '/floor', heading: /My pours today/, viewport: VIEWPORTS.tablet },
-  { key: 'finisher', path: '/finishing', heading: /Fettling queue/, viewport: VIEWPORTS.tablet },
+  { key: 'finisher', path: '/finishing', heading: /Finishing/, viewport: VIEWPORTS.tablet },
   { key: 'client1', path: '/client', heading: /My jobs/, viewport: VIEWPORTS.phone },
 ] as const
 

@@ -1,0 +1,151 @@
+// Every knex call for pieces and piece_weighings: the finisher's steps, the queue's reads with
+// job, item, mould and the last weighing, and the job-ready count. Workshop in every WHERE.
+import type { Knex } from 'knex'
+import type { FinishingPieceState } from '#shared/utils/finishing-schemas'
+
+export interface PieceRow {
+  id: number
+  version: number
+  state: FinishingPieceState
+  mark: string
+  pour_id: number
+  job_item_id: number | null
+  dry_mass_kg: string
+  wet_mass_kg: string
+  dry_by: Date | null
+  dispatch_id: number | null
+}
+
+const ROW_COLUMNS = ['id', 'version', 'state', 'mark', 'pour_id', 'job_item_id', 'dry_mass_kg', 'wet_mass_kg', 'dry_by', 'dispatch_id'] as const
+
+/** One piece as the queue reads it: with its job, item, mould and its latest weighing since it last went to drying. */
+export interface PieceViewRow {
+  id: number
+  version: number
+  mark: string
+  state: FinishingPieceState
+  dry_mass_kg: string
+  wet_mass_kg: string
+  dry_by: Date | null
+  drying_temp_c: string | null
+  drying_humidity_pct: string | null
+  reason: string | null
+  dispatch_id: number | null
+  created_at: Date
+  demoulded_at: Date | null
+  mould_code: string
+  mould_casts: string
+  cavity_litres: string
+  item_id: number | null
+  item_description: string | null
+  job_id: number | null
+  job_code: string | null
+  job_title: string | null
+  job_due_on: string | null
+  weighed_kg: string | null
+  weighed_at: Date | null
+}
+
+/**
+ * The latest weighing that belongs to the piece's current drying spell: a weighing from before
+ * a repair (and the piece's second fettling) says nothing about how wet it is now.
+ */
+const LAST_WEIGHING = `LEFT JOIN LATERAL (
+    SELECT w.weighed_kg, w.weighed_at FROM piece_weighings w
+    WHERE w.piece_id = c.id AND w.workshop_id = c.workshop_id
+      AND w.weighed_at >= coalesce((SELECT max(e.at) FROM events e WHERE e.workshop_id = c.workshop_id AND e.entity = 'piece'
+        AND e.entity_id = c.id::text AND e.type = 'piece.fettled'), '-infinity')
+    ORDER BY w.weighed_at DESC, w.id DESC LIMIT 1) lw ON true`
+
+const VIEW_SQL = `SELECT c.id, c.version, c.mark, c.state, c.dry_mass_kg, c.wet_mass_kg, c.dry_by, c.drying_temp_c, c.drying_humidity_pct,
+    c.reason, c.dispatch_id, c.created_at, p.demoulded_at, m.code AS mould_code, m.casts AS mould_casts, m.cavity_litres,
+    i.id AS item_id, i.description AS item_description, j.id AS job_id, j.code AS job_code, j.title AS job_title,
+    to_char(j.due_on, 'YYYY-MM-DD') AS job_due_on, lw.weighed_kg, lw.weighed_at
+  FROM pieces c
+  JOIN pours p ON p.id = c.pour_id AND p.workshop_id = c.workshop_id
+  JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = c.workshop_id
+  LEFT JOIN job_items i ON i.id = c.job_item_id AND i.workshop_id = c.workshop_id
+  LEFT JOIN jobs j ON j.id = i.job_id AND j.workshop_id = c.workshop_id
+  ${LAST_WEIGHING}
+  WHERE c.workshop_id = :workshopId`
+
+/** Most urgent job first (earliest due date; pieces of no job or no due date after), then the oldest cast. */
+const QUEUE_ORDER = 'ORDER BY j.due_on NULLS LAST, coalesce(p.demoulded_at, c.created_at), c.id'
+
+const asNumberId = <T extends { id: number | string }>(r: T) => ({ ...r, id: Number(r.id) })
+
+export const piecesRepo = {
+  async forUpdate(db: Knex, workshopId: number, id: number): Promise<PieceRow | undefined> {
+    const row = await db('pieces').first(...ROW_COLUMNS).where({ workshop_id: workshopId, id }).forUpdate()
+    return row ? asNumberId(row) : undefined
+  },
+  /** Several pieces locked in id order (so two notes taking overlapping pieces cannot deadlock). */
+  async lockMany(db: Knex, workshopId: number, ids: number[]): Promise<PieceRow[]> {
+    const rows = await db('pieces').select(...ROW_COLUMNS).where({ workshop_id: workshopId }).whereIn('id', ids).orderBy('id').forUpdate()
+    return rows.map(asNumberId)
+  },
+  /** Writes one step when the version still matches; false when someone else moved it on. */
+  async step(db: Knex, workshopId: number, id: number, version: number, patch: Record<string, unknown>): Promise<boolean> {
+    const n = await db('pieces').where({ workshop_id: workshopId, id, version })
+      .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() })
+    return n === 1
+  },
+  async addWeighing(db: Knex, workshopId: number, w: { pieceId: number; kg: number; at: Date; by: number }) {
+    await db('piece_weighings').insert({ workshop_id: workshopId, piece_id: w.pieceId, weighed_kg: w.kg, weighed_at: w.at.toISOString(), weighed_by: w.by })
+  },
+  /** When the piece's latest register entry happened (a new step may not be dated before it). */
+  async lastEventAt(db: Knex, workshopId: number, id: number): Promise<Date | null> {
+    const row = await db('events').max({ at: 'at' }).where({ workshop_id: workshopId, entity: 'piece', entity_id: String(id) }).first()
+    return (row?.at as Date | null) ?? null
+  },
+  /** The cast's volume (its mould's cavity), for the drying estimate. */
+  async cavityLitres(db: Knex, workshopId: number, pourId: number): Promise<number> {
+    const row = await db('pours as p').join('moulds as m', function () {
+      this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
+    }).first('m.cavity_litres').where({ 'p.workshop_id': workshopId, 'p.id': pourId })
+    return Number(row.cavity_litres)
+  },
+  async jobIdOfItem(db: Knex, workshopId: number, itemId: number | null): Promise<number | null> {
+    if (!itemId) return null
+    const row = await db('job_items').first('job_id').where({ workshop_id: workshopId, id: itemId })
+    return row ? Number(row.job_id) : null
+  },
+  /** Locks the job row, so two pieces readied at once see each other before judging the job ready. */
+  async lockJob(db: Knex, workshopId: number, jobId: number) {
+    await db('jobs').first('id').where({ workshop_id: workshopId, id: jobId }).forUpdate()
+  },
+  /**
+   * A job is ready for dispatch when it is open, has at least one item that needs pieces, and
+   * every item has at least its pieces_needed pieces ready, packed or dispatched (rejected and
+   * unfinished pieces do not count; spares beyond the need do no harm).
+   */
+  async jobReady(db: Knex, workshopId: number, jobId: number): Promise<boolean> {
+    const r = await db.raw(`SELECT EXISTS (SELECT 1 FROM job_items i WHERE i.workshop_id = j.workshop_id AND i.job_id = j.id AND i.pieces_needed > 0)
+        AND NOT EXISTS (SELECT 1 FROM job_items i WHERE i.workshop_id = j.workshop_id AND i.job_id = j.id
+          AND i.pieces_needed > (SELECT count(*) FROM pieces c WHERE c.workshop_id = i.workshop_id AND c.job_item_id = i.id
+            AND c.state IN ('ready', 'packed', 'dispatched'))) AS ready
+      FROM jobs j WHERE j.workshop_id = ? AND j.id = ? AND j.state = 'open'`, [workshopId, jobId])
+    return r.rows[0]?.ready === true
+  },
+  /** The pieces still in the finisher's hands (not dispatched, not rejected), queue order. */
+  async open(db: Knex, workshopId: number): Promise<PieceViewRow[]> {
+    const r = await db.raw(`${VIEW_SQL} AND c.state NOT IN ('dispatched', 'rejected') ${QUEUE_ORDER}`, { workshopId })
+    return r.rows
+  },
+  async view(db: Knex, workshopId: number, ids: number[]): Promise<PieceViewRow[]> {
+    if (!ids.length) return []
+    const r = await db.raw(`${VIEW_SQL} AND c.id = ANY(:ids) ${QUEUE_ORDER}`, { workshopId, ids })
+    return r.rows
+  },
+  /** A job's pieces in some states (the dispatch view's packed pieces). */
+  async ofJob(db: Knex, workshopId: number, jobId: number, states: FinishingPieceState[]): Promise<PieceViewRow[]> {
+    const r = await db.raw(`${VIEW_SQL} AND j.id = :jobId AND c.state = ANY(:states) ORDER BY c.mark`, { workshopId, jobId, states })
+    return r.rows
+  },
+  async countOfJob(db: Knex, workshopId: number, jobId: number, state: FinishingPieceState): Promise<number> {
+    const row = await db('pieces as c').join('job_items as i', function () {
+      this.on('i.id', 'c.job_item_id').andOn('i.workshop_id', 'c.workshop_id')
+    }).where({ 'c.workshop_id': workshopId, 'i.job_id': jobId, 'c.state': state }).count({ n: '*' }).first()
+    return Number(row?.n ?? 0)
+  },
+}

@@ -1,0 +1,162 @@
+// The finisher's piece actions: fettled → drying (with a dry-by time), weighed, ready, packed,
+// and repair, repaired, rejected; each exactly once (services/actions.ts) in one transaction
+// with its register entry. The server judges the order of steps and the version the tablet saw.
+import type { Knex } from 'knex'
+import type { Actor } from '../utils/auth'
+import type { FinishingActionResult } from '../../shared/types/finishing'
+import { FINISHING_STEPS, type FinishingActionInput, type FinishingPieceState } from '../../shared/utils/finishing-schemas'
+import { PLASTER_DRY_FREE_WATER_PCT, dryness } from '../../shared/utils/plaster-drying'
+import { PlasterInputError } from '../../shared/utils/plaster-core'
+import { finishingDryBy } from '../../shared/utils/finishing'
+import { piecesRepo, type PieceRow } from '../repos/pieces'
+import { floorRepo } from '../repos/floor'
+import { actionTime, runOnce } from './actions'
+import { loadWorkshop } from './pours'
+import { dryingRoom, pieceDtos } from './finishing-queue'
+import { notifyJobReady } from './notify'
+
+interface StepContext { trx: Knex; actor: Actor; row: PieceRow; at: Date; backdated: boolean }
+type StepOutcome = Partial<Pick<FinishingActionResult, 'dryness' | 'drying' | 'jobReady'>>
+
+const STATE_WORDS: Record<FinishingPieceState, string> = {
+  to_fettle: 'waiting to be fettled', repair: 'in repair', drying: 'drying', ready: 'ready', packed: 'packed', dispatched: 'dispatched', rejected: 'rejected',
+}
+const or = (states: readonly string[]) => states.map(s => STATE_WORDS[s as FinishingPieceState]).join(' or ')
+
+function model<T>(fn: () => T): T {
+  try {
+    return fn()
+  }
+  catch (e) {
+    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
+    throw e
+  }
+}
+
+/** The piece, locked, in a state this action may start from and at the version the tablet saw. */
+async function lockForStep(trx: Knex, actor: Actor, id: number, input: FinishingActionInput) {
+  const row = await piecesRepo.forUpdate(trx, actor.workshopId, id)
+  if (!row) notFound('Piece')
+  const step = FINISHING_STEPS[input.kind]
+  if (!step.from.includes(row.state)) {
+    conflict(`Piece ${row.mark} is ${STATE_WORDS[row.state]}: it cannot be marked ${input.kind} (that needs a piece ${or(step.from)})`, { state: row.state, version: row.version })
+  }
+  if (row.version !== input.version) conflict(`Piece ${row.mark} was changed by someone else; reload to see it`, { state: row.state, version: row.version })
+  return row
+}
+
+async function write(c: StepContext, kind: FinishingActionInput['kind'], patch: Record<string, unknown>, data: Record<string, unknown>) {
+  const to = FINISHING_STEPS[kind].to
+  const ok = await piecesRepo.step(c.trx, c.actor.workshopId, c.row.id, c.row.version, { state: to, ...patch })
+  if (!ok) conflict(`Piece ${c.row.mark} was changed by someone else; reload to see it`)
+  await floorRepo.event(c.trx, {
+    workshopId: c.actor.workshopId, entity: 'piece', entityId: c.row.id, type: `piece.${kind}`, actorId: c.actor.id,
+    at: c.at, backdated: c.backdated, data: { from: c.row.state, to, mark: c.row.mark, ...data },
+  })
+}
+
+async function fettled(c: StepContext, input: Extract<FinishingActionInput, { kind: 'fettled' }>): Promise<StepOutcome> {
+  const ws = await loadWorkshop(c.trx, c.actor.workshopId)
+  const room = await dryingRoom(c.trx, ws, c.at)
+  const airTempC = input.dryingTempC ?? room.tempC
+  const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
+  const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
+  const est = model(() => finishingDryBy({
+    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct,
+  }))
+  const hours = Number.isFinite(est.hours) ? est.hours : null
+  await write(c, 'fettled', { dry_by: est.dryBy, drying_temp_c: airTempC, drying_humidity_pct: relHumidityPct, reason: null },
+    { dryingTempC: airTempC, dryingHumidityPct: relHumidityPct, roomFrom: input.dryingTempC === undefined ? room.source : 'form', hours, dryBy: est.dryBy, warnings: est.warnings })
+  return { drying: { hours, dryBy: est.dryBy?.toISOString() ?? null, warnings: est.warnings } }
+}
+
+async function weighed(c: StepContext, input: Extract<FinishingActionInput, { kind: 'weighed' }>): Promise<StepOutcome> {
+  const d = model(() => dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) }))
+  await piecesRepo.addWeighing(c.trx, c.actor.workshopId, { pieceId: c.row.id, kg: input.weighedKg, at: c.at, by: c.actor.id })
+  await write(c, 'weighed', {}, { weighedKg: input.weighedKg, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry })
+  return { dryness: d }
+}
+
+/**
+ * Ready needs the trade's proof: the last weighing of this drying spell within 0.5 % free water
+ * of the computed dry mass (plaster-drying.ts `dryness`). Without one, 409 names what is missing.
+ * A lead may pass a piece anyway (`override`: the lead has judged it dry another way, e.g.
+ * constant weight on the shop's own scale); the register keeps that it was overridden.
+ */
+async function ready(c: StepContext, input: Extract<FinishingActionInput, { kind: 'ready' }>): Promise<StepOutcome> {
+  if (input.override && c.actor.role !== 'lead') {
+    throw createError({ statusCode: 403, message: 'Only a lead can pass a piece as dry without a dry weighing' })
+  }
+  const [view] = await pieceDtos(c.trx, c.actor.workshopId, [c.row.id])
+  const last = view?.lastWeighing ?? null
+  if (!input.override && !last?.isDry) {
+    const why = last
+      ? `its last weighing (${last.kg.toFixed(2)} kg) leaves ${last.freeWaterKg.toFixed(2)} kg of free water, ${last.freeWaterPct.toFixed(1)} % of its dry mass (dry is ${PLASTER_DRY_FREE_WATER_PCT} % or less)`
+      : 'it has not been weighed since it went to drying'
+    conflict(`Piece ${c.row.mark} is not shown dry yet: ${why}. Weigh it again when it has dried, or ask a lead to pass it.`, { state: c.row.state, version: c.row.version, lastWeighing: last })
+  }
+  await write(c, 'ready', {}, { override: !!input.override, lastWeighing: last })
+  return { jobReady: await checkJobReady(c) }
+}
+
+/**
+ * When this piece completes its job (piecesRepo.jobReady: every item has its needed pieces
+ * ready, packed or dispatched), the job's client members hear of it, inside this transaction.
+ * The job row is locked first, so two pieces readied at once on two tablets cannot both miss it.
+ */
+async function checkJobReady(c: StepContext) {
+  const jobId = await piecesRepo.jobIdOfItem(c.trx, c.actor.workshopId, c.row.job_item_id)
+  if (!jobId) return false
+  await piecesRepo.lockJob(c.trx, c.actor.workshopId, jobId)
+  if (!(await piecesRepo.jobReady(c.trx, c.actor.workshopId, jobId))) return false
+  await notifyJobReady(c.trx, c.actor.workshopId, jobId)
+  return true
+}
+
+async function repair(c: StepContext, input: Extract<FinishingActionInput, { kind: 'repair' }>): Promise<StepOutcome> {
+  // back to the bench: the drying estimate no longer holds
+  await write(c, 'repair', { reason: input.reason, dry_by: null }, { reason: input.reason })
+  return {}
+}
+
+async function repaired(c: StepContext, input: Extract<FinishingActionInput, { kind: 'repaired' }>): Promise<StepOutcome> {
+  await write(c, 'repaired', {}, { notes: input.notes ?? null })
+  return {}
+}
+
+/**
+ * A rejected piece leaves the count: the planner's "pieces still to plan" and the client's
+ * planned and cast counts no longer include its pour (server/repos/planning.ts), so the item
+ * goes back on the planner for one more cast.
+ */
+async function rejected(c: StepContext, input: Extract<FinishingActionInput, { kind: 'rejected' }>): Promise<StepOutcome> {
+  await write(c, 'rejected', { reason: input.reason, dry_by: null }, { reason: input.reason, pourId: c.row.pour_id })
+  return {}
+}
+
+async function packed(c: StepContext): Promise<StepOutcome> {
+  await write(c, 'packed', {}, {})
+  return {}
+}
+
+const STEPS = { fettled, weighed, ready, repair, repaired, rejected, packed } as const
+
+/** POST /api/pieces/:id/actions: one finishing step of a piece, exactly once per actionId. */
+export function pieceAction(actor: Actor, pieceId: number, input: FinishingActionInput) {
+  return runOnce<FinishingActionResult>(actor, input.actionId, `piece.${input.kind}`, async (trx) => {
+    const row = await lockForStep(trx, actor, pieceId, input)
+    const previous = await piecesRepo.lastEventAt(trx, actor.workshopId, pieceId)
+    const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }
+    const out = await (STEPS[input.kind] as (c: StepContext, i: FinishingActionInput) => Promise<StepOutcome>)(c, input)
+    const [piece] = await pieceDtos(trx, actor.workshopId, [pieceId])
+    const jobId = piece!.job?.id ?? null
+    return {
+      result: { piece: piece!, dryness: out.dryness ?? null, drying: out.drying ?? null, jobReady: out.jobReady ?? false },
+      after: () => {
+        emitToWorkshop(actor.workshopId, { type: 'piece.updated', id: pieceId, version: piece!.version, row: piece })
+        // the client's progress counts moved: tell the job's room only that, nothing internal
+        if (jobId) emitToJob(actor.workshopId, jobId, { type: 'job.progress', id: jobId })
+      },
+    }
+  })
+}

@@ -1,0 +1,100 @@
+// What the finishing routes return: pieces as cards on the finisher's tablet, the queue, an
+// action's answer, and dispatch notes.
+import type { FinishingPieceState } from '../utils/finishing-schemas'
+
+export interface FinishingWeighingDto {
+  kg: number
+  at: string
+  /** weighed less the computed dry mass, kg and % of the dry mass (plaster-drying.ts `dryness`) */
+  freeWaterKg: number
+  freeWaterPct: number
+  isDry: boolean
+}
+
+export interface FinishingPieceDto {
+  id: number
+  version: number
+  mark: string
+  state: FinishingPieceState
+  job: { id: number; code: string; title: string; dueOn: string | null } | null
+  item: { id: number; description: string } | null
+  mould: { code: string; casts: string; cavityLitres: number }
+  dryMassKg: number
+  wetMassKg: number
+  /** the weight to lift it at (finishingHandlingKg) */
+  handlingKg: number
+  teamLift: boolean
+  demouldedAt: string | null
+  dryBy: string | null
+  dryingTempC: number | null
+  dryingHumidityPct: number | null
+  reason: string | null
+  /** the latest weighing since the piece last went to drying */
+  lastWeighing: FinishingWeighingDto | null
+  dispatchId: number | null
+}
+
+export interface FinishingQueue {
+  timezone: string
+  /** the drying room's conditions the fettle form starts from: today's shop day, else the workshop's usual */
+  room: { tempC: number; humidityPct: number; source: 'shop day' | 'workshop' }
+  toFettle: FinishingPieceDto[]
+  repair: FinishingPieceDto[]
+  drying: FinishingPieceDto[]
+  ready: FinishingPieceDto[]
+  packed: FinishingPieceDto[]
+}
+
+export interface FinishingActionResult {
+  piece: FinishingPieceDto
+  /** the weighing's answer (weighed only) */
+  dryness: { freeWaterKg: number; freeWaterPct: number; isDry: boolean; warnings: string[] } | null
+  /** the drying estimate (fettled only); hours is null when the air is saturated */
+  drying: { hours: number | null; dryBy: string | null; warnings: string[] } | null
+  /** true when this action made the piece's job ready for dispatch (ready only) */
+  jobReady: boolean
+}
+
+export interface DispatchSummaryDto {
+  id: number
+  noteNo: string
+  dispatchedAt: string
+  dispatchedBy: string | null
+  pieces: number
+  totalKg: number
+}
+
+export interface DispatchNotePieceDto {
+  id: number
+  mark: string
+  item: string | null
+  mould: string
+  kg: number
+  /** true when kg is a weighing, false when it is the computed dry mass */
+  weighed: boolean
+  teamLift: boolean
+}
+
+export interface DispatchNoteDto {
+  id: number
+  noteNo: string
+  dispatchedAt: string
+  dispatchedBy: string | null
+  notes: string | null
+  timezone: string
+  workshop: string
+  job: { id: number; code: string; title: string; site: string | null; client: string | null }
+  pieces: DispatchNotePieceDto[]
+  totalKg: number
+  teamLiftKg: number
+}
+
+export interface JobDispatchesDto {
+  timezone: string
+  job: { id: number; code: string; title: string }
+  notes: DispatchSummaryDto[]
+  /** the job's packed pieces: what a new note can carry */
+  packed: FinishingPieceDto[]
+  /** how many of the job's pieces are ready but not yet packed */
+  readyCount: number
+}

@@ -1,0 +1,119 @@
+// Browser journey on the finisher's tablet (820×1180): a finisher fettles a piece (dry-by from
+// the drying room), weighs it dry, marks it ready and, with the Wi-Fi down, packed (the outbox
+// sends it when the connection returns); the lead makes a dispatch note for the job and reads
+// it, and the packed piece leaves the finisher's list live. Screenshots at each step.
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import type { Page } from 'playwright-core'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
+import { finishingFixture } from '../setup/finishing-fixtures'
+
+const base = inject('baseUrl')
+let browser: Awaited<ReturnType<typeof openBrowser>>
+let fx: Awaited<ReturnType<typeof finishingFixture>>
+beforeAll(async () => {
+  browser = await openBrowser(VIEWPORTS.tablet)
+  fx = await finishingFixture('finish-e2e')
+})
+afterAll(async () => {
+  await browser?.close()
+  await closeTestDb()
+})
+
+const card = (page: Page, id: number) => page.locator(`[data-testid="piece-card"][data-piece-id="${id}"]`)
+const stateOf = (page: Page, id: number) => card(page, id).getAttribute('data-state', { timeout: 2000 }).catch(() => null)
+/** Opens a tab and waits for the card to show there, sent (no "sending…"). */
+async function onTab(page: Page, tab: string, id: number, state: string) {
+  await page.getByTestId(`tab-${tab}`).click()
+  await expect.poll(() => stateOf(page, id), { timeout: 15_000 }).toBe(state)
+  await expect.poll(() => card(page, id).getByTestId('piece-state').textContent(), { timeout: 15_000 }).not.toMatch(/sending/)
+}
+
+describe('finishing', () => {
+  it('a finisher fettles, weighs, readies and packs a piece; the lead makes its dispatch note', async () => {
+    const job = await fx.job({ due_on: '2031-02-03', site: 'Larkspur Hall, library' })
+    const jobCode = (await fx.k('jobs').where({ id: job }).first('code')).code as string
+    const p = await fx.piece({ itemId: await fx.item(job, null, { pieces_needed: 1, description: 'Library frieze' }) })
+
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, demo.finisher.email, DEMO_PASSWORD, '/finishing')
+    await page.getByRole('heading', { level: 1, name: 'Finishing' }).waitFor()
+    await card(page, p.id).waitFor()
+    await card(page, p.id).scrollIntoViewIfNeeded()
+    await screenshot(page, 'finishing-queue')
+
+    // fettled: the drying room's conditions give the dry-by before the tap
+    await card(page, p.id).getByTestId('piece-next').click()
+    await card(page, p.id).getByLabel('Room °C').fill('30')
+    await card(page, p.id).getByLabel('Humidity %').fill('40')
+    await expect.poll(() => card(page, p.id).getByTestId('dry-by-preview').textContent()).toMatch(/Dry by about .* h\)/)
+    await screenshot(page, 'finishing-fettle-form')
+    await card(page, p.id).getByTestId('finishing-submit').click()
+    await onTab(page, 'drying', p.id, 'drying')
+    await expect(card(page, p.id).getByTestId('piece-dry-by').textContent()).resolves.toMatch(/Dry by\s*\w{3} \d+ \w{3} \d\d:\d\d/)
+
+    // weighed: the free water left shows as the number is typed, and on the card after
+    await card(page, p.id).getByTestId('piece-next').click()
+    await card(page, p.id).getByLabel('Weighed kg').fill((p.dryMassKg * 1.001).toFixed(2))
+    await expect.poll(() => card(page, p.id).getByTestId('weigh-preview').getAttribute('data-dry')).toBe('true')
+    await screenshot(page, 'finishing-weigh-form')
+    await card(page, p.id).getByTestId('finishing-submit').click()
+    await expect.poll(() => card(page, p.id).getByTestId('piece-weighing').getAttribute('data-dry', { timeout: 2000 }).catch(() => null), { timeout: 15_000 }).toBe('true')
+    await expect(page.getByTestId('finishing-answer').textContent()).resolves.toMatch(/free water left .* dry/)
+    await screenshot(page, 'finishing-weighed')
+
+    // ready
+    await expect(card(page, p.id).getByTestId('piece-next').textContent()).resolves.toMatch(/Ready/)
+    await card(page, p.id).getByTestId('piece-next').click()
+    await card(page, p.id).getByTestId('finishing-submit').click()
+    await onTab(page, 'ready', p.id, 'ready')
+    await screenshot(page, 'finishing-ready')
+
+    // packed with the Wi-Fi down: it waits in the outbox, then lands once
+    await browser.context.setOffline(true)
+    await card(page, p.id).getByTestId('piece-next').click()
+    await card(page, p.id).getByTestId('finishing-submit').click()
+    await expect.poll(() => page.getByTestId('outbox-pending').textContent()).toMatch(/1 waiting/)
+    await page.getByTestId('tab-packed').click()
+    await expect.poll(() => stateOf(page, p.id)).toBe('packed')
+    await screenshot(page, 'finishing-packed-offline')
+    await browser.context.setOffline(false)
+    await expect.poll(() => page.getByTestId('outbox-pending').textContent(), { timeout: 30_000 }).toMatch(/All actions sent/)
+    expect(await fx.k('pieces').where({ id: p.id }).first('state', 'version')).toEqual({ state: 'packed', version: 5 })
+    expect(await fx.k('events').where({ entity: 'piece', entity_id: String(p.id) }).orderBy('id').pluck('type'))
+      .toEqual(['piece.created', 'piece.fettled', 'piece.weighed', 'piece.ready', 'piece.packed'])
+
+    // the lead's dispatch view on the job page: make the note and read it
+    const leadCtx = await openBrowser(VIEWPORTS.desktop)
+    try {
+      const lead = await leadCtx.context.newPage()
+      await signInThroughForm(lead, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+      await lead.goto(`${base}/lead/jobs/${job}`)
+      const panel = lead.getByTestId('dispatch-panel')
+      await panel.getByText(p.mark).waitFor()
+      await expect(panel.getByRole('checkbox').isChecked()).resolves.toBe(true)
+      await panel.scrollIntoViewIfNeeded()
+      await screenshot(lead, 'finishing-lead-dispatch-panel')
+      await panel.getByTestId('dispatch-make').click()
+      await lead.waitForURL(/\/dispatches\/\d+$/)
+      const note = lead.getByTestId('dispatch-note')
+      await note.waitFor()
+      await expect(note.getByTestId('note-no').textContent()).resolves.toMatch(/^DN-\d{4}-\d{4}$/)
+      await expect(note.locator(`tr[data-mark="${p.mark}"]`).textContent()).resolves.toContain('Library frieze')
+      const weighed = Number((await fx.k('piece_weighings').where({ piece_id: p.id }).first('weighed_kg')).weighed_kg)
+      await expect(note.getByTestId('note-total').textContent()).resolves.toBe(weighed.toFixed(2))
+      await expect(note.getByTestId('note-caution').textContent()).resolves.toMatch(/two-person lift.*competent fixers/s)
+      await expect(note.textContent()).resolves.toContain(jobCode)
+      await screenshot(lead, 'finishing-dispatch-note')
+      // the finisher's packed list follows live
+      await expect.poll(() => card(page, p.id).count(), { timeout: 15_000 }).toBe(0)
+      expect((await fx.k('pieces').where({ id: p.id }).first('state')).state).toBe('dispatched')
+      await lead.goto(`${base}/lead/jobs/${job}`)
+      await lead.getByTestId('dispatch-link').first().waitFor()
+    }
+    finally {
+      await leadCtx.close()
+    }
+    await page.close()
+  }, 180_000)
+})
