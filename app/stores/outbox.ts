@@ -35,6 +35,8 @@ const DB_NAME = 'setline-floor'
 const LATE_AFTER_MS = 60_000
 const RETRY_MS = 15_000
 const HISTORY_KEEP = 40
+/** How long a refusal stays on the page above the cards (it stays in the outbox history after). */
+const REFUSAL_SHOWN_MS = 10 * 60_000
 
 let dbp: Promise<IDBPDatabase> | undefined
 function outboxDb() {
@@ -79,6 +81,9 @@ export const useOutboxStore = defineStore('outbox', () => {
 
   const pending = computed(() => entries.value.filter(e => e.status === 'pending'))
   const history = computed(() => entries.value.filter(e => e.status !== 'pending').slice(-HISTORY_KEEP).reverse())
+  /** The latest refusal of the last ten minutes among the entries a page cares about (pours on the floor, pieces in finishing). */
+  const recentRefusal = (mine: (e: OutboxEntry) => boolean) =>
+    history.value.find(e => mine(e) && e.status === 'refused' && Date.now() - Date.parse(e.settledAt ?? '') < REFUSAL_SHOWN_MS)
 
   async function save(e: OutboxEntry) {
     await (await outboxDb()).put('outbox', toRaw(e))
@@ -158,5 +163,5 @@ export const useOutboxStore = defineStore('outbox', () => {
     return (await (await outboxDb()).get('cache', key)) as T | undefined
   }
 
-  return { entries, pending, history, sending, start, enqueue, flush, onSettled, cachePut, cacheGet }
+  return { entries, pending, history, recentRefusal, sending, start, enqueue, flush, onSettled, cachePut, cacheGet }
 })
