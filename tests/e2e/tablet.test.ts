@@ -77,6 +77,11 @@ describe('shared tablet', () => {
     await page.waitForURL(`${base}/tablet`)
     await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
     expect((await page.request.get(`${base}/api/auth/me`)).status()).toBe(401)
+    // opened afresh (a reload, the home address), the tablet still shows its picker
+    await page.goto(`${base}/`)
+    await page.waitForURL(`${base}/tablet`)
+    await page.locator('html[data-hydrated]').waitFor()
+    await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
 
     // a mistyped PIN says so and clears the dots; the right one goes through
     await switchIn(page, demo.finisher.name, '8164')
@@ -88,6 +93,16 @@ describe('shared tablet', () => {
     await page.getByRole('heading', { level: 1, name: /Fettling queue/ }).waitFor()
     await expect.poll(() => page.getByTestId('user-name').textContent()).toBe(demo.finisher.name)
     await screenshot(page, 'tablet-6-finisher-queue')
+
+    // a lead may still sign in on the tablet with their password; signing out returns to the picker
+    await page.getByTestId('switch-person').click()
+    await page.waitForURL(`${base}/tablet`)
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+    await page.goto(`${base}/lead/people`)
+    await expect.poll(() => page.getByTestId('tablets').getByText('this device', { exact: true }).count()).toBe(1)
+    await page.getByRole('button', { name: 'Sign out' }).click()
+    await page.waitForURL(`${base}/tablet`)
+    await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
     await page.close()
   })
 
