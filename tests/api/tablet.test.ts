@@ -2,7 +2,8 @@
 // and switch in with it, wrong PINs are limited per device and per person, a lead revokes a
 // tablet. Against the built server and real PostgreSQL.
 import { createHash } from 'node:crypto'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { io, type Socket } from 'socket.io-client'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, setPinDirect, testDb } from '../setup/fixtures'
 
@@ -14,7 +15,9 @@ beforeAll(async () => {
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
   ws = await demoWorkshopId()
 })
+const sockets: Socket[] = []
 afterAll(async () => {
+  sockets.forEach(s => s.close())
   await testDb()('rate_limits').where('key', 'like', 'pin%').del()
   await closeTestDb()
 })
@@ -42,6 +45,16 @@ async function person(role: 'caster' | 'finisher' | 'lead' | 'client' = 'caster'
 const switchTo = (device: string | undefined, userId: number, pin: string) =>
   call('/api/tablet/switch', { method: 'POST', cookie: device, body: { userId, pin } })
 const both = (session: string | undefined, device: string) => `${session}; ${device}`
+
+/** A live socket with these cookies: resolves once connected, rejects when the server refuses it. */
+function liveSocket(cookie: string): Promise<Socket> {
+  const s = io(inject('baseUrl'), { path: '/socket.io/', transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true })
+  sockets.push(s)
+  return new Promise((resolve, reject) => {
+    s.once('connect', () => resolve(s))
+    s.once('connect_error', err => reject(err))
+  })
+}
 
 describe('signing a tablet in', () => {
   it('only a lead can: 401 signed out, 403 for caster, finisher and client', async () => {
@@ -253,12 +266,16 @@ describe('wrong PIN limits', () => {
 })
 
 describe('revoking a tablet', () => {
-  it('a revoked tablet cannot switch, its current session ends, and its picker is refused', async () => {
+  it('a revoked tablet cannot switch, its current session and live socket end, and its picker is refused', async () => {
     const { id, device } = await newTablet('Soon revoked')
     const caster = await person('caster', '3958')
     const on = await switchTo(device, caster.id, '3958')
     const cookie = both(on.cookie, device)
     expect((await call('/api/floor/today', { cookie })).status).toBe(200)
+    // the PIN session's live socket needs the tablet's cookie as well
+    await expect(liveSocket(on.cookie!)).rejects.toThrow()
+    const socket = await liveSocket(cookie)
+    const dropped = new Promise<string>(resolve => socket.once('disconnect', reason => resolve(reason)))
     const other = await makeOtherWorkshop()
     expect((await call(`/api/tablets/${id}/revoke`, { method: 'POST', cookie: await signIn(other.lead.email, DEMO_PASSWORD) })).status).toBe(404)
     for (const role of [demo.caster1, demo.finisher]) {
@@ -267,6 +284,8 @@ describe('revoking a tablet', () => {
     const revoked = await call(`/api/tablets/${id}/revoke`, { method: 'POST', cookie: lead })
     expect(revoked.status).toBe(200)
     expect(revoked.data.revoked_at).not.toBeNull()
+    expect(await dropped).toBe('io server disconnect')
+    await expect(liveSocket(cookie)).rejects.toThrow()
     const after = await call('/api/floor/today', { cookie })
     expect(after.status).toBe(401)
     expect(after.data.message).toMatch(/tablet/i)
