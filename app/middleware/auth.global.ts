@@ -8,6 +8,9 @@ export default defineNuxtRouteMiddleware(async (to) => {
     return
   }
   if (!loggedIn.value || !user.value) {
+    // a shared tablet with no one on it shows its person picker; the device cookie is
+    // httpOnly, so only the server rendering the first page can see it
+    if (import.meta.server && useCookie(TABLET_COOKIE).value) return navigateTo('/tablet')
     return navigateTo({ path: '/login', query: to.fullPath !== '/' ? { next: to.fullPath } : {} })
   }
   const home = ROLE_HOME[user.value.role]

@@ -60,13 +60,16 @@ async function waitForHttp(url: string, timeoutMs: number) {
 }
 
 function printWelcome(url: string) {
-  const rows = DEMO_USERS.map(u => `  ${u.role.padEnd(9)} ${u.email.padEnd(36)} ${u.name}`)
+  const rows = DEMO_USERS.map(u => `  ${u.role.padEnd(9)} ${u.email.padEnd(36)} ${u.name.padEnd(20)}${'pin' in u ? ` tablet PIN ${u.pin}` : ''}`.trimEnd())
   console.log([
     '',
     `Setline is running at ${url}  (ready in ${((Date.now() - t0) / 1000).toFixed(1)} s)`,
     '',
     `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
     ...rows,
+    '',
+    'Shared tablet: sign in as the lead on the device, People → "Use this device as a shared tablet",',
+    'then tap a name and type that person\'s tablet PIN.',
     '',
     'Ctrl-C stops the app; `npm run db:stop` stops PostgreSQL.',
     '',

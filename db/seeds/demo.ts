@@ -25,7 +25,8 @@ async function insertId(k: Knex, table: string, row: Record<string, unknown>) {
 }
 
 async function seedPeople(k: Knex, workshopId: number) {
-  const hash = await new Hash(new Scrypt(SCRYPT_OPTIONS)).make(DEMO_PASSWORD)
+  const hasher = new Hash(new Scrypt(SCRYPT_OPTIONS))
+  const hash = await hasher.make(DEMO_PASSWORD)
   const orgs: Ids = {}
   const users: Ids = {}
   for (const u of DEMO_USERS) {
@@ -34,6 +35,7 @@ async function seedPeople(k: Knex, workshopId: number) {
     users[u.key] = await insertId(k, 'users', {
       workshop_id: workshopId, email: u.email, name: u.name, role: u.role,
       client_org_id: org ? orgs[org] : null, password_hash: hash,
+      pin_hash: 'pin' in u ? await hasher.make(u.pin) : null,
     })
   }
   return { orgs, users }

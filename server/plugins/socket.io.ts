@@ -10,27 +10,33 @@ import { createAdapter } from '@socket.io/postgres-adapter'
 import pg from 'pg'
 import { parse as parseCookies } from 'cookie-es'
 import { liveRooms } from '#shared/types/live'
+import type { SessionUserData } from '#shared/types/auth'
+import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
 import { usersRepo } from '../repos/users'
 
 async function authenticate(socket: Socket) {
   const name = (useRuntimeConfig().session as { name?: string }).name ?? 'nuxt-session'
-  const sealed = parseCookies(socket.request.headers.cookie ?? '')[name]
+  const cookies = parseCookies(socket.request.headers.cookie ?? '')
+  const sealed = cookies[name]
   if (!sealed) return undefined
   const password = process.env.NUXT_SESSION_PASSWORD ?? ''
   try {
     const session = await unsealSession(undefined as never, { password, maxAge: 60 * 60 * 12 }, sealed)
-    const user = (session.data as { user?: { id: number; workshopId: number; sv: number } }).user
+    const user = (session.data as { user?: SessionUserData }).user
     if (!user) return undefined
     const row = await usersRepo.byId(useDb(), user.workshopId, user.id)
     if (!row || row.disabled_at || row.session_version !== user.sv) return undefined
-    return row
+    // a PIN session on a shared tablet, as requireRole checks it (server/utils/tablet.ts)
+    if (user.tablet && !(await tabletOfSession(user, cookies[TABLET_COOKIE]))) return undefined
+    return { ...row, tabletId: user.tablet?.id }
   }
   catch {
     return undefined
   }
 }
 
-async function joinRooms(socket: Socket, user: { id: number; workshop_id: number; role: string }) {
+async function joinRooms(socket: Socket, user: { id: number; workshop_id: number; role: string; tabletId?: number }) {
+  if (user.tabletId) await socket.join(liveRooms.tablet(user.tabletId))
   if (user.role !== 'client') {
     await socket.join(liveRooms.workshop(user.workshop_id))
     return

@@ -28,8 +28,23 @@ export const usersRepo = {
     const row: UserRow | undefined = await db('users').where({ workshop_id: workshopId, id }).first(COLUMNS)
     return row
   },
+  /** The workshop's people; has_pin says whether a tablet PIN is set (never the hash). */
   list(db: Knex, workshopId: number) {
-    return db('users').select(PUBLIC_COLUMNS).where({ workshop_id: workshopId }).orderBy([{ column: 'role' }, { column: 'name' }])
+    return db('users').select([...PUBLIC_COLUMNS, db.raw('pin_hash IS NOT NULL AS has_pin')])
+      .where({ workshop_id: workshopId }).orderBy([{ column: 'role' }, { column: 'name' }])
+  },
+  async pinHash(db: Knex, workshopId: number, id: number): Promise<string | null> {
+    const row = await db('users').where({ workshop_id: workshopId, id }).first('pin_hash')
+    return row?.pin_hash ?? null
+  },
+  /** Sets (a hash) or clears (null) the tablet PIN; the number of rows changed. */
+  setPin(db: Knex, workshopId: number, id: number, pinHash: string | null) {
+    return db('users').where({ workshop_id: workshopId, id }).update({ pin_hash: pinHash, updated_at: db.fn.now() })
+  },
+  /** Who a shared tablet offers: enabled casters and finishers with a PIN, by name. */
+  tabletPeople(db: Knex, workshopId: number, roles: readonly Role[]): Promise<{ id: number; name: string; role: Role }[]> {
+    return db('users').select('id', 'name', 'role').where({ workshop_id: workshopId }).whereIn('role', roles)
+      .whereNotNull('pin_hash').whereNull('disabled_at').orderBy('name')
   },
   async insert(db: Knex, row: { workshop_id: number; email: string; name: string; role: Role; client_org_id?: number | null; password_hash: string }) {
     const [created] = await db('users').insert(row).returning(COLUMNS)

@@ -3,6 +3,8 @@ import type { H3Event } from 'h3'
 import pLimit from 'p-limit'
 import type { Role, SessionUserData } from '#shared/types/auth'
 import { usersRepo } from '../repos/users'
+import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
+import { tabletOfSession } from './tablet'
 
 export type Actor = SessionUserData
 
@@ -20,6 +22,11 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Act
     await endSession(event)
     throw createError({ statusCode: 401, message: 'Your session has ended; please sign in again' })
   }
+  // a PIN session lives only on its tablet, and only while a lead has not revoked it
+  if (user.tablet && !(await tabletOfSession(user, getCookie(event, TABLET_COOKIE)))) {
+    await endSession(event)
+    throw createError({ statusCode: 401, message: 'This tablet is no longer signed in; a lead can sign it in again' })
+  }
   if (roles.length && !roles.includes(row.role)) {
     throw createError({ statusCode: 403, message: `This needs the ${roles.join(' or ')} role` })
   }
@@ -29,14 +36,19 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Act
 export const STAFF: Role[] = ['lead', 'caster', 'finisher']
 export const EVERYONE: Role[] = ['lead', 'caster', 'finisher', 'client']
 
-/** The session cookie is Secure when people reach Setline over https (APP_URL). */
-function cookieConfig() {
-  return { cookie: { sameSite: 'lax' as const, httpOnly: true, secure: appEnv().APP_URL.startsWith('https:') } }
+/** Cookies are Secure when people reach Setline over https (APP_URL). */
+export function secureCookies() {
+  return appEnv().APP_URL.startsWith('https:')
 }
 
-export async function startSession(event: H3Event, row: { id: number; workshop_id: number; role: Role; name: string; email: string; session_version: number }) {
+function cookieConfig() {
+  return { cookie: { sameSite: 'lax' as const, httpOnly: true, secure: secureCookies() } }
+}
+
+/** Starts a session for a user; `tablet` marks one begun with a PIN on a shared tablet. */
+export async function startSession(event: H3Event, row: { id: number; workshop_id: number; role: Role; name: string; email: string; session_version: number }, tablet?: { id: number; name: string }) {
   await replaceUserSession(event, {
-    user: { id: row.id, workshopId: row.workshop_id, role: row.role, name: row.name, email: row.email, sv: row.session_version },
+    user: { id: row.id, workshopId: row.workshop_id, role: row.role, name: row.name, email: row.email, sv: row.session_version, ...(tablet ? { tablet } : {}) },
     loggedInAt: Date.now(),
   }, cookieConfig())
 }

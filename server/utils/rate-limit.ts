@@ -11,7 +11,12 @@ export const LIMITS = {
   loginAccount: { points: 5, durationS: 15 * 60, what: 'failed sign-ins for this account' },
   loginAddress: { points: 20, durationS: 15 * 60, what: 'failed sign-ins from this address' },
   resetAddress: { points: 5, durationS: 60 * 60, what: 'password reset requests from this address' },
+  // A shared tablet's PIN is a few digits, so wrong guesses are counted per device (one
+  // tablet cannot try many) and per person across devices (several tablets cannot share out
+  // the guessing at one person's PIN). 10 a half-hour lets a person mistype, and keeps a
+  // determined guesser to a few hundred tries a day against 10,000+ four-digit PINs (common practice).
   pinDevice: { points: 5, durationS: 10 * 60, what: 'wrong PINs on this tablet' },
+  pinPerson: { points: 10, durationS: 30 * 60, what: 'wrong PINs for this person' },
 } satisfies Record<string, LimitSpec>
 
 type LimitName = keyof typeof LIMITS
@@ -30,8 +35,10 @@ function limiter(name: LimitName) {
   return l
 }
 
-function tooMany(name: LimitName, msBeforeNext: number): never {
+/** 429 with the wait in words and, given the event, in a Retry-After header (RFC 9110 §10.2.3). */
+function tooMany(name: LimitName, msBeforeNext: number, event?: H3Event): never {
   const minutes = Math.max(1, Math.ceil(msBeforeNext / 60_000))
+  if (event) setResponseHeader(event, 'Retry-After', Math.max(1, Math.ceil(msBeforeNext / 1000)))
   throw createError({
     statusCode: 429,
     message: `Too many ${LIMITS[name].what}. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.`,
@@ -40,18 +47,18 @@ function tooMany(name: LimitName, msBeforeNext: number): never {
 }
 
 /** Refuses with 429 when the key has no points left. */
-export async function assertNotLimited(name: LimitName, key: string) {
+export async function assertNotLimited(name: LimitName, key: string, event?: H3Event) {
   const res = await limiter(name).get(key)
-  if (res && res.remainingPoints <= 0) tooMany(name, res.msBeforeNext)
+  if (res && res.remainingPoints <= 0) tooMany(name, res.msBeforeNext, event)
 }
 
 /** Counts one attempt; refuses with 429 when that was one too many. */
-export async function spendAttempt(name: LimitName, key: string) {
+export async function spendAttempt(name: LimitName, key: string, event?: H3Event) {
   try {
     await limiter(name).consume(key)
   }
   catch (e) {
-    if (e instanceof RateLimiterRes) tooMany(name, e.msBeforeNext)
+    if (e instanceof RateLimiterRes) tooMany(name, e.msBeforeNext, event)
     throw e
   }
 }

@@ -1,4 +1,5 @@
-// One-time link tokens: 32 random bytes sent by mail; only their SHA-256 is stored.
+// Random tokens: one-time links sent by mail and shared tablets' device cookies. 32 random
+// bytes; only their SHA-256 is stored.
 import { createHash, randomBytes } from 'node:crypto'
 
 export function newLinkToken() {

@@ -10,6 +10,8 @@ export interface SessionUserData {
   email: string
   /** users.session_version when the session began; a mismatch ends the session. */
   sv: number
+  /** Set when the person switched in with their PIN on a shared tablet (server/utils/tablet.ts). */
+  tablet?: { id: number; name: string }
 }
 
 /** Where each role lands after sign-in. */

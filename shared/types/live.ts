@@ -12,4 +12,6 @@ export interface LiveEvent<Row = unknown> {
 export const liveRooms = {
   workshop: (id: number) => `workshop:${id}`,
   job: (id: number) => `job:${id}`,
+  /** the socket of whoever is switched in on a shared tablet, so revoking the tablet can drop it */
+  tablet: (id: number) => `tablet:${id}`,
 }

@@ -65,7 +65,7 @@ async function freshDispatch() {
 }
 const STAFF: Role[] = ['lead', 'caster', 'finisher']
 /** Rows the catalogue and job routes act on, made in beforeAll. */
-const t = { photo: '', dispatch: 0, grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
+const t = { photo: '', dispatch: 0, tablet: 0, grade: 0, lot: 0, bench: 0, mould: 0, job: 0, item: 0, delItem: 0, sampleJob: 0, decisionJob: 0, clientJob: 0, memberEmail: '', memberId: 0 }
 const rnd = () => Math.random().toString(36).slice(2, 8).toUpperCase()
 const ver = async (table: string, id: number) => Number((await testDb()(table).where({ id }).first('version')).version)
 const gradeBody = () => ({ name: `Guard grade ${rnd()}`, bagKg: 25, grade: (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous')) })
@@ -88,6 +88,16 @@ const ROUTES: RouteRow[] = [
   { method: 'POST', path: '/api/dev/mails/refuse', roles: ['lead'], body: () => ({ count: 0 }) },
   { method: 'GET', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'] },
   { method: 'PATCH', path: '/api/me/notifications', roles: ['lead', 'caster', 'finisher', 'client'], body: () => ({ job_ready: true }) },
+  { method: 'GET', path: '/api/me/pin', roles: ['caster', 'finisher'] },
+  { method: 'PUT', path: '/api/me/pin', roles: ['caster', 'finisher'], body: () => ({ pin: '2719', password: DEMO_PASSWORD }) },
+  { method: 'DELETE', path: '/api/me/pin', roles: ['caster', 'finisher'] },
+  { method: 'DELETE', path: '/api/users/[id]/pin', roles: ['lead'], target: async () => `/api/users/${patchTarget}/pin` },
+  { method: 'GET', path: '/api/tablets', roles: ['lead'] },
+  { method: 'POST', path: '/api/tablets', roles: ['lead'], body: () => ({ name: `Guard tablet ${rnd()}` }) },
+  { method: 'POST', path: '/api/tablets/[id]/revoke', roles: ['lead'], target: async () => `/api/tablets/${t.tablet}/revoke` },
+  // the shared tablet's own routes answer to its device cookie, not a session (tests/api/tablet.test.ts)
+  { method: 'GET', path: '/api/tablet/people', roles: 'public' },
+  { method: 'POST', path: '/api/tablet/switch', roles: 'public' },
   { method: 'GET', path: '/api/quality', roles: ['lead'], target: async () => '/api/quality?from=2027-01-01&to=2027-01-31' },
   { method: 'GET', path: '/api/overview', roles: ['lead'] },
   { method: 'GET', path: '/api/client/jobs', roles: ['client'] },
@@ -181,6 +191,7 @@ async function makeTargets() {
   await k('job_members').insert({ workshop_id: ws, job_id: t.job, user_id: t.memberId })
   t.photo = await leadPhoto(t.clientJob, true)
   t.dispatch = await id('dispatches', { job_id: t.job, note_no: `G-${rnd()}`, dispatched_at: new Date() })
+  t.tablet = await id('tablet_devices', { name: 'Guard tablet', token_hash: `guard-${randomUUID()}` })
 }
 
 function routeFiles(dir: string): string[] {

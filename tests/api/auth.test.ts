@@ -63,6 +63,7 @@ describe('sign-in', () => {
     const right = await call('/api/auth/login', { method: 'POST', body: { email: u.email, password: DEMO_PASSWORD } })
     expect(right.status).toBe(429)
     expect(right.data.message).toMatch(/Too many failed sign-ins for this account\. Try again in \d+ minutes?/)
+    expect(Number(right.headers.get('retry-after'))).toBeGreaterThan(0)
     // the limit lives in PostgreSQL, so it holds across app instances
     const rows = await testDb()('rate_limits').where('key', 'like', `loginAccount:${u.email}`)
     expect(rows).toHaveLength(1)

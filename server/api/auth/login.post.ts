@@ -3,13 +3,13 @@ import { usersRepo } from '../../repos/users'
 export default defineEventHandler(async (event) => {
   const { email, password } = await validBody(event, loginSchema)
   const address = clientAddress(event)
-  await assertNotLimited('loginAccount', email)
-  await assertNotLimited('loginAddress', address)
+  await assertNotLimited('loginAccount', email, event)
+  await assertNotLimited('loginAddress', address, event)
   const user = await usersRepo.byEmail(useDb(), email)
   const ok = await verifyOrBurn(user?.password_hash, password)
   if (!user || !ok || user.disabled_at) {
-    await spendAttempt('loginAccount', email)
-    await spendAttempt('loginAddress', address)
+    await spendAttempt('loginAccount', email, event)
+    await spendAttempt('loginAddress', address, event)
     throw createError({ statusCode: 401, message: user?.disabled_at && ok ? 'This account is disabled; ask your workshop lead' : 'E-mail or password is wrong' })
   }
   await clearAttempts('loginAccount', email)
