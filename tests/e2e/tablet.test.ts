@@ -90,7 +90,7 @@ describe('shared tablet', () => {
     await typePin(page, PINS.finisher)
     await page.getByTestId('tablet-ok').click()
     await page.waitForURL(`${base}/finishing`)
-    await page.getByRole('heading', { level: 1, name: /Fettling queue/ }).waitFor()
+    await page.getByRole('heading', { level: 1, name: 'Finishing' }).waitFor()
     await expect.poll(() => page.getByTestId('user-name').textContent()).toBe(demo.finisher.name)
     await screenshot(page, 'tablet-6-finisher-queue')
 
