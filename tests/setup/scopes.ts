@@ -4,7 +4,7 @@
 // client is ada). Every row is made here, tagged, so the matrix never edits the demo's own rows.
 import { randomUUID } from 'node:crypto'
 import { call } from './http'
-import { demo, demoWorkshopId, makeOtherWorkshop, testDb } from './fixtures'
+import { demo, demoWorkshopId, testDb } from './fixtures'
 import { jpegWithGps, photoForm } from './photo-fixtures'
 import { plasterGradeFromPreset } from '../../shared/utils/plaster'
 
@@ -46,8 +46,6 @@ export interface Scopes {
   differs(name: ScopeName, used: Set<Kind>): boolean
   /** Text that must never show in an answer to the demo (other) or to the demo's client (otherClient). */
   markers: Record<'other' | 'otherClient', string[]>
-  /** Ids of the standing rows per scope (the bad-input test takes its targets from own). */
-  standing: Record<ScopeName, Standing>
   /** Takes the demo's clients off the matrix's jobs again (other tests list a client's jobs). */
   cleanup(): Promise<void>
 }
@@ -70,7 +68,6 @@ function gradeRow(workshopId: number, name: string) {
 export async function makeScopes(lead: string): Promise<Scopes> {
   const k = testDb()
   const ws = await demoWorkshopId()
-  const other = await makeOtherWorkshop()
   const tags = { own: `mx${rnd()}`, other: `ox${rnd()}`, otherClient: `cx${rnd()}` }
   const insert = async (table: string, row: Record<string, unknown>) => Number((await k(table).insert(row).returning('id'))[0].id)
   const userId = (email: string) => k('users').where({ email }).first('id').then(r => Number(r.id))
@@ -124,11 +121,15 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     photo: await photoRow(job2, true),
   }
 
-  // other: a second workshop, whose client is on its job; its pour and photo are rows only
-  const ow = other.workshopId
+  // other: a second workshop, whose client is on its job; its pour and photo are rows only.
+  // Nobody signs in there, so its people need no password (scrypt is slow on purpose).
+  const ow = await insert('workshops', { name: `Workshop ${tags.other}` })
+  const email = async (id: number) => (await k('users').where({ id }).first('email')).email as string
+  await person(ow, 'lead', tags.other)
+  const [oCaster, oClient] = [await person(ow, 'caster', tags.other), await person(ow, 'client', tags.other)]
   const oGrade = await insert('plaster_grades', gradeRow(ow, `Grade ${tags.other}`))
   const oMould = await insert('moulds', { workshop_id: ow, code: `${tags.other}-M`, casts: 'Other cast', material: 'silicone', cavity_litres: 1 })
-  const oJob = await jobRow(ow, tags.other, { sample_required: true, sample_state: 'awaiting_approval' }, other.client.id)
+  const oJob = await jobRow(ow, tags.other, { sample_required: true, sample_state: 'awaiting_approval' }, oClient)
   const slot = ['2027-09-13T08:00:00Z', '2027-09-13T10:00:00Z']
   const oPour = await insert('pours', {
     workshop_id: ow, mould_id: oMould, grade_id: oGrade, consistency: 70, slot: k.raw('tstzrange(?, ?)', slot),
@@ -139,16 +140,13 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   const files = await k('photos').where({ id: own.photo }).first('thumb_key', 'display_key', 'width', 'height', 'bytes')
   const oPhoto = (await k('photos').insert({ workshop_id: ow, job_id: oJob, shared: true, caption: `Photo ${tags.other}`, ...files }).returning('id'))[0].id as string
   const otherRows: Standing = {
-    user: other.caster.id, grade: oGrade, mould: oMould, job: oJob, sampleJob: oJob, decisionJob: oJob, pour: oPour, photo: oPhoto,
+    user: oCaster, grade: oGrade, mould: oMould, job: oJob, sampleJob: oJob, decisionJob: oJob, pour: oPour, photo: oPhoto,
     lot: await insert('plaster_lots', { workshop_id: ow, grade_id: oGrade, lot_code: `${tags.other}-L`, bags_received: 3, bag_kg: 25, received_on: '2026-12-01' }),
     bench: await insert('benches', { workshop_id: ow, name: `Bench ${tags.other}` }),
-    item: await itemRow(ow, oJob, oGrade), member: other.client.id,
+    item: await itemRow(ow, oJob, oGrade), member: oClient,
   }
   const standing: Record<ScopeName, Standing> = { own, other: otherRows, otherClient }
-  const emails = {
-    own: (await k('users').where({ id: await person(ws, 'client', tags.own) }).first('email')).email as string,
-    other: other.client.email,
-  }
+  const emails = { own: await email(await person(ws, 'client', tags.own)), other: await email(oClient) }
 
   const fresh: Partial<Record<Kind, (s: ScopeName) => Promise<Id>>> = {
     newMould: () => mouldRow(),
@@ -176,10 +174,9 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     },
     differs: (name, used) => name === 'other' ? used.size > 0 : [...used].some(kind => CLIENT_KINDS.has(kind)),
     markers: {
-      other: [tags.other, other.lead.email, other.caster.email, other.client.email],
+      other: [tags.other],
       otherClient: [tags.otherClient, demo.client2.email, 'J-2602'],
     },
-    standing,
     async cleanup() {
       await k('job_members').whereIn('user_id', [client1, client2]).whereIn('job_id', [job, job2, own.decisionJob as number, decision2]).del()
       // the other workshop's photo row shares the own photo's files: photos.test counts files per row
