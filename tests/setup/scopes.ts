@@ -2,6 +2,9 @@
 // the demo workshop ("own"), the same kinds of row in a second workshop ("other"), and a job of
 // the other client organisation in the demo workshop ("otherClient": ravi's, while the matrix's
 // client is ada). Every row is made here, tagged, so the matrix never edits the demo's own rows.
+// A new kind of row (a piece, a dispatch…): add it to KINDS with its table, to CLIENT_KINDS when
+// it belongs to a client's job, a standing row to each scope below, and a maker to `fresh` for
+// its `new…` kind when a route uses it up.
 import { randomUUID } from 'node:crypto'
 import { call } from './http'
 import { demo, demoWorkshopId, testDb } from './fixtures'
