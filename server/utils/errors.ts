@@ -69,7 +69,8 @@ export function rethrowDbError(err: unknown, labels: Record<string, string> = {}
   if (e?.code === '23503') {
     unprocessable([{ field: labels[e.constraint ?? ''] ?? 'reference', message: 'refers to a record that does not exist' }])
   }
-  if (e?.code === '23514' || e?.code === '22P02' || e?.code === '22003') {
+  // check violation, bad text for a type, number out of range, bad or out-of-range date/time
+  if (['23514', '22P02', '22003', '22007', '22008'].includes(e?.code ?? '')) {
     unprocessable([{ field: labels[e.constraint ?? ''] ?? 'body', message: 'a value is out of its allowed range' }])
   }
   throw err

@@ -1,5 +1,6 @@
 // Shared zod schemas for sign-in, invitations and password reset (forms and routes).
 import { z } from 'zod'
+import { idText } from './input-fields'
 
 export const PASSWORD_MIN = 10
 export const ROLE_VALUES = ['lead', 'caster', 'finisher', 'client'] as const
@@ -38,4 +39,4 @@ export const userPatchSchema = z.object({
   role: z.enum(ROLE_VALUES, { message: 'role must be lead, caster, finisher or client' }).optional(),
 }).refine(v => v.disabled !== undefined || v.role !== undefined, { message: 'give disabled or role' })
 
-export const idParamSchema = z.object({ id: z.coerce.number().int().positive({ message: 'id must be a positive whole number' }) })
+export const idParamSchema = z.object({ id: idText('id') })

@@ -2,6 +2,7 @@
 // the routes validate with the same objects, so a field's message is the same on both sides.
 import { z } from 'zod'
 import { plasterGradeSchema } from './plaster-schema'
+import { CALENDAR_YEARS, PG_INTEGER_MAX, isCalendarDay } from './input-fields'
 
 export const MOULD_MATERIALS = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine'] as const
 export const MOULD_STATES = ['ready', 'in_use', 'cleaning', 'repair', 'retired'] as const
@@ -35,12 +36,13 @@ export function numberIn(field: string, min: number, max: number, unit: string, 
   n = opts.exclusive ? n.gt(min, { error: message }) : n.gte(min, { error: message })
   return n.max(max, { error: message })
 }
-/** A calendar day 'YYYY-MM-DD'. */
+/** A calendar day 'YYYY-MM-DD' (a real one, in CALENDAR_YEARS). */
 export function dayField(field: string) {
   return z.string({ error: `${field} must be a date` }).regex(/^\d{4}-\d{2}-\d{2}$/, `${field} must be a date (YYYY-MM-DD)`)
-    .refine(v => !Number.isNaN(Date.parse(v + 'T00:00:00Z')), `${field} must be a real date`)
+    .refine(isCalendarDay, `${field} must be a real date from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}`)
 }
 export const versionField = z.number({ error: 'version is required (the version you saw)' }).int('version must be a whole number').positive('version must be positive')
+  .max(PG_INTEGER_MAX, 'version is not one this record has had')
 const code = (field: string) => requiredText(field, 40).regex(/^[\w.\-/ ]+$/, `${field} may use letters, digits, spaces and . - / _`)
 
 export const gradeFields = z.object({

@@ -2,6 +2,7 @@
 // tablet's forms and POST /api/pours/:id/actions. Names carry a floor prefix (auto-imports).
 import { z } from 'zod'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
+import { CALENDAR_YEARS, PG_INTEGER_MAX, idText, isCalendarInstant } from './input-fields'
 
 /** The trade's words for what went wrong with a cast (common practice in casting shops). */
 export const FLOOR_DEFECTS = ['air holes', 'crack', 'short fill', 'soft cast', 'chipped edge', 'stuck in mould', 'distorted'] as const
@@ -31,9 +32,9 @@ const shopTemp = z.number({ error: 'shopTempC must be a number of °C' })
 
 const common = {
   actionId: z.uuid({ error: 'actionId must be a UUID' }),
-  version: positiveId('version'),
+  version: positiveId('version').max(PG_INTEGER_MAX, { error: 'version is not one this pour has had' }),
   at: z.string({ error: 'at must be an ISO date-time' })
-    .refine(v => /^\d{4}-\d{2}-\d{2}T/.test(v) && Number.isFinite(Date.parse(v)), { error: 'at must be an ISO date-time' })
+    .refine(isCalendarInstant, { error: `at must be an ISO date-time from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}` })
     .optional(),
 }
 
@@ -61,6 +62,5 @@ export const floorActionSchema = z.discriminatedUnion('kind', [
 export type FloorActionInput = z.infer<typeof floorActionSchema>
 
 export const floorTodayQuerySchema = z.object({
-  casterId: z.coerce.number({ error: 'casterId must be a positive whole number' }).int({ error: 'casterId must be a positive whole number' })
-    .positive({ error: 'casterId must be a positive whole number' }).optional(),
+  casterId: idText('casterId').optional(),
 })

@@ -2,6 +2,7 @@
 import { z } from 'zod'
 import { PLASTER_LIMITS } from './plaster-core'
 import { dayField, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
+import { idText } from './input-fields'
 
 export const JOB_STATES = ['open', 'on_hold', 'done', 'cancelled'] as const
 export const SAMPLE_STATES = ['not_required', 'awaiting_cast', 'awaiting_approval', 'approved', 'changes_requested'] as const
@@ -85,14 +86,8 @@ export const sampleDecisionSchema = z.object({
   comment: optionalText('comment', 2000),
 }).refine(v => v.decision === 'approved' || !!v.comment, { message: 'comment is required when you ask for changes', path: ['comment'] })
 
-export const jobItemParamsSchema = z.object({
-  id: z.coerce.number().int().positive({ message: 'id must be a positive whole number' }),
-  itemId: z.coerce.number().int().positive({ message: 'itemId must be a positive whole number' }),
-})
+export const jobItemParamsSchema = z.object({ id: idText('id'), itemId: idText('itemId') })
 
-export const jobMemberParamsSchema = z.object({
-  id: z.coerce.number().int().positive({ message: 'id must be a positive whole number' }),
-  userId: z.coerce.number().int().positive({ message: 'userId must be a positive whole number' }),
-})
+export const jobMemberParamsSchema = z.object({ id: idText('id'), userId: idText('userId') })
 
 export type JobItemCreateInput = z.infer<typeof jobItemCreateSchema>

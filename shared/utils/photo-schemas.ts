@@ -1,6 +1,7 @@
 // Schemas for the photo routes: the multipart fields of an upload (strings on the wire), a
 // caption or share change, and the ids in the URL.
 import { z } from 'zod'
+import { idText } from './input-fields'
 
 const caption = z.string().trim().max(300, { message: 'caption must be at most 300 characters' })
   .transform(v => v || null)
@@ -9,7 +10,7 @@ const caption = z.string().trim().max(300, { message: 'caption must be at most 3
 const sharedFlag = z.enum(['true', 'false', '1', '0', 'on', 'off'], { error: 'shared must be true or false' })
   .transform(v => v === 'true' || v === '1' || v === 'on')
 
-const optionalId = (field: string) => z.union([z.literal('').transform(() => null), z.coerce.number().int().positive({ message: `${field} must be a positive whole number` })])
+const optionalId = (field: string) => z.union([z.literal('').transform(() => null), idText(field)])
   .optional().transform(v => v ?? null)
 
 export const photoUploadFieldsSchema = z.object({

@@ -2,21 +2,18 @@
 // Nuxt auto-imports every export of shared/utils, so the names carry a pour/board prefix.
 import { z } from 'zod'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
+import { CALENDAR_YEARS, PG_INTEGER_MAX, idText, isCalendarDay, isCalendarInstant } from './input-fields'
 
-const boardId = (field: string) => z.coerce.number({ error: `${field} must be a positive whole number` })
-  .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })
 const bodyId = (field: string) => z.number({ error: `${field} must be a positive whole number` })
   .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })
+/** The version the caller saw: an integer column. */
+const version = bodyId('version').max(PG_INTEGER_MAX, { error: 'version is not one this pour has had' })
 
-function isRealDay(v: string) {
-  const d = new Date(`${v}T00:00:00Z`)
-  return Number.isFinite(d.getTime()) && d.toISOString().slice(0, 10) === v
-}
 const boardDay = (field: string) => z.string({ error: `${field} must be a day as YYYY-MM-DD` })
   .regex(/^\d{4}-\d{2}-\d{2}$/, { error: `${field} must be a day as YYYY-MM-DD` })
-  .refine(isRealDay, { error: `${field} must be a real calendar day` })
+  .refine(isCalendarDay, { error: `${field} must be a real calendar day from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}` })
 const instant = (field: string) => z.string({ error: `${field} must be an ISO date-time` })
-  .refine(v => /^\d{4}-\d{2}-\d{2}T/.test(v) && Number.isFinite(Date.parse(v)), { error: `${field} must be an ISO date-time` })
+  .refine(isCalendarInstant, { error: `${field} must be an ISO date-time from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}` })
   .transform(v => new Date(v))
 
 const consistency = z.number({ error: plasterRangeMessage('consistency', PLASTER_LIMITS.consistency) })
@@ -40,7 +37,7 @@ export const boardRangeSchema = z.object({ from: boardDay('from'), to: boardDay(
   .refine(v => v.from <= v.to, { path: ['to'], error: 'to must be on or after from' })
   .refine(v => boardDaySpan(v.from, v.to) <= BOARD_MAX_DAYS, { path: ['to'], error: `the range must be at most ${BOARD_MAX_DAYS} days` })
 
-export const pourIdParamsSchema = z.object({ id: boardId('id') })
+export const pourIdParamsSchema = z.object({ id: idText('id') })
 export const shopDayParamsSchema = z.object({ day: boardDay('day') })
 export const daySheetQuerySchema = z.object({ day: boardDay('day') })
 
@@ -58,7 +55,7 @@ export const pourCreateSchema = z.object({
 export type PourCreateInput = z.infer<typeof pourCreateSchema>
 
 export const pourMoveSchema = z.object({
-  version: bodyId('version'),
+  version,
   mouldId: bodyId('mouldId').optional(),
   slotStart: instant('slotStart').optional(),
   casterId: bodyId('casterId').nullable().optional(),
@@ -69,7 +66,7 @@ export const pourMoveSchema = z.object({
 export type PourMoveInput = z.infer<typeof pourMoveSchema>
 
 export const pourVoidSchema = z.object({
-  version: bodyId('version'),
+  version,
   reason: z.string({ error: 'reason is required' }).trim().min(1, { error: 'reason is required' }).max(500, { error: 'reason must be at most 500 characters' }),
 })
 

@@ -1,16 +1,11 @@
 // Zod schemas of the casting register (GET /api/jobs/[id]/register and its CSV export) and of
 // the quality figures (GET /api/quality). Days are the workshop's local calendar days.
 import { z } from 'zod'
+import { CALENDAR_YEARS, idText, isCalendarDay } from './input-fields'
 
-function isRealDay(v: string) {
-  const d = new Date(`${v}T00:00:00Z`)
-  return Number.isFinite(d.getTime()) && d.toISOString().slice(0, 10) === v
-}
 const day = (field: string) => z.string({ error: `${field} must be a day as YYYY-MM-DD` })
   .regex(/^\d{4}-\d{2}-\d{2}$/, { error: `${field} must be a day as YYYY-MM-DD` })
-  .refine(isRealDay, { error: `${field} must be a real calendar day` })
-const queryId = (field: string) => z.coerce.number({ error: `${field} must be a positive whole number` })
-  .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })
+  .refine(isCalendarDay, { error: `${field} must be a real calendar day from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}` })
 const intIn = (field: string, min: number, max: number) => z.coerce.number({ error: `${field} must be a whole number from ${min} to ${max}` })
   .int({ error: `${field} must be a whole number from ${min} to ${max}` })
   .min(min, { error: `${field} must be a whole number from ${min} to ${max}` }).max(max, { error: `${field} must be a whole number from ${min} to ${max}` })
@@ -22,8 +17,8 @@ const filterShape = {
   from: day('from').optional(),
   to: day('to').optional(),
   result: z.enum(['sound', 'defect'], { error: 'result must be sound or defect' }).optional(),
-  mould: queryId('mould').optional(),
-  caster: queryId('caster').optional(),
+  mould: idText('mould').optional(),
+  caster: idText('caster').optional(),
 }
 export const registerFilterSchema = z.object(filterShape).refine(ordered, ORDER)
 export type RegisterFilter = z.infer<typeof registerFilterSchema>

@@ -1,6 +1,7 @@
 // The workshop's own settings (lead): display units, timezone, shift hours, working days,
 // and the usual shop conditions that drive demould windows when a day has none entered.
 import { z } from 'zod'
+import { PG_INTEGER_MAX } from './input-fields'
 
 const hhmm = (field: string) => z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: `${field} must be a time as HH:MM` })
 
@@ -15,7 +16,7 @@ function isTimezone(tz: string) {
 }
 
 export const workshopSettingsSchema = z.object({
-  version: z.number({ error: 'version must be the version you loaded' }).int().positive(),
+  version: z.number({ error: 'version must be the version you loaded' }).int().positive().max(PG_INTEGER_MAX, { error: 'version must be the version you loaded' }),
   name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' }),
   units: z.enum(['metric', 'imperial'], { error: 'units must be metric or imperial' }),
   timezone: z.string().refine(isTimezone, { error: 'timezone must be an IANA zone such as Europe/London' }),

@@ -13,7 +13,7 @@ function sessionCookie(headers: Headers): string | undefined {
   return c?.split(';')[0]
 }
 
-export async function call<T = any>(path: string, opts: { method?: string; body?: unknown; rawBody?: string; form?: FormData; cookie?: string } = {}): Promise<CallResult<T>> {
+export async function call<T = any>(path: string, opts: { method?: string; body?: unknown; rawBody?: string; contentType?: string; form?: FormData; cookie?: string } = {}): Promise<CallResult<T>> {
   const headers: Record<string, string> = { accept: 'application/json' }
   if (opts.cookie) headers.cookie = opts.cookie
   let body: string | FormData | undefined
@@ -21,7 +21,7 @@ export async function call<T = any>(path: string, opts: { method?: string; body?
   if (opts.form) body = opts.form
   else if (opts.rawBody !== undefined) {
     body = opts.rawBody
-    headers['content-type'] = 'application/json'
+    headers['content-type'] = opts.contentType ?? 'application/json'
   }
   else if (opts.body !== undefined) {
     body = JSON.stringify(opts.body)

@@ -1,0 +1,189 @@
+// THE ROUTE TABLE: one row per file under server/api (access.test.ts fails when a file has no
+// row). Two tests are generated from it:
+// - access.test.ts, the access matrix: every route × caller (signed out, lead, caster,
+//   finisher, client) × scope (own: the demo workshop's rows; other: a second workshop's rows;
+//   otherClient: a job of the other client organisation). The expected answer of every cell is
+//   worked out from the row by `expected()` below and fails on any leak or unexpected refusal.
+// - bad-input.test.ts: wrong types, missing fields, huge strings, odd numbers, unknown enum
+//   values, malformed JSON, SQL-looking text and bad ids for the route's body, query and path,
+//   with field names from the shared zod schema the route file validates with.
+//
+// A row, on one line:
+//   { route: 'PATCH /api/jobs/[id]', roles: LEAD, ids: { id: 'job' }, body: async s => ({ site: 'x', version: await s.version('job') }) },
+// route        METHOD and path exactly as the file: server/api/jobs/[id].patch.ts → 'PATCH /api/jobs/[id]'
+// roles        who succeeds on the own scope's rows, or 'public' (no requireRole)
+// guard        who passes requireRole when that is wider than `roles` (the service refuses the rest with 403)
+// ids          path parameters filled with the scope's row of a kind (tests/setup/scopes.ts: job, mould,
+//              newPour…); `new…` kinds are a fresh row for each call that should succeed
+// params       path parameters that are not rows (a day, a photo variant)
+// query        the query string, without '?'
+// body / form  the JSON body (or multipart form) for a scope `s`: `await s.id(kind)` for a row's id,
+//              `await s.version(kind)` for its version. The own scope's body must succeed for `roles`;
+//              the same body, with the other scope's ids, is what another workshop sends.
+// other        what an allowed caller gets for the other workshop's rows. Default: 404 when the path
+//              names a row, 422 when only the body does; a route that names no row is checked for
+//              leaks instead (the own answer must not show the other workshop's rows).
+// otherClient  what the client gets for the other client's job (default 404; staff see every job)
+// public       what every caller gets from a public route with this request (default 2xx)
+// valid        bad-input only: a body that passes the schema, to mutate, when `body` is not one
+// readOnly     bad-input only: a POST that writes nothing, so schema-valid extremes may be sent
+import { randomUUID } from 'node:crypto'
+import { readdirSync, readFileSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import type { Kind, Scope } from '../setup/scopes'
+import { demoWorkshopId, testDb } from '../setup/fixtures'
+import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
+import { plasterGradeFromPreset } from '../../shared/utils/plaster'
+
+export type Role = 'lead' | 'caster' | 'finisher' | 'client'
+/** A cell's answer: 'ok' is any 2xx, a number that status. */
+export type Outcome = 'ok' | number
+
+export interface RouteRow {
+  route: string
+  roles: Role[] | 'public'
+  guard?: Role[]
+  ids?: Record<string, Kind>
+  params?: Record<string, string>
+  query?: string
+  body?: (s: Scope) => unknown
+  form?: (s: Scope) => Promise<FormData> | FormData
+  other?: Outcome
+  otherClient?: Outcome
+  public?: Outcome
+  valid?: Record<string, unknown>
+  readOnly?: boolean
+}
+
+const LEAD: Role[] = ['lead']
+const STAFF: Role[] = ['lead', 'caster', 'finisher']
+const EVERYONE: Role[] = ['lead', 'caster', 'finisher', 'client']
+const rnd = () => randomUUID().slice(0, 8)
+/** A well-formed link token no invitation or reset has. */
+const NO_TOKEN = 'matrix-token-that-was-never-issued-00000'
+const GRADE = (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous'))
+const MIX = { consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
+/** The demo workshop's settings as the settings page sends them back. */
+async function settings() {
+  const w = await testDb()('workshops').where({ id: await demoWorkshopId() }).first()
+  return { version: w.version, name: w.name, units: w.units, timezone: w.timezone, shiftStart: w.shift_start.slice(0, 5), shiftEnd: w.shift_end.slice(0, 5), workingDays: w.working_days.map(Number), defaultShopTempC: Number(w.default_shop_temp_c), defaultHumidityPct: Number(w.default_humidity_pct) }
+}
+const photo = async () => photoForm([{ name: 'matrix.jpg', data: await jpegWithGps(64, 48) }])
+
+export const ROUTES: RouteRow[] = [
+  { route: 'GET /api/health', roles: 'public' },
+  { route: 'POST /api/auth/login', roles: 'public', body: () => ({}), public: 422, valid: { email: 'nobody@matrix.example.test', password: 'not-the-password' } },
+  { route: 'POST /api/auth/logout', roles: 'public' },
+  { route: 'GET /api/auth/invitation', roles: 'public', query: `token=${NO_TOKEN}`, public: 410 },
+  // the two below hash the password before they look at the token (slow): the matrix sends an empty body
+  { route: 'POST /api/auth/invitation', roles: 'public', body: () => ({}), public: 422, valid: { token: NO_TOKEN, name: 'Matrix', password: 'matrix-password-1' } },
+  { route: 'POST /api/auth/password-reset', roles: 'public', body: () => ({}), public: 422, valid: { email: 'nobody@matrix.example.test' } },
+  { route: 'POST /api/auth/password-reset/confirm', roles: 'public', body: () => ({}), public: 422, valid: { token: NO_TOKEN, password: 'matrix-password-1' } },
+  { route: 'GET /api/auth/me', roles: EVERYONE },
+  { route: 'GET /api/users', roles: LEAD },
+  { route: 'PATCH /api/users/[id]', roles: LEAD, ids: { id: 'user' }, body: () => ({ disabled: false }) },
+  { route: 'GET /api/invitations', roles: LEAD },
+  { route: 'POST /api/invitations', roles: LEAD, body: () => ({ email: `invite-${rnd()}@matrix.example.test`, role: 'caster' }) },
+  { route: 'GET /api/dev/mails', roles: LEAD },
+  { route: 'POST /api/dev/mails/refuse', roles: LEAD, body: () => ({ count: 0 }) },
+  { route: 'GET /api/me/notifications', roles: EVERYONE },
+  { route: 'PATCH /api/me/notifications', roles: EVERYONE, body: () => ({ job_ready: true }) },
+  { route: 'GET /api/quality', roles: LEAD, query: 'from=2027-09-01&to=2027-09-30' },
+  { route: 'GET /api/overview', roles: LEAD },
+  { route: 'GET /api/client/jobs', roles: ['client'] },
+  { route: 'GET /api/workshop', roles: LEAD },
+  { route: 'PATCH /api/workshop', roles: LEAD, body: settings },
+  { route: 'GET /api/calc/options', roles: STAFF },
+  { route: 'POST /api/calc/mix', roles: EVERYONE, body: async s => ({ ...MIX, gradeId: await s.id('grade'), mouldId: await s.id('mould') }), readOnly: true },
+  { route: 'GET /api/board', roles: STAFF, query: 'from=2027-09-13&to=2027-09-13' },
+  { route: 'POST /api/pours', roles: LEAD, body: async s => ({ mouldId: await s.id('newMould'), slotStart: '2027-09-14T09:00:00Z' }) },
+  { route: 'PATCH /api/pours/[id]', roles: LEAD, ids: { id: 'newPour' }, body: () => ({ version: 1, slotStart: '2027-09-13T11:00:00Z' }) },
+  { route: 'POST /api/pours/[id]/actions', roles: ['lead', 'caster'], ids: { id: 'newPour' }, body: () => ({ actionId: randomUUID(), kind: 'start_mixing', version: 1, waterTempC: 18 }) },
+  { route: 'POST /api/pours/[id]/void', roles: LEAD, ids: { id: 'newPour' }, body: () => ({ version: 1, reason: 'matrix' }) },
+  { route: 'GET /api/floor/today', roles: ['lead', 'caster'] },
+  { route: 'GET /api/shop-days', roles: STAFF, query: 'from=2027-09-13&to=2027-09-14' },
+  { route: 'PUT /api/shop-days/[day]', roles: LEAD, params: { day: '2027-09-15' }, body: () => ({ tempC: 18, humidityPct: 50 }) },
+  { route: 'POST /api/planner/preview', roles: LEAD, body: () => ({ from: '2027-09-20', to: '2027-09-21' }), readOnly: true },
+  { route: 'POST /api/planner/accept', roles: LEAD, body: async s => ({ from: '2027-09-16', to: '2027-09-16', pours: [{ jobItemId: await s.id('newItem'), mouldId: await s.id('newMould'), slotStart: '2027-09-16T09:00:00Z' }] }) },
+  { route: 'GET /api/day-sheet', roles: ['lead', 'caster'], query: 'day=2027-09-13' },
+  { route: 'GET /api/day-sheet/export', roles: ['lead', 'caster'], query: 'day=2027-09-13' },
+  { route: 'GET /api/grades', roles: STAFF },
+  { route: 'POST /api/grades', roles: LEAD, body: () => ({ name: `Matrix grade ${rnd()}`, bagKg: 25, grade: GRADE }) },
+  { route: 'PATCH /api/grades/[id]', roles: LEAD, ids: { id: 'grade' }, body: async s => ({ notes: 'matrix', version: await s.version('grade') }) },
+  { route: 'GET /api/lots', roles: STAFF },
+  { route: 'POST /api/lots', roles: LEAD, body: async s => ({ gradeId: await s.id('grade'), lotCode: `MX-${rnd()}`, bagsReceived: 2, bagKg: 25, receivedOn: '2026-12-01' }) },
+  { route: 'PATCH /api/lots/[id]', roles: LEAD, ids: { id: 'lot' }, body: async s => ({ notes: 'matrix', version: await s.version('lot') }) },
+  { route: 'GET /api/lots/export', roles: LEAD },
+  { route: 'GET /api/benches', roles: STAFF },
+  { route: 'POST /api/benches', roles: LEAD, body: () => ({ name: `Matrix ${rnd()}`, kind: 'casting', sortOrder: 96 }) },
+  { route: 'PATCH /api/benches/[id]', roles: LEAD, ids: { id: 'bench' }, body: async s => ({ kind: 'flat casting', version: await s.version('bench') }) },
+  { route: 'GET /api/moulds', roles: STAFF },
+  { route: 'POST /api/moulds', roles: LEAD, body: async s => ({ code: `MX-${rnd()}`, casts: 'Matrix', material: 'silicone', benchId: await s.id('bench'), cavityLitres: 1, prepMinutes: 5, cleanMinutes: 5, maxDwellMinutes: 60, pulls: 0 }) },
+  { route: 'GET /api/moulds/[id]', roles: STAFF, ids: { id: 'mould' } },
+  { route: 'PATCH /api/moulds/[id]', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ casts: 'Matrix edit', version: await s.version('mould') }) },
+  { route: 'POST /api/moulds/[id]/state', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ state: 'cleaning', version: await s.version('mould') }) },
+  { route: 'GET /api/moulds/export', roles: LEAD },
+  { route: 'GET /api/jobs', roles: STAFF },
+  { route: 'POST /api/jobs', roles: LEAD, body: () => ({ code: `MX-${rnd()}`, title: 'Matrix job' }) },
+  { route: 'GET /api/jobs/[id]', roles: EVERYONE, ids: { id: 'job' } },
+  { route: 'PATCH /api/jobs/[id]', roles: LEAD, ids: { id: 'job' }, body: async s => ({ site: 'Matrix site', version: await s.version('job') }) },
+  { route: 'POST /api/jobs/[id]/items', roles: LEAD, ids: { id: 'job' }, body: () => ({ kind: 'pieces', profile: 'Matrix', description: 'Matrix item', quantity: 2 }) },
+  { route: 'PATCH /api/jobs/[id]/items/[itemId]', roles: LEAD, ids: { id: 'job', itemId: 'item' }, body: async s => ({ kind: 'pieces', profile: 'Matrix', description: 'Matrix item', quantity: 3, version: await s.version('item') }) },
+  { route: 'DELETE /api/jobs/[id]/items/[itemId]', roles: LEAD, ids: { id: 'job', itemId: 'newItem' } },
+  { route: 'POST /api/jobs/[id]/members', roles: LEAD, ids: { id: 'job' }, body: s => ({ email: s.clientEmail }) },
+  { route: 'DELETE /api/jobs/[id]/members/[userId]', roles: LEAD, ids: { id: 'job', userId: 'newMember' } },
+  { route: 'POST /api/jobs/[id]/sample', roles: LEAD, ids: { id: 'sampleJob' }, body: async s => ({ state: 'awaiting_approval', version: await s.version('sampleJob') }) },
+  { route: 'POST /api/jobs/[id]/sample-decision', roles: ['client'], ids: { id: 'decisionJob' }, body: () => ({ decision: 'approved' }) },
+  { route: 'GET /api/jobs/[id]/export', roles: LEAD, ids: { id: 'job' } },
+  { route: 'GET /api/jobs/[id]/photos', roles: EVERYONE, ids: { id: 'job' } },
+  { route: 'POST /api/jobs/[id]/photos', roles: STAFF, ids: { id: 'job' }, form: photo },
+  { route: 'PATCH /api/photos/[id]', roles: STAFF, ids: { id: 'photo' }, body: () => ({ caption: 'Matrix caption' }) },
+  // the uploader or a lead: the photo is the lead's, so other staff pass requireRole and are refused after
+  { route: 'DELETE /api/photos/[id]', roles: LEAD, guard: STAFF, ids: { id: 'newPhoto' } },
+  { route: 'GET /api/photos/[id]/[variant]', roles: EVERYONE, ids: { id: 'photo' }, params: { variant: 'thumb' } },
+  { route: 'GET /api/client/jobs/[id]/progress', roles: ['client'], ids: { id: 'job' } },
+  { route: 'GET /api/jobs/[id]/register', roles: LEAD, ids: { id: 'job' } },
+  { route: 'GET /api/jobs/[id]/register/export', roles: LEAD, ids: { id: 'job' } },
+]
+
+export type Caller = Role | 'anon'
+export const CALLERS: Caller[] = ['anon', 'lead', 'caster', 'finisher', 'client']
+
+/**
+ * One cell's expected answer. 'same' and 'no-leak' cells send nothing of their own: the route
+ * names no row that differs in that scope, so the own answer stands for it ('no-leak': and must
+ * not show the scope's rows). `differs` tells whether the request names other rows in the scope.
+ */
+export function expected(row: RouteRow, caller: Caller, scope: 'own' | 'other' | 'otherClient', differs: boolean): Outcome | 'same' | 'no-leak' {
+  if (scope !== 'own' && !differs) {
+    if (row.roles === 'public' || caller === 'anon') return 'same'
+    if (scope === 'other') return 'no-leak'
+    return caller === 'client' ? 'no-leak' : 'same'
+  }
+  if (row.roles === 'public') return row.public ?? 'ok'
+  if (caller === 'anon') return 401
+  if (!(row.guard ?? row.roles).includes(caller)) return 403
+  if (scope === 'other') return row.other ?? (row.ids && Object.keys(row.ids).length ? 404 : 422)
+  if (scope === 'otherClient' && caller === 'client') return row.otherClient ?? 404
+  return row.roles.includes(caller) ? 'ok' : 403
+}
+
+const API_DIR = join(import.meta.dirname, '../../server/api')
+
+function filesUnder(dir: string): string[] {
+  return readdirSync(dir).flatMap((f) => {
+    const p = join(dir, f)
+    return statSync(p).isDirectory() ? filesUnder(p) : [p]
+  })
+}
+
+/** Every route file under server/api as its route ('PATCH /api/jobs/[id]') and its source. */
+export function routesOnDisk() {
+  return filesUnder(API_DIR).map((file) => {
+    const rel = relative(API_DIR, file).replace(/\.ts$/, '')
+    const m = rel.match(/^(.*)\.(get|post|patch|put|delete)$/)
+    if (!m) throw new Error(`route file without a method suffix: ${rel}`)
+    const path = ('/api/' + m[1]!.replace(/(^|\/)index$/, '')).replace(/\/$/, '')
+    return { route: `${m[2]!.toUpperCase()} ${path}`, source: readFileSync(file, 'utf8') }
+  })
+}
