@@ -147,10 +147,15 @@ let jpeg: Buffer
 let start: Record<string, string>
 
 beforeAll(async () => {
-  await Promise.all([['lead', demo.lead.email], ['client', demo.client1.email]].map(async ([role, email]) => {
+  await Promise.all([['lead', demo.lead.email], ['caster', demo.caster1.email], ['finisher', demo.finisher.email], ['client', demo.client1.email]].map(async ([role, email]) => {
     cookies[role!] = await signIn(email!, DEMO_PASSWORD)
   }))
   scopes = await makeScopes(cookies.lead!)
+  // a shared tablet of the demo workshop, for the routes that answer to its device cookie
+  const tablet = await call('/api/tablets', { method: 'POST', cookie: cookies.lead, body: { name: 'Bad-input tablet' } })
+  const device = tablet.headers.getSetCookie().find(c => c.startsWith('setline-tablet='))
+  if (tablet.status !== 201 || !device) throw new Error(`bad-input tablet: ${tablet.status} ${JSON.stringify(tablet.data)}`)
+  cookies.device = device.split(';')[0]!
   jpeg = await jpegWithGps(32, 24)
   start = await checksums()
 })
@@ -318,7 +323,7 @@ describe('bad input', () => {
       for (const [p, kind] of Object.entries(row.ids ?? {})) params[p] = String(await own.id(kind))
       const baseBody = row.valid ?? (row.body ? await row.body(own) : {})
       const { cases, skipped } = casesFor(row, params, baseBody, seedOf(row.route))
-      const caller = row.roles === 'public' ? undefined : cookies[row.roles.includes('lead') ? 'lead' : 'client']
+      const caller = row.device ? cookies.device : row.roles === 'public' ? undefined : cookies[row.roles.includes('lead') ? 'lead' : row.roles[0]!]
       const method = row.route.split(' ')[0]!
       const before = await counts()
       const limit = pLimit(4)

@@ -27,11 +27,12 @@
 // public       what every caller gets from a public route with this request (default 2xx)
 // valid        bad-input only: a body that passes the schema, to mutate, when `body` is not one
 // readOnly     bad-input only: a POST that writes nothing, so schema-valid extremes may be sent
+// device       bad-input only: send a shared tablet's device cookie (the route answers to it, not to a session)
 import { randomUUID } from 'node:crypto'
 import { readdirSync, readFileSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import type { Kind, Scope } from '../setup/scopes'
-import { demoWorkshopId, testDb } from '../setup/fixtures'
+import { DEMO_PASSWORD, demoWorkshopId, testDb } from '../setup/fixtures'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 import { plasterGradeFromPreset } from '../../shared/utils/plaster'
 
@@ -53,6 +54,7 @@ export interface RouteRow {
   public?: Outcome
   valid?: Record<string, unknown>
   readOnly?: boolean
+  device?: boolean
 }
 
 const LEAD: Role[] = ['lead']
@@ -101,6 +103,22 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/pours/[id]/actions', roles: ['lead', 'caster'], ids: { id: 'newPour' }, body: () => ({ actionId: randomUUID(), kind: 'start_mixing', version: 1, waterTempC: 18 }) },
   { route: 'POST /api/pours/[id]/void', roles: LEAD, ids: { id: 'newPour' }, body: () => ({ version: 1, reason: 'matrix' }) },
   { route: 'GET /api/floor/today', roles: ['lead', 'caster'] },
+  // finishing and dispatch
+  { route: 'POST /api/pieces/[id]/actions', roles: ['lead', 'finisher'], ids: { id: 'newPiece' }, body: async s => ({ actionId: randomUUID(), kind: 'fettled', version: await s.version('newPiece') }) },
+  { route: 'GET /api/finishing', roles: ['lead', 'finisher'] },
+  { route: 'POST /api/jobs/[id]/dispatches', roles: LEAD, ids: { id: 'job' }, body: async s => ({ actionId: randomUUID(), pieceIds: [await s.id('newPackedPiece')] }) },
+  { route: 'GET /api/jobs/[id]/dispatches', roles: ['lead', 'finisher'], ids: { id: 'job' } },
+  { route: 'GET /api/dispatches/[id]', roles: ['lead', 'finisher'], ids: { id: 'dispatch' } },
+  // shared tablets and PINs; the tablet's own two routes answer to its device cookie, not a session (tests/api/tablet.test.ts)
+  { route: 'GET /api/tablets', roles: LEAD },
+  { route: 'POST /api/tablets', roles: LEAD, body: () => ({ name: `Matrix tablet ${rnd()}` }) },
+  { route: 'POST /api/tablets/[id]/revoke', roles: LEAD, ids: { id: 'newTablet' } },
+  { route: 'GET /api/me/pin', roles: ['caster', 'finisher'] },
+  { route: 'PUT /api/me/pin', roles: ['caster', 'finisher'], body: () => ({ pin: '2719', password: DEMO_PASSWORD }) },
+  { route: 'DELETE /api/me/pin', roles: ['caster', 'finisher'] },
+  { route: 'DELETE /api/users/[id]/pin', roles: LEAD, ids: { id: 'user' } },
+  { route: 'GET /api/tablet/people', roles: 'public', public: 401 },
+  { route: 'POST /api/tablet/switch', roles: 'public', body: () => ({}), public: 401, valid: { userId: 1, pin: '2719' }, device: true },
   { route: 'GET /api/shop-days', roles: STAFF, query: 'from=2027-09-13&to=2027-09-14' },
   { route: 'PUT /api/shop-days/[day]', roles: LEAD, params: { day: '2027-09-15' }, body: () => ({ tempC: 18, humidityPct: 50 }) },
   { route: 'POST /api/planner/preview', roles: LEAD, body: () => ({ from: '2027-09-20', to: '2027-09-21' }), readOnly: true },

@@ -21,7 +21,9 @@ export const SCOPES: ScopeName[] = ['own', 'other', 'otherClient']
 export const KINDS = {
   user: 'users', grade: 'plaster_grades', lot: 'plaster_lots', bench: 'benches', mould: 'moulds',
   job: 'jobs', sampleJob: 'jobs', decisionJob: 'jobs', item: 'job_items', member: 'users', pour: 'pours', photo: 'photos',
+  piece: 'pieces', packedPiece: 'pieces', dispatch: 'dispatches', tablet: 'tablet_devices',
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
+  newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -106,11 +108,20 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     if (r.status !== 201) throw new Error(`matrix photo: ${r.status} ${JSON.stringify(r.data)}`)
     return r.data[0].id as string
   }
+  /** A piece of the job item `itemId` (on a pour of its own), straight in the database: the finishing tests drive the steps. */
+  const pieceRow = async (workshopId: number, tag: string, itemId: number, state: string, pourId?: number) => insert('pieces', {
+    workshop_id: workshopId, pour_id: pourId ?? await pourRow(), job_item_id: itemId, mark: `${tag}-P${++n}`, state, dry_mass_kg: 1.2, wet_mass_kg: 1.8,
+  })
+  const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
   const job = await jobRow(ws, tags.own, {}, client1)
+  const ownItem = await itemRow(ws, job, grade)
   const own: Standing = {
     user: await person(ws, 'caster', tags.own), grade, bench,
     lot: await insert('plaster_lots', { workshop_id: ws, grade_id: grade, lot_code: `${tags.own}-L`, bags_received: 3, bag_kg: 25, received_on: '2026-12-01' }),
-    mould: await mouldRow(), job, item: await itemRow(ws, job, grade), member: await memberRow(ws, job, tags.own),
+    mould: await mouldRow(), job, item: ownItem, member: await memberRow(ws, job, tags.own),
+    piece: await pieceRow(ws, tags.own, ownItem, 'to_fettle'), packedPiece: await pieceRow(ws, tags.own, ownItem, 'packed'),
+    dispatch: await insert('dispatches', { workshop_id: ws, job_id: job, note_no: `${tags.own}-DN`, dispatched_at: new Date() }),
+    tablet: await tabletRow(ws, tags.own),
     sampleJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_cast' }),
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
@@ -119,9 +130,10 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
   const job2 = await jobRow(ws, tags.otherClient, {}, client2)
   const decision2 = await jobRow(ws, tags.otherClient, { sample_required: true, sample_state: 'awaiting_approval' }, client2)
+  const item2 = await itemRow(ws, job2, grade)
   const otherClient: Standing = {
-    ...own, job: job2, decisionJob: decision2, item: await itemRow(ws, job2, grade), member: await memberRow(ws, job2, tags.otherClient),
-    photo: await photoRow(job2, true),
+    ...own, job: job2, decisionJob: decision2, item: item2, member: await memberRow(ws, job2, tags.otherClient),
+    photo: await photoRow(job2, true), packedPiece: await pieceRow(ws, tags.otherClient, item2, 'packed'),
   }
 
   // other: a second workshop, whose client is on its job; its pour and photo are rows only.
@@ -146,8 +158,13 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     user: oCaster, grade: oGrade, mould: oMould, job: oJob, sampleJob: oJob, decisionJob: oJob, pour: oPour, photo: oPhoto,
     lot: await insert('plaster_lots', { workshop_id: ow, grade_id: oGrade, lot_code: `${tags.other}-L`, bags_received: 3, bag_kg: 25, received_on: '2026-12-01' }),
     bench: await insert('benches', { workshop_id: ow, name: `Bench ${tags.other}` }),
-    item: await itemRow(ow, oJob, oGrade), member: oClient,
+    item: 0, member: oClient, tablet: await tabletRow(ow, tags.other),
+    dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
+    piece: 0, packedPiece: 0,
   }
+  otherRows.item = await itemRow(ow, oJob, oGrade)
+  otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
+  otherRows.packedPiece = otherRows.piece
   const standing: Record<ScopeName, Standing> = { own, other: otherRows, otherClient }
   const emails = { own: await email(await person(ws, 'client', tags.own)), other: await email(oClient) }
 
@@ -157,6 +174,9 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newMember: s => memberRow(ws, standing[s].job as number, tags[s]),
     newPour: () => pourRow(),
     newPhoto: s => photoRow(standing[s].job as number, false),
+    newPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'to_fettle'),
+    newPackedPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'packed'),
+    newTablet: s => tabletRow(ws, tags[s]),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 
