@@ -5,7 +5,7 @@ import { localDbSettings, root } from './config'
 import { upCluster, migrate, seedIfEmpty } from './cluster'
 import { buildIfStale } from './build'
 import { sessionSecret } from './session-secret'
-import { DEMO_PASSWORD, DEMO_USERS } from '../seeds/demo-people'
+import { demoSignIns, waitForHttp } from './serve'
 
 const dev = process.argv.includes('--dev')
 const t0 = Date.now()
@@ -46,27 +46,12 @@ async function main() {
   child.on('exit', code => process.exit(code ?? 0))
 }
 
-async function waitForHttp(url: string, timeoutMs: number) {
-  const until = Date.now() + timeoutMs
-  while (Date.now() < until) {
-    try {
-      const r = await fetch(url)
-      if (r.ok) return
-    }
-    catch { /* not up yet */ }
-    await new Promise(r => setTimeout(r, 300))
-  }
-  throw new Error(`the app did not answer at ${url} within ${timeoutMs / 1000} s`)
-}
-
 function printWelcome(url: string) {
-  const rows = DEMO_USERS.map(u => `  ${u.role.padEnd(9)} ${u.email.padEnd(36)} ${u.name.padEnd(20)}${'pin' in u ? ` tablet PIN ${u.pin}` : ''}`.trimEnd())
   console.log([
     '',
     `Setline is running at ${url}  (ready in ${((Date.now() - t0) / 1000).toFixed(1)} s)`,
     '',
-    `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
-    ...rows,
+    ...demoSignIns(),
     '',
     'Shared tablet: sign in as the lead on the device, People → "Use this device as a shared tablet",',
     'then tap a name and type that person\'s tablet PIN.',

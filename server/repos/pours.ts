@@ -80,6 +80,12 @@ export const poursRepo = {
     const r = await db.raw(`${DTO_SQL} AND p.id = :id`, { workshopId, id })
     return r.rows[0]
   },
+  /** Several pours in one query, in no particular order (missing or another workshop's ids are left out). */
+  async dtos(db: Knex, workshopId: number, ids: number[]): Promise<PourDtoRow[]> {
+    if (!ids.length) return []
+    const r = await db.raw(`${DTO_SQL} AND p.id = ANY(:ids::bigint[])`, { workshopId, ids })
+    return r.rows
+  },
   /** Non-void pours whose slot overlaps the local days from..to, in slot order. */
   async inDays(db: Knex, workshopId: number, from: string, to: string): Promise<PourDtoRow[]> {
     const r = await db.raw(`${DTO_SQL} AND p.state <> 'void'

@@ -34,7 +34,9 @@ function cautionsOf(p: PourDto): FloorCaution[] {
 /** Cards for the given pours, in the order given. */
 export async function floorCards(db: Knex, workshopId: number, ids: number[]): Promise<FloorCardDto[]> {
   if (!ids.length) return []
-  const rows = (await Promise.all(ids.map(id => poursRepo.dto(db, workshopId, id)))).filter(r => !!r)
+  // one query for every card (a query per pour held one pooled connection each under load)
+  const byId = new Map((await poursRepo.dtos(db, workshopId, ids)).map(r => [Number(r.id), r]))
+  const rows = ids.map(id => byId.get(id)).filter(r => !!r)
   const actuals = new Map((await floorRepo.actuals(db, workshopId, ids)).map(a => [Number(a.id), a]))
   const gradeIds = [...new Set(rows.map(r => Number(r.grade_id)))]
   const lots = await daySheetRepo.lots(db, workshopId, gradeIds)

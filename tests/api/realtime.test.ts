@@ -1,12 +1,14 @@
 // Live updates over socket.io on the app's own port: authenticated from the session
 // cookie, one room per workshop, a websocket-only first connection, and two app instances
-// on one PostgreSQL passing events to each other (@socket.io/postgres-adapter).
+// on one PostgreSQL passing events to each other (@socket.io/postgres-adapter): a pour moved
+// through one reaches a tablet connected to the other, and a session from either works on both.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import type { ChildProcess } from 'node:child_process'
 import { call, signIn } from '../setup/http'
 import { startAppServer } from '../setup/server'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
+import { boardFixture } from '../setup/board-fixtures'
 
 const sockets: Socket[] = []
 let second: { url: string; proc: ChildProcess } | undefined
@@ -48,6 +50,19 @@ async function touchSettings(cookie: string, base?: string) {
   expect(r.status).toBe(200)
 }
 
+/** The second app instance on the same database and session secret, started once for the file. */
+async function secondInstance() {
+  second ??= await startAppServer({ DATABASE_URL: inject('databaseUrl'), NUXT_SESSION_PASSWORD: inject('sessionPassword'), MAIL_FAKE: '0' })
+  return second
+}
+
+/** Signs in on a given instance (signIn() of tests/setup/http always uses the first). */
+async function signInAt(base: string, email: string) {
+  const r = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) })
+  expect(r.status).toBe(200)
+  return r.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
+}
+
 let lead = ''
 beforeAll(async () => {
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
@@ -77,17 +92,47 @@ describe('live updates', () => {
   })
 
   it('passes events between two app instances sharing one PostgreSQL', async () => {
-    second = await startAppServer({ DATABASE_URL: inject('databaseUrl'), NUXT_SESSION_PASSWORD: inject('sessionPassword'), MAIL_FAKE: '0' })
+    const other = await secondInstance()
     // the same session works on both instances
-    const me = await fetch(`${second.url}/api/auth/me`, { headers: { cookie: lead } })
+    const me = await fetch(`${other.url}/api/auth/me`, { headers: { cookie: lead } })
     expect(me.status).toBe(200)
-    const onSecond = await connect(second.url, lead)
+    const onSecond = await connect(other.url, lead)
     const onFirst = await connect(inject('baseUrl'), lead)
     const viaSecond = nextLive(onSecond, 'workshop.updated')
     await touchSettings(lead) // through the first instance
     expect((await viaSecond).type).toBe('workshop.updated')
     const viaFirst = nextLive(onFirst, 'workshop.updated')
-    await touchSettings(lead, second.url) // through the second
+    await touchSettings(lead, other.url) // through the second
     expect((await viaFirst).type).toBe('workshop.updated')
+  }, 90_000)
+
+  it('a pour moved through one instance reaches a caster\'s tablet on the other; sessions from either work on both', async () => {
+    const b = await secondInstance()
+    const a = inject('baseUrl')
+    // a session made on B works on A, as the lead's session from A works on B (above)
+    const caster = await signInAt(b.url, demo.caster1.email)
+    const meOnA = await fetch(`${a}/api/auth/me`, { headers: { cookie: caster } })
+    expect(meOnA.status).toBe(200)
+    expect((await meOnA.json()).email).toBe(demo.caster1.email)
+    const tablet = await connect(b.url, caster)
+    const fx = await boardFixture('realtime')
+    const mouldId = await fx.mould()
+    const json = { 'cookie': lead, 'content-type': 'application/json' }
+    const planned = await fetch(`${a}/api/pours`, { method: 'POST', headers: json, body: JSON.stringify({ mouldId, slotStart: '2027-06-01T09:00:00.000Z', casterId: fx.casterId }) })
+    expect(planned.status).toBe(201)
+    const pour = await planned.json()
+    const moved = new Promise<any>((resolve, reject) => {
+      const t = setTimeout(() => reject(new Error('no pour.updated for the moved pour on instance B within 5 s')), 5000)
+      tablet.on('live', (e: { type: string; id: number }) => {
+        if (e.type === 'pour.updated' && e.id === pour.id) {
+          clearTimeout(t)
+          resolve(e)
+        }
+      })
+    })
+    const r = await fetch(`${a}/api/pours/${pour.id}`, { method: 'PATCH', headers: json, body: JSON.stringify({ version: pour.version, slotStart: '2027-06-01T11:00:00.000Z' }) })
+    expect(r.status).toBe(200)
+    const e = await moved
+    expect(e).toMatchObject({ version: pour.version + 1, row: { id: pour.id, mouldId, slotStart: '2027-06-01T11:00:00.000Z' } })
   }, 90_000)
 })

@@ -9,6 +9,7 @@
 import { performance } from 'node:perf_hooks'
 import sharp from 'sharp'
 import { DISPLAY_PX, THUMB_PX, processPhoto } from '../../server/utils/photo-image'
+import { record } from './lib/results'
 
 const RUNS = 7
 const TARGET_RATIO = 1.3
@@ -46,3 +47,4 @@ const plain = await median(() => bare(input))
 console.log(`processPhoto (ours):   median ${ours.toFixed(0)} ms`)
 console.log(`bare sharp, same steps: median ${plain.toFixed(0)} ms`)
 console.log(`ratio ${(ours / plain).toFixed(2)}× (target within ${TARGET_RATIO}×)`)
+record({ name: 'photo pipeline, 12 MP JPEG vs bare sharp', value: `${(ours / plain).toFixed(2)}×`, target: `≤ ${TARGET_RATIO}×`, met: ours / plain <= TARGET_RATIO, note: `ours ${ours.toFixed(0)} ms, bare ${plain.toFixed(0)} ms` })

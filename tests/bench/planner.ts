@@ -8,6 +8,8 @@
 import { performance } from 'node:perf_hooks'
 import { GRADE_PRESETS } from '../../shared/utils/plaster'
 import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould } from '../../shared/utils/planner'
+import { record } from './lib/results'
+import { percentile } from './lib/stats'
 
 const TARGET_MS = 1000
 const RUNS = 5
@@ -89,10 +91,6 @@ function buildInput(): PlanPoursInput {
   }
 }
 
-function percentile(sorted: number[], p: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!
-}
-
 /** The same pieces, but every item castable on every ready mould: the most candidates per piece. */
 function wideInput(base: PlanPoursInput): PlanPoursInput {
   const all = base.moulds.map(m => m.id)
@@ -116,13 +114,13 @@ function measure(name: string, input: PlanPoursInput): void {
     const c = process.cpuUsage(c0)
     cpu.push((c.user + c.system) / 1000)
   }
-  wall.sort((a, b) => a - b)
-  cpu.sort((a, b) => a - b)
   const pieces = input.items.reduce((s, i) => s + i.piecesRemaining, 0)
   const late = result.jobs.filter(j => !j.onTime).length
   console.log(`${name}: ${pieces} pieces, ${input.items.length} items, 25 jobs, ${input.moulds.length} moulds, 20 working days`)
   console.log(`  wall median ${percentile(wall, 50).toFixed(1)} ms, p95 ${percentile(wall, 95).toFixed(1)} ms; cpu median ${percentile(cpu, 50).toFixed(1)} ms; ${RUNS} runs (target: under ${TARGET_MS} ms)`)
   console.log(`  pours placed in range: ${result.pours.length}; jobs not on time: ${late}; unplaced items: ${result.unplaced.length}`)
+  const med = percentile(wall, 50)
+  record({ name: `${name}, ${pieces} pieces: median`, value: `${med.toFixed(0)} ms`, target: `< ${TARGET_MS} ms`, met: med < TARGET_MS, note: `p95 ${percentile(wall, 95).toFixed(0)} ms, cpu ${percentile(cpu, 50).toFixed(0)} ms` })
 }
 
 const input = buildInput()

@@ -54,6 +54,8 @@ describe('photos from the shop to the client', () => {
     await page.getByRole('button', { name: 'Upload 2 photos' }).click()
     await page.getByText('2 photos added.').waitFor()
     const cards = page.locator('[data-photo]')
+    // the message shows when the upload answers; the grid fills when its refetch lands after it
+    await cards.nth(1).waitFor()
     await expect(cards.count()).resolves.toBe(2)
     await expect(cards.first().getByText('Workshop only').isVisible()).resolves.toBe(true)
     for (const i of [0, 1]) {
