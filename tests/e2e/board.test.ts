@@ -32,8 +32,9 @@ async function resourceId(page: Page, code: string) {
 async function pointAt(page: Page, code: string, clock: string, offsetMin = 0) {
   const lane = page.locator(`.fc-timeline-lane[data-resource-id="${await resourceId(page, code)}"]`).first()
   const slot = page.locator(`.fc-timeline-slot-lane[data-date*="T${clock}"]`).first()
-  // other tests add moulds to the demo workshop: the row may be below the fold
-  await lane.scrollIntoViewIfNeeded()
+  // other tests add moulds to the demo workshop: the row may be off screen. Centre it: at the
+  // very top of the window the calendar's sticky time header would take the mouse instead
+  await lane.evaluate(el => el.scrollIntoView({ block: 'center' }))
   const [l, s] = [await lane.boundingBox(), await slot.boundingBox()]
   return { x: s!.x + 2 + (s!.width * offsetMin) / 15, y: l!.y + l!.height / 2 }
 }
