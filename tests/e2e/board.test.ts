@@ -76,7 +76,7 @@ describe('pour board', () => {
     await page.getByRole('button', { name: 'Put on the board' }).click()
     await expectMessage(page, /Planned J-2603 on CB-12 at 09:00/)
     const lane = page.locator(`.fc-timeline-lane[data-resource-id="${await resourceId(page, 'CB-12')}"]`)
-    await expect.poll(() => lane.locator('[data-testid="pour-bar"]').count()).toBe(1)
+    await expect.poll(() => lane.locator('[data-testid="pour-bar"]').count(), { timeout: 15_000 }).toBe(1) // the board re-renders every mould row after a change: slow with many
     await screenshot(page, 'board-created')
 
     // drag the bar across to RS-05
