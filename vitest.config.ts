@@ -56,6 +56,9 @@ export default defineConfig({
           testTimeout: 60_000,
           hookTimeout: 60_000,
           fileParallelism: false,
+          // pages answer after a server round trip and a re-render: a loaded 2-core runner needs
+          // more than expect.poll's default second (a poll still ends as soon as it matches)
+          expect: { poll: { timeout: 10_000 } },
         },
       },
     ],
