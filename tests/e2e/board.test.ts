@@ -47,6 +47,20 @@ async function drag(page: Page, from: { x: number; y: number }, to: { x: number;
   await page.mouse.up()
 }
 
+/**
+ * Selects 09:00–09:30 on a mould's row to open the New pour dialog. A live refresh of the board
+ * (after the previous change) may re-render the rows under the mouse mid-gesture, which drops
+ * the selection; then the gesture is made again on the settled board (at most three times).
+ */
+async function selectSlot(page: Page, code: string) {
+  for (let attempt = 1; ; attempt++) {
+    await drag(page, await pointAt(page, code, '09:00'), await pointAt(page, code, '09:15', 14))
+    const opened = await page.getByRole('dialog', { name: 'New pour' }).waitFor({ timeout: 5000 }).then(() => true, () => false)
+    if (opened) return
+    if (attempt === 3) throw new Error(`the New pour dialog did not open after selecting 09:00 on ${code} three times`)
+  }
+}
+
 async function expectMessage(page: Page, pattern: RegExp) {
   await expect.poll(async () => (await page.getByTestId('board-message').textContent({ timeout: 1000 }).catch(() => '')) ?? '', { timeout: 10_000 }).toMatch(pattern)
 }
@@ -70,8 +84,7 @@ describe('pour board', () => {
     await page.locator(`.fc-timeline-slot-lane[data-date^="${day}"]`).first().waitFor()
 
     // create on an empty slot: select 09:00–09:30 on CB-12
-    await drag(page, await pointAt(page, 'CB-12', '09:00'), await pointAt(page, 'CB-12', '09:15', 14))
-    await page.getByRole('dialog', { name: 'New pour' }).waitFor()
+    await selectSlot(page, 'CB-12')
     await selectByText(page.getByLabel('Job item'), 'J-2603 · Scroll corbels')
     await page.getByRole('button', { name: 'Put on the board' }).click()
     await expectMessage(page, /Planned J-2603 on CB-12 at 09:00/)
@@ -86,8 +99,7 @@ describe('pour board', () => {
     await expectMessage(page, /Moved J-2603 to RS-05/)
 
     // a second pour on CB-12, then try to move it onto the first: refused with the reason
-    await drag(page, await pointAt(page, 'CB-12', '09:00'), await pointAt(page, 'CB-12', '09:15', 14))
-    await page.getByRole('dialog', { name: 'New pour' }).waitFor()
+    await selectSlot(page, 'CB-12')
     await selectByText(page.getByLabel('Job item'), 'J-2603 · Scroll corbels')
     await page.getByRole('button', { name: 'Put on the board' }).click()
     await expectMessage(page, /Planned J-2603 on CB-12/)
