@@ -18,6 +18,8 @@ const envSchema = z.object({
   MAIL_WORKER_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(5000),
   MAIL_RETRY_BASE_SECONDS: z.coerce.number().int().min(1).max(3600).default(15),
   OVERDUE_CHECK_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(60_000),
+  // Setline sits behind a reverse proxy that sets X-Forwarded-For / -Host / -Proto (README, "Behind a TLS proxy")
+  TRUST_PROXY: flag.default(false),
   LOGIN_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),
   PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(15 * 1024 * 1024),
   PHOTO_MAX_PIXELS: z.coerce.number().int().min(1_000_000).max(268_402_689).default(50_000_000),

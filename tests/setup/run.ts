@@ -39,9 +39,25 @@ function step(name: string, cmd: string, args: string[], env: Record<string, str
   return res.ok
 }
 
-function vitest(project: string, env: Record<string, string>) {
+function vitest(project: string, env: Record<string, string>, files: string[] = []) {
   const file = join(outDir, `vitest-${project}.json`)
-  return step(`${project} tests`, 'npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], env, file)
+  return step(`${project} tests`, 'npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${file}`, ...files], env, file)
+}
+
+/**
+ * `npm test -- tests/api/auth.test.ts tests/e2e/tablet.test.ts` runs only those files (with a
+ * build first when any of them needs the server; `--no-build` reuses .output); no lint or typecheck.
+ */
+function selection(argv: string[]) {
+  const files = argv.filter(a => !a.startsWith('--'))
+  const projectOf = (f: string) => ({ unit: 'unit', nuxt: 'component', api: 'api', e2e: 'e2e' } as Record<string, string>)[f.replace(/^\.\//, '').split('/')[1] ?? ''] ?? ''
+  const byProject = new Map<string, string[]>()
+  for (const f of files) {
+    const p = projectOf(f)
+    if (!p) throw new Error(`${f}: not a test file under tests/unit, tests/nuxt, tests/api or tests/e2e`)
+    byProject.set(p, [...(byProject.get(p) ?? []), f])
+  }
+  return { files, byProject, build: !argv.includes('--no-build') }
 }
 
 function listScreenshots() {
@@ -64,20 +80,37 @@ async function main() {
   try {
     await seedIfEmpty(db.url)
     const env = { SETLINE_TEST_DATABASE_URL: db.url }
-    step('lint', 'npx', ['eslint', '.'])
-    step('typecheck', 'npx', ['nuxt', 'typecheck'])
-    vitest('unit', env)
-    vitest('component', env)
-    const built = step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
-    if (built) {
-      vitest('api', env)
-      vitest('e2e', env)
+    const only = selection(process.argv.slice(2))
+    if (only.files.length) {
+      for (const p of ['unit', 'component']) if (only.byProject.has(p)) vitest(p, env, only.byProject.get(p))
+      const needsServer = only.byProject.has('api') || only.byProject.has('e2e')
+      const built = !needsServer || !only.build || step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
+      if (built) for (const p of ['api', 'e2e']) if (only.byProject.has(p)) vitest(p, env, only.byProject.get(p))
+    }
+    else {
+      runAll(env)
     }
     exitCode = results.every(r => r.ok) ? 0 : 1
   }
   finally {
     db.stop()
   }
+  summary(t0, exitCode)
+}
+
+function runAll(env: Record<string, string>) {
+  step('lint', 'npx', ['eslint', '.'])
+  step('typecheck', 'npx', ['nuxt', 'typecheck'])
+  vitest('unit', env)
+  vitest('component', env)
+  const built = step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
+  if (built) {
+    vitest('api', env)
+    vitest('e2e', env)
+  }
+}
+
+function summary(t0: number, exitCode: number) {
   listScreenshots()
   console.log('\n── summary ──')
   for (const r of results) {
