@@ -1,5 +1,6 @@
 // Nuxt configuration. No network at build or run time: telemetry and devtools are off,
 // fonts come from @fontsource packages inside the app.
+import { fileURLToPath } from 'node:url'
 import { SCRYPT_OPTIONS } from './server/utils/password-policy'
 
 export default defineNuxtConfig({
@@ -35,6 +36,13 @@ export default defineNuxtConfig({
   vite: { optimizeDeps: { include: ['socket.io-client', 'chart.js', 'vue-chartjs'] } },
   typescript: { strict: true },
   telemetry: false,
+  hooks: {
+    // our error handler first (database away → 503), then Nuxt's (error pages), then Nitro's
+    'nitro:config'(config) {
+      const own = fileURLToPath(new URL('./server/error-handler.ts', import.meta.url))
+      config.errorHandler = [own, ...[config.errorHandler ?? []].flat()]
+    },
+  },
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },
   tailwindcss: { cssPath: '~/assets/css/tailwind.css', viewer: false },
 })

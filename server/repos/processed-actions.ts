@@ -2,7 +2,7 @@
 // answer, so an action replayed from a tablet's outbox runs exactly once.
 import type { Knex } from 'knex'
 
-export interface ProcessedAction { id: string; workshop_id: number; user_id: number | null; kind: string; status: number; result: unknown }
+export interface ProcessedAction { id: string; workshop_id: number; user_id: number | null; kind: string; entity_id: number | null; status: number; result: unknown }
 
 export const processedActionsRepo = {
   /**
@@ -14,12 +14,13 @@ export const processedActionsRepo = {
     await db.raw('SELECT pg_advisory_xact_lock(hashtextextended(?, 0))', [id])
   },
   async find(db: Knex, id: string): Promise<ProcessedAction | undefined> {
-    const row = await db('processed_actions').first('id', 'workshop_id', 'user_id', 'kind', 'status', 'result').where({ id })
-    return row ? { ...row, workshop_id: Number(row.workshop_id), user_id: row.user_id === null ? null : Number(row.user_id) } : undefined
+    const row = await db('processed_actions').first('id', 'workshop_id', 'user_id', 'kind', 'entity_id', 'status', 'result').where({ id })
+    const num = (v: unknown) => (v === null ? null : Number(v))
+    return row ? { ...row, workshop_id: Number(row.workshop_id), user_id: num(row.user_id), entity_id: num(row.entity_id) } : undefined
   },
-  async insert(db: Knex, a: { id: string; workshopId: number; userId: number; kind: string; status: number; result: unknown }) {
+  async insert(db: Knex, a: { id: string; workshopId: number; userId: number; kind: string; entityId: number; status: number; result: unknown }) {
     await db('processed_actions').insert({
-      id: a.id, workshop_id: a.workshopId, user_id: a.userId, kind: a.kind, status: a.status, result: JSON.stringify(a.result),
+      id: a.id, workshop_id: a.workshopId, user_id: a.userId, kind: a.kind, entity_id: a.entityId, status: a.status, result: JSON.stringify(a.result),
     }).onConflict('id').ignore()
   },
 }

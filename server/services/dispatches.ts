@@ -23,7 +23,7 @@ const round3 = (kg: number) => Math.round(kg * 1000) / 1000
 
 /** POST /api/jobs/:id/dispatches: a note for the chosen packed pieces of the job. */
 export function createDispatch(actor: Actor, jobId: number, input: FinishingDispatchInput) {
-  return runOnce<{ id: number; noteNo: string; pieces: number }>(actor, input.actionId, 'dispatch.create', async (trx) => {
+  return runOnce<{ id: number; noteNo: string; pieces: number }>(actor, input.actionId, { kind: 'dispatch.create', entityId: jobId }, async (trx) => {
     const job = await jobsRepo.byId(trx, actor.workshopId, jobId)
     if (!job) notFound('Job')
     const pieces = await piecesRepo.lockMany(trx, actor.workshopId, input.pieceIds)

@@ -143,7 +143,7 @@ const STEPS = { fettled, weighed, ready, repair, repaired, rejected, packed } as
 
 /** POST /api/pieces/:id/actions: one finishing step of a piece, exactly once per actionId. */
 export function pieceAction(actor: Actor, pieceId: number, input: FinishingActionInput) {
-  return runOnce<FinishingActionResult>(actor, input.actionId, `piece.${input.kind}`, async (trx) => {
+  return runOnce<FinishingActionResult>(actor, input.actionId, { kind: `piece.${input.kind}`, entityId: pieceId }, async (trx) => {
     const row = await lockForStep(trx, actor, pieceId, input)
     const previous = await piecesRepo.lastEventAt(trx, actor.workshopId, pieceId)
     const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }

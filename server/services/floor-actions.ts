@@ -143,7 +143,7 @@ const STEPS = { start_mixing: startMixing, poured, demoulded } as const
 
 /** POST /api/pours/:id/actions: one step of a pour, exactly once per actionId. */
 export function pourAction(actor: Actor, pourId: number, input: FloorActionInput) {
-  return runOnce<FloorActionResult>(actor, input.actionId, `pour.${input.kind}`, async (trx) => {
+  return runOnce<FloorActionResult>(actor, input.actionId, { kind: `pour.${input.kind}`, entityId: pourId }, async (trx) => {
     const row = await lockForStep(trx, actor, pourId, input)
     const previous = input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null
     const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }

@@ -1,6 +1,7 @@
 // One way to turn bad input and database refusals into clear 4xx answers.
 import type { H3Event } from 'h3'
 import type { ZodType, z } from 'zod'
+import { NUL_MESSAGE, fieldsWithNul } from '#shared/utils/input-fields'
 
 export interface FieldProblem { field: string; message: string }
 
@@ -21,7 +22,13 @@ function problemsOf(error: z.ZodError, prefix?: string): FieldProblem[] {
   })
 }
 
+/**
+ * Validates with `schema` (422 naming the fields). Text with a NUL character is refused first,
+ * for every body, query, path parameter and form field alike (shared/utils/input-fields.ts).
+ */
 export function parseOr422<S extends ZodType>(schema: S, value: unknown, prefix?: string): z.infer<S> {
+  const nul = fieldsWithNul(value)
+  if (nul.length) unprocessable(nul.map(f => ({ field: [prefix, f].filter(Boolean).join('.') || (prefix ?? 'body'), message: NUL_MESSAGE })))
   const r = schema.safeParse(value)
   if (!r.success) unprocessable(problemsOf(r.error, prefix))
   return r.data

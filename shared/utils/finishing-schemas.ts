@@ -4,6 +4,7 @@
 import { z } from 'zod'
 import { PLASTER_DRYING_MAX_C } from './plaster-drying'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
+import { CALENDAR_YEARS, isCalendarInstant } from './input-fields'
 
 export const FINISHING_PIECE_STATES = ['to_fettle', 'repair', 'drying', 'ready', 'packed', 'dispatched', 'rejected'] as const
 export type FinishingPieceState = (typeof FINISHING_PIECE_STATES)[number]
@@ -42,8 +43,9 @@ export const FINISHING_STEPS: Record<FinishingActionKind, { from: readonly Finis
 const positiveId = (field: string) => z.number({ error: `${field} must be a positive whole number` })
   .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })
 
+// bounded like every instant a person enters (input-fields.ts): year 0 is no PostgreSQL year
 const instantText = z.string({ error: 'at must be an ISO date-time' })
-  .refine(v => /^\d{4}-\d{2}-\d{2}T/.test(v) && Number.isFinite(Date.parse(v)), { error: 'at must be an ISO date-time' })
+  .refine(isCalendarInstant, { error: `at must be an ISO date-time from ${CALENDAR_YEARS.min} to ${CALENDAR_YEARS.max}` })
 
 const common = {
   actionId: z.uuid({ error: 'actionId must be a UUID' }),

@@ -35,3 +35,21 @@ export function idText(field: string) {
   return z.string({ error: message }).regex(/^\d{1,16}$/, { error: message }).transform(Number)
     .pipe(z.number().int({ error: message }).positive({ error: message }).max(Number.MAX_SAFE_INTEGER, { error: message }))
 }
+
+/**
+ * The fields of a request (a JSON body, a query, path parameters, form fields) whose text holds
+ * a NUL character, as dotted paths ('notes', 'pours.0.caption'). PostgreSQL cannot store NUL
+ * in text or jsonb ("invalid byte sequence for encoding UTF8: 0x00", PostgreSQL manual §8.3),
+ * and no one types it: such input is refused as a whole before any schema or query sees it.
+ */
+export function fieldsWithNul(value: unknown, at: string[] = []): string[] {
+  if (typeof value === 'string') return value.includes('\u0000') ? [at.join('.')] : []
+  if (Array.isArray(value)) return value.flatMap((v, i) => fieldsWithNul(v, [...at, String(i)]))
+  if (value && typeof value === 'object') {
+    return Object.entries(value).flatMap(([k, v]) => (k.includes('\u0000') ? [[...at, k].join('.')] : fieldsWithNul(v, [...at, k])))
+  }
+  return []
+}
+
+/** What a 422 says about a field with a NUL character in it. */
+export const NUL_MESSAGE = 'must not contain a NUL character (\\u0000)'

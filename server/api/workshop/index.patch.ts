@@ -1,11 +1,16 @@
 // Saves the workshop's settings (lead); 409 when another lead saved first.
 import { workshopsRepo, workshopDto } from '../../repos/workshops'
+import { timezonesRepo } from '../../repos/timezones'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   const s = await validBody(event, workshopSettingsSchema)
-  const row = await workshopsRepo.update(useDb(), actor.workshopId, s.version, {
-    name: s.name, units: s.units, timezone: s.timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd,
+  const db = useDb()
+  // Intl accepted the zone (the schema); the database must know it too (server/repos/timezones.ts)
+  const timezone = await timezonesRepo.canonical(db, s.timezone)
+  if (!timezone) unprocessable([{ field: 'timezone', message: `Timezone ${s.timezone} is not one the database knows: choose a zone such as Europe/London` }])
+  const row = await workshopsRepo.update(db, actor.workshopId, s.version, {
+    name: s.name, units: s.units, timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd,
     working_days: [...new Set(s.workingDays)].sort(), default_shop_temp_c: s.defaultShopTempC, default_humidity_pct: s.defaultHumidityPct,
   })
   if (!row) conflict('The settings were changed by someone else; reload to see them')

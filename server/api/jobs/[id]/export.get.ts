@@ -9,8 +9,8 @@ export default defineEventHandler(async (event) => {
   if (!job) notFound('Job')
   return sendCsv(event, `setline-${job.code}-items.csv`, jobItemsRepo.exportQuery(db, actor.workshopId, id), [
     { key: 'job', header: 'job' }, { key: 'description', header: 'item' }, { key: 'mould', header: 'mould' },
-    { key: 'profile', header: 'profile' }, { key: 'quantity', header: 'quantity' }, { key: 'run_m', header: 'run m' },
-    { key: 'spares_pct', header: 'spares %' }, { key: 'pieces_needed', header: 'pieces needed' },
-    { key: 'grade', header: 'grade' }, { key: 'consistency', header: 'consistency' },
+    { key: 'profile', header: 'profile' }, { key: 'quantity', header: 'quantity', number: true }, { key: 'run_m', header: 'run m', number: true },
+    { key: 'spares_pct', header: 'spares %', number: true }, { key: 'pieces_needed', header: 'pieces needed', number: true },
+    { key: 'grade', header: 'grade' }, { key: 'consistency', header: 'consistency', number: true },
   ])
 })

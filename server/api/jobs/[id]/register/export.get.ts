@@ -15,6 +15,8 @@ const COLUMNS: [string, string][] = [
 ]
 
 const TIMES = new Set(['mix_planned', 'mixing_at', 'poured_at', 'demould_open', 'demould_close', 'demoulded_at'])
+/** Figures: a negative temperature stays a number in the spreadsheet (server/utils/csv.ts). */
+const FIGURES = new Set(['pour_id', 'consistency', 'plaster_kg_actual', 'water_kg_actual', 'water_temp_c', 'powder_temp_c', 'shop_temp_c', 'slurry_temp_c', 'photos'])
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
@@ -25,6 +27,6 @@ export default defineEventHandler(async (event) => {
   if (!job) notFound('Job')
   const ws = await loadWorkshop(db, actor.workshopId)
   // times are local to the workshop: the header names the zone so the file stands alone
-  const columns = COLUMNS.map(([key, header]) => ({ key, header: TIMES.has(key) ? `${header} (${ws.timezone})` : header }))
+  const columns = COLUMNS.map(([key, header]) => ({ key, header: TIMES.has(key) ? `${header} (${ws.timezone})` : header, number: FIGURES.has(key) }))
   return sendCsvRows(event, `setline-${job.code}-register.csv`, registerRepo.all(db, actor.workshopId, id, filter), columns)
 })
