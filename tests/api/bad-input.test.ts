@@ -1,7 +1,8 @@
 // Bad input everywhere: for every route of tests/api/route-table.ts that takes a body, a query
 // or path parameters, a seeded generator (fast-check, FC_SEED to explore) sends wrong types,
 // missing fields, huge strings, negative and non-finite numbers (as JSON text, 1e309, and as
-// strings), unknown enum values, SQL-looking text, malformed JSON and bad ids in the path.
+// strings), unknown enum values, SQL-looking text, text with a NUL character, days and instants
+// in years 0, 1000 and 10000, malformed JSON and bad ids in the path.
 // Field names come from the shared zod schema the route file validates with (found in its
 // source), and the same schema, run here, says what the answer must be: a 422 naming the same
 // fields, or a 400 for malformed JSON; never a 500. Each route's cases must leave the database
@@ -17,6 +18,7 @@ import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { makeScopes, type Scopes } from '../setup/scopes'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 import { ROUTES, routesOnDisk, type RouteRow } from './route-table'
+import { fieldsWithNul } from '../../shared/utils/input-fields'
 
 const SEED = Number(process.env.FC_SEED ?? 20261202)
 /** Random mutations per route on top of the sweep of every field. */
@@ -60,6 +62,9 @@ function keysOf(schema: unknown): string[] {
 
 /** The fields a 422 names for this value, as server/utils/errors.ts words them; null when valid. */
 function problemFields(schema: ZodType, value: unknown, prefix?: string): string[] | null {
+  // parseOr422 refuses text with a NUL character before the schema sees it
+  const nul = fieldsWithNul(value)
+  if (nul.length) return [...new Set(nul.map(f => [prefix, f].filter(Boolean).join('.') || prefix || 'body'))].sort()
   const r = schema.safeParse(value)
   if (r.success) return null
   return [...new Set(r.error.issues.map(i => [prefix, i.path.map(String).join('.')].filter(Boolean).join('.') || prefix || 'body'))].sort()
@@ -71,15 +76,19 @@ const raw = (text: string) => ({ '\u0000raw': text })
 const HUGE = 'x'.repeat(100_000)
 const SQL = ['\' OR \'1\'=\'1', '1; DROP TABLE users; --', '\'); DELETE FROM jobs; --', '1 UNION SELECT password_hash FROM users']
 const MISSING = Symbol('missing')
+/** PostgreSQL cannot store a NUL character in text or jsonb. */
+const NUL = 'x\u0000y'
+/** Days and instants in years PostgreSQL has not (0), a typing slip (1000) and past 9999. */
+const FAR_YEARS = ['1000-06-01', '10000-01-01', '0000-06-01T10:00:00Z', '1000-06-01T10:00:00Z', '+010000-01-01T00:00:00Z']
 const BAD: unknown[] = [
   MISSING, null, true, 0, -1, -0.5, 1.5, 2 ** 31, Number.MAX_SAFE_INTEGER, 1e20, -1e20, raw('1e309'), raw('-1e309'),
   '', '   ', 'abc', 'NaN', 'Infinity', '-Infinity', '-1e309', '1e3', '2027-02-30', '0000-01-01', '9999-12-31',
-  '9999-12-31T23:00:00Z', '+275760-09-13T00:00:00Z', 'not-a-kind', HUGE, ...SQL, {}, [], [null], { $gt: '' },
+  '9999-12-31T23:00:00Z', '+275760-09-13T00:00:00Z', 'not-a-kind', HUGE, ...SQL, {}, [], [null], { $gt: '' }, NUL, ...FAR_YEARS,
 ]
 /** The sweep: every field gets the bad values for the type its schema (or its value) has. */
 const SWEEP: Record<string, unknown[]> = {
   number: [MISSING, null, 'abc', -1, 1.5, 2 ** 31, raw('1e309'), '-1e309', SQL[1], {}],
-  string: [MISSING, null, 12, '', HUGE, 'not-a-kind', '2027-02-30', '0000-01-01', SQL[1]],
+  string: [MISSING, null, 12, '', HUGE, 'not-a-kind', '2027-02-30', '0000-01-01', SQL[1], NUL, ...FAR_YEARS],
   boolean: [MISSING, null, 'true', 1, {}],
   array: [MISSING, null, 'abc', [], [null]],
   object: [MISSING, null, 'abc', []],
@@ -107,7 +116,7 @@ function sweepOf(schema: unknown, value: unknown): unknown[] {
 }
 /** Malformed or non-object JSON bodies. */
 const MALFORMED = ['{', '{"a":', '[1,2', '{\'a\':1}', '{"a":1}}', 'nul', '{"a":NaN}', '{"a":01}', '\u0000', '[]', '"text"', '123', 'true']
-const BAD_IDS = ['abc', '-1', '0', '1.5', '1e3', '99999999999999999999', '1;DROP TABLE users', '1 OR 1=1', ' 1']
+const BAD_IDS = ['abc', '-1', '0', '1.5', '1e3', '99999999999999999999', '1;DROP TABLE users', '1 OR 1=1', ' 1', '1\u0000']
 /** A version no row has: a valid body with it can only be refused (409), never written. */
 const STALE_VERSION = 2_000_000_000
 
@@ -231,7 +240,7 @@ function casesFor(row: RouteRow, params: Record<string, string>, baseBody: unkno
       for (const [k, v] of sent) q[k] = k in q ? [q[k]!, v].flat() : v
       push(`query ${edits.map(([f, v]) => `${f}=${v === MISSING ? '(missing)' : queryText(v).slice(0, 40)}`).join(' ')}`, { path: pathWith(params), query: q }, want({ query: q }))
     }
-    for (const f of fields) for (const v of [MISSING, '', 'abc', '-1', '1e3', 'NaN', '-1e309', HUGE, SQL[1], '0000-01-01', '2027-02-30', ['2027-01-01', '2027-01-02']]) mutate([[f, v]])
+    for (const f of fields) for (const v of [MISSING, '', 'abc', '-1', '1e3', 'NaN', '-1e309', HUGE, SQL[1], '0000-01-01', '2027-02-30', ['2027-01-01', '2027-01-02'], NUL, ...FAR_YEARS]) mutate([[f, v]])
     for (const edits of fc.sample(fc.uniqueArray(fc.tuple(fc.constantFrom(...fields), fc.constantFrom(...BAD)), { minLength: 1, maxLength: 3, selector: e => e[0] }), { seed, numRuns: RANDOM_CASES })) mutate(edits)
   }
   // JSON body fields, nested ones too
