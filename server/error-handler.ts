@@ -16,7 +16,7 @@ const handler: NitroErrorHandler = (error, event) => {
   error.data = { retryAfter: DATABASE_RETRY_AFTER_SECONDS }
   // shown to the person, not hidden as an unexpected fault (Nitro hides an unhandled error's message)
   error.unhandled = false
-  setResponseHeader(event, 'retry-after', String(DATABASE_RETRY_AFTER_SECONDS))
+  setResponseHeader(event, 'retry-after', DATABASE_RETRY_AFTER_SECONDS)
 }
 
 export default handler
