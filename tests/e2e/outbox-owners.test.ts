@@ -1,9 +1,10 @@
 // Two casters on one shared tablet (820×1180): each step waiting in the outbox goes out only
 // under the session of the person who took it. Ada takes two steps with the Wi-Fi down and
-// hands the tablet to Idris; Idris's step goes out when the connection returns while Ada's wait,
+// hands the tablet to Tamsin; Tamsin's step goes out when the connection returns while Ada's wait,
 // shown as hers, until she switches in again. Then a session ended under the tablet (a lead
 // disables Ada) stops the outbox at one 401 and asks for a sign-in; the step stays pending and
-// lands under Ada's name once she is back. The register's events are read from the database.
+// lands under Ada's name once she is back. A step from before owners were recorded waits for
+// a lead. The register's events (who did each step) are read from the database.
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import type { Page, Request } from 'playwright-core'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
@@ -18,13 +19,13 @@ let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
 let lead: string
 const ada = { id: 0, name: 'Ada Marle', pin: '3958' }
-const idris = { id: 0, name: 'Idris Penhale', pin: '8163' }
+const tamsin = { id: 0, name: 'Tamsin Rowe', pin: '8163' }
 
 beforeAll(async () => {
   browser = await openBrowser(VIEWPORTS.tablet)
   fx = await boardFixture('outbox-owner')
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
-  for (const p of [ada, idris]) {
+  for (const p of [ada, tamsin]) {
     p.id = (await makeUser(fx.workshopId, 'caster', p.name.split(' ')[0]!.toLowerCase())).id
     await fx.k('users').where({ id: p.id }).update({ name: p.name })
     await setPinDirect(p.id, p.pin)
@@ -82,7 +83,7 @@ describe('outbox on a shared tablet', () => {
 
   it('each person\'s steps go out under their own session; others\' wait, shown, for them', async () => {
     const pourA = await pourFor(ada.id)
-    const pourB = await pourFor(idris.id)
+    const pourB = await pourFor(tamsin.id)
     page = await browser.context.newPage()
     page.on('dialog', d => void d.accept())
     page.on('request', (r) => {
@@ -112,7 +113,7 @@ describe('outbox on a shared tablet', () => {
     await page.route(isAction, r => r.abort('internetdisconnected'))
     await browser.context.setOffline(false)
     await page.getByTestId('switch-person').click()
-    await switchIn(page, idris)
+    await switchIn(page, tamsin)
     await card(page, pourB).waitFor()
     await startMixing(page, pourB)
     await expect.poll(() => stateOf(page, pourB)).toBe('mixing')
@@ -121,11 +122,11 @@ describe('outbox on a shared tablet', () => {
     expect((await page.getByTestId('switch-person').boundingBox())!.height).toBeGreaterThanOrEqual(48)
     await screenshot(page, 'outbox-owners-1-waiting-for-other')
 
-    // the connection returns: only Idris's step goes out, under Idris's name
+    // the connection returns: only Tamsin's step goes out, under Tamsin's name
     await page.unroute(isAction)
     await page.getByRole('button', { name: 'Send now' }).click()
     await expect.poll(() => pendingText(page)).toMatch(/All your actions sent/)
-    await expect.poll(() => stepsOf(pourB)).toEqual([['pour.mixing', idris.name]])
+    await expect.poll(() => stepsOf(pourB)).toEqual([['pour.mixing', tamsin.name]])
     expect(await stepsOf(pourA)).toEqual([])
     await expect.poll(() => page.getByTestId('outbox-others').textContent()).toMatch(/2 steps by Ada Marle wait/)
     await page.getByTestId('outbox-toggle').click()
@@ -138,7 +139,7 @@ describe('outbox on a shared tablet', () => {
     await switchIn(page, ada)
     await expect.poll(() => pendingText(page), { timeout: 30_000 }).toMatch(/All actions sent/)
     await expect.poll(() => stepsOf(pourA)).toEqual([['pour.mixing', ada.name], ['pour.poured', ada.name]])
-    expect(await stepsOf(pourB)).toEqual([['pour.mixing', idris.name]])
+    expect(await stepsOf(pourB)).toEqual([['pour.mixing', tamsin.name]])
     expect(await fx.k('pours').where({ id: pourA }).first('state', 'version')).toEqual({ state: 'setting', version: 3 })
     expect(await page.getByTestId('outbox-others').count()).toBe(0)
   }, 180_000)
@@ -194,6 +195,50 @@ describe('outbox on a shared tablet', () => {
     await expect.poll(() => pendingText(page)).toMatch(/All actions sent/)
     expect(posts.length - before).toBe(2)
     expect(await page.getByTestId('outbox-sign-in').count()).toBe(0)
+  }, 180_000)
+
+  it('a step queued before owners were recorded is sent by no one until a lead takes it on', async () => {
+    const pour = await pourFor(tamsin.id)
+    // an entry as the previous version of the outbox wrote it: no owner
+    await page.evaluate(({ pour }) => new Promise<void>((resolve, reject) => {
+      const open = indexedDB.open('setline-floor')
+      open.onerror = () => reject(open.error)
+      open.onsuccess = () => {
+        const tx = open.result.transaction('outbox', 'readwrite')
+        tx.objectStore('outbox').put({
+          id: '6f1c2a3b-4d5e-4f60-8a7b-9c0d1e2f3a4b', url: `/api/pours/${pour}/actions`, pourId: pour, kind: 'start_mixing',
+          label: 'Older step · Start mixing', body: { waterTempC: 18, version: 1 }, tappedAt: new Date().toISOString(), status: 'pending', tries: 0,
+        })
+        tx.oncomplete = () => resolve()
+        tx.onerror = () => reject(tx.error)
+      }
+    }), { pour })
+    const before = posts.length
+    await page.reload()
+    await page.locator('html[data-hydrated]').waitFor()
+    await expect.poll(() => page.getByTestId('outbox-unowned').textContent()).toMatch(/1 step from before this tablet recorded who took them waits here\. A lead signs in/)
+    const sentinel = page.waitForRequest(r => r.url().endsWith('/api/health'))
+    await page.evaluate(async () => {
+      window.dispatchEvent(new Event('online'))
+      await fetch('/api/health')
+    })
+    await sentinel
+    expect(posts.length - before).toBe(0)
+    await screenshot(page, 'outbox-owners-4-older-step')
+
+    // Tamsin does not send it either; a lead signed in on the tablet sends it under the lead's name after confirming
+    await page.getByTestId('switch-person').click()
+    await switchIn(page, tamsin)
+    await expect.poll(() => page.getByTestId('outbox-unowned').count()).toBe(1)
+    expect(posts.length - before).toBe(0)
+    await page.getByTestId('switch-person').click()
+    await page.waitForURL(`${base}/tablet`)
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+    await page.goto(`${base}/floor`)
+    await page.getByTestId('outbox-send-unowned').click()
+    await expect.poll(() => stepsOf(pour)).toEqual([['pour.mixing', demo.lead.name]])
+    await expect.poll(() => page.getByTestId('outbox-unowned').count()).toBe(0)
+    expect(posts.length - before).toBe(1)
     await page.close()
   }, 180_000)
 })
