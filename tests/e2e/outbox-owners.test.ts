@@ -216,7 +216,7 @@ describe('outbox on a shared tablet', () => {
     const before = posts.length
     await page.reload()
     await page.locator('html[data-hydrated]').waitFor()
-    await expect.poll(() => page.getByTestId('outbox-unowned').textContent()).toMatch(/1 step from before this tablet recorded who took them waits here\. A lead signs in/)
+    await expect.poll(() => page.getByTestId('outbox-unowned').textContent()).toMatch(/1 step from before this tablet recorded who took it waits here\. A lead signs in/)
     const sentinel = page.waitForRequest(r => r.url().endsWith('/api/health'))
     await page.evaluate(async () => {
       window.dispatchEvent(new Event('online'))
