@@ -3,9 +3,11 @@
 // in order when online, again after a drop (the browser's 'online' event, the socket's
 // reconnect, a slow retry timer). The server answers a replay of an id with its first answer,
 // so sending twice is harmless (architecture.md, "Offline actions"). A refusal (409, 422)
-// stays in the history, shown.
+// stays in the history, shown. Each entry records who tapped it and goes out only under that
+// person's session (the rules: app/utils/outbox-owners.ts); a 401 stops sending until a sign-in.
 import { defineStore } from 'pinia'
 import { openDB, type IDBPDatabase } from 'idb'
+import { outcomeOf, sendableBy, type OutboxOwner } from '~/utils/outbox-owners'
 
 export type OutboxStatus = 'pending' | 'done' | 'refused'
 
@@ -20,6 +22,10 @@ export interface OutboxEntry {
   /** the action's kind (a FloorActionKind or a FinishingActionKind) */
   kind: string
   label: string
+  /** Who tapped it (the signed-in person then); entries queued before this was recorded have none. */
+  owner?: OutboxOwner
+  /** Set when a lead took an entry without an owner on as theirs, to send it under their name. */
+  adoptedAt?: string
   body: Record<string, unknown>
   /** When the caster tapped it (device clock), ISO. */
   tappedAt: string
@@ -66,20 +72,28 @@ function urlOf(e: OutboxEntry) {
   return e.url ?? `/api/pours/${e.pourId}/actions`
 }
 
-/** A network failure or a server hiccup: keep the action and try again later. */
-function transient(e: unknown) {
-  const status = (e as { response?: { status?: number } })?.response?.status
-  return !status || status >= 500 || status === 401 || status === 408 || status === 429
-}
+const statusOf = (e: unknown) => (e as { response?: { status?: number } })?.response?.status
 
 export const useOutboxStore = defineStore('outbox', () => {
+  const { user } = useUserSession()
   const entries = ref<OutboxEntry[]>([])
   const sending = ref(false)
+  /** The signed-in person, as an entry records them. */
+  const me = computed<OutboxOwner | null>(() => (user.value ? { id: user.value.id, name: user.value.name } : null))
+  /** Set when a send met a 401: the session is over, nothing is sent until someone signs in. */
+  const sessionEnded = ref<OutboxOwner | null>(null)
   const settled = new Set<(e: OutboxEntry) => void>()
   let timer: ReturnType<typeof setInterval> | undefined
   let again = false
+  // a sign-in (or a switch of person) is what a 401 waits for; a sign-out leaves no one to send for
+  watch(user, () => {
+    sessionEnded.value = null
+    if (timer) void flush()
+  })
 
   const pending = computed(() => entries.value.filter(e => e.status === 'pending'))
+  /** The pending entries the signed-in person took: the only ones this session sends. */
+  const mine = computed(() => sendableBy(entries.value, me.value))
   const history = computed(() => entries.value.filter(e => e.status !== 'pending').slice(-HISTORY_KEEP).reverse())
   /** The latest refusal of the last ten minutes among the entries a page cares about (pours on the floor, pieces in finishing). */
   const recentRefusal = (mine: (e: OutboxEntry) => boolean) =>
@@ -94,12 +108,13 @@ export const useOutboxStore = defineStore('outbox', () => {
     const all = (await (await outboxDb()).getAll('outbox')) as OutboxEntry[]
     entries.value = all.sort((a, b) => a.tappedAt.localeCompare(b.tappedAt))
     window.addEventListener('online', () => flush())
-    timer = setInterval(() => pending.value.length && flush(), RETRY_MS)
+    timer = setInterval(() => mine.value.length && flush(), RETRY_MS)
     void flush()
   }
 
-  async function enqueue(e: Omit<OutboxEntry, 'id' | 'tappedAt' | 'status' | 'tries'>) {
-    const entry: OutboxEntry = { ...e, id: outboxUuid(), tappedAt: new Date().toISOString(), status: 'pending', tries: 0 }
+  async function enqueue(e: Omit<OutboxEntry, 'id' | 'tappedAt' | 'status' | 'tries' | 'owner'>) {
+    if (!me.value) throw new Error('Sign in to record a step')
+    const entry: OutboxEntry = { ...e, owner: me.value, id: outboxUuid(), tappedAt: new Date().toISOString(), status: 'pending', tries: 0 }
     entries.value.push(entry)
     await save(entry)
     void flush()
@@ -117,9 +132,13 @@ export const useOutboxStore = defineStore('outbox', () => {
     settled.forEach(fn => fn(e))
   }
 
-  /** Sends pending actions one by one, in the order they were tapped; stops at the first network failure. */
+  /**
+   * Sends the signed-in person's pending actions one by one, in the order they were tapped;
+   * stops at the first network failure, and at a 401 until someone signs in. Others' entries
+   * wait for them.
+   */
   async function flush() {
-    if (import.meta.server) return
+    if (import.meta.server || sessionEnded.value) return
     if (sending.value) {
       again = true
       return
@@ -128,14 +147,22 @@ export const useOutboxStore = defineStore('outbox', () => {
     again = false
     let failed = false
     try {
-      for (const e of [...pending.value]) {
+      for (const e of [...mine.value]) {
+        // checked again right before each send, with no await in between: a switch of person
+        // while this loop runs must not send the previous person's next step with the new cookie
+        if (sessionEnded.value || e.owner?.id !== me.value?.id) {
+          again = true
+          break
+        }
         e.tries++
         try {
           const result = await $fetch(urlOf(e), { method: 'POST', body: bodyOf(e) })
           await settle(e, 'done', { result })
         }
         catch (err) {
-          if (transient(err)) {
+          const outcome = outcomeOf(statusOf(err))
+          if (outcome !== 'refused') {
+            if (outcome === 'sign-in') sessionEnded.value = e.owner ?? null
             await save(e)
             failed = true
             break
@@ -151,6 +178,21 @@ export const useOutboxStore = defineStore('outbox', () => {
     if (again && !failed) await flush()
   }
 
+  /**
+   * A lead takes the entries nobody is recorded for (queued before the outbox recorded who
+   * tapped) on as theirs, after confirming on the page: they then go out under the lead's name,
+   * so the register names the person who vouched for them.
+   */
+  async function adoptUnowned() {
+    if (user.value?.role !== 'lead' || !me.value) return
+    const adoptedAt = new Date().toISOString()
+    for (const e of entries.value.filter(x => x.status === 'pending' && !x.owner)) {
+      Object.assign(e, { owner: me.value, adoptedAt })
+      await save(e)
+    }
+    await flush()
+  }
+
   function onSettled(fn: (e: OutboxEntry) => void) {
     settled.add(fn)
     return () => settled.delete(fn)
@@ -163,5 +205,5 @@ export const useOutboxStore = defineStore('outbox', () => {
     return (await (await outboxDb()).get('cache', key)) as T | undefined
   }
 
-  return { entries, pending, history, recentRefusal, sending, start, enqueue, flush, onSettled, cachePut, cacheGet }
+  return { entries, pending, mine, me, sessionEnded, history, recentRefusal, sending, start, enqueue, flush, adoptUnowned, onSettled, cachePut, cacheGet }
 })
