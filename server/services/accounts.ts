@@ -56,17 +56,16 @@ const ACCOUNT_EXISTS = 'An account with this e-mail already exists; sign in inst
 /**
  * Accepts an invitation. The link is looked up before the password is hashed, so a made-up
  * or used link costs a lookup, not a scrypt (which is slow and memory-hard on purpose), and
- * counts against the address (`inviteAcceptAddress`); the transaction checks the link again,
- * as it may have been used while the password was hashed.
+ * counts against the address (`inviteAcceptAddress`: a 429 once too many); a live link is
+ * never refused for others' failures. The transaction checks the link again, as it may have
+ * been used while the password was hashed.
  */
 export async function acceptInvitation(event: H3Event, input: { token: string; name: string; password: string }) {
   const db = useDb()
-  const address = clientAddress(event)
-  await assertNotLimited('inviteAcceptAddress', address, event)
   const tokenHash = hashLinkToken(input.token)
   const found = await invitationsRepo.openByTokenHash(db, tokenHash)
   if (!found) {
-    await spendAttempt('inviteAcceptAddress', address, event)
+    await spendAttempt('inviteAcceptAddress', clientAddress(event), event)
     throw createError({ statusCode: 410, message: INVITATION_GONE })
   }
   if (await usersRepo.byEmail(db, found.email)) conflict(ACCOUNT_EXISTS)
@@ -119,11 +118,9 @@ const RESET_GONE = 'This reset link has expired or was already used; ask for a n
  */
 export async function confirmPasswordReset(event: H3Event, input: { token: string; password: string }) {
   const db = useDb()
-  const address = clientAddress(event)
-  await assertNotLimited('resetConfirmAddress', address, event)
   const tokenHash = hashLinkToken(input.token)
   if (!(await resetsRepo.openByTokenHash(db, tokenHash))) {
-    await spendAttempt('resetConfirmAddress', address, event)
+    await spendAttempt('resetConfirmAddress', clientAddress(event), event)
     throw createError({ statusCode: 410, message: RESET_GONE })
   }
   const passwordHash = await hashNewPassword(input.password)
@@ -139,8 +136,8 @@ export async function confirmPasswordReset(event: H3Event, input: { token: strin
 
 /**
  * Disables or re-enables a user of the workshop (both end their sessions). Disabling also ends
- * their open reset links, so a link mailed before cannot bring the account back in; open
- * invitations are for people without an account and stay as they are.
+ * their open reset links, so a link mailed before cannot bring the account back in, even once
+ * re-enabled. Invitations the user sent stay open: they were the workshop's decision.
  */
 export async function setUserDisabled(workshopId: number, id: number, disabled: boolean) {
   return useDb().transaction(async (trx) => {
