@@ -221,7 +221,7 @@ describe('PIN limits', () => {
     }
     const own = await tabletOf(await signIn(demo.lead.email, DEMO_PASSWORD))
     expect((await switchTo(own, caster.id, '5309')).status).toBe(200)
-  })
+  }, 120_000) // eleven PIN checks, each a scrypt (slow on purpose)
 })
 
 describe('the client address of the per-address limits', () => {
