@@ -9,7 +9,8 @@ import { simpleParser } from 'mailparser'
 
 /**
  * The header the outbox sender (server/utils/mail.ts) writes the message's workshop id into.
- * An `X-` field is one mail servers pass on untouched (RFC 822 §4.7.5, extension fields).
+ * An `X-` name is kept for user-defined fields (RFC 822 §4.7.5; optional fields, RFC 5322 §3.6.8),
+ * which mail servers pass on untouched.
  */
 export const MAIL_WORKSHOP_HEADER = 'X-Setline-Workshop'
 
