@@ -27,11 +27,23 @@ export const resetsRepo = {
   insert(db: Knex, row: { workshop_id: number; user_id: number; token_hash: string; expires_at: Date }) {
     return db('password_resets').insert(row)
   },
-  openByTokenHash(db: Knex, tokenHash: string) {
-    return db('password_resets').select('id', 'workshop_id', 'user_id').where({ token_hash: tokenHash }).whereNull('used_at')
-      .where('expires_at', '>', db.fn.now()).first()
+  /** An unused, unexpired reset link of an enabled account, by token hash. */
+  openByTokenHash(db: Knex, tokenHash: string): Promise<{ id: number; workshop_id: number; user_id: number } | undefined> {
+    return db('password_resets as r').join('users as u', function () {
+      this.on('u.id', 'r.user_id').andOn('u.workshop_id', 'r.workshop_id')
+    })
+      .select('r.id', 'r.workshop_id', 'r.user_id').where('r.token_hash', tokenHash).whereNull('r.used_at')
+      .whereNull('u.disabled_at').where('r.expires_at', '>', db.fn.now()).first()
   },
   markUsed(db: Knex, id: number) {
     return db('password_resets').where({ id }).whereNull('used_at').update({ used_at: db.fn.now(), updated_at: db.fn.now() })
+  },
+  /**
+   * Ends every open reset link of a user: they expire now (used_at stays empty, they were
+   * never used). The number of links ended.
+   */
+  voidOpen(db: Knex, workshopId: number, userId: number) {
+    return db('password_resets').where({ workshop_id: workshopId, user_id: userId }).whereNull('used_at')
+      .where('expires_at', '>', db.fn.now()).update({ expires_at: db.fn.now(), updated_at: db.fn.now() })
   },
 }

@@ -1,4 +1,5 @@
 // Invitations and password resets: the multi-step account use cases, each in one transaction.
+import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
 import type { Role } from '#shared/types/auth'
 import { usersRepo } from '../repos/users'
@@ -9,8 +10,13 @@ const RESET_MINUTES = 60
 
 export async function inviteUser(actor: Actor, input: { email: string; role: Role; name?: string; clientOrgId?: number; jobId?: number }) {
   const db = useDb()
+  // Whether an e-mail has an account is told only within the lead's own workshop: for another
+  // workshop's e-mail the answer is the same as for a new address (the invitation is made and
+  // mailed, and accepting it fails for its owner), so a lead cannot probe which addresses have
+  // Setline accounts elsewhere (OWASP Authentication Cheat Sheet, "Authentication and Error
+  // Messages": do not reveal whether an account exists).
   const existing = await usersRepo.byEmail(db, input.email)
-  if (existing) conflict('A user with this e-mail already exists')
+  if (existing && Number(existing.workshop_id) === actor.workshopId) conflict('A user with this e-mail already exists')
   const { token, hash } = newLinkToken()
   const link = `${appEnv().APP_URL}/accept-invite?token=${token}`
   const invitation = await db.transaction(async (trx) => {
@@ -44,13 +50,30 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
   return invitation
 }
 
-export async function acceptInvitation(input: { token: string; name: string; password: string }) {
-  const passwordHash = await hashNewPassword(input.password)
+const INVITATION_GONE = 'This invitation link has expired or was already used; ask your workshop lead for a new one'
+const ACCOUNT_EXISTS = 'An account with this e-mail already exists; sign in instead'
+
+/**
+ * Accepts an invitation. The link is looked up before the password is hashed, so a made-up
+ * or used link costs a lookup, not a scrypt (which is slow and memory-hard on purpose), and
+ * counts against the address (`inviteAcceptAddress`: a 429 once too many); a live link is
+ * never refused for others' failures. The transaction checks the link again, as it may have
+ * been used while the password was hashed.
+ */
+export async function acceptInvitation(event: H3Event, input: { token: string; name: string; password: string }) {
   const db = useDb()
+  const tokenHash = hashLinkToken(input.token)
+  const found = await invitationsRepo.openByTokenHash(db, tokenHash)
+  if (!found) {
+    await spendAttempt('inviteAcceptAddress', clientAddress(event), event)
+    throw createError({ statusCode: 410, message: INVITATION_GONE })
+  }
+  if (await usersRepo.byEmail(db, found.email)) conflict(ACCOUNT_EXISTS)
+  const passwordHash = await hashNewPassword(input.password)
   return db.transaction(async (trx) => {
-    const inv = await invitationsRepo.openByTokenHash(trx, hashLinkToken(input.token))
-    if (!inv) throw createError({ statusCode: 410, message: 'This invitation link has expired or was already used; ask your workshop lead for a new one' })
-    if (await usersRepo.byEmail(trx, inv.email)) conflict('An account with this e-mail already exists; sign in instead')
+    const inv = await invitationsRepo.openByTokenHash(trx, tokenHash)
+    if (!inv) throw createError({ statusCode: 410, message: INVITATION_GONE })
+    if (await usersRepo.byEmail(trx, inv.email)) conflict(ACCOUNT_EXISTS)
     const user = await usersRepo.insert(trx, {
       workshop_id: inv.workshop_id, email: inv.email, name: input.name, role: inv.role,
       client_org_id: inv.client_org_id, password_hash: passwordHash,
@@ -84,13 +107,42 @@ export async function requestPasswordReset(email: string) {
   void deliverDueMail().catch(() => undefined)
 }
 
-export async function confirmPasswordReset(input: { token: string; password: string }) {
+const RESET_GONE = 'This reset link has expired or was already used; ask for a new one'
+
+/**
+ * Sets a new password from a reset link. As with invitations, the link is looked up before the
+ * password is hashed (a made-up link costs no scrypt and counts against the address,
+ * `resetConfirmAddress`), and checked again in the transaction that uses it. Using one link
+ * ends the user's other open links: one reset, one working link (OWASP Forgot Password Cheat
+ * Sheet: tokens single-use and invalidated once the password is changed).
+ */
+export async function confirmPasswordReset(event: H3Event, input: { token: string; password: string }) {
+  const db = useDb()
+  const tokenHash = hashLinkToken(input.token)
+  if (!(await resetsRepo.openByTokenHash(db, tokenHash))) {
+    await spendAttempt('resetConfirmAddress', clientAddress(event), event)
+    throw createError({ statusCode: 410, message: RESET_GONE })
+  }
   const passwordHash = await hashNewPassword(input.password)
-  return useDb().transaction(async (trx) => {
-    const reset = await resetsRepo.openByTokenHash(trx, hashLinkToken(input.token))
-    if (!reset) throw createError({ statusCode: 410, message: 'This reset link has expired or was already used; ask for a new one' })
+  return db.transaction(async (trx) => {
+    const reset = await resetsRepo.openByTokenHash(trx, tokenHash)
+    if (!reset) throw createError({ statusCode: 410, message: RESET_GONE })
     if (await resetsRepo.markUsed(trx, reset.id) !== 1) conflict('This reset link was just used')
+    await resetsRepo.voidOpen(trx, reset.workshop_id, reset.user_id)
     await usersRepo.setPassword(trx, reset.workshop_id, reset.user_id, passwordHash)
     return usersRepo.byId(trx, reset.workshop_id, reset.user_id)
+  })
+}
+
+/**
+ * Disables or re-enables a user of the workshop (both end their sessions). Disabling also ends
+ * their open reset links, so a link mailed before cannot bring the account back in, even once
+ * re-enabled. Invitations the user sent stay open: they were the workshop's decision.
+ */
+export async function setUserDisabled(workshopId: number, id: number, disabled: boolean) {
+  return useDb().transaction(async (trx) => {
+    const row = await usersRepo.setDisabled(trx, workshopId, id, disabled)
+    if (row && disabled) await resetsRepo.voidOpen(trx, workshopId, id)
+    return row
   })
 }

@@ -55,12 +55,14 @@ export async function setOwnPin(event: H3Event, actor: Actor, pin: string, passw
 /**
  * Checks a PIN typed on a tablet. An unknown person, one of another workshop, a disabled one,
  * one without a PIN and one whose role may not use tablets are all refused exactly like a
- * wrong PIN (same status, same words, a hash compared all the same), and all count against
- * the device and the person: the answer never tells whose PIN exists.
+ * wrong PIN (same status, same words, a hash compared all the same): the answer never tells
+ * whose PIN exists. Every refusal counts against the device; it counts against the person only
+ * when they are of the tablet's workshop, under `workshop:person`, so no other workshop's
+ * tablet (nor a made-up id) can spend a person's allowance and lock them out.
  */
 export async function checkTabletPin(event: H3Event, tablet: { id: number; workshop_id: number }, userId: number, pin: string) {
   const deviceKey = String(tablet.id)
-  const personKey = String(userId)
+  const personKey = `${tablet.workshop_id}:${userId}`
   await assertNotLimited('pinDevice', deviceKey, event)
   await assertNotLimited('pinPerson', personKey, event)
   const db = useDb()
@@ -69,7 +71,7 @@ export async function checkTabletPin(event: H3Event, tablet: { id: number; works
   const ok = await verifyOrBurn(eligible ? await usersRepo.pinHash(db, tablet.workshop_id, userId) : null, pin)
   if (!eligible || !ok) {
     await spendAttempt('pinDevice', deviceKey, event)
-    await spendAttempt('pinPerson', personKey, event)
+    if (user) await spendAttempt('pinPerson', personKey, event)
     throw createError({ statusCode: 401, message: 'That PIN is not right for this person' })
   }
   // the person's own count starts again; the device's does not, or knowing one's own PIN

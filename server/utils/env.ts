@@ -15,6 +15,8 @@ const envSchema = z.object({
   SMTP_SECURE: flag.default(false),
   MAIL_FROM: z.string().min(3).default('Setline <no-reply@setline.example.test>'),
   MAIL_FAKE: flag.default(false),
+  // lets MAIL_FAKE run on an https APP_URL or behind a proxy (server/utils/smtp-fake.ts, mailFakeProblem)
+  MAIL_FAKE_EXPOSE: flag.default(false),
   MAIL_WORKER_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(5000),
   MAIL_RETRY_BASE_SECONDS: z.coerce.number().int().min(1).max(3600).default(15),
   OVERDUE_CHECK_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(60_000),

@@ -66,12 +66,16 @@ async function sendBatch(): Promise<number> {
   const db = useDb()
   let sent = 0
   await db.transaction(async (trx) => {
-    const due = await trx('mail_outbox').select('id', 'to_email', 'subject', 'text', 'html', 'attempts')
+    const due = await trx('mail_outbox').select('id', 'workshop_id', 'to_email', 'subject', 'text', 'html', 'attempts')
       .where('status', 'queued').where('next_attempt_at', '<=', trx.fn.now())
       .orderBy('id').limit(20).forUpdate().skipLocked()
     for (const m of due) {
       try {
-        await mailer().sendMail({ from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined })
+        await mailer().sendMail({
+          from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined,
+          // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
+          headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
+        })
         await trx('mail_outbox').where({ id: m.id }).update({ status: 'sent', sent_at: trx.fn.now(), attempts: m.attempts + 1, last_error: null })
         sent++
       }

@@ -11,9 +11,18 @@ export const LIMITS = {
   loginAccount: { points: 5, durationS: 15 * 60, what: 'failed sign-ins for this account' },
   loginAddress: { points: 20, durationS: 15 * 60, what: 'failed sign-ins from this address' },
   resetAddress: { points: 5, durationS: 60 * 60, what: 'password reset requests from this address' },
+  // Reset and invitation links carry 256 random bits and work once, so guessing one is hopeless;
+  // what an address can still do is ask again and again. A password is hashed only for a live
+  // link (each one once), so the failures (an unknown, used or expired link) are what is
+  // counted, per address (OWASP Authentication Cheat Sheet, "Login Throttling"; Forgot Password
+  // Cheat Sheet: protect the reset endpoint from abuse). A person with a good link is never held
+  // back by someone else's failures on the shop's shared address.
+  resetConfirmAddress: { points: 10, durationS: 15 * 60, what: 'unusable reset links from this address' },
+  inviteAcceptAddress: { points: 10, durationS: 15 * 60, what: 'unusable invitation links from this address' },
   // A shared tablet's PIN is a few digits, so wrong guesses are counted per device (one
-  // tablet cannot try many) and per person across devices (several tablets cannot share out
-  // the guessing at one person's PIN). 10 a half-hour lets a person mistype, and keeps a
+  // tablet cannot try many) and per person across the workshop's devices (several tablets
+  // cannot share out the guessing at one person's PIN; the key is `workshop:person`, and only
+  // a person of the tablet's own workshop is counted, so no one else can lock them out). 10 a half-hour lets a person mistype, and keeps a
   // determined guesser to a few hundred tries a day against 10,000+ four-digit PINs (common practice).
   pinDevice: { points: 5, durationS: 10 * 60, what: 'wrong PINs on this tablet' },
   pinPerson: { points: 10, durationS: 30 * 60, what: 'wrong PINs for this person' },
@@ -67,6 +76,15 @@ export async function clearAttempts(name: LimitName, key: string) {
   await limiter(name).delete(key)
 }
 
+/**
+ * The client's address for the per-address limits: the socket's peer, or behind our reverse
+ * proxy (TRUST_PROXY=1) the right-most X-Forwarded-For entry (see rightmostForwardedFor).
+ * Without TRUST_PROXY the header is ignored: any client can send it.
+ */
 export function clientAddress(event: H3Event) {
+  if (appEnv().TRUST_PROXY) {
+    const forwarded = rightmostForwardedFor(event.node.req.headers['x-forwarded-for'])
+    if (forwarded) return forwarded
+  }
   return getRequestIP(event) ?? 'unknown'
 }

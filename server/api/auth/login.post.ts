@@ -10,7 +10,9 @@ export default defineEventHandler(async (event) => {
   if (!user || !ok || user.disabled_at) {
     await spendAttempt('loginAccount', email, event)
     await spendAttempt('loginAddress', address, event)
-    throw createError({ statusCode: 401, message: user?.disabled_at && ok ? 'This account is disabled; ask your workshop lead' : 'E-mail or password is wrong' })
+    // a disabled account gets the wrong password's answer: telling them apart would confirm
+    // the password to whoever typed it (OWASP Authentication Cheat Sheet, error messages)
+    throw createError({ statusCode: 401, message: 'E-mail or password is wrong' })
   }
   await clearAttempts('loginAccount', email)
   await startSession(event, user)

@@ -1,8 +1,9 @@
-// Mail captured by the local SMTP fake (lead; only when MAIL_FAKE=1). Development aid:
-// it shows every message this process's fake received, newest first.
+// Mail captured by the local SMTP fake (lead; only when MAIL_FAKE=1). Development aid: the
+// lead's own workshop's messages, newest first (reset and invitation links open accounts, so
+// no other workshop's mail, and none without a workshop, is ever shown).
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'lead')
+  const actor = await requireRole(event, 'lead')
   const fake = currentSmtpFake()
   if (!fake) throw createError({ statusCode: 404, message: 'The SMTP fake is not running in this server (MAIL_FAKE=0)' })
-  return [...fake.messages].reverse()
+  return fake.messagesFor(actor.workshopId)
 })

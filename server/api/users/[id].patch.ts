@@ -1,4 +1,5 @@
 import { usersRepo } from '../../repos/users'
+import { setUserDisabled } from '../../services/accounts'
 // Disable / re-enable a user or change their role (lead). Either ends their sessions.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
@@ -10,6 +11,6 @@ export default defineEventHandler(async (event) => {
   if (!user) notFound('User')
   let row = user
   if (input.role !== undefined) row = await usersRepo.setRole(db, actor.workshopId, id, input.role)
-  if (input.disabled !== undefined) row = await usersRepo.setDisabled(db, actor.workshopId, id, input.disabled)
+  if (input.disabled !== undefined) row = await setUserDisabled(actor.workshopId, id, input.disabled)
   return row
 })
