@@ -35,6 +35,15 @@ export default defineNuxtConfig({
   vite: { optimizeDeps: { include: ['socket.io-client', 'chart.js', 'vue-chartjs'] } },
   typescript: { strict: true },
   telemetry: false,
+  hooks: {
+    // nuxt-auth-utils adds, when Nitro's websockets are on, a plugin that reads the session on
+    // every request; h3 starts (and sets the cookie of) a new session for a request without
+    // one, so even /api/health answered with a session cookie. The live socket unseals the
+    // cookie itself (server/plugins/socket.io.ts) and routes read it through requireRole.
+    'nitro:config'(config) {
+      config.plugins = (config.plugins ?? []).filter(p => !/nuxt-auth-utils[\\/].*plugins[\\/]ws(\.js)?$/.test(p))
+    },
+  },
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },
   tailwindcss: { cssPath: '~/assets/css/tailwind.css', viewer: false },
 })
