@@ -47,7 +47,8 @@ function readUpTo(req: IncomingMessage, limit: number): Promise<Buffer> {
     }
     req.on('data', onData)
     req.on('end', () => resolve(Buffer.concat(chunks, size)))
-    req.on('error', reject)
+    // the sender went away mid-body: a 4xx nobody reads, not a 500 in the log
+    req.on('error', () => reject(createError({ statusCode: 400, message: 'The request body broke off' })))
   })
 }
 

@@ -118,10 +118,12 @@ function receive(event: H3Event, dir: string, maxBytes: number): Promise<PhotoUp
         }
       }
     })
+    // the sender went away (Node's 'aborted' error, then close): a 4xx nobody reads, not a 500 in the log
+    const brokeOff = () => fail(createError({ statusCode: 400, message: 'The upload broke off: send the photos again' }))
     req.on('close', () => {
-      if (!req.complete) fail(createError({ statusCode: 400, message: 'The upload broke off: send the photos again' }))
+      if (!req.complete) brokeOff()
     })
-    req.on('error', fail)
+    req.on('error', brokeOff)
     req.pipe(busboy)
   })
 }
