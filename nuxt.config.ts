@@ -41,7 +41,7 @@ export default defineNuxtConfig({
     // one, so even /api/health answered with a session cookie. The live socket unseals the
     // cookie itself (server/plugins/socket.io.ts) and routes read it through requireRole.
     'nitro:config'(config) {
-      config.plugins = (config.plugins ?? []).filter(p => !/nuxt-auth-utils[\\/].*plugins[\\/]ws(\.js)?$/.test(p))
+      config.plugins = (config.plugins ?? []).filter(p => typeof p !== 'string' || !/nuxt-auth-utils[\\/].*plugins[\\/]ws(\.js)?$/.test(p))
     },
   },
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },

@@ -134,7 +134,7 @@ function receive(event: H3Event, dir: string, maxBytes: number): Promise<PhotoUp
  */
 export async function withPhotoUpload<T>(event: H3Event, maxBytes: number, use: (upload: PhotoUpload) => Promise<T>): Promise<T> {
   if (running >= appEnv().UPLOAD_MAX_CONCURRENCY) {
-    setResponseHeader(event, 'retry-after', String(UPLOAD_RETRY_AFTER_SECONDS))
+    setResponseHeader(event, 'retry-after', UPLOAD_RETRY_AFTER_SECONDS)
     throw createError({ statusCode: 503, message: `The server is busy with other photo uploads: try again in ${UPLOAD_RETRY_AFTER_SECONDS} seconds` })
   }
   running++
