@@ -37,10 +37,15 @@ export default defineNuxtConfig({
   typescript: { strict: true },
   telemetry: false,
   hooks: {
-    // our error handler first (database away → 503), then Nuxt's (error pages), then Nitro's
+    // nuxt-auth-utils adds, when Nitro's websockets are on, a plugin that reads the session on
+    // every request; h3 starts (and sets the cookie of) a new session for a request without
+    // one, so even /api/health answered with a session cookie. The live socket unseals the
+    // cookie itself (server/plugins/socket.io.ts) and routes read it through requireRole.
+    // Our error handler first (database away → 503), then Nuxt's (error pages), then Nitro's.
     'nitro:config'(config) {
       const own = fileURLToPath(new URL('./server/error-handler.ts', import.meta.url))
       config.errorHandler = [own, ...[config.errorHandler ?? []].flat()]
+      config.plugins = (config.plugins ?? []).filter(p => typeof p !== 'string' || !/nuxt-auth-utils[\\/].*plugins[\\/]ws(\.js)?$/.test(p))
     },
   },
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },

@@ -1,6 +1,7 @@
 // Photos of a job: upload (validate, make WebP variants, store, then one transaction for the
 // rows), list, caption and share, delete, and serving a variant to whoever may see it.
 // Clients see only shared photos of jobs they are a member of; anything else is a 404.
+import { readFile } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import type { Storage } from 'unstorage'
 import type { Actor } from '../utils/auth'
@@ -50,10 +51,10 @@ async function checkLinks(db: Knex, actor: Actor, jobId: number, f: PhotoUploadF
 async function processAll(files: UploadedFile[]): Promise<(PhotoVariants & { bytes: number })[]> {
   const { PHOTO_MAX_BYTES: maxBytes, PHOTO_MAX_PIXELS: maxPixels } = appEnv()
   const out: (PhotoVariants & { bytes: number })[] = []
-  // one at a time: each decode holds a full-size bitmap in memory
+  // one at a time, read from its temp file only now: each decode holds a full-size bitmap in memory
   for (const f of files) {
     try {
-      out.push({ ...(await processPhoto(f.data, { maxBytes, maxPixels })), bytes: f.data.length })
+      out.push({ ...(await processPhoto(await readFile(f.path), { maxBytes, maxPixels })), bytes: f.bytes })
     }
     catch (err) {
       if (err instanceof PhotoRejected) throw createError({ statusCode: err.statusCode, message: `${f.name}: ${err.message}`, data: { file: f.name } })

@@ -25,6 +25,8 @@ const envSchema = z.object({
   LOGIN_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),
   PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(15 * 1024 * 1024),
   PHOTO_MAX_PIXELS: z.coerce.number().int().min(1_000_000).max(268_402_689).default(50_000_000),
+  // photo uploads decoded at once by one server process; a further one is refused with 503 (server/utils/photo-upload.ts)
+  UPLOAD_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(4),
   PHOTO_STORAGE_DIR: z.string().min(1).default('.data/photos'),
   S3_ENDPOINT: z.url({ message: 'S3_ENDPOINT must be a URL' }).optional(),
   S3_BUCKET: z.string().min(1).optional(),

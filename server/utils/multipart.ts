@@ -2,6 +2,8 @@
 // bytes left as views into the body. h3's readMultipartFormData walks the body byte by byte into a
 // JavaScript array: a 13 MB, 50-megapixel photo took about 10 s and 400 to 700 MB of server
 // memory that way (tests/bench/upload.ts); here it is one pass in native code and no copy.
+// Nothing in the server calls it now: uploads are streamed with @fastify/busboy instead of held
+// in memory (server/utils/photo-upload.ts). It is kept, with its unit test, until that is settled.
 
 export interface MultipartPart {
   /** the form field's name */

@@ -12,6 +12,14 @@ export const VIEWPORTS = {
   phone: { width: 390, height: 844 },
 }
 
+/**
+ * Every page of a browser opened here reports Content Security Policy violations (the
+ * `securitypolicyviolation` event, W3C CSP Level 3 §5.3) to the console, where they are
+ * collected with chromium's own "Refused to …" messages; `close()` fails the journey when
+ * there was any, so each journey also proves the app runs under its policy.
+ */
+const REPORT_CSP = `document.addEventListener('securitypolicyviolation', e => console.error('CSP violation: ' + e.violatedDirective + ' blocked ' + (e.blockedURI || 'inline') + ' at ' + e.sourceFile + ':' + e.lineNumber))`
+
 export async function openBrowser(viewport = VIEWPORTS.desktop) {
   const dir = mkdtempSync(join(tmpdir(), 'setline-chromium-'))
   const context: BrowserContext = await chromium.launchPersistentContext(dir, {
@@ -21,11 +29,19 @@ export async function openBrowser(viewport = VIEWPORTS.desktop) {
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
       '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
   })
+  const cspViolations: string[] = []
+  await context.addInitScript(REPORT_CSP)
+  context.on('console', (msg) => {
+    const text = msg.text()
+    if (msg.type() === 'error' && (text.startsWith('CSP violation:') || /Content Security Policy/.test(text))) cspViolations.push(`${msg.page()?.url() ?? ''}: ${text}`)
+  })
   return {
     context,
+    cspViolations,
     async close() {
       await context.close()
       rmSync(dir, { recursive: true, force: true })
+      if (cspViolations.length) throw new Error(`Content Security Policy violations:\n${cspViolations.join('\n')}`)
     },
   }
 }
