@@ -30,9 +30,9 @@ function setCookieOf(headers: Headers, name: string) {
  * Signs a device in as a shared tablet (as the demo lead, in a session of its own: the call
  * ends the session it is made with); its device cookie, `setline-tablet=…`.
  */
-async function newTablet(name = `Test tablet ${Math.random().toString(36).slice(2, 7)}`, device?: string) {
+async function newTablet(name = `Test tablet ${Math.random().toString(36).slice(2, 7)}`, oldDevice?: string) {
   const session = await freshSession(demo.lead.email, DEMO_PASSWORD)
-  const r = await call('/api/tablets', { method: 'POST', cookie: device ? `${session}; ${device}` : session, body: { name } })
+  const r = await call('/api/tablets', { method: 'POST', cookie: oldDevice ? `${session}; ${oldDevice}` : session, body: { name } })
   expect(r.status, JSON.stringify(r.data)).toBe(201)
   deviceIds.push(r.data.id)
   const device = setCookieOf(r.headers, 'setline-tablet')!.split(';')[0]!
