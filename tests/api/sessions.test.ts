@@ -171,7 +171,7 @@ describe('live sockets lose their rights at once', () => {
     const [left, kept] = await k('jobs').insert([
       { workshop_id: ws, code: `S-${tag}-1`, title: 'Job the client leaves' },
       { workshop_id: ws, code: `S-${tag}-2`, title: 'Job the client keeps' },
-    ]).returning('id').then(rows => rows.map(r => Number(r.id)))
+    ]).returning('id').then(rows => rows.map(r => Number(r.id)) as [number, number])
     const client = await signedIn('client')
     const other = await signedIn('client', 'sessions-other-client')
     await k('job_members').insert([
