@@ -77,6 +77,6 @@ describe('access matrix', () => {
         }
       }
       expect(problems).toEqual([])
-    })
+    }, row.endsSession ? 120_000 : undefined) // a sign-in (scrypt, slow on purpose) per caller
   }
 })

@@ -33,16 +33,24 @@ async function signInAt(url: string) {
   return r.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
 }
 
-/** Changes the workshop's settings through one instance; the status (a 5xx while the database is away). */
+/**
+ * Changes the workshop's settings through one instance; the status (a 5xx while the database
+ * is away, 0 when the request itself failed: a kept-alive connection the app closed meanwhile).
+ */
 async function touchSettings(url: string, cookie: string) {
-  const get = await fetch(`${url}/api/workshop`, { headers: { cookie } })
-  if (!get.ok) return get.status
-  const now = await get.json()
-  const r = await fetch(`${url}/api/workshop`, {
-    method: 'PATCH', headers: { cookie, 'content-type': 'application/json' },
-    body: JSON.stringify({ ...now, defaultHumidityPct: now.defaultHumidityPct === 60 ? 61 : 60 }),
-  })
-  return r.status
+  try {
+    const get = await fetch(`${url}/api/workshop`, { headers: { cookie } })
+    if (!get.ok) return get.status
+    const now = await get.json()
+    const r = await fetch(`${url}/api/workshop`, {
+      method: 'PATCH', headers: { cookie, 'content-type': 'application/json' },
+      body: JSON.stringify({ ...now, defaultHumidityPct: now.defaultHumidityPct === 60 ? 61 : 60 }),
+    })
+    return r.status
+  }
+  catch {
+    return 0
+  }
 }
 
 /** Whether a workshop.updated reaches the socket within `ms` (false when it does not). */

@@ -11,6 +11,7 @@ export default defineEventHandler(async (event) => {
   let row = user
   if (input.role !== undefined) row = await usersRepo.setRole(db, actor.workshopId, id, input.role)
   if (input.disabled !== undefined) row = await usersRepo.setDisabled(db, actor.workshopId, id, input.disabled)
-  if (input.role !== undefined || input.disabled !== undefined) await endUserSessions(actor.workshopId, id)
+  // the schema asks for one of the two: either change ends their sessions and live sockets now
+  await endUserSessions(actor.workshopId, id)
   return row
 })
