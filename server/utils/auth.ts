@@ -40,15 +40,16 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Act
   const session = await getUserSession(event) as SealedSession
   const user = session.user as Actor | undefined
   if (!user?.id) throw createError({ statusCode: 401, message: 'Please sign in' })
+  // a PIN session lives only on its tablet, and only while a lead has not revoked it (checked
+  // first: revoking also ends the session's record, and this message says why)
+  if (user.tablet && !(await tabletOfSession(user, getCookie(event, TABLET_COOKIE)))) {
+    await endSession(event)
+    throw createError({ statusCode: 401, message: 'This tablet is no longer signed in; a lead can sign it in again' })
+  }
   const row = await liveSessionUser(session)
   if (!row) {
     await endSession(event)
     throw createError({ statusCode: 401, message: 'Your session has ended; please sign in again' })
-  }
-  // a PIN session lives only on its tablet, and only while a lead has not revoked it
-  if (user.tablet && !(await tabletOfSession(user, getCookie(event, TABLET_COOKIE)))) {
-    await endSession(event)
-    throw createError({ statusCode: 401, message: 'This tablet is no longer signed in; a lead can sign it in again' })
   }
   if (roles.length && !roles.includes(row.role)) {
     throw createError({ statusCode: 403, message: `This needs the ${roles.join(' or ')} role` })
