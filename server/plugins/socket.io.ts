@@ -56,14 +56,28 @@ const MAX_TIMER_MS = 2_147_483_647
  * on its pg client, and an 'error' event nobody listens to is thrown by Node and ends the
  * process (Node.js "Error events"; node-postgres "Pool: events", error). The pool listens
  * on idle clients only, so each client gets a listener too, including the one the adapter
- * holds checked out for LISTEN. The adapter then takes a new client (it retries every
- * ~2 s) and live updates resume once the database is back.
+ * holds checked out for LISTEN. The adapter never releases that one when it dies, so it
+ * would keep its place in the pool for good and, after a restart or two, leave none for
+ * publishing: a checked-out client that fails and is still held is released as broken
+ * (`release(err)` removes it). The adapter then takes a new client (it retries every ~2 s) and live updates resume
+ * once the database is back.
  */
 function adapterPool() {
   const pool = new pg.Pool({ connectionString: appEnv().DATABASE_URL, max: 2 })
-  const log = (err: Error) => console.error('socket.io adapter: database connection lost:', err.message)
-  pool.on('error', log)
-  pool.on('connect', client => client.on('error', log))
+  const checkedOut = new Set<pg.PoolClient>()
+  pool.on('acquire', client => checkedOut.add(client))
+  pool.on('release', (_err, client) => checkedOut.delete(client))
+  pool.on('remove', client => checkedOut.delete(client as pg.PoolClient))
+  pool.on('error', err => console.error('socket.io adapter: database connection lost:', err.message))
+  pool.on('connect', client => client.on('error', (err) => {
+    console.error('socket.io adapter: database connection lost:', err.message)
+    // after pool.query's own handlers ran: a client it holds is released by it (a second
+    // release throws), so what is still checked out then is the adapter's
+    const held = client as pg.PoolClient
+    setImmediate(() => {
+      if (checkedOut.delete(held)) held.release(err)
+    })
+  }))
   return pool
 }
 
