@@ -10,9 +10,8 @@ import { createAdapter } from '@socket.io/postgres-adapter'
 import pg from 'pg'
 import { parse as parseCookies } from 'cookie-es'
 import { liveRooms } from '#shared/types/live'
-import type { SessionUserData } from '#shared/types/auth'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
-import { usersRepo } from '../repos/users'
+import type { SealedSession } from '../utils/auth'
 
 async function authenticate(socket: Socket) {
   const name = (useRuntimeConfig().session as { name?: string }).name ?? 'nuxt-session'
@@ -21,11 +20,12 @@ async function authenticate(socket: Socket) {
   if (!sealed) return undefined
   const password = process.env.NUXT_SESSION_PASSWORD ?? ''
   try {
-    const session = await unsealSession(undefined as never, { password, maxAge: 60 * 60 * 12 }, sealed)
-    const user = (session.data as { user?: SessionUserData }).user
-    if (!user) return undefined
-    const row = await usersRepo.byId(useDb(), user.workshopId, user.id)
-    if (!row || row.disabled_at || row.session_version !== user.sv) return undefined
+    const session = await unsealSession(undefined as never, { password, maxAge: sessionMaxAge() }, sealed)
+    const data = session.data as SealedSession
+    const user = data.user
+    // the same checks as requireRole: a live server-side record, an enabled user, the same session version
+    const row = await liveSessionUser(data)
+    if (!user || !row) return undefined
     // a PIN session on a shared tablet, as requireRole checks it (server/utils/tablet.ts)
     if (user.tablet && !(await tabletOfSession(user, cookies[TABLET_COOKIE]))) return undefined
     return { ...row, tabletId: user.tablet?.id }
@@ -35,7 +35,10 @@ async function authenticate(socket: Socket) {
   }
 }
 
-async function joinRooms(socket: Socket, user: { id: number; workshop_id: number; role: string; tabletId?: number }) {
+async function joinRooms(socket: Socket, user: { id: number; workshop_id: number; role: string; session_id: number; tabletId?: number }) {
+  // a person's and a session's own rooms: taking rights away drops or narrows these sockets
+  // at once (server/utils/realtime.ts disconnectUser, disconnectSession, leaveJob)
+  await socket.join([liveRooms.user(user.id), liveRooms.session(user.session_id)])
   if (user.tabletId) await socket.join(liveRooms.tablet(user.tabletId))
   if (user.role !== 'client') {
     await socket.join(liveRooms.workshop(user.workshop_id))
@@ -45,18 +48,66 @@ async function joinRooms(socket: Socket, user: { id: number; workshop_id: number
   await socket.join(jobs.map(id => liveRooms.job(Number(id))))
 }
 
-export default defineNitroPlugin((nitroApp) => {
-  const engine = new Engine({ pingInterval: 10_000, pingTimeout: 8_000 })
-  const io = new Server({ serveClient: false })
+/** Longest delay setTimeout takes (2^31 - 1 ms); a session ends sooner than that anyway. */
+const MAX_TIMER_MS = 2_147_483_647
+
+/**
+ * The adapter's pool: a lost connection (PostgreSQL restarted or unreachable) emits 'error'
+ * on its pg client, and an 'error' event nobody listens to is thrown by Node and ends the
+ * process (Node.js "Error events"; node-postgres "Pool: events", error). The pool listens
+ * on idle clients only, so each client gets a listener too, including the one the adapter
+ * holds checked out for LISTEN. The adapter never releases that one when it dies, so it
+ * would keep its place in the pool for good and, after a restart or two, leave none for
+ * publishing: a checked-out client that fails and is still held is released as broken
+ * (`release(err)` removes it). The adapter then takes a new client (it retries every ~2 s) and live updates resume
+ * once the database is back.
+ */
+function adapterPool() {
   const pool = new pg.Pool({ connectionString: appEnv().DATABASE_URL, max: 2 })
+  const checkedOut = new Set<pg.PoolClient>()
+  pool.on('acquire', client => checkedOut.add(client))
+  pool.on('release', (_err, client) => checkedOut.delete(client))
+  pool.on('remove', client => checkedOut.delete(client as pg.PoolClient))
+  pool.on('error', err => console.error('socket.io adapter: database connection lost:', err.message))
+  pool.on('connect', client => client.on('error', (err) => {
+    console.error('socket.io adapter: database connection lost:', err.message)
+    // after pool.query's own handlers ran: a client it holds is released by it (a second
+    // release throws), so what is still checked out then is the adapter's
+    const held = client as pg.PoolClient
+    setImmediate(() => {
+      if (checkedOut.delete(held)) held.release(err)
+    })
+  }))
+  return pool
+}
+
+export default defineNitroPlugin((nitroApp) => {
+  // allowRequest covers the polling transport; the websocket upgrade reaches engine.io
+  // without it (engine.onWebSocket below), so the io.use check is the one that holds for both
+  const engine = new Engine({
+    pingInterval: 10_000, pingTimeout: 8_000,
+    allowRequest: (req, callback) => {
+      const foreign = isForeignRequest(req.headers)
+      callback(foreign ? 'This connection does not come from a Setline page' : null, !foreign)
+    },
+  })
+  const io = new Server({ serveClient: false })
+  const pool = adapterPool()
   io.adapter(createAdapter(pool, { errorHandler: err => console.error('socket.io adapter:', err.message) }))
   io.bind(engine)
   io.use(async (socket, next) => {
+    // a page of another site must not open a live connection with the user's cookie
+    // (cross-site WebSocket hijacking: OWASP WebSocket Security Cheat Sheet, "Origin validation")
+    if (isForeignRequest(socket.request.headers)) return next(new Error('This connection does not come from a Setline page'))
     const user = await authenticate(socket)
     if (!user) return next(new Error('Please sign in'))
     socket.data.userId = user.id
     socket.data.workshopId = user.workshop_id
+    socket.data.sessionId = user.session_id
     await joinRooms(socket, user)
+    // the socket ends with its session, as the cookie does on the next request
+    const ends = setTimeout(() => socket.disconnect(true), Math.min(MAX_TIMER_MS, Math.max(0, user.session_expires_at.getTime() - Date.now())))
+    socket.once('disconnect', () => clearTimeout(ends))
     next()
   })
   setRealtimeServer(io)

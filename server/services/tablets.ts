@@ -5,6 +5,7 @@ import type { Actor } from '../utils/auth'
 import { liveRooms } from '#shared/types/live'
 import { tabletsRepo } from '../repos/tablets'
 import { usersRepo } from '../repos/users'
+import { userSessionsRepo } from '../repos/user-sessions'
 
 /**
  * Signs the device a lead is holding in as a shared tablet: a new tablet_devices row and a
@@ -28,6 +29,7 @@ export async function revokeTablet(actor: Actor, id: number) {
   const existing = await tabletsRepo.byId(db, actor.workshopId, id)
   if (!existing) notFound('Tablet')
   const row = (await tabletsRepo.revoke(db, actor.workshopId, id)) ?? existing
+  await userSessionsRepo.endForTablet(db, actor.workshopId, id)
   // requireRole refuses the tablet's session on its next request; its live socket goes now
   realtimeServer()?.in(liveRooms.tablet(id)).disconnectSockets(true)
   return row

@@ -2,30 +2,54 @@
 import type { H3Event } from 'h3'
 import pLimit from 'p-limit'
 import type { Role, SessionUserData } from '#shared/types/auth'
-import { usersRepo } from '../repos/users'
+import { userSessionsRepo } from '../repos/user-sessions'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
 import { tabletOfSession } from './tablet'
 
 export type Actor = SessionUserData
 
+/** What the sealed cookie holds: the user, and the server-only random id of its session record. */
+export interface SealedSession { user?: SessionUserData; secure?: { sid?: string } }
+
+/** Seconds a session lasts: the sealed cookie's max age (nuxt.config.ts runtimeConfig.session). */
+export function sessionMaxAge() {
+  return (useRuntimeConfig().session as { maxAge?: number }).maxAge ?? 60 * 60 * 12
+}
+
 /**
- * Checks the sealed session, then the user row: a disabled user, or one whose session
- * version moved on (password reset, disable, role change), is signed out with 401.
+ * The user row of a sealed session when everything still lets it in: its server-side record
+ * is live (not signed out, not expired), the user is enabled and their session version has
+ * not moved on. One query (the user joined with the record). Undefined otherwise.
+ */
+export async function liveSessionUser(session: SealedSession) {
+  const user = session.user
+  const sid = session.secure?.sid
+  if (!user?.id || !sid || sid.length > 128) return undefined
+  const row = await userSessionsRepo.userOfSession(useDb(), user.workshopId, user.id, hashLinkToken(sid))
+  if (!row?.session_id || !row.session_expires_at || row.disabled_at || row.session_version !== user.sv) return undefined
+  return { ...row, session_id: row.session_id, session_expires_at: row.session_expires_at }
+}
+
+/**
+ * Checks the sealed session, then its server-side record and the user row: a session that
+ * was signed out or expired, a disabled user, or one whose session version moved on
+ * (password reset, disable, role change), is signed out with 401.
  * A role outside `roles` gets 403. Returns the actor whose workshopId scopes every query.
  */
 export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Actor> {
-  const session = await getUserSession(event)
+  const session = await getUserSession(event) as SealedSession
   const user = session.user as Actor | undefined
   if (!user?.id) throw createError({ statusCode: 401, message: 'Please sign in' })
-  const row = await usersRepo.byId(useDb(), user.workshopId, user.id)
-  if (!row || row.disabled_at || row.session_version !== user.sv) {
-    await endSession(event)
-    throw createError({ statusCode: 401, message: 'Your session has ended; please sign in again' })
-  }
-  // a PIN session lives only on its tablet, and only while a lead has not revoked it
+  // a PIN session lives only on its tablet, and only while a lead has not revoked it (checked
+  // first: revoking also ends the session's record, and this message says why)
   if (user.tablet && !(await tabletOfSession(user, getCookie(event, TABLET_COOKIE)))) {
     await endSession(event)
     throw createError({ statusCode: 401, message: 'This tablet is no longer signed in; a lead can sign it in again' })
+  }
+  const row = await liveSessionUser(session)
+  if (!row) {
+    await endSession(event)
+    throw createError({ statusCode: 401, message: 'Your session has ended; please sign in again' })
   }
   if (roles.length && !roles.includes(row.role)) {
     throw createError({ statusCode: 403, message: `This needs the ${roles.join(' or ')} role` })
@@ -45,16 +69,50 @@ function cookieConfig() {
   return { cookie: { sameSite: 'lax' as const, httpOnly: true, secure: secureCookies() } }
 }
 
-/** Starts a session for a user; `tablet` marks one begun with a PIN on a shared tablet. */
+/**
+ * Starts a session for a user; `tablet` marks one begun with a PIN on a shared tablet. A
+ * session this browser had before ends first, and the new one gets a fresh random id
+ * (OWASP Session Management Cheat Sheet: renew the session id on sign-in). The id stays in
+ * the cookie's `secure` part, which nuxt-auth-utils never sends to the page.
+ */
 export async function startSession(event: H3Event, row: { id: number; workshop_id: number; role: Role; name: string; email: string; session_version: number }, tablet?: { id: number; name: string }) {
+  await endSessionRecord(await getUserSession(event) as SealedSession)
+  const { token, hash } = newLinkToken()
+  const db = useDb()
+  await userSessionsRepo.pruneForUser(db, row.workshop_id, row.id)
+  await userSessionsRepo.start(db, { workshop_id: row.workshop_id, user_id: row.id, token_hash: hash, tablet_id: tablet?.id ?? null }, sessionMaxAge())
   await replaceUserSession(event, {
     user: { id: row.id, workshopId: row.workshop_id, role: row.role, name: row.name, email: row.email, sv: row.session_version, ...(tablet ? { tablet } : {}) },
+    secure: { sid: token },
     loggedInAt: Date.now(),
   }, cookieConfig())
 }
 
+/** Ends a session's server-side record and drops the live sockets opened with it. */
+export async function endSessionRecord(session: SealedSession) {
+  const sid = session.secure?.sid
+  if (!sid || sid.length > 128) return
+  const ended = await userSessionsRepo.end(useDb(), hashLinkToken(sid))
+  if (ended) disconnectSession(Number(ended.id))
+}
+
+/**
+ * Signs this browser out: the record ends (server/plugins/sessions.ts hooks every clear of
+ * the cookie, nuxt-auth-utils' own DELETE /api/_auth/session included), so a copy of the
+ * cookie made before is refused too, and the cookie is cleared.
+ */
 export async function endSession(event: H3Event) {
   await clearUserSession(event, cookieConfig())
+}
+
+/**
+ * Ends every session of a person and drops their live sockets, after their password, role or
+ * enabled state changed. Their session version moved on too, which already refuses the old
+ * cookies; the records say so as well.
+ */
+export async function endUserSessions(workshopId: number, userId: number) {
+  await userSessionsRepo.endForUser(useDb(), workshopId, userId)
+  disconnectUser(userId)
 }
 
 // scrypt at N = 2^17 takes 128 MiB and a few hundred ms per hash: bound how many run at once

@@ -23,3 +23,22 @@ export function emitToWorkshop(workshopId: number, event: LiveEvent) {
 export function emitToJob(workshopId: number, jobId: number, event: LiveEvent) {
   io?.to(liveRooms.job(jobId)).to(liveRooms.workshop(workshopId)).emit('live', event)
 }
+
+// Rights taken away reach live sockets at once, on every app instance: the postgres adapter
+// passes disconnectSockets and socketsLeave to the other servers like an emit (socket.io
+// "Server instance: utility methods", which work with an adapter that supports them).
+
+/** Drops every live socket of a person (disabled, another role, a new password). */
+export function disconnectUser(userId: number) {
+  io?.in(liveRooms.user(userId)).disconnectSockets(true)
+}
+
+/** Drops the sockets opened with one session (signed out, or its tablet revoked). */
+export function disconnectSession(sessionId: number) {
+  io?.in(liveRooms.session(sessionId)).disconnectSockets(true)
+}
+
+/** A client taken off a job stops hearing its room at once; their other jobs stay. */
+export function leaveJob(userId: number, jobId: number) {
+  io?.in(liveRooms.user(userId)).socketsLeave(liveRooms.job(jobId))
+}

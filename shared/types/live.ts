@@ -14,4 +14,8 @@ export const liveRooms = {
   job: (id: number) => `job:${id}`,
   /** the socket of whoever is switched in on a shared tablet, so revoking the tablet can drop it */
   tablet: (id: number) => `tablet:${id}`,
+  /** every socket of one person, so a change to their rights reaches all of them at once */
+  user: (id: number) => `user:${id}`,
+  /** the sockets opened with one session (user_sessions.id), so signing out drops them */
+  session: (id: number) => `session:${id}`,
 }

@@ -5,16 +5,16 @@
 // refusal where the caller should have got through. Each role signs in once (scrypt is slow on
 // purpose) and the cookies are reused for every cell.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn, type CallResult } from '../setup/http'
+import { call, freshSession, signIn, type CallResult } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { SCOPES, makeScopes, type Kind, type ScopeName, type Scopes } from '../setup/scopes'
 import { CALLERS, ROUTES, expected, routesOnDisk, type Caller, type RouteRow } from './route-table'
 
 const cookies: Partial<Record<Caller, string>> = {}
 let scopes: Scopes
+const who = { lead: demo.lead, caster: demo.caster1, finisher: demo.finisher, client: demo.client1 }
 
 beforeAll(async () => {
-  const who = { lead: demo.lead, caster: demo.caster1, finisher: demo.finisher, client: demo.client1 }
   await Promise.all(Object.entries(who).map(async ([role, u]) => {
     cookies[role as Caller] = await signIn(u.email, DEMO_PASSWORD)
   }))
@@ -41,7 +41,9 @@ async function send(row: RouteRow, caller: Caller, scope: ScopeName, succeed: bo
   if (row.query) path += `?${row.query}`
   const body = row.body ? await row.body(s) : undefined
   const form = row.form ? await row.form(s) : undefined
-  return call(path, { method, cookie: caller === 'anon' ? undefined : cookies[caller], body, form })
+  // a call that ends its session gets one of its own, so the caller's cookie stays live for the other cells
+  const cookie = caller === 'anon' ? undefined : row.endsSession && succeed ? await freshSession(who[caller].email, DEMO_PASSWORD) : cookies[caller]
+  return call(path, { method, cookie, body, form })
 }
 
 const text = (r: CallResult) => (typeof r.data === 'string' ? r.data : JSON.stringify(r.data ?? ''))
@@ -75,6 +77,6 @@ describe('access matrix', () => {
         }
       }
       expect(problems).toEqual([])
-    })
+    }, row.endsSession ? 120_000 : undefined) // a sign-in (scrypt, slow on purpose) per caller
   }
 })

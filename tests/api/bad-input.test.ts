@@ -13,7 +13,7 @@ import fc from 'fast-check'
 import pLimit from 'p-limit'
 import type { ZodType } from 'zod'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { baseUrl, call, signIn, type CallResult } from '../setup/http'
+import { baseUrl, call, freshSession, signIn, type CallResult } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { makeScopes, type Scopes } from '../setup/scopes'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
@@ -163,7 +163,8 @@ beforeAll(async () => {
   }))
   scopes = await makeScopes(cookies.lead!)
   // a shared tablet of the demo workshop, for the routes that answer to its device cookie
-  const tablet = await call('/api/tablets', { method: 'POST', cookie: cookies.lead, body: { name: 'Bad-input tablet' } })
+  // (making the device a tablet ends the lead's session there: a session of its own for it)
+  const tablet = await call('/api/tablets', { method: 'POST', cookie: await freshSession(demo.lead.email, DEMO_PASSWORD), body: { name: 'Bad-input tablet' } })
   const device = tablet.headers.getSetCookie().find(c => c.startsWith('setline-tablet='))
   if (tablet.status !== 201 || !device) throw new Error(`bad-input tablet: ${tablet.status} ${JSON.stringify(tablet.data)}`)
   cookies.device = device.split(';')[0]!

@@ -28,6 +28,8 @@
 // valid        bad-input only: a body that passes the schema, to mutate, when `body` is not one
 // readOnly     bad-input only: a POST that writes nothing, so schema-valid extremes may be sent
 // device       bad-input only: send a shared tablet's device cookie (the route answers to it, not to a session)
+// endsSession  a successful call ends the caller's session on the server (sign-out, a device becoming a
+//              shared tablet): the access test sends it with a session signed in for that call alone
 import { randomUUID } from 'node:crypto'
 import { readdirSync, readFileSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
@@ -55,6 +57,7 @@ export interface RouteRow {
   valid?: Record<string, unknown>
   readOnly?: boolean
   device?: boolean
+  endsSession?: boolean
 }
 
 const LEAD: Role[] = ['lead']
@@ -75,7 +78,7 @@ const photo = async () => photoForm([{ name: 'matrix.jpg', data: await jpegWithG
 export const ROUTES: RouteRow[] = [
   { route: 'GET /api/health', roles: 'public' },
   { route: 'POST /api/auth/login', roles: 'public', body: () => ({}), public: 422, valid: { email: 'nobody@matrix.example.test', password: 'not-the-password' } },
-  { route: 'POST /api/auth/logout', roles: 'public' },
+  { route: 'POST /api/auth/logout', roles: 'public', endsSession: true },
   { route: 'GET /api/auth/invitation', roles: 'public', query: `token=${NO_TOKEN}`, public: 410 },
   // the two below hash the password before they look at the token (slow): the matrix sends an empty body
   { route: 'POST /api/auth/invitation', roles: 'public', body: () => ({}), public: 422, valid: { token: NO_TOKEN, name: 'Matrix', password: 'matrix-password-1' } },
@@ -111,7 +114,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'GET /api/dispatches/[id]', roles: ['lead', 'finisher'], ids: { id: 'dispatch' } },
   // shared tablets and PINs; the tablet's own two routes answer to its device cookie, not a session (tests/api/tablet.test.ts)
   { route: 'GET /api/tablets', roles: LEAD },
-  { route: 'POST /api/tablets', roles: LEAD, body: () => ({ name: `Matrix tablet ${rnd()}` }) },
+  { route: 'POST /api/tablets', roles: LEAD, body: () => ({ name: `Matrix tablet ${rnd()}` }), endsSession: true },
   { route: 'POST /api/tablets/[id]/revoke', roles: LEAD, ids: { id: 'newTablet' } },
   { route: 'GET /api/me/pin', roles: ['caster', 'finisher'] },
   { route: 'PUT /api/me/pin', roles: ['caster', 'finisher'], body: () => ({ pin: '2719', password: DEMO_PASSWORD }) },

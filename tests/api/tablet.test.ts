@@ -4,7 +4,7 @@
 import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
-import { call, signIn } from '../setup/http'
+import { call, freshSession, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, setPinDirect, testDb } from '../setup/fixtures'
 
 let lead = ''
@@ -26,9 +26,13 @@ function setCookieOf(headers: Headers, name: string) {
   return headers.getSetCookie().find(c => c.startsWith(`${name}=`))
 }
 
-/** Signs a device in as a shared tablet (as the demo lead); its device cookie, `setline-tablet=…`. */
-async function newTablet(name = `Test tablet ${Math.random().toString(36).slice(2, 7)}`, cookie = lead) {
-  const r = await call('/api/tablets', { method: 'POST', cookie, body: { name } })
+/**
+ * Signs a device in as a shared tablet (as the demo lead, in a session of its own: the call
+ * ends the session it is made with); its device cookie, `setline-tablet=…`.
+ */
+async function newTablet(name = `Test tablet ${Math.random().toString(36).slice(2, 7)}`, oldDevice?: string) {
+  const session = await freshSession(demo.lead.email, DEMO_PASSWORD)
+  const r = await call('/api/tablets', { method: 'POST', cookie: oldDevice ? `${session}; ${oldDevice}` : session, body: { name } })
   expect(r.status, JSON.stringify(r.data)).toBe(201)
   deviceIds.push(r.data.id)
   const device = setCookieOf(r.headers, 'setline-tablet')!.split(';')[0]!
@@ -90,7 +94,7 @@ describe('signing a tablet in', () => {
     expect(bad.status).toBe(422)
     expect(bad.data.data.problems[0].field).toBe('name')
     const first = await newTablet()
-    const second = await newTablet('Renamed', `${lead}; ${first.device}`)
+    const second = await newTablet('Renamed', first.device)
     expect((await testDb()('tablet_devices').where({ id: first.id }).first()).revoked_at).not.toBeNull()
     expect((await testDb()('tablet_devices').where({ id: second.id }).first()).revoked_at).toBeNull()
   })

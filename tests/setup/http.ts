@@ -48,6 +48,16 @@ export async function signIn(email: string, password: string, fresh = false): Pr
   return r.cookie
 }
 
+/**
+ * A session of its own, never cached: for a request that ends the session it is sent with
+ * (signing out, making the device a shared tablet), so the file's cached cookie stays live.
+ */
+export async function freshSession(email: string, password: string): Promise<string> {
+  const r = await call('/api/auth/login', { method: 'POST', body: { email, password } })
+  if (r.status !== 200 || !r.cookie) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.data)}`)
+  return r.cookie
+}
+
 /** Waits for captured mail to a recipient in the server's SMTP fake (read as a lead). */
 export async function waitForMail(leadCookie: string, to: string, subjectPart: string, timeoutMs = 15_000) {
   const until = Date.now() + timeoutMs

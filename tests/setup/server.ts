@@ -14,7 +14,8 @@ declare module 'vitest' {
 
 let child: ChildProcess | undefined
 
-export async function startAppServer(env: Record<string, string>) {
+/** Starts the built app; with `output`, what it prints is also collected there (a test reads its log). */
+export async function startAppServer(env: Record<string, string>, output?: string[]) {
   const root = resolve(import.meta.dirname, '../..')
   if (!existsSync(resolve(root, '.output/server/index.mjs'))) throw new Error('No build in .output: run npm test (it builds first)')
   const [port, smtpPort] = [await freePort(), await freePort()]
@@ -25,8 +26,18 @@ export async function startAppServer(env: Record<string, string>) {
       MAIL_FAKE: '1', SMTP_PORT: String(smtpPort),
       MAIL_WORKER_INTERVAL_MS: '500', MAIL_RETRY_BASE_SECONDS: '1', OVERDUE_CHECK_INTERVAL_MS: '1000', ...env,
     },
-    stdio: ['ignore', 'inherit', 'inherit'],
+    stdio: ['ignore', output ? 'pipe' : 'inherit', output ? 'pipe' : 'inherit'],
   })
+  if (output) {
+    proc.stdout!.on('data', (d: Buffer) => {
+      output.push(d.toString())
+      process.stdout.write(d)
+    })
+    proc.stderr!.on('data', (d: Buffer) => {
+      output.push(d.toString())
+      process.stderr.write(d)
+    })
+  }
   const url = `http://127.0.0.1:${port}`
   const until = Date.now() + 60_000
   while (Date.now() < until) {

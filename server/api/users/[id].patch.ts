@@ -12,5 +12,7 @@ export default defineEventHandler(async (event) => {
   let row = user
   if (input.role !== undefined) row = await usersRepo.setRole(db, actor.workshopId, id, input.role)
   if (input.disabled !== undefined) row = await setUserDisabled(actor.workshopId, id, input.disabled)
+  // the schema asks for one of the two: either change ends their sessions and live sockets now
+  await endUserSessions(actor.workshopId, id)
   return row
 })

@@ -5,6 +5,7 @@ export default defineEventHandler(async (event) => {
   const { id, userId } = validParams(event, jobMemberParamsSchema)
   const removed = await jobsRepo.removeMember(useDb(), actor.workshopId, id, userId)
   if (!removed) notFound('Job member')
+  leaveJob(userId, id)
   setResponseStatus(event, 204)
   return null
 })
