@@ -1,4 +1,4 @@
-// The lead's quality figures from the register (issue 7): defect rate by mould, grade, caster
+// The lead's quality figures from the register: defect rate by mould, grade, caster
 // and shop-temperature band, and predicted against actual demould time per grade. Pure: the
 // route reads the demoulded pours of a period and hands them here.
 import { calibrationFactor } from './plaster-set'

@@ -1,4 +1,4 @@
-// Shared tablets (issue 6, part 3): a lead signs a device in, casters and finishers set a PIN
+// Shared tablets: a lead signs a device in, casters and finishers set a PIN
 // and switch in with it, wrong PINs are limited per device and per person, a lead revokes a
 // tablet. Against the built server and real PostgreSQL.
 import { createHash } from 'node:crypto'
