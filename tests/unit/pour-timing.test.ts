@@ -10,7 +10,7 @@ import {
 
 // Preset values relied on (plaster-presets.ts): beta casting demouldMinutesRef 30 at its default
 // consistency 70, set-time water exponent 1.2, temperature factor 1 at 20 °C and 1.3 at 10 °C.
-// 30 min at 70 and 20 °C sits inside the 20–45 min that is common practice (plaster-model.md).
+// 30 min at 70 and 20 °C sits inside the 20–45 min that is common practice (no published source).
 const beta = GRADE_PRESETS['beta-casting']
 const mould = { prepMinutes: 10, cleanMinutes: 15, maxDwellMinutes: 120 }
 const mixAt = new Date('2026-12-07T09:00:00Z')
