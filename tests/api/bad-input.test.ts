@@ -25,7 +25,7 @@ const RANDOM_CASES = 16
 const MALFORMED_CASES = 4
 
 // ---- the shared schemas, by exported name ----
-const SCHEMA_DIR = join(import.meta.dirname, '../../shared/utils')
+const SCHEMA_DIR = join(import.meta.dirname, '..', '..', 'shared', 'utils')
 const SCHEMAS = new Map<string, ZodType>()
 for (const file of readdirSync(SCHEMA_DIR).filter(f => f.endsWith('-schemas.ts') || f === 'mix-request.ts')) {
   const mod: Record<string, unknown> = await import(join(SCHEMA_DIR, file))

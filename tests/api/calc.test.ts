@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop, testDb } from '../setup/fixtures'
-import { GRADE_PRESETS, mixSummary } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, mixSummary } from '#shared/utils/plaster'
 
 let lead = ''
 let client = ''

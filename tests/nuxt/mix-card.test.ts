@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { mountSuspended } from '@nuxt/test-utils/runtime'
 import MixCard from '../../app/components/mix/MixCard.vue'
-import { GRADE_PRESETS, mixSummary } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, mixSummary } from '#shared/utils/plaster'
 
 const grades = [{ id: 1, name: 'Fine casting (beta)', bagKg: 25, grade: GRADE_PRESETS['beta-casting'] }]
 const moulds = [{ id: 7, code: 'T-1', casts: 'Test panel', cavityLitres: 1, maxDwellMinutes: 120 }]

@@ -11,7 +11,7 @@ import {
   mmToIn,
   runCutList,
   usGallonsToLitres,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 function fieldOf(fn: () => unknown): string | undefined {
   try {

@@ -7,7 +7,7 @@ import {
   fToC,
   saturationVapourPressureKPa,
   wetBulbC,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 function expectNear(actual: number, expected: number, relTol: number) {
   expect(Math.abs(actual / expected - 1)).toBeLessThan(relTol)

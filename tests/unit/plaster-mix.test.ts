@@ -19,7 +19,7 @@ import {
   slurryTemperature,
   type PlasterGrade,
   type PlasterGradePresetKey,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 const beta = GRADE_PRESETS['beta-casting']
 const alpha = GRADE_PRESETS['alpha-casting']

@@ -10,7 +10,7 @@ import {
   setCurve,
   setTimeTemperatureFactor,
   type PlasterGradePresetKey,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 const beta = GRADE_PRESETS['beta-casting']
 const alpha = GRADE_PRESETS['alpha-casting']

@@ -1,12 +1,12 @@
 import { describe, it, expect } from 'vitest'
-import { GRADE_PRESETS, PlasterInputError } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, PlasterInputError } from '#shared/utils/plaster'
 import {
   POUR_MIX_MINUTES_DEFAULT,
   dwellWarning,
   pourTiming,
   pourTimingFromSlotStart,
   pourTimingMinutes,
-} from '../../shared/utils/pour-timing'
+} from '#shared/utils/pour-timing'
 
 // Preset values relied on (plaster-presets.ts): beta casting demouldMinutesRef 30 at its default
 // consistency 70, set-time water exponent 1.2, temperature factor 1 at 20 °C and 1.3 at 10 °C.

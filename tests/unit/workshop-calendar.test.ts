@@ -1,13 +1,13 @@
 import { describe, it, expect } from 'vitest'
 import { DateTime } from 'luxon'
-import { PlasterInputError } from '../../shared/utils/plaster'
+import { PlasterInputError } from '#shared/utils/plaster'
 import {
   PlanningInputError,
   isInsideShift,
   nextShiftStart,
   shiftWindows,
   type WorkshopShiftCalendar,
-} from '../../shared/utils/workshop-calendar'
+} from '#shared/utils/workshop-calendar'
 
 const london: WorkshopShiftCalendar = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
 const everyDay = { ...london, workingDays: [1, 2, 3, 4, 5, 6, 7] }
