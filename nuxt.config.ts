@@ -27,6 +27,12 @@ export default defineNuxtConfig({
       // often reach a workshop server over plain http on the local network.
       cookie: { sameSite: 'lax', secure: false },
     },
+    public: {
+      // The board's resource-timeline plugin is used under its GPL key, which fits Setline's
+      // GPL-3.0-or-later licence (LICENSE). A shop holding a commercial licence sets its own key
+      // with NUXT_PUBLIC_SCHEDULER_LICENSE_KEY.
+      schedulerLicenseKey: 'GPL-My-Project-Is-Open-Source',
+    },
   },
   compatibilityDate: '2026-11-01',
   nitro: {

@@ -1,7 +1,8 @@
 import type { Config } from 'tailwindcss'
 
-// Setline's tokens (../shared/design/look.md): plaster neutrals carry the page, kiln is the
-// one accent for action; sage, ochre and madder mark state, always beside a word or shape.
+// Setline's tokens, our own palette: plaster neutrals carry the page, kiln is the one accent
+// for action; sage, ochre and madder mark state, always beside a word or shape. Every text
+// pair meets WCAG 2.2 AA contrast (4.5:1 text, 3:1 controls).
 export default {
   content: ['./app/**/*.{vue,ts}'],
   theme: {

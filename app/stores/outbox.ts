@@ -2,7 +2,7 @@
 // on the tablet and is kept in IndexedDB (through idb) until the server has answered it. Sent
 // in order when online, again after a drop (the browser's 'online' event, the socket's
 // reconnect, a slow retry timer). The server answers a replay of an id with its first answer,
-// so sending twice is harmless (architecture.md, "Offline actions"). A refusal (409, 422)
+// so sending twice is harmless: each action runs exactly once. A refusal (409, 422)
 // stays in the history, shown. Each entry records who tapped it and goes out only under that
 // person's session (the rules: app/utils/outbox-owners.ts); a 401 stops sending until a sign-in.
 import { defineStore } from 'pinia'

@@ -1,4 +1,4 @@
-// The whole intended data model (see ../shared/design/architecture.md). Frozen once landed:
+// The whole intended data model at the start. Frozen once landed:
 // later changes go into new migrations. No application imports here.
 import type { Knex } from 'knex'
 

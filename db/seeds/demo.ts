@@ -2,20 +2,19 @@
 // organisations, benches, moulds, plaster grades and lots, and three jobs at different
 // stages. Every name and address is made up (example.test). Dates are relative to today.
 import type { Knex } from 'knex'
-import { TZDate } from '@date-fns/tz'
+import { DateTime } from 'luxon'
 import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
-import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '../../shared/utils/plaster'
-import { finishingDryBy } from '../../shared/utils/finishing'
+import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '#shared/utils/plaster'
+import { finishingDryBy } from '#shared/utils/finishing'
 import { DEMO_PASSWORD, DEMO_USERS } from './demo-people'
 
 const TZ = 'Europe/London'
 type Ids = Record<string, number>
 
 function localDay(offsetDays: number, hour: number, minute = 0) {
-  const now = new TZDate(Date.now(), TZ)
-  return new TZDate(now.getFullYear(), now.getMonth(), now.getDate() + offsetDays, hour, minute, TZ)
+  return DateTime.now().setZone(TZ).startOf('day').plus({ days: offsetDays }).set({ hour, minute }).toJSDate()
 }
 const isoDay = (offsetDays: number) => localDay(offsetDays, 12).toISOString().slice(0, 10)
 

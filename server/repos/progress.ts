@@ -4,7 +4,7 @@
 // its place), so the counts never pass what was ordered because of a bad cast, and the client
 // is not shown that anything was rejected.
 import type { Knex } from 'knex'
-import type { ItemProgressDto } from '../../shared/types/photos'
+import type { ItemProgressDto } from '#shared/types/photos'
 import { COUNTED_POUR } from './planning'
 
 /** The row is what the client's page shows (shared/types/photos.ts). */

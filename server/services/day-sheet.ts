@@ -1,7 +1,7 @@
 // The caster's day sheet: the day's pours by bench and the plaster to fetch from the store.
 import type { Knex } from 'knex'
 import { daySheetRepo, poursRepo, type PourDtoRow } from '../repos/pours'
-import { lotStockKg, lotToOpen, requisitionLine } from '../../shared/utils/board-rules'
+import { lotStockKg, lotToOpen, requisitionLine } from '#shared/utils/board-rules'
 
 function sheetPour(p: PourDtoRow) {
   return {

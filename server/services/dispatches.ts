@@ -7,10 +7,10 @@
 // What goes: packed pieces only. "Ready" means dry; a piece leaves the shop packed, so the
 // state order stays ready → packed → dispatched.
 import type { Actor } from '../utils/auth'
-import type { DispatchNoteDto, JobDispatchesDto } from '../../shared/types/finishing'
-import { FINISHING_TEAM_LIFT_KG } from '../../shared/utils/finishing'
-import type { FinishingDispatchInput } from '../../shared/utils/finishing-schemas'
-import { boardLocalDay } from '../../shared/utils/board-rules'
+import type { DispatchNoteDto, JobDispatchesDto } from '#shared/types/finishing'
+import { FINISHING_TEAM_LIFT_KG } from '#shared/utils/finishing'
+import type { FinishingDispatchInput } from '#shared/utils/finishing-schemas'
+import { boardLocalDay } from '#shared/utils/board-rules'
 import { jobsRepo } from '../repos/jobs'
 import { piecesRepo } from '../repos/pieces'
 import { dispatchesRepo } from '../repos/dispatches'

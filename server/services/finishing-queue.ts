@@ -1,13 +1,13 @@
 // The finisher's queue (GET /api/finishing) and the piece card every finishing answer carries.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import type { FinishingPieceDto, FinishingQueue } from '../../shared/types/finishing'
+import type { FinishingPieceDto, FinishingQueue } from '#shared/types/finishing'
 import { piecesRepo, type PieceViewRow } from '../repos/pieces'
 import { shopDaysRepo } from '../repos/shop-days'
 import type { WorkshopRow } from '../repos/workshops'
-import { dryness } from '../../shared/utils/plaster-drying'
-import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '../../shared/utils/finishing'
-import { boardLocalDay } from '../../shared/utils/board-rules'
+import { dryness } from '#shared/utils/plaster-drying'
+import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '#shared/utils/finishing'
+import { boardLocalDay } from '#shared/utils/board-rules'
 import { loadWorkshop } from './pours'
 
 const num = (v: string | null) => (v === null ? null : Number(v))

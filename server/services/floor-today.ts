@@ -4,9 +4,9 @@ import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import { poursRepo, daySheetRepo } from '../repos/pours'
 import { floorRepo, type FloorActualsRow } from '../repos/floor'
-import { BURN_CAUTION } from '../../shared/utils/plaster'
-import { boardLocalDay } from '../../shared/utils/board-rules'
-import type { FloorCardDto, FloorCaution } from '../../shared/types/floor'
+import { BURN_CAUTION } from '#shared/utils/plaster'
+import { boardLocalDay } from '#shared/utils/board-rules'
+import type { FloorCardDto, FloorCaution } from '#shared/types/floor'
 import { loadWorkshop, pourDto, type PourDto } from './pours'
 
 export type { FloorCardDto }

@@ -6,9 +6,9 @@ import type { WorkshopRow } from '../repos/workshops'
 import { planningRepo } from '../repos/planning'
 import { poursRepo } from '../repos/pours'
 import { loadWorkshop, planPourRow, withOverlapAnswer, workshopCalendar } from './pours'
-import { boardDayStart } from '../../shared/utils/board-rules'
-import { planPours, type PlanPoursInput, type PlannerItem } from '../../shared/utils/planner'
-import { PlasterInputError } from '../../shared/utils/plaster-core'
+import { boardDayStart } from '#shared/utils/board-rules'
+import { planPours, type PlanPoursInput, type PlannerItem } from '#shared/utils/planner'
+import { PlasterInputError } from '#shared/utils/plaster-core'
 
 const DAY_MS = 86_400_000
 const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_MS).toISOString().slice(0, 10)

@@ -2,16 +2,16 @@
 // server the judge of every rule (pour-schemas.ts validates the shape, this the meaning).
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import type { PourMoveInput } from '../../shared/utils/pour-schemas'
+import type { PourMoveInput } from '#shared/utils/pour-schemas'
 import { poursRepo, pourFactsRepo, type PourDtoRow, type PourWrite } from '../repos/pours'
 import { shopDaysRepo } from '../repos/shop-days'
 import { workshopsRepo, type WorkshopRow } from '../repos/workshops'
-import { batchForCavity } from '../../shared/utils/plaster'
-import { PlasterInputError } from '../../shared/utils/plaster-core'
-import { pourTimingFromSlotStart } from '../../shared/utils/pour-timing'
+import { batchForCavity } from '#shared/utils/plaster'
+import { PlasterInputError } from '#shared/utils/plaster-core'
+import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
-} from '../../shared/utils/board-rules'
+} from '#shared/utils/board-rules'
 
 export type PourDto = ReturnType<typeof pourDto>
 

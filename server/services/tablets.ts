@@ -1,4 +1,4 @@
-// Shared tablets and PINs (issue 6, part 3): a lead signs a device in as the workshop's
+// Shared tablets and PINs: a lead signs a device in as the workshop's
 // tablet, casters and finishers set a PIN and switch in with it, a lead revokes a tablet.
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'

@@ -6,7 +6,7 @@
  * Units: masses kg, water litres (1 kg/L, as the plaster model's MIX_WATER_DENSITY), minutes.
  * Pure: no I/O, no framework import.
  */
-import { TZDate } from '@date-fns/tz'
+import { DateTime } from 'luxon'
 import { bagsForKg } from './plaster-cutlist'
 import { MIX_WATER_DENSITY } from './plaster-core'
 import { POUR_MIX_MINUTES_DEFAULT, dwellWarning } from './pour-timing'
@@ -173,5 +173,5 @@ export function pourDwellWarning(calendar: WorkshopShiftCalendar, t: { mixAt: Da
 /** The instant a local day 'YYYY-MM-DD' starts (local midnight) in a timezone. */
 export function boardDayStart(day: string, timezone: string): Date {
   const [y, m, d] = day.split('-').map(Number) as [number, number, number]
-  return new Date(new TZDate(y, m - 1, d, timezone).getTime())
+  return DateTime.fromObject({ year: y, month: m, day: d }, { zone: timezone }).toJSDate()
 }

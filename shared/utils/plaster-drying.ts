@@ -5,8 +5,13 @@
 import { PLASTER_LIMITS, PlasterInputError, assertPlasterNumber, assertPlasterObject } from './plaster-core'
 
 /**
- * Above 49 °C (120 °F) set gypsum starts to lose its combined water, well below boiling: the
- * safe ceiling drying practice for plaster moulds and casts uses (science.md §9, trade.md §1.7).
+ * Ceiling for drying casts and moulds: 49 °C (120 °F), the limit the plaster trade has long
+ * kept for drying moulds and casts (common practice; no standard sets it). Set gypsum loses
+ * combined water well below boiling: in water it is metastable against anhydrite above 42.5 °C
+ * (Can. J. Chem. 62 (1984), doi:10.1139/v84-081, "Thermodynamics of solution of gypsum and
+ * anhydrite in water over a wide temperature range"), though that change is slow; in very dry
+ * air even 40 °C removes bound water (ASHRAE 2004, "Effect of drying protocols on measurement
+ * of sorption isotherms of gypsum building materials").
  */
 export const PLASTER_DRYING_MAX_C = 49
 

@@ -33,7 +33,7 @@ const SHOP_TEMPERATURE_FACTORS: [number, number][] = [
 
 /** Powder densities, g/cm³. β 2.63: the design value, inside 2.619–2.637 (Ullmann's, "Calcium sulfate", recalled from memory). */
 const BETA_DENSITY = 2.63
-/** α 2.76: a reference text gives 2.76 and Ullmann's 2.757 (recalled from memory); see science.md §2. */
+/** α 2.76: an Elsevier reference-module text on gypsum gives 2.76; Ullmann's, "Calcium sulfate", 2.757 (recalled from memory). */
 const ALPHA_DENSITY = 2.76
 
 function deepFreeze<T>(value: T): T {

@@ -18,7 +18,9 @@ import {
 
 /**
  * Avrami (nucleation-and-growth) exponent of the illustrative set curve: 2.5, inside the 2–3
- * usually reported for hemihydrate hydration (recalled from memory; science.md §5).
+ * usually reported for hemihydrate hydration (recalled from memory, unverified: Avrami–Erofe'ev fits
+ * are reported in J. Synchrotron Rad. (2019), "A kinetic and mechanistic study into the
+ * transformation of calcium sulfate hemihydrate to dihydrate", but no n we could read).
  */
 export const SET_CURVE_AVRAMI_EXPONENT = 2.5
 
@@ -129,7 +131,8 @@ export function demouldWindow(input: {
  * ΔT = purity × hydrationHeat / C̄, per g of powder, where C̄ is the mean of the heat capacity
  * before (powder 0.82 + water 4.18 × w J/K) and after setting (gypsum 1.0815 × 1.18618, free
  * water, impurity as powder). Heat from Southard 1940; heat capacities in plaster-core.
- * Beta at 0.70 gives about 37 °C, at 0.60 about 42 °C (science.md §6). Real casts lose heat.
+ * Beta at 0.70 gives about 37 °C, at 0.60 about 42 °C (derived by hand with this formula; ±5 K for the
+ * recalled hemihydrate heat capacity). Real casts lose heat.
  */
 export function adiabaticRiseC(input: { grade: PlasterGrade; consistency: number }): number {
   const i = assertPlasterObject(input, 'input')

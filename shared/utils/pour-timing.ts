@@ -19,10 +19,10 @@ import { PlanningInputError, assertPlanningDate } from './workshop-calendar'
 
 /**
  * Minutes from the start of gauging to the end of mixing: 5. Sifting the powder onto the water
- * and letting it soak takes a minute or two, mixing two to three (common practice; a fine casting
- * plaster gives about 2–3 min of working time once it thickens: dbipottery.com, in the design's
- * research/trade.md §2). Pouring happens after mixing, inside the set
- * clock the plaster model already counts, so it is not added again.
+ * and letting it soak takes a minute or two, mixing two to three (common practice, no published
+ * source; a fine casting plaster gives about 2–3 min of working time once it thickens). Pouring
+ * happens after mixing, inside the set clock the plaster model already counts, so it is not
+ * added again.
  */
 export const POUR_MIX_MINUTES_DEFAULT = 5
 
@@ -158,7 +158,7 @@ export function pourTimingFromSlotStart(input: PourTimingSetInput & { slotStart:
  * hold the set cast until the next shift starts, i.e. "hold" means demouldCloseAt ≥
  * nextShiftStartAt (the cast is still inside its max dwell when the first caster arrives).
  * Otherwise the cast overstays its dwell (a rigid or gelatine mould can be damaged, a cast can
- * stick or crack: plaster-model.md) and this returns the warning; else null.
+ * stick or crack: common practice) and this returns the warning; else null.
  */
 export function dwellWarning(input: {
   demouldOpenAt: Date

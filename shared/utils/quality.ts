@@ -1,4 +1,4 @@
-// The lead's quality figures from the register (issue 7): defect rate by mould, grade, caster
+// The lead's quality figures from the register: defect rate by mould, grade, caster
 // and shop-temperature band, and predicted against actual demould time per grade. Pure: the
 // route reads the demoulded pours of a period and hands them here.
 import { calibrationFactor } from './plaster-set'
@@ -68,7 +68,7 @@ function medianOf(values: number[]): number | null {
 
 /**
  * Per grade: predicted = plan's demould opening − mixing start, actual = demoulded − mixing
- * start (plaster-model.md, calibration). The factor is calibrationFactor's median ratio over
+ * start, the same samples the register's calibration uses. The factor is calibrationFactor's median ratio over
  * every sample of the period (lastN 10000), so it agrees with the grade page's factor.
  */
 function calibrationByGrade(pours: QualityPour[]): GradeCalibration[] {

@@ -1,4 +1,4 @@
-// Shared tablets and PINs (issue 6, part 3): the PIN a caster or finisher sets on /account,
+// Shared tablets and PINs: the PIN a caster or finisher sets on /account,
 // the switch on a shared tablet, and a lead naming a device. Forms and routes use the same schemas.
 import { z } from 'zod'
 

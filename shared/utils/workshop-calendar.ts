@@ -6,7 +6,7 @@
  * Pure: no I/O, no framework import. Bad input throws PlanningInputError (a PlasterInputError,
  * so the routes' existing 422 mapping names the field).
  */
-import { TZDate, tzOffset } from '@date-fns/tz'
+import { DateTime } from 'luxon'
 import { PlasterInputError } from './plaster-core'
 
 /** Bad planner or calendar input; `field` names the offending field. */
@@ -99,13 +99,13 @@ const pad = (n: number) => String(n).padStart(2, '0')
 type ZoneOffset = (t: number) => number
 
 /**
- * The zone's UTC offset in minutes (tzOffset: the IANA data through Intl, as TZDate uses) for
+ * The zone's UTC offset in minutes (Luxon's: the IANA data through Intl) for
  * instants around [fromMs, toMs]. Intl is slow (tens of µs a call), so the offset is sampled
  * weekly and each change is bisected to the millisecond; lookups are then a binary search.
  * This misses only a zone that changes and changes back within one week, which no zone does.
  */
 function zoneOffsets(tz: string, fromMs: number, toMs: number): ZoneOffset {
-  const off = (t: number) => tzOffset(tz, new Date(t))
+  const off = (t: number) => DateTime.fromMillis(t, { zone: tz }).offset
   const a = fromMs - 2 * DAY_MS
   const b = toMs + 2 * DAY_MS
   const at = [a]
@@ -138,7 +138,7 @@ function zoneOffsets(tz: string, fromMs: number, toMs: number): ZoneOffset {
  * 0-based): the wall clock read as UTC less the zone's offset, accepted when the offset at the
  * result agrees (the usual two-pass conversion). A time repeated at a fall-back change gets the
  * instant that agrees first; a time inside a spring-forward gap moves forward by the gap, as
- * TZDate does (07:30 is never in a gap in Europe/London, whose changes happen at 01:00 UTC).
+ * Luxon does (07:30 is never in a gap in Europe/London, whose changes happen at 01:00 UTC).
  */
 function localInstant(offset: ZoneOffset, y: number, m: number, d: number, minutes: number): Date {
   const wall = Date.UTC(y, m, d, Math.floor(minutes / 60), minutes % 60)
@@ -162,10 +162,10 @@ export function shiftWindows(input: WorkshopShiftCalendar & { from: Date; to: Da
   const cal = checkCalendar(input)
   const from = assertPlanningDate(input.from, 'from').getTime()
   const to = assertPlanningDate(input.to, 'to').getTime()
-  const local = new TZDate(from, cal.timezone)
+  const local = DateTime.fromMillis(from, { zone: cal.timezone })
   const offset = zoneOffsets(cal.timezone, from, to)
   // Walk local dates with UTC date arithmetic (no DST there), from the local date of `from`.
-  let date = Date.UTC(local.getFullYear(), local.getMonth(), local.getDate())
+  let date = Date.UTC(local.year, local.month - 1, local.day)
   const windows: ShiftWindow[] = []
   for (;;) {
     const u = new Date(date)

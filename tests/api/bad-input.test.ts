@@ -18,7 +18,7 @@ import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { makeScopes, type Scopes } from '../setup/scopes'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 import { ROUTES, routesOnDisk, type RouteRow } from './route-table'
-import { fieldsWithNul } from '../../shared/utils/input-fields'
+import { fieldsWithNul } from '#shared/utils/input-fields'
 import { jsonBodyLimit } from '../../server/utils/body-limits'
 
 const SEED = Number(process.env.FC_SEED ?? 20261202)
@@ -28,7 +28,7 @@ const RANDOM_CASES = 16
 const MALFORMED_CASES = 4
 
 // ---- the shared schemas, by exported name ----
-const SCHEMA_DIR = join(import.meta.dirname, '../../shared/utils')
+const SCHEMA_DIR = join(import.meta.dirname, '..', '..', 'shared', 'utils')
 const SCHEMAS = new Map<string, ZodType>()
 for (const file of readdirSync(SCHEMA_DIR).filter(f => f.endsWith('-schemas.ts') || f === 'mix-request.ts')) {
   const mod: Record<string, unknown> = await import(join(SCHEMA_DIR, file))

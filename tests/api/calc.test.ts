@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop, testDb } from '../setup/fixtures'
-import { GRADE_PRESETS, mixSummary } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, mixSummary } from '#shared/utils/plaster'
 
 let lead = ''
 let client = ''
@@ -18,8 +18,9 @@ describe('POST /api/calc/mix', () => {
   it('returns the plaster model\'s numbers for a whole grade and a cavity', async () => {
     const r = await call('/api/calc/mix', { method: 'POST', cookie: client, body: { ...mix, grade: GRADE_PRESETS['beta-casting'], cavityLitres: 1, maxDwellMinutes: 60 } })
     expect(r.status).toBe(200)
-    // plaster-model.md check value: 1.000 L, beta 2.63 g/cm³ at consistency 70, no waste →
-    // 0.9257 kg plaster, 0.6480 kg water, slurry 1.574 kg/L, cast 1.098 kg dry
+    // Derived check value: 1.000 L, beta 2.63 g/cm³ at consistency 70, no waste →
+    // 1 / (1/2.63 + 0.70) = 0.9257 kg plaster, × 0.70 = 0.6480 kg water, slurry 1.574 kg/L,
+    // cast 0.9257 × 1.18618 = 1.098 kg dry
     expect(r.data.batch.plasterKg).toBeCloseTo(0.9257, 4)
     expect(r.data.batch.waterKg).toBeCloseTo(0.6480, 4)
     expect(r.data.batch.slurryDensity).toBeCloseTo(1.574, 3)

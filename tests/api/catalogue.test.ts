@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, testDb } from '../setup/fixtures'
-import { GRADE_PRESETS, plasterGradeFromPreset } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, plasterGradeFromPreset } from '#shared/utils/plaster'
 
 let lead = ''
 let caster = ''

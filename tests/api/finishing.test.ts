@@ -7,9 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop, makeUser } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
-import { finishingDryBy } from '../../shared/utils/finishing'
-import { dryness } from '../../shared/utils/plaster-drying'
-import { boardLocalDay } from '../../shared/utils/board-rules'
+import { finishingDryBy } from '#shared/utils/finishing'
+import { dryness } from '#shared/utils/plaster-drying'
+import { boardLocalDay } from '#shared/utils/board-rules'
 
 let fx: Awaited<ReturnType<typeof finishingFixture>>
 let finisher = ''

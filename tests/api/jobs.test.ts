@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn, tokenFrom, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, testDb } from '../setup/fixtures'
-import { GRADE_PRESETS, batchForCavity, runCutList } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, batchForCavity, runCutList } from '#shared/utils/plaster'
 
 let lead = ''
 let caster = ''

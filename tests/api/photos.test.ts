@@ -1,7 +1,7 @@
 // Photo routes: refusals by content (not by name) with clear 4xx answers, variants stored with
 // no metadata, who may see or change a photo (404 for everyone else), deletion of the files,
 // and the client's progress route.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import sharp from 'sharp'
@@ -9,11 +9,12 @@ import { call, baseUrl, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { jpegWithGps, photoForm, pixelBombPng, type UploadFile } from '../setup/photo-fixtures'
+import { testContext } from '../setup/context'
 
 const c = { lead: '', caster: '', caster2: '', finisher: '', client: '', client2: '' }
 let fernhill = 0
 let jpeg: Buffer
-const photoDir = inject('photoDir')
+const photoDir = testContext().photoDir
 
 beforeAll(async () => {
   c.lead = await signIn(demo.lead.email, DEMO_PASSWORD)

@@ -5,9 +5,9 @@ import { io, type Socket } from 'socket.io-client'
 import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
-import { batchForCavity } from '../../shared/utils/plaster'
-import { plasterGradeFromRow } from '../../shared/utils/catalogue'
-import { pourTimingFromSlotStart } from '../../shared/utils/pour-timing'
+import { batchForCavity } from '#shared/utils/plaster'
+import { plasterGradeFromRow } from '#shared/utils/catalogue'
+import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 
 // Monday 1 March 2027 (GMT, so local = UTC), far from the demo's days; shift 07:30–16:00.
 const at = (hhmm: string, day = '2027-03-01') => `${day}T${hhmm}:00.000Z`

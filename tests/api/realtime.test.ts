@@ -2,13 +2,14 @@
 // cookie, one room per workshop, a websocket-only first connection, and two app instances
 // on one PostgreSQL passing events to each other (@socket.io/postgres-adapter): a pour moved
 // through one reaches a tablet connected to the other, and a session from either works on both.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import type { ChildProcess } from 'node:child_process'
 import { call, signIn } from '../setup/http'
 import { startAppServer } from '../setup/server'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { testContext } from '../setup/context'
 
 const sockets: Socket[] = []
 let second: { url: string; proc: ChildProcess } | undefined
@@ -46,13 +47,13 @@ async function touchSettings(cookie: string, base?: string) {
   const body = JSON.stringify({ ...get, defaultHumidityPct: get.defaultHumidityPct === 60 ? 61 : 60 })
   const r = base
     ? await fetch(base + path, { method: 'PATCH', headers: { cookie, 'content-type': 'application/json' }, body })
-    : await fetch(inject('baseUrl') + path, { method: 'PATCH', headers: { cookie, 'content-type': 'application/json' }, body })
+    : await fetch(testContext().baseUrl + path, { method: 'PATCH', headers: { cookie, 'content-type': 'application/json' }, body })
   expect(r.status).toBe(200)
 }
 
 /** The second app instance on the same database and session secret, started once for the file. */
 async function secondInstance() {
-  second ??= await startAppServer({ DATABASE_URL: inject('databaseUrl'), NUXT_SESSION_PASSWORD: inject('sessionPassword'), MAIL_FAKE: '0' })
+  second ??= await startAppServer({ DATABASE_URL: testContext().databaseUrl, NUXT_SESSION_PASSWORD: testContext().sessionPassword, MAIL_FAKE: '0' })
   return second
 }
 
@@ -75,13 +76,13 @@ afterAll(async () => {
 
 describe('live updates', () => {
   it('refuses a connection without a session', async () => {
-    await expect(connect(inject('baseUrl'))).rejects.toThrow(/sign in/)
+    await expect(connect(testContext().baseUrl)).rejects.toThrow(/sign in/)
   })
 
   it('delivers a change to the same workshop and not to another', async () => {
-    const mine = await connect(inject('baseUrl'), lead)
+    const mine = await connect(testContext().baseUrl, lead)
     const other = await makeOtherWorkshop()
-    const theirs = await connect(inject('baseUrl'), await signIn(other.lead.email, DEMO_PASSWORD))
+    const theirs = await connect(testContext().baseUrl, await signIn(other.lead.email, DEMO_PASSWORD))
     const leaked = collect(theirs)
     const got = nextLive(mine, 'workshop.updated')
     await touchSettings(lead)
@@ -97,7 +98,7 @@ describe('live updates', () => {
     const me = await fetch(`${other.url}/api/auth/me`, { headers: { cookie: lead } })
     expect(me.status).toBe(200)
     const onSecond = await connect(other.url, lead)
-    const onFirst = await connect(inject('baseUrl'), lead)
+    const onFirst = await connect(testContext().baseUrl, lead)
     const viaSecond = nextLive(onSecond, 'workshop.updated')
     await touchSettings(lead) // through the first instance
     expect((await viaSecond).type).toBe('workshop.updated')
@@ -108,7 +109,7 @@ describe('live updates', () => {
 
   it('a pour moved through one instance reaches a caster\'s tablet on the other; sessions from either work on both', async () => {
     const b = await secondInstance()
-    const a = inject('baseUrl')
+    const a = testContext().baseUrl
     // a session made on B works on A, as the lead's session from A works on B (above)
     const caster = await signInAt(b.url, demo.caster1.email)
     const meOnA = await fetch(`${a}/api/auth/me`, { headers: { cookie: caster } })

@@ -7,13 +7,14 @@
 import { createHash } from 'node:crypto'
 import { readdirSync } from 'node:fs'
 import { request, type ClientRequest } from 'node:http'
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
 import { JSON_BODY_MAX_BYTES } from '../../server/utils/body-limits'
+import { testContext } from '../setup/context'
 
-const photoDir = inject('photoDir')
+const photoDir = testContext().photoDir
 /** PHOTO_MAX_BYTES of the test server (tests/setup/server.ts). */
 const PHOTO_MAX = 2 * 1024 * 1024
 let lead = ''

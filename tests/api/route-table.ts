@@ -36,7 +36,7 @@ import { join, relative } from 'node:path'
 import type { Kind, Scope } from '../setup/scopes'
 import { DEMO_PASSWORD, demoWorkshopId, testDb } from '../setup/fixtures'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
-import { plasterGradeFromPreset } from '../../shared/utils/plaster'
+import { plasterGradeFromPreset } from '#shared/utils/plaster'
 
 export type Role = 'lead' | 'caster' | 'finisher' | 'client'
 /** A cell's answer: 'ok' is any 2xx, a number that status. */

@@ -4,10 +4,11 @@
 // than they must. Against the built server (and, where a setting differs, a second one).
 import { randomBytes, randomUUID } from 'node:crypto'
 import type { ChildProcess } from 'node:child_process'
-import { afterAll, beforeEach, describe, expect, inject, it } from 'vitest'
+import { afterAll, beforeEach, describe, expect, it } from 'vitest'
 import { call, signIn, tokenFrom, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, setPinDirect, testDb } from '../setup/fixtures'
 import { startAppServer } from '../setup/server'
+import { testContext } from '../setup/context'
 
 interface Mail { to: string[]; subject: string; text: string }
 
@@ -22,7 +23,7 @@ afterAll(async () => {
 // A second server shares the database: its mail worker and overdue check must not pick up
 // the main server's outbox while it runs
 const QUIET = { MAIL_WORKER_INTERVAL_MS: '3600000', OVERDUE_CHECK_INTERVAL_MS: '3600000' }
-const baseEnv = () => ({ DATABASE_URL: inject('databaseUrl'), NUXT_SESSION_PASSWORD: inject('sessionPassword'), ...QUIET })
+const baseEnv = () => ({ DATABASE_URL: testContext().databaseUrl, NUXT_SESSION_PASSWORD: testContext().sessionPassword, ...QUIET })
 
 /** Runs `use` against a second built server with these settings, and stops it afterwards. */
 async function withServer(env: Record<string, string>, use: (url: string) => Promise<void>) {
@@ -236,7 +237,7 @@ describe('the client address of the per-address limits', () => {
 
   it('without TRUST_PROXY, X-Forwarded-For is ignored: every request counts for the socket address', async () => {
     const statuses: number[] = []
-    for (let i = 0; i < 6; i++) statuses.push(await resetFrom(inject('baseUrl'), `203.0.113.${i + 1}`))
+    for (let i = 0; i < 6; i++) statuses.push(await resetFrom(testContext().baseUrl, `203.0.113.${i + 1}`))
     expect(statuses).toEqual([200, 200, 200, 200, 200, 429])
     expect(await testDb()('rate_limits').where('key', 'like', 'resetAddress:203.0.113.%')).toEqual([])
   })

@@ -3,11 +3,12 @@
 // changing their role, a password reset, signing out and revoking a tablet drop their open
 // sockets; a client taken off a job stops hearing that job; a handshake from a page of
 // another site is refused. Against the built server and real PostgreSQL.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import { call, freshSession, signIn, tokenFrom, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeUser, setPinDirect, testDb } from '../setup/fixtures'
 import { jpegWithGps, photoForm } from '../setup/photo-fixtures'
+import { testContext } from '../setup/context'
 
 const sockets: Socket[] = []
 let lead = ''
@@ -27,7 +28,7 @@ function connect(cookie?: string, opts: { origin?: string; transports?: string[]
   const extraHeaders: Record<string, string> = {}
   if (cookie) extraHeaders.cookie = cookie
   if (opts.origin) extraHeaders.origin = opts.origin
-  const s = io(inject('baseUrl'), { path: '/socket.io/', transports: opts.transports ?? ['websocket'], extraHeaders, reconnection: false, forceNew: true })
+  const s = io(testContext().baseUrl, { path: '/socket.io/', transports: opts.transports ?? ['websocket'], extraHeaders, reconnection: false, forceNew: true })
   sockets.push(s)
   return new Promise((resolve, reject) => {
     s.once('connect', () => resolve(s))
@@ -206,9 +207,9 @@ describe('the socket handshake\'s Origin', () => {
     await expect(connect(u.cookie, { origin: 'https://attacker.example' })).rejects.toThrow(/does not come from a Setline page/)
     await expect(connect(u.cookie, { origin: 'https://attacker.example', transports: ['polling'] })).rejects.toThrow()
     await expect(connect(u.cookie, { origin: 'null' })).rejects.toThrow(/does not come from a Setline page/)
-    const own = await connect(u.cookie, { origin: new URL(inject('baseUrl')).origin })
+    const own = await connect(u.cookie, { origin: new URL(testContext().baseUrl).origin })
     expect(own.connected).toBe(true)
-    const polling = await connect(u.cookie, { origin: new URL(inject('baseUrl')).origin, transports: ['polling'] })
+    const polling = await connect(u.cookie, { origin: new URL(testContext().baseUrl).origin, transports: ['polling'] })
     expect(polling.connected).toBe(true)
   })
 })

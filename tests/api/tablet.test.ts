@@ -1,11 +1,12 @@
-// Shared tablets (issue 6, part 3): a lead signs a device in, casters and finishers set a PIN
+// Shared tablets: a lead signs a device in, casters and finishers set a PIN
 // and switch in with it, wrong PINs are limited per device and per person, a lead revokes a
 // tablet. Against the built server and real PostgreSQL.
 import { createHash } from 'node:crypto'
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import { call, freshSession, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, setPinDirect, testDb } from '../setup/fixtures'
+import { testContext } from '../setup/context'
 
 let lead = ''
 let ws = 0
@@ -52,7 +53,7 @@ const both = (session: string | undefined, device: string) => `${session}; ${dev
 
 /** A live socket with these cookies: resolves once connected, rejects when the server refuses it. */
 function liveSocket(cookie: string): Promise<Socket> {
-  const s = io(inject('baseUrl'), { path: '/socket.io/', transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true })
+  const s = io(testContext().baseUrl, { path: '/socket.io/', transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true })
   sockets.push(s)
   return new Promise((resolve, reject) => {
     s.once('connect', () => resolve(s))

@@ -6,8 +6,8 @@
  * run lets every item use every mould, the planner's worst case for candidates per piece.
  */
 import { performance } from 'node:perf_hooks'
-import { GRADE_PRESETS } from '../../shared/utils/plaster'
-import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould } from '../../shared/utils/planner'
+import { GRADE_PRESETS } from '#shared/utils/plaster'
+import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould } from '#shared/utils/planner'
 import { record } from './lib/results'
 import { percentile } from './lib/stats'
 

@@ -1,11 +1,12 @@
 // Browser journey on the pour board: the lead creates a pour on an empty slot, drags it
 // to another mould, is refused a clash, then runs the planner and accepts its plan.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Locator, Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 beforeAll(async () => {
   browser = await openBrowser({ width: 1600, height: 1000 })

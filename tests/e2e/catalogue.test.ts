@@ -1,11 +1,12 @@
 // Browser journeys for the catalogue and jobs: a lead sets up a mould and a job with a run
 // item from walls; a client approves a sample; the catalogue pages show their warnings.
-import { afterAll, beforeAll, beforeEach, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 const uid = Math.random().toString(36).slice(2, 6).toUpperCase()
 

@@ -5,15 +5,16 @@
 // in on the same tablet, fettles, weighs, readies and packs the piece; the lead dispatches it
 // and reads the note; the client sees it dispatched, and the mails reached the client. The lead's
 // pages are also checked at tablet width. Screenshots per step: day-NN-*.png.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, setPinDirect, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { signIn, waitForMail } from '../setup/http'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 const PINS = { caster: '2917', finisher: '6048' }
 type Browser = Awaited<ReturnType<typeof openBrowser>>
 let desk: Browser

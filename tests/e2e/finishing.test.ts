@@ -2,13 +2,14 @@
 // the drying room), weighs it dry, marks it ready and, with the Wi-Fi down, packed (the outbox
 // sends it when the connection returns); the lead makes a dispatch note for the job and reads
 // it, and the packed piece leaves the finisher's list live. Screenshots at each step.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof finishingFixture>>
 beforeAll(async () => {

@@ -1,14 +1,15 @@
 // Browser journeys on the caster's tablet (820×1180): a caster starts mixing, marks poured
 // and demoulded on a card (with a photo of the piece) while the lead's board follows live; then, offline, three steps
 // wait in the outbox and land exactly once when the Wi-Fi comes back.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
 beforeAll(async () => {

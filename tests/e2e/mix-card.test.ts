@@ -1,9 +1,10 @@
 // Browser journey: a caster opens the mix card, adds water, and sees the demould window move.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 beforeAll(async () => {
   browser = await openBrowser(VIEWPORTS.tablet)

@@ -5,14 +5,15 @@
 // disables Ada) stops the outbox at one 401 and asks for a sign-in; the step stays pending and
 // lands under Ada's name once she is back. A step from before owners were recorded waits for
 // a lead. The register's events (who did each step) are read from the database.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page, Request } from 'playwright-core'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeUser, setPinDirect } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 const ACTIONS = /^\/api\/pours\/\d+\/actions$/
 const isAction = (u: URL) => ACTIONS.test(u.pathname)
 let browser: Awaited<ReturnType<typeof openBrowser>>

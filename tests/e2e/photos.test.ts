@@ -1,13 +1,14 @@
 // Browser journey for photos: a lead adds two photos to a job on the job page (with the upload
 // progress bar), shares them, and the job's client, in another browser, sees them in the gallery
 // on a phone and pages through them in the lightbox.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
 import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 const uid = Math.random().toString(36).slice(2, 6).toUpperCase()
 let staff: Awaited<ReturnType<typeof openBrowser>>
 let client: Awaited<ReturnType<typeof openBrowser>>

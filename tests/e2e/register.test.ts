@@ -2,12 +2,13 @@
 // through the floor API (one sound, one cracked), filtered in the register, exported as
 // CSV with the same filter, and counted on the quality page with its charts drawn.
 import { readFileSync } from 'node:fs'
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof finishingFixture>>
 beforeAll(async () => {

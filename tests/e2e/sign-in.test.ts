@@ -1,9 +1,10 @@
 // Browser journey: each demo role signs in through the form and lands on its own home.
-import { afterAll, beforeAll, beforeEach, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { openBrowser, screenshot, submitSignIn, VIEWPORTS } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 
 beforeAll(async () => {

@@ -1,13 +1,14 @@
 // The shared tablet on a tablet-sized screen (820×1180): the lead signs the device in as a
 // shared tablet, a caster switches in with the keypad and sees the floor, then "Switch
 // person" hands the tablet to the finisher, who sees the fettling queue. Screenshots per step.
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
+import { testContext } from '../setup/context'
 
-const base = inject('baseUrl')
+const base = testContext().baseUrl
 const PINS = { caster: '3958', finisher: '8163' }
 let browser: Awaited<ReturnType<typeof openBrowser>>
 

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { mountSuspended } from '@nuxt/test-utils/runtime'
 import MixCard from '../../app/components/mix/MixCard.vue'
-import { GRADE_PRESETS, mixSummary } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, mixSummary } from '#shared/utils/plaster'
 
 const grades = [{ id: 1, name: 'Fine casting (beta)', bagKg: 25, grade: GRADE_PRESETS['beta-casting'] }]
 const moulds = [{ id: 7, code: 'T-1', casts: 'Test panel', cavityLitres: 1, maxDwellMinutes: 120 }]
@@ -21,8 +21,8 @@ describe('MixCard', () => {
     const expected = mixSummary({ cavityLitres: 1, grade: GRADE_PRESETS['beta-casting'], consistency: 70, wastePct: 5, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1, maxDwellMinutes: 120 })
     expect(text(w, 'mix-plaster')).toBe(`${expected.batch.plasterKg.toFixed(2)} kg`)
     expect(text(w, 'mix-water')).toBe(`${expected.batch.waterKg.toFixed(2)} kg`)
-    // plaster-model.md: the beta casting preset at consistency 70 in a 20 °C shop opens in
-    // 20–45 min (common practice); the window closes after the mould's 120 min dwell
+    // The beta casting preset at consistency 70 in a 20 °C shop opens in 20–45 min (common
+    // practice, no published source); the window closes after the mould's 120 min dwell
     const [open, close] = text(w, 'mix-window').replace(' min', '').split('–').map(Number)
     expect(open).toBeGreaterThanOrEqual(20)
     expect(open).toBeLessThanOrEqual(45)

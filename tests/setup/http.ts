@@ -1,10 +1,10 @@
 // Small HTTP helpers for API tests against the built server.
-import { inject } from 'vitest'
+import { testContext } from './context'
 
 export interface CallResult<T = any> { status: number; data: T; cookie?: string; headers: Headers }
 
 export function baseUrl() {
-  return inject('baseUrl')
+  return testContext().baseUrl
 }
 
 function sessionCookie(headers: Headers): string | undefined {

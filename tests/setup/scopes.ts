@@ -9,7 +9,7 @@ import { randomUUID } from 'node:crypto'
 import { call } from './http'
 import { demo, demoWorkshopId, testDb } from './fixtures'
 import { jpegWithGps, photoForm } from './photo-fixtures'
-import { plasterGradeFromPreset } from '../../shared/utils/plaster'
+import { plasterGradeFromPreset } from '#shared/utils/plaster'
 
 export type ScopeName = 'own' | 'other' | 'otherClient'
 export const SCOPES: ScopeName[] = ['own', 'other', 'otherClient']

@@ -1,18 +1,15 @@
-// vitest globalSetup for the api and e2e projects: starts the built server (.output) against
-// the run's throwaway database, with its own SMTP fake, and stops it afterwards.
-import { spawn, type ChildProcess } from 'node:child_process'
-import { existsSync, mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { randomBytes } from 'node:crypto'
-import { join, resolve } from 'node:path'
+// The built app server (.output) for tests and benchmarks, and the vitest globalSetup of the api
+// and e2e projects: it hands each test file the run's seeded template database, from which
+// tests/setup/per-file.ts clones the file's own database and starts the file's own server.
+import { spawn } from 'node:child_process'
+import { existsSync } from 'node:fs'
+import { resolve } from 'node:path'
 import type { TestProject } from 'vitest/node'
 import { freePort } from './throwaway-db'
 
 declare module 'vitest' {
-  export interface ProvidedContext { baseUrl: string; databaseUrl: string; sessionPassword: string; photoDir: string }
+  export interface ProvidedContext { templateUrl: string }
 }
-
-let child: ChildProcess | undefined
 
 /** Starts the built app; with `output`, what it prints is also collected there (a test reads its log). */
 export async function startAppServer(env: Record<string, string>, output?: string[]) {
@@ -53,21 +50,7 @@ export async function startAppServer(env: Record<string, string>, output?: strin
 }
 
 export default async function setup(project: TestProject) {
-  const databaseUrl = process.env.SETLINE_TEST_DATABASE_URL
-  if (!databaseUrl) throw new Error('SETLINE_TEST_DATABASE_URL is not set: run the suite with npm test')
-  const sessionPassword = randomBytes(24).toString('hex')
-  // photos go to a throwaway folder; a 2 MB limit lets the tests send an oversize file cheaply
-  const photoDir = mkdtempSync(join(tmpdir(), 'setline-photos-'))
-  const started = await startAppServer({ DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, PHOTO_STORAGE_DIR: photoDir, PHOTO_MAX_BYTES: String(2 * 1024 * 1024) })
-  child = started.proc
-  project.provide('baseUrl', started.url)
-  project.provide('databaseUrl', databaseUrl)
-  project.provide('sessionPassword', sessionPassword)
-  project.provide('photoDir', photoDir)
-  return async () => {
-    child?.kill('SIGTERM')
-    await new Promise(r => setTimeout(r, 300))
-    if (child && child.exitCode === null) child.kill('SIGKILL')
-    rmSync(photoDir, { recursive: true, force: true })
-  }
+  const templateUrl = process.env.SETLINE_TEST_DATABASE_URL
+  if (!templateUrl) throw new Error('SETLINE_TEST_DATABASE_URL is not set: run the suite with npm test')
+  project.provide('templateUrl', templateUrl)
 }

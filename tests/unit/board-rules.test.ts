@@ -14,8 +14,8 @@ import {
   pourWarnings,
   requisitionLine,
   type PourWarningFacts,
-} from '../../shared/utils/board-rules'
-import { boardDaySpan, boardRangeSchema } from '../../shared/utils/pour-schemas'
+} from '#shared/utils/board-rules'
+import { boardDaySpan, boardRangeSchema } from '#shared/utils/pour-schemas'
 
 const close = new Date('2027-03-01T12:00:00Z')
 const min = (n: number) => n * 60_000

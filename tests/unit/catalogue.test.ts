@@ -3,10 +3,10 @@
 import { describe, expect, it } from 'vitest'
 import {
   LOW_STOCK_BAGS, plasterGradeFromRow, itemPiecesNeeded, itemPlaster, jobReleased, lotStock, lotUsedKg, mouldLife,
-} from '../../shared/utils/catalogue'
-import { GRADE_PRESETS, batchForCavity } from '../../shared/utils/plaster'
-import { lotCreateSchema, mouldCreateSchema, mouldStateSchema } from '../../shared/utils/catalogue-schemas'
-import { jobItemCreateSchema, sampleDecisionSchema } from '../../shared/utils/job-schemas'
+} from '#shared/utils/catalogue'
+import { GRADE_PRESETS, batchForCavity } from '#shared/utils/plaster'
+import { lotCreateSchema, mouldCreateSchema, mouldStateSchema } from '#shared/utils/catalogue-schemas'
+import { jobItemCreateSchema, sampleDecisionSchema } from '#shared/utils/job-schemas'
 
 const sums = (state: string, actualKg: number, plannedWithoutActualKg: number) => ({ state: state as 'planned', actualKg, plannedWithoutActualKg })
 

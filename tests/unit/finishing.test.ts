@@ -1,9 +1,9 @@
 // Finishing's pure rules: the cast's estimated drying area, the dry-by time, the weight a piece
 // is lifted at, and the action and dispatch schemas (fields named when wrong, order of states).
 import { describe, expect, it } from 'vitest'
-import { PlasterInputError, castExposedAreaM2, dryingEstimate } from '../../shared/utils/plaster'
-import { FINISHING_TEAM_LIFT_KG, finishingDryBy, finishingHandlingKg } from '../../shared/utils/finishing'
-import { FINISHING_STEPS, finishingActionSchema, finishingDispatchSchema } from '../../shared/utils/finishing-schemas'
+import { PlasterInputError, castExposedAreaM2, dryingEstimate } from '#shared/utils/plaster'
+import { FINISHING_TEAM_LIFT_KG, finishingDryBy, finishingHandlingKg } from '#shared/utils/finishing'
+import { FINISHING_STEPS, finishingActionSchema, finishingDispatchSchema } from '#shared/utils/finishing-schemas'
 
 const id = '0b7f6f0e-2f5b-4c1e-9a7e-5d2f3c4b1a09'
 const fields = (schema: typeof finishingActionSchema | typeof finishingDispatchSchema, v: unknown) => {

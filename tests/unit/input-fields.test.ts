@@ -1,8 +1,8 @@
 // The shared input building blocks: days and instants PostgreSQL can hold, ids written as text.
 import { describe, expect, it } from 'vitest'
-import { idText, isCalendarDay, isCalendarInstant } from '../../shared/utils/input-fields'
-import { dayField, versionField } from '../../shared/utils/catalogue-schemas'
-import { pourMoveSchema, daySheetQuerySchema } from '../../shared/utils/pour-schemas'
+import { idText, isCalendarDay, isCalendarInstant } from '#shared/utils/input-fields'
+import { dayField, versionField } from '#shared/utils/catalogue-schemas'
+import { pourMoveSchema, daySheetQuerySchema } from '#shared/utils/pour-schemas'
 
 describe('isCalendarDay', () => {
   it('takes real days from 1900 to 2999 only', () => {

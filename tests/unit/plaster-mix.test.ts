@@ -19,7 +19,7 @@ import {
   slurryTemperature,
   type PlasterGrade,
   type PlasterGradePresetKey,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 const beta = GRADE_PRESETS['beta-casting']
 const alpha = GRADE_PRESETS['alpha-casting']
@@ -70,17 +70,17 @@ describe('stoichiometry', () => {
     const kJ = (grams: number, jPerG: number) => (grams * jPerG) / 1000
     expect(kJ(1000, beta.hydrationHeat)).toBeCloseTo(132.6, 1) // 1 kg β → 132.6 kJ (Southard 1940)
     expect(kJ(1000, alpha.hydrationHeat)).toBeCloseTo(118.2, 1) // 1 kg α → 118.2 kJ (Southard 1940)
-    expectNear(kJ(925.7, beta.hydrationHeat), 122.7, 0.01) // the 1 L batch's 925.7 g → 122.7 kJ ± 1 % (science.md TC8)
+    expectNear(kJ(925.7, beta.hydrationHeat), 122.7, 0.01) // derived: the 1 L batch's 925.7 g × 132.6 J/g (Southard 1940) = 122.7 kJ, ± 1 %
   })
 })
 
 describe('batchForCavity', () => {
   it('fills 1.000 L with beta at 70: 0.9257 kg plaster, 0.6480 kg water, 1.574 kg/L', () => {
     const b = batchForCavity({ cavityLitres: 1, consistency: 70, grade: beta, wastePct: 0 })
-    expect(b.plasterKg).toBeCloseTo(0.9257, 4) // plaster-model.md example: 1 / (1/2.63 + 0.70)
-    expect(b.waterKg).toBeCloseTo(0.648, 4) // plaster-model.md example
-    expect(b.slurryDensity).toBeCloseTo(1.574, 3) // plaster-model.md example (science.md TC3)
-    expect(b.slurryKg).toBeCloseTo(1.5737, 4) // 925.7 g + 648.0 g (science.md TC3)
+    expect(b.plasterKg).toBeCloseTo(0.9257, 4) // derived: 1 / (1/2.63 + 0.70) = 0.9257 kg
+    expect(b.waterKg).toBeCloseTo(0.648, 4) // derived: 0.9257 × 0.70 = 0.6480 kg
+    expect(b.slurryDensity).toBeCloseTo(1.574, 3) // derived: (0.9257 + 0.6480) kg / 1.000 L
+    expect(b.slurryKg).toBeCloseTo(1.5737, 4) // derived: 925.7 g + 648.0 g
     expect(b.slurryLitres).toBe(1)
   })
 
@@ -114,23 +114,23 @@ describe('batchForCavity', () => {
 describe('castFromBatch', () => {
   it('gives the set cast of the 1 L beta batch: dry 1.098 kg, free water 0.4757 kg, porosity 0.527', () => {
     const c = castFromBatch({ plasterKg: 0.925730376627948, waterKg: 0.6480112636395635, grade: beta })
-    expect(c.dryMassKg).toBeCloseTo(1.098, 3) // plaster-model.md example (science.md TC7: 1098.1 g)
-    expect(c.freeWaterKg).toBeCloseTo(0.4757, 4) // plaster-model.md example (science.md TC7: 475.7 g)
-    expect(c.porosity).toBeCloseTo(0.527, 3) // plaster-model.md example
-    expect(c.dryDensity).toBeCloseTo(1.098, 3) // science.md §2: 118.62 / 108.02
+    expect(c.dryMassKg).toBeCloseTo(1.098, 3) // derived: 925.7 g × 1.18618 = 1098.1 g
+    expect(c.freeWaterKg).toBeCloseTo(0.4757, 4) // derived: 648.0 g − 925.7 g × 0.18618 = 475.7 g
+    expect(c.porosity).toBeCloseTo(0.527, 3) // derived: 1 − (1.0981 kg / 2.32 kg/L) / 1.000 L
+    expect(c.dryDensity).toBeCloseTo(1.098, 3) // derived per 100 g: 118.62 g / (100/2.63 + 70) cm³ = 118.62 / 108.02
     expect(c.boundWaterKg).toBeCloseTo(0.9257 * 0.18618, 4) // IUPAC: 18.618 per 100
     expect(c.wetMassKg).toBeCloseTo(1.5737, 4) // nothing leaves the mould while it sets
   })
 
   it('matches the derived dry densities and porosities at other consistencies', () => {
     const at = (grade: PlasterGrade, c: number) => castFromBatch({ plasterKg: 1, waterKg: c / 100, grade })
-    expect(at(beta, 60).porosity).toBeCloseTo(0.478, 3) // science.md TC5 (derived)
-    expect(at(beta, 60).dryDensity).toBeCloseTo(1.21, 3) // science.md TC5 (derived)
-    expect(at(beta, 74).porosity).toBeCloseTo(0.544, 3) // science.md TC5 (derived)
-    expect(at(beta, 74).dryDensity).toBeCloseTo(1.059, 3) // science.md TC5 (derived)
+    expect(at(beta, 60).porosity).toBeCloseTo(0.478, 3) // derived: 1 − (1.18618/2.32) / (1/2.63 + 0.60)
+    expect(at(beta, 60).dryDensity).toBeCloseTo(1.21, 3) // derived: 1.18618 / (1/2.63 + 0.60) = 1.210
+    expect(at(beta, 74).porosity).toBeCloseTo(0.544, 3) // derived: 1 − (1.18618/2.32) / (1/2.63 + 0.74)
+    expect(at(beta, 74).dryDensity).toBeCloseTo(1.059, 3) // derived: 1.18618 / (1/2.63 + 0.74) = 1.059
     const alpha2757 = { ...alpha, powderDensity: 2.757 }
-    expect(at(alpha2757, 38).dryDensity).toBeCloseTo(1.597, 3) // science.md TC6 (derived, ρ_α 2.757)
-    expect(at(alpha2757, 45).dryDensity).toBeCloseTo(1.46, 3) // science.md TC6 (derived, ρ_α 2.757)
+    expect(at(alpha2757, 38).dryDensity).toBeCloseTo(1.597, 3) // derived: 1.18618 / (1/2.757 + 0.38) = 1.597
+    expect(at(alpha2757, 45).dryDensity).toBeCloseTo(1.46, 3) // derived: 1.18618 / (1/2.757 + 0.45) = 1.460
   })
 
   it('puts beta casts at the porosity Sattler reports for commercial products', () => {
@@ -143,7 +143,7 @@ describe('castFromBatch', () => {
 
   it('counts impurity as inert mass', () => {
     const c = castFromBatch({ plasterKg: 1, waterKg: 0.7, grade: { ...beta, purity: 0.9 } })
-    expect(c.dryMassKg).toBeCloseTo(0.9 * 1.18618 + 0.1, 5) // plaster-model.md formula
+    expect(c.dryMassKg).toBeCloseTo(0.9 * 1.18618 + 0.1, 5) // derived: the hemihydrate becomes gypsum, the rest stays as it is
     expect(c.boundWaterKg).toBeCloseTo(0.9 * 0.18618, 5)
   })
 
@@ -168,7 +168,7 @@ describe('slurryTemperature', () => {
 
   it('balances heat: 0.7 kg water at 30 °C with 1 kg powder at 10 °C gives 25.62 °C', () => {
     // By hand: (0.7 × 4.18 × 30 + 1 × 0.82 × 10) / (0.7 × 4.18 + 1 × 0.82) = 95.98 / 3.746 = 25.62
-    // (plaster-model.md: water 4.18, hemihydrate ≈ 0.82 J/g·K)
+    // (water 4.18 J/g·K, IAPWS-95 4.182; hemihydrate ≈ 0.82 J/g·K = Cp 119.4 J/mol·K ÷ 145.142, the Cp recalled from memory)
     expect(slurryTemperature({ plasterKg: 1, waterKg: 0.7, waterTempC: 30, powderTempC: 10 })).toBeCloseTo(25.62, 2)
   })
 
@@ -182,14 +182,14 @@ describe('slurryTemperature', () => {
 describe('relativeStrength', () => {
   it('beta at 60 is about 1.75 × as strong as at 80 (n = 3)', () => {
     // By hand: 1 − p = 0.51128 / 0.98023 = 0.52160 at 60, 0.51128 / 1.18023 = 0.43321 at 80;
-    // (0.52160 / 0.43321)^3 = 1.2040^3 = 1.745 (plaster-model.md: "about 1.75"; science.md TC12)
+    // (0.52160 / 0.43321)^3 = 1.2040^3 = 1.745 (σ ∝ (1 − p)^n, n = 3 within Sattler 1997's 2.5–3.5)
     expect(relativeStrength({ grade: beta, consistency: 60, refConsistency: 80 })).toBeCloseTo(1.745, 3)
   })
 
   it('spans 1.59–1.92 over the exponents Sattler 1997 reports (2.5–3.5)', () => {
     const at = (exponent: number) => relativeStrength({ grade: beta, consistency: 60, refConsistency: 80, exponent })
-    expect(at(2.5)).toBeCloseTo(1.59, 2) // science.md TC12 (derived from Sattler 1997)
-    expect(at(3.5)).toBeCloseTo(1.92, 2) // science.md TC12 (derived from Sattler 1997)
+    expect(at(2.5)).toBeCloseTo(1.59, 2) // derived: 1.2040^2.5 = 1.591 (n from Sattler 1997)
+    expect(at(3.5)).toBeCloseTo(1.92, 2) // derived: 1.2040^3.5 = 1.915 (n from Sattler 1997)
   })
 
   it('is 1 at the grade default and falls with more water', () => {
@@ -211,9 +211,9 @@ describe('grade presets', () => {
   })
 
   it('uses the design and handbook powder densities and Southard heats', () => {
-    expect(beta.powderDensity).toBe(2.63) // plaster-model.md; Ullmann's 2.619–2.637 (recalled)
+    expect(beta.powderDensity).toBe(2.63) // inside Ullmann's 2.619–2.637 (recalled from memory)
     expect(GRADE_PRESETS['beta-fibrous'].powderDensity).toBe(2.63)
-    expect(alpha.powderDensity).toBeGreaterThanOrEqual(2.757) // science.md §2: α 2.757–2.76
+    expect(alpha.powderDensity).toBeGreaterThanOrEqual(2.757) // α 2.757 (Ullmann's, recalled) to 2.76 (an Elsevier reference text)
     expect(alpha.powderDensity).toBeLessThanOrEqual(2.76)
     expect(beta.hydrationHeat).toBeCloseTo(132.6, 1) // Southard 1940
     expect(alpha.hydrationHeat).toBeCloseTo(118.2, 1) // Southard 1940
@@ -228,7 +228,7 @@ describe('grade presets', () => {
 
   it('opens the beta casting window in 20–45 min at 70 in a 20 °C shop', () => {
     const w = demouldWindow({ grade: beta, consistency: 70, slurryTempC: 20, maxDwellMinutes: 0, setFactor: 1 })
-    expect(w.openMinutes).toBeGreaterThanOrEqual(20) // common practice, no source (plaster-model.md)
+    expect(w.openMinutes).toBeGreaterThanOrEqual(20) // 20–45 min: common practice (no published source)
     expect(w.openMinutes).toBeLessThanOrEqual(45)
     expect(w.warnings).toEqual([])
   })
@@ -300,13 +300,13 @@ describe('mixSummary', () => {
 
   it('puts the whole mix card together for the 1 L beta example', () => {
     const m = mixSummary(base)
-    expect(m.batch.plasterKg).toBeCloseTo(0.9257, 4) // plaster-model.md example
+    expect(m.batch.plasterKg).toBeCloseTo(0.9257, 4) // derived: 1 / (1/2.63 + 0.70) = 0.9257 kg
     expect(m.slurryTempC).toBeCloseTo(20, 10)
     expect(m.window.openMinutes).toBeCloseTo(30, 10) // the beta casting preset's reference time
     expect(m.window.closeMinutes).toBeCloseTo(90, 10) // open + dwell
-    expect(m.cast.dryMassKg).toBeCloseTo(1.098, 3) // plaster-model.md example
+    expect(m.cast.dryMassKg).toBeCloseTo(1.098, 3) // derived: 0.9257 kg × 1.18618 = 1.098 kg
     expect(m.relativeStrength).toBeCloseTo(1, 12)
-    expect(m.adiabaticRiseC).toBeCloseTo(37, 0) // science.md TC9 (derived): 37 K at 0.70
+    expect(m.adiabaticRiseC).toBeCloseTo(37, 0) // derived: 132.6 J/g / 3.588 J/K per g powder = 37 K at 0.70
     expect(m.peakTempUpperBoundC).toBeCloseTo(m.slurryTempC + m.adiabaticRiseC, 12)
     expect(m.burnCaution).toBe(false) // 1.57 kg of slurry: under the 5 kg caution mass
     expect(m.warnings).toEqual([])
@@ -317,7 +317,7 @@ describe('mixSummary', () => {
     expect(setCurve[0]).toEqual({ minutes: 0, hydration: 0, riseC: 0 })
     expect(setCurve.at(-1)!.minutes).toBe(Math.ceil(window.openMinutes * 1.5))
     expect(setCurve.at(-1)!.hydration).toBeGreaterThan(0.99)
-    expect(setCurve.find(p => p.minutes === 30)!.hydration).toBeCloseTo(0.9, 10) // plaster-model.md: α = 0.9 at demould
+    expect(setCurve.find(p => p.minutes === 30)!.hydration).toBeCloseTo(0.9, 10) // the illustrative curve is scaled to α = 0.9 at demould (design choice)
   })
 
   it('uses the heat-balance slurry temperature for the window', () => {

@@ -17,7 +17,7 @@ import {
   usGallonsToLitres,
   wetBulbC,
   type PlasterGradePresetKey,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 const EPS = 1e-9
 const grades = fc.constantFrom(...(Object.keys(GRADE_PRESETS) as PlasterGradePresetKey[])).map(k => GRADE_PRESETS[k])

@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest'
-import { mixInputSchema, plasterGradeSchema, type MixInput } from '../../shared/utils/plaster-schema'
-import { GRADE_PRESETS, mixSummary, type PlasterMixInput } from '../../shared/utils/plaster'
+import { mixInputSchema, plasterGradeSchema, type MixInput } from '#shared/utils/plaster-schema'
+import { GRADE_PRESETS, mixSummary, type PlasterMixInput } from '#shared/utils/plaster'
 
 const beta = GRADE_PRESETS['beta-casting']
 const valid = {

@@ -10,7 +10,7 @@ import {
   setCurve,
   setTimeTemperatureFactor,
   type PlasterGradePresetKey,
-} from '../../shared/utils/plaster'
+} from '#shared/utils/plaster'
 
 const beta = GRADE_PRESETS['beta-casting']
 const alpha = GRADE_PRESETS['alpha-casting']
@@ -103,12 +103,12 @@ describe('demouldWindow', () => {
 
 describe('adiabaticRiseC', () => {
   it('matches the derived rises: β 37 °C at 70, 42 °C at 60; α 37 °C at 60', () => {
-    // Mean of the heat capacity before and after setting, per g powder (science.md §6):
+    // Mean of the heat capacity before and after setting, per g powder (derived; heat from Southard 1940):
     // β at 0.70: before 0.82 + 2.926 = 3.746, after 1.2829 + 0.5138 × 4.18 = 3.4306 J/K;
     // 132.6 / 3.5883 = 36.95 °C
     expect(adiabaticRiseC({ grade: beta, consistency: 70 })).toBeCloseTo(36.95, 1)
-    expect(adiabaticRiseC({ grade: beta, consistency: 60 })).toBeCloseTo(42, 0) // science.md TC9 (derived)
-    expect(adiabaticRiseC({ grade: { ...alpha, consistency: { min: 28, max: 60, default: 35 } }, consistency: 60 })).toBeCloseTo(37, 0) // science.md TC9
+    expect(adiabaticRiseC({ grade: beta, consistency: 60 })).toBeCloseTo(42, 0) // derived the same way: 42 K at 0.60
+    expect(adiabaticRiseC({ grade: { ...alpha, consistency: { min: 28, max: 60, default: 35 } }, consistency: 60 })).toBeCloseTo(37, 0) // derived the same way with α's 118.2 J/g: 37 K at 0.60
   })
 
   it('falls with more water (more heat capacity per gram of plaster)', () => {
@@ -121,7 +121,7 @@ describe('setCurve', () => {
     const curve = setCurve({ grade: beta, consistency: 70, slurryTempC: 20, stepMinutes: 5, untilMinutes: 60 })
     expect(curve.map(p => p.minutes)).toEqual([0, 5, 10, 15, 20, 25, 30, 35, 40, 45, 50, 55, 60])
     const at30 = curve.find(p => p.minutes === 30)!
-    expect(at30.hydration).toBeCloseTo(0.9, 12) // plaster-model.md: α = 0.9 at demould
+    expect(at30.hydration).toBeCloseTo(0.9, 12) // the illustrative curve is scaled to α = 0.9 at demould (design choice)
     expect(at30.riseC).toBeCloseTo(0.9 * adiabaticRiseC({ grade: beta, consistency: 70 }), 10)
     // Avrami n = 2.5 by hand: α(15) = 1 − exp(−ln 10 × 0.5^2.5) = 1 − exp(−0.40705) = 0.3344
     expect(curve.find(p => p.minutes === 15)!.hydration).toBeCloseTo(0.3344, 4)

@@ -1,16 +1,16 @@
 import { describe, it, expect } from 'vitest'
-import { GRADE_PRESETS, PlasterInputError } from '../../shared/utils/plaster'
+import { GRADE_PRESETS, PlasterInputError } from '#shared/utils/plaster'
 import {
   POUR_MIX_MINUTES_DEFAULT,
   dwellWarning,
   pourTiming,
   pourTimingFromSlotStart,
   pourTimingMinutes,
-} from '../../shared/utils/pour-timing'
+} from '#shared/utils/pour-timing'
 
 // Preset values relied on (plaster-presets.ts): beta casting demouldMinutesRef 30 at its default
 // consistency 70, set-time water exponent 1.2, temperature factor 1 at 20 °C and 1.3 at 10 °C.
-// 30 min at 70 and 20 °C sits inside the 20–45 min that is common practice (plaster-model.md).
+// 30 min at 70 and 20 °C sits inside the 20–45 min that is common practice (no published source).
 const beta = GRADE_PRESETS['beta-casting']
 const mould = { prepMinutes: 10, cleanMinutes: 15, maxDwellMinutes: 120 }
 const mixAt = new Date('2026-12-07T09:00:00Z')

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { NOT_RECORDED, qualityFigures, temperatureBand, type QualityPour } from '../../shared/utils/quality'
-import { notifyPrefsOf, notifyPrefsPatchSchema } from '../../shared/utils/notify-schemas'
+import { NOT_RECORDED, qualityFigures, temperatureBand, type QualityPour } from '#shared/utils/quality'
+import { notifyPrefsOf, notifyPrefsPatchSchema } from '#shared/utils/notify-schemas'
 
 const at = (min: number) => new Date(Date.UTC(2027, 0, 4, 9) + min * 60_000)
 function pour(over: Partial<QualityPour> = {}): QualityPour {

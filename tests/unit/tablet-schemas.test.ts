@@ -1,6 +1,6 @@
 // Tablet PIN rules: 4 to 8 digits, not one digit repeated, not a straight run up or down.
 import { describe, expect, it } from 'vitest'
-import { tabletNewPin, tabletPinSetSchema, tabletPinWeakness, tabletSwitchSchema } from '../../shared/utils/tablet-schemas'
+import { tabletNewPin, tabletPinSetSchema, tabletPinWeakness, tabletSwitchSchema } from '#shared/utils/tablet-schemas'
 
 const ok = (pin: unknown) => tabletNewPin.safeParse(pin).success
 

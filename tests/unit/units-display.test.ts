@@ -2,7 +2,7 @@
 // 1 US gal = 3.785411784 L, °F = 1.8 °C + 32) and round trips back to metric.
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { formatUnits, fromDisplay, toDisplay } from '../../shared/utils/units-display'
+import { formatUnits, fromDisplay, toDisplay } from '#shared/utils/units-display'
 
 describe('display units', () => {
   it('formats metric and imperial with their units', () => {
