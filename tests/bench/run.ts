@@ -3,8 +3,8 @@
  * one after another so they do not compete for the machine's cores, against one throwaway
  * PostgreSQL with the demo workshop (BENCH_DATABASE_URL). Each script reports its headline
  * figures through lib/results.ts; at the end they are printed as one table (figure, target, met?)
- * and written with the date and the machine to test-output/bench.json and test-output/bench.md,
- * ready for the README. Exits non-zero only when a script crashes; timings are never asserted.
+ * and written with the date and the machine to test-output/bench.json and test-output/bench.md;
+ * a run of every script also rewrites tests/bench/results.md, the table the README links. Exits non-zero only when a script crashes; timings are never asserted.
  * `npm run bench -- readers realtime` runs only the scripts whose names contain those words.
  */
 import { spawnSync } from 'node:child_process'
@@ -92,6 +92,10 @@ async function main() {
   writeFileSync(join(out, 'bench.json'), JSON.stringify({ measuredAt: started.toISOString(), machine: { ...m, loadAverage1mAfter: loadAfter }, figures }, null, 2) + '\n')
   writeFileSync(join(out, 'bench.md'), markdown(figures, started, m, loadAfter))
   console.log('\nwritten: test-output/bench.json, test-output/bench.md')
+  if (!only.length && !failed) {
+    writeFileSync(join(here, 'results.md'), `# Benchmark figures\n\nWritten by \`npm run bench\` (every script; tests/bench/run.ts). ${markdown(figures, started, m, loadAfter)}`)
+    console.log('written: tests/bench/results.md (the table the README links)')
+  }
   process.exitCode = failed ? 1 : 0
 }
 
