@@ -5,7 +5,7 @@
 import { randomBytes, randomUUID } from 'node:crypto'
 import type { ChildProcess } from 'node:child_process'
 import { afterAll, beforeEach, describe, expect, it } from 'vitest'
-import { call, signIn, tokenFrom, waitForMail } from '../setup/http'
+import { call, freshSession, signIn, tokenFrom, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, makeOtherWorkshop, makeUser, setPinDirect, testDb } from '../setup/fixtures'
 import { startAppServer } from '../setup/server'
 import { testContext } from '../setup/context'
@@ -202,7 +202,9 @@ describe('reset and invitation links', () => {
 })
 
 describe('PIN limits', () => {
-  async function tabletOf(cookie: string) {
+  // making a device a tablet ends the lead's session there: each tablet gets a session of its own
+  async function tabletOf(leadEmail: string) {
+    const cookie = await freshSession(leadEmail, DEMO_PASSWORD)
     const r = await call('/api/tablets', { method: 'POST', cookie, body: { name: `Tablet ${randomUUID().slice(0, 5)}` } })
     expect(r.status).toBe(201)
     return r.headers.getSetCookie().find(c => c.startsWith('setline-tablet='))!.split(';')[0]!
@@ -215,12 +217,11 @@ describe('PIN limits', () => {
     const caster = await makeUser(ws, 'caster', 'pin-target')
     await setPinDirect(caster.id, '5309')
     const other = await makeOtherWorkshop()
-    const otherLead = await signIn(other.lead.email, DEMO_PASSWORD)
     for (let t = 0; t < 2; t++) {
-      const device = await tabletOf(otherLead)
+      const device = await tabletOf(other.lead.email)
       for (let i = 0; i < 5; i++) expect((await switchTo(device, caster.id, `900${i}`)).status).toBe(401)
     }
-    const own = await tabletOf(await signIn(demo.lead.email, DEMO_PASSWORD))
+    const own = await tabletOf(demo.lead.email)
     expect((await switchTo(own, caster.id, '5309')).status).toBe(200)
   }, 120_000) // eleven PIN checks, each a scrypt (slow on purpose)
 })
