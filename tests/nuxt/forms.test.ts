@@ -5,10 +5,11 @@ import { beforeEach, describe, expect, it } from 'vitest'
 import { flushPromises } from '@vue/test-utils'
 import { mountSuspended, registerEndpoint } from '@nuxt/test-utils/runtime'
 import { readBody } from 'h3'
-import type { BenchRow, GradeRow } from '#shared/types/catalogue'
+import type { BenchRow, GradeRow, MouldRow } from '#shared/types/catalogue'
 import CatalogueLotForm from '../../app/components/catalogue/CatalogueLotForm.vue'
 import CatalogueMouldForm from '../../app/components/catalogue/CatalogueMouldForm.vue'
 import TabletPinForm from '../../app/components/tablet/TabletPinForm.vue'
+import JobsItemForm from '../../app/components/jobs/JobsItemForm.vue'
 
 /** The bodies each mocked route received, by method and path. */
 const sent: { method: string; path: string; body: unknown }[] = []
@@ -91,6 +92,43 @@ describe('CatalogueMouldForm', () => {
     expect(sent).toEqual([{ method: 'POST', path: '/api/moulds', body: expect.objectContaining({
       code: 'CB-12', casts: 'Scroll corbel', material: 'silicone', benchId: 4, cavityLitres: 1.8, castLengthM: null,
       prepMinutes: 10, cleanMinutes: 10, maxDwellMinutes: 120, pulls: 0, expectedPulls: null,
+    }) }])
+  })
+})
+
+describe('JobsItemForm', () => {
+  const moulds = [{ id: 7, code: 'CR-3', casts: 'Cornice run', state: 'ready', cast_length_m: 1.2, cavity_litres: 3 }] as unknown as MouldRow[]
+  record('/api/jobs/5/items', 'POST', { id: 51 })
+
+  it('asks for the quantity and for a mould or a profile, and sends nothing', async () => {
+    const w = await mountSuspended(JobsItemForm, { props: { jobId: 5, moulds, grades: [] } })
+    await w.find('#item-desc').setValue('Scroll corbels')
+    await submit(w)
+    expect(errorOf(w, 'item-qty')).toBe('quantity is required for an item in pieces')
+    expect(errorOf(w, 'item-mould')).toBe('choose a mould or name a profile')
+    expect(sent).toEqual([])
+  })
+
+  it('shows a wall\'s problem beside that wall in a run', async () => {
+    const w = await mountSuspended(JobsItemForm, { props: { jobId: 5, moulds, grades: [] } })
+    await w.find('input[type="radio"][value="run"]').setValue(true)
+    await w.find('#item-desc').setValue('Dining room cornice')
+    await w.find('#item-mould').setValue('7')
+    await w.find('#wall-0').setValue('-2')
+    await submit(w)
+    expect(errorOf(w, 'wall-0')).toMatch(/^lengthM must be greater than 0/)
+    expect(sent).toEqual([])
+  })
+
+  it('sends an item in pieces by its profile', async () => {
+    const w = await mountSuspended(JobsItemForm, { props: { jobId: 5, moulds, grades: [] } })
+    await w.find('#item-desc').setValue('Scroll corbels')
+    await w.find('#item-profile').setValue('Egg and dart')
+    await w.find('#item-qty').setValue('12')
+    await submit(w)
+    await expect.poll(() => w.emitted('saved')?.length).toBe(1)
+    expect(sent).toEqual([{ method: 'POST', path: '/api/jobs/5/items', body: expect.objectContaining({
+      kind: 'pieces', mouldId: null, profile: 'Egg and dart', description: 'Scroll corbels', quantity: 12, walls: null, gradeId: null, consistency: null,
     }) }])
   })
 })
