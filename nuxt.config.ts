@@ -37,6 +37,8 @@ export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   nitro: {
     experimental: { websocket: true },
+    // the services tests import server code directly: typed with its auto-imports, like server/
+    typescript: { tsConfig: { include: ['../tests/services/**/*', '../tests/setup/services.ts'] } },
   },
   // pre-bundled in development so the first visit does not reload the page
   vite: { optimizeDeps: { include: ['socket.io-client', 'chart.js', 'vue-chartjs'] } },

@@ -2,9 +2,12 @@ import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 import { fileURLToPath } from 'node:url'
 import { realpathSync } from 'node:fs'
+import Unimport from 'unimport/unplugin'
+import { nitroAutoImports } from './tests/setup/server-imports'
 
 // Projects, run by tests/setup/run.ts in order: unit (pure code in shared/), component
-// (Vue components inside a Nuxt environment, tests/nuxt), api (the built server over
+// (Vue components inside a Nuxt environment, tests/nuxt), services (server/repos and
+// server/services imported directly, against a throwaway PostgreSQL, no build), api (the built server over
 // HTTP against a throwaway PostgreSQL) and e2e (Debian's chromium through playwright-core
 // against the same built server).
 const alias = {
@@ -36,6 +39,20 @@ export default defineConfig({
           environmentOptions: { nuxt: { domEnvironment: 'happy-dom' } },
         },
       }),
+      {
+        resolve: { alias },
+        // server code as Nitro compiles it: its auto-imports made explicit, in server/ only
+        plugins: [Unimport.vite({ imports: nitroAutoImports(), include: [/[\\/]server[\\/].*\.ts$/], dts: false })],
+        test: {
+          name: 'services',
+          include: ['tests/services/**/*.test.ts'],
+          globalSetup: ['tests/setup/server.ts'],
+          setupFiles: ['tests/setup/services.ts'],
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
+        },
+      },
       {
         resolve: { alias },
         test: {

@@ -124,11 +124,12 @@ describe('weighed and ready', () => {
 
   it('weighings from before a repair do not count for the next drying spell', async () => {
     const p = await fx.piece()
-    await advance(p, 'weighed')
-    expect((await act(p.id, { kind: 'repair', version: 3, reason: 'chipped arris' })).status).toBe(200)
-    expect((await act(p.id, { kind: 'repaired', version: 4 })).status).toBe(200)
-    // the refettle must come after the earlier weighing in time for the spell to start afresh
-    await new Promise(r => setTimeout(r, 20))
+    // the refettle must come after the earlier weighing in time for the spell to start afresh:
+    // the first spell is dated a few minutes back, so the refettle (now) is later without a wait
+    expect((await act(p.id, { kind: 'fettled', version: 1, at: ago(3) })).status).toBe(200)
+    expect((await act(p.id, { kind: 'weighed', version: 2, weighedKg: Number((p.dryMassKg * 1.003).toFixed(3)), at: ago(2) })).status).toBe(200)
+    expect((await act(p.id, { kind: 'repair', version: 3, reason: 'chipped arris', at: ago(1) })).status).toBe(200)
+    expect((await act(p.id, { kind: 'repaired', version: 4, at: ago(1) })).status).toBe(200)
     const again = await act(p.id, { kind: 'fettled', version: 5 })
     expect(again.data.piece).toMatchObject({ state: 'drying', lastWeighing: null, reason: null })
     expect((await act(p.id, { kind: 'ready', version: 6 })).status).toBe(409)

@@ -107,16 +107,20 @@ describe('notifications', () => {
     const fx = await boardFixture('overdue')
     const mould = await fx.mould()
     const at = (min: number) => new Date(Date.now() + min * 60_000).toISOString()
-    const [pour] = await fx.k('pours').insert({
-      workshop_id: ws, mould_id: mould, grade_id: fx.gradeId, consistency: 70, state: 'setting',
+    const overduePour = async (mouldId: number) => (await fx.k('pours').insert({
+      workshop_id: ws, mould_id: mouldId, grade_id: fx.gradeId, consistency: 70, state: 'setting',
       slot: fx.k.raw('tstzrange(?, ?)', [at(-120), at(-10)]), mix_at: at(-110), demould_open_at: at(-80), demould_close_at: at(-40),
       plaster_kg_planned: 2, water_kg_planned: 1.4,
-    }).returning('id')
-    const code = (await fx.k('moulds').where({ id: mould }).first('code')).code
-    await waitForMail(lead, demo.lead.email, `Demould overdue: mould ${code}`)
-    await new Promise(r => setTimeout(r, 1500))
-    const rows = await fx.k('mail_outbox').where('dedupe_key', 'like', `overdue:${pour.id}:%`).select('to_email')
+    }).returning('id'))[0].id as number
+    const codeOf = async (mouldId: number) => (await fx.k('moulds').where({ id: mouldId }).first('code')).code as string
+    const pour = await overduePour(mould)
+    await waitForMail(lead, demo.lead.email, `Demould overdue: mould ${await codeOf(mould)}`)
+    // a second overdue pour's mail proves that the check ran again after the first one's
+    const laterMould = await fx.mould()
+    const later = await overduePour(laterMould)
+    await waitForMail(lead, demo.lead.email, `Demould overdue: mould ${await codeOf(laterMould)}`)
+    const rows = await fx.k('mail_outbox').where('dedupe_key', 'like', `overdue:${pour}:%`).select('to_email')
     expect(rows.filter((r: { to_email: string }) => r.to_email === demo.lead.email)).toHaveLength(1)
-    await fx.k('pours').where({ id: pour.id }).update({ state: 'void', void_reason: 'test done' })
+    await fx.k('pours').whereIn('id', [pour, later]).update({ state: 'void', void_reason: 'test done' })
   })
 })

@@ -296,8 +296,7 @@ describe('live updates', () => {
       const p = (await post({ mouldId: m, slotStart: at('09:00', '2027-03-11') })).data
       await call(`/api/pours/${p.id}`, { method: 'PATCH', cookie: lead, body: { version: 1, slotStart: at('10:00', '2027-03-11') } })
       await call(`/api/pours/${p.id}/void`, { method: 'POST', cookie: lead, body: { version: 2, reason: 'test' } })
-      const until = Date.now() + 5000
-      while (seen.filter(e => e.id === p.id).length < 3 && Date.now() < until) await new Promise(r => setTimeout(r, 50))
+      await expect.poll(() => seen.filter(e => e.id === p.id).length, { timeout: 5000 }).toBeGreaterThanOrEqual(3)
       const mine = seen.filter(e => e.id === p.id)
       expect(mine.map(e => [e.type, e.version, e.row.state])).toEqual([['pour.created', 1, 'planned'], ['pour.updated', 2, 'planned'], ['pour.voided', 3, 'void']])
     }

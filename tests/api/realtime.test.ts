@@ -88,8 +88,13 @@ describe('live updates', () => {
     await touchSettings(lead)
     const e = await got
     expect(e.row.name).toBe('Larkspur Ornamental Plaster')
-    await new Promise(r => setTimeout(r, 500))
-    expect(leaked).toEqual([])
+    // the other workshop's own change comes after ours on its socket: once it arrived, a leaked
+    // event of ours would have arrived before it
+    const theirsArrived = nextLive(theirs, 'workshop.updated')
+    await touchSettings(await signIn(other.lead.email, DEMO_PASSWORD))
+    const theirEvent = await theirsArrived
+    expect(theirEvent.row.name).toMatch(/^Other workshop/)
+    expect(leaked).toEqual([theirEvent])
   })
 
   it('passes events between two app instances sharing one PostgreSQL', async () => {

@@ -5,14 +5,14 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { randomUUID } from 'node:crypto'
 import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
-import { testContext } from './context'
+import { testDatabaseUrl } from './context'
 
 export { DEMO_PASSWORD }
 export const demo = Object.fromEntries(DEMO_USERS.map(u => [u.key, u])) as Record<(typeof DEMO_USERS)[number]['key'], (typeof DEMO_USERS)[number]>
 
 let db: Knex | undefined
 export function testDb(): Knex {
-  db ??= knex({ client: 'pg', connection: testContext().databaseUrl, pool: { min: 0, max: 2 } })
+  db ??= knex({ client: 'pg', connection: testDatabaseUrl(), pool: { min: 0, max: 2 } })
   return db
 }
 export async function closeTestDb() {

@@ -1,35 +1,16 @@
 // vitest setupFile for the api and e2e projects: every test file gets a database of its own,
-// cloned from the run's seeded template (PostgreSQL's CREATE DATABASE … TEMPLATE copies the
-// files, about a tenth of a second), and a built app server of its own on it, with its own
-// SMTP fake and photo folder. No file books around another's rows, and a file that fills
-// its database (the 100,000-pour register) slows nobody after it.
+// cloned from the run's seeded template (tests/setup/file-db.ts), and a built app server of its
+// own on it, with its own SMTP fake and photo folder.
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { randomBytes } from 'node:crypto'
 import { afterAll, inject } from 'vitest'
-import pg from 'pg'
 import { startAppServer } from './server'
 import { setTestContext } from './context'
+import { cloneFileDatabase } from './file-db'
 
-async function admin<T>(templateUrl: string, work: (c: pg.Client) => Promise<T>) {
-  const url = new URL(templateUrl)
-  url.pathname = '/postgres'
-  const client = new pg.Client({ connectionString: url.toString() })
-  await client.connect()
-  try {
-    return await work(client)
-  }
-  finally {
-    await client.end()
-  }
-}
-
-const templateUrl = inject('templateUrl')
-const template = new URL(templateUrl).pathname.slice(1)
-const name = `setline_file_${randomBytes(6).toString('hex')}`
-await admin(templateUrl, c => c.query(`CREATE DATABASE "${name}" TEMPLATE "${template}"`))
-const databaseUrl = Object.assign(new URL(templateUrl), { pathname: `/${name}` }).toString()
+const { databaseUrl, drop } = await cloneFileDatabase(inject('templateUrl'))
 const sessionPassword = randomBytes(24).toString('hex')
 // photos go to a throwaway folder; a 2 MB limit lets the tests send an oversize file cheaply
 const photoDir = mkdtempSync(join(tmpdir(), 'setline-photos-'))
@@ -52,5 +33,5 @@ afterAll(async () => {
   })
   setTestContext(undefined)
   rmSync(photoDir, { recursive: true, force: true })
-  await admin(templateUrl, c => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`))
+  await drop()
 })

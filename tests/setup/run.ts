@@ -1,5 +1,5 @@
 // npm test: one throwaway PostgreSQL and SMTP fake for the run, then lint, typecheck, unit,
-// build, API and browser tests; prints one summary line at the end.
+// component, services (no build), build, API and browser tests; prints one summary line at the end.
 import { spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, readdirSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
@@ -50,11 +50,11 @@ function vitest(project: string, env: Record<string, string>, files: string[] = 
  */
 function selection(argv: string[]) {
   const files = argv.filter(a => !a.startsWith('--'))
-  const projectOf = (f: string) => ({ unit: 'unit', nuxt: 'component', api: 'api', e2e: 'e2e' } as Record<string, string>)[f.replace(/^\.\//, '').split('/')[1] ?? ''] ?? ''
+  const projectOf = (f: string) => ({ unit: 'unit', nuxt: 'component', services: 'services', api: 'api', e2e: 'e2e' } as Record<string, string>)[f.replace(/^\.\//, '').split('/')[1] ?? ''] ?? ''
   const byProject = new Map<string, string[]>()
   for (const f of files) {
     const p = projectOf(f)
-    if (!p) throw new Error(`${f}: not a test file under tests/unit, tests/nuxt, tests/api or tests/e2e`)
+    if (!p) throw new Error(`${f}: not a test file under tests/unit, tests/nuxt, tests/services, tests/api or tests/e2e`)
     byProject.set(p, [...(byProject.get(p) ?? []), f])
   }
   return { files, byProject, build: !argv.includes('--no-build') }
@@ -82,7 +82,7 @@ async function main() {
     const env = { SETLINE_TEST_DATABASE_URL: db.url }
     const only = selection(process.argv.slice(2))
     if (only.files.length) {
-      for (const p of ['unit', 'component']) if (only.byProject.has(p)) vitest(p, env, only.byProject.get(p))
+      for (const p of ['unit', 'component', 'services']) if (only.byProject.has(p)) vitest(p, env, only.byProject.get(p))
       const needsServer = only.byProject.has('api') || only.byProject.has('e2e')
       const built = !needsServer || !only.build || step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
       if (built) for (const p of ['api', 'e2e']) if (only.byProject.has(p)) vitest(p, env, only.byProject.get(p))
@@ -103,6 +103,7 @@ function runAll(env: Record<string, string>) {
   step('typecheck', 'npx', ['nuxt', 'typecheck'])
   vitest('unit', env)
   vitest('component', env)
+  vitest('services', env)
   const built = step('build', 'npx', ['nuxt', 'build'], { NODE_ENV: 'production' })
   if (built) {
     vitest('api', env)

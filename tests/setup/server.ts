@@ -1,6 +1,7 @@
-// The built app server (.output) for tests and benchmarks, and the vitest globalSetup of the api
-// and e2e projects: it hands each test file the run's seeded template database, from which
-// tests/setup/per-file.ts clones the file's own database and starts the file's own server.
+// The built app server (.output) for tests and benchmarks, and the vitest globalSetup of the api,
+// e2e and services projects: it hands each test file the run's seeded template database, from
+// which tests/setup/per-file.ts clones the file's own database and starts the file's own server
+// (tests/setup/services.ts: the database only).
 import { spawn } from 'node:child_process'
 import { existsSync } from 'node:fs'
 import { resolve } from 'node:path'
