@@ -1,4 +1,12 @@
 // Invitations and password resets: the multi-step account use cases, each in one transaction.
+//
+// A one-time link (256-bit random, stored as SHA-256) is looked up before any password is
+// hashed, so made-up links cost no scrypt; failures count per client address
+// (resetConfirmAddress, inviteAcceptAddress in server/utils/rate-limit.ts) and a live link is
+// never refused for others' failures (OWASP Forgot Password Cheat Sheet). Using a reset link
+// ends the user's other open ones; disabling an account ends its open reset links. Whether an
+// e-mail has an account is told only within the lead's own workshop: inviting another
+// workshop's e-mail answers like a new address (accepting then fails for its owner).
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
 import type { Role } from '#shared/types/auth'

@@ -1,6 +1,14 @@
 // The finisher's piece actions: fettled → drying (with a dry-by time), weighed, ready, packed,
 // and repair, repaired, rejected; each exactly once (services/actions.ts) in one transaction
 // with its register entry. The server judges the order of steps and the version the tablet saw.
+//
+// The steps are FINISHING_STEPS (shared/utils/finishing-schemas.ts); every piece action, a
+// weighing included, moves the piece's version on. Ready needs a weighing of the current drying
+// spell within 0.5 % free water (`dryness`), or a lead's `override`, kept in the register. A
+// rejected piece's pour stops counting for the planner, the board and the client's counts
+// (COUNTED_POUR in server/repos/planning.ts), so its item is planned again. The `ready` step
+// mails the job's client when every item of the open job has its pieces ready, packed or
+// dispatched (notifyJobReady). Only packed pieces go on a dispatch note (services/dispatches.ts).
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'

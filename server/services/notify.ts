@@ -3,6 +3,8 @@
 // the user turned it off) and carries a dedupe key, so a retried request or a second worker
 // run never mails twice. Keys end with the recipient id because a job has several members
 // and a workshop several leads: the mail_outbox.dedupe_key column is unique across all rows.
+// Call these inside the transaction that causes the mail, never queueMail directly. A new kind
+// goes into NOTIFY_KINDS / NOTIFY_KIND_INFO (shared/utils/notify-schemas.ts); /account lists it.
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'

@@ -1,5 +1,16 @@
 // Shared tablets and PINs: a lead signs a device in as the workshop's
 // tablet, casters and finishers set a PIN and switch in with it, a lead revokes a tablet.
+//
+// The device carries the httpOnly `setline-tablet` cookie (a random token; only its SHA-256 is
+// stored; a year, set again on every switch). The tablet routes answer to that cookie
+// (`requireTablet`), not to a session. A switch starts a normal session whose user carries
+// `tablet: { id, name }`; requireRole and the socket end it when the request lacks that tablet's
+// cookie or a lead revoked the tablet. Only casters and finishers switch in (TABLET_ROLES): leads
+// use their password. Every refusal (unknown, other workshop, disabled, no PIN, wrong role,
+// wrong PIN) is the same 401 and counts against `pinDevice`, and against `pinPerson` (keyed
+// workshop:person) only for a person of the tablet's own workshop, so nobody outside a workshop
+// can lock its people out. PINs are hashed like passwords. "Switch person" on the page tries
+// once to send that person's waiting outbox steps, then switches: the rest wait for their owner.
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
 import { liveRooms } from '#shared/types/live'

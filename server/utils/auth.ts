@@ -1,4 +1,11 @@
 // Sessions, roles and workshop scope. Every route starts with requireRole(event, ...roles).
+//
+// A session lives on the server: startSession records it in user_sessions (only the SHA-256 of
+// its random id, which rides in the sealed cookie's server-only part) and every clear of the
+// cookie ends the record (server/plugins/sessions.ts), so a copied cookie dies at sign-out. A
+// change that takes rights away acts at once and on every instance: endUserSessions (ends the
+// records and disconnects the person's sockets) after a password, role or disabled change,
+// disconnectSession on sign-out, leaveJob when a client leaves a job (server/utils/realtime.ts).
 import type { H3Event } from 'h3'
 import pLimit from 'p-limit'
 import type { Role, SessionUserData } from '#shared/types/auth'
