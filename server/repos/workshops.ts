@@ -21,6 +21,12 @@ export const workshopsRepo = {
     const row: WorkshopRow | undefined = await db('workshops').first(COLUMNS).where({ id })
     return row
   },
+  /** Today as a calendar day in the workshop's own zone (use-by dates are calendar days there). */
+  async today(db: Knex, id: number): Promise<string> {
+    const r: { today: string } = await db('workshops').where({ id })
+      .first(db.raw('to_char((now() AT TIME ZONE timezone)::date, \'YYYY-MM-DD\') AS today'))
+    return r.today
+  },
   /** Updates when the version matches; returns undefined when someone else changed it first. */
   async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
     const [row] = await db('workshops').where({ id, version })
