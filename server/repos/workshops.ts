@@ -1,5 +1,6 @@
 // The workshop row (settings). The caller's own workshop only.
 import type { Knex } from 'knex'
+import type { WorkshopSettings } from '#shared/utils/workshop-schemas'
 
 export interface WorkshopRow {
   id: number
@@ -35,16 +36,17 @@ export const workshopsRepo = {
   },
 }
 
-export function workshopDto(row: WorkshopRow) {
+/** GET / PATCH /api/workshop: the settings as the settings form edits them (times as HH:MM). */
+export function workshopDto(row: WorkshopRow): WorkshopSettings {
   return {
     name: row.name,
     units: row.units,
     timezone: row.timezone,
     shiftStart: row.shift_start.slice(0, 5),
     shiftEnd: row.shift_end.slice(0, 5),
-    workingDays: row.working_days.map(Number),
-    defaultShopTempC: Number(row.default_shop_temp_c),
-    defaultHumidityPct: Number(row.default_humidity_pct),
+    workingDays: row.working_days,
+    defaultShopTempC: row.default_shop_temp_c,
+    defaultHumidityPct: row.default_humidity_pct,
     version: row.version,
   }
 }

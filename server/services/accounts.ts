@@ -17,7 +17,7 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
   // Setline accounts elsewhere (OWASP Authentication Cheat Sheet, "Authentication and Error
   // Messages": do not reveal whether an account exists).
   const existing = await usersRepo.byEmail(db, input.email)
-  if (existing && Number(existing.workshop_id) === actor.workshopId) conflict('A user with this e-mail already exists')
+  if (existing && existing.workshop_id === actor.workshopId) conflict('A user with this e-mail already exists')
   const { token, hash } = newLinkToken()
   const link = `${appEnv().APP_URL}/accept-invite?token=${token}`
   const invitation = await db.transaction(async (trx) => {
