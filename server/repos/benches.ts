@@ -4,6 +4,17 @@ import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
 export const BENCH_COLUMNS = ['id', 'name', 'kind', 'length_m', 'sort_order', 'archived_at', 'version'] as const
 
+/** A benches row as BENCH_COLUMNS read it (NUMERIC comes back as a number, see server/utils/db.ts). */
+export interface BenchRow {
+  id: number
+  name: string
+  kind: string
+  length_m: number | null
+  sort_order: number
+  archived_at: Date | null
+  version: number
+}
+
 export interface BenchInput { name?: string; kind?: string; lengthM?: number | null; sortOrder?: number; archived?: boolean }
 
 function toColumns(input: BenchInput, db: Knex) {
@@ -17,14 +28,14 @@ function toColumns(input: BenchInput, db: Knex) {
 }
 
 export const benchesRepo = {
-  list(db: Knex, workshopId: number) {
+  list(db: Knex, workshopId: number): Promise<BenchRow[]> {
     return db('benches').select(BENCH_COLUMNS).where({ workshop_id: workshopId })
       .orderByRaw('archived_at IS NOT NULL, sort_order, name')
   },
-  byId(db: Knex, workshopId: number, id: number) {
+  byId(db: Knex, workshopId: number, id: number): Promise<BenchRow | undefined> {
     return db('benches').first(BENCH_COLUMNS).where({ workshop_id: workshopId, id })
   },
-  async insert(db: Knex, workshopId: number, input: BenchInput) {
+  async insert(db: Knex, workshopId: number, input: BenchInput): Promise<BenchRow> {
     try {
       const [row] = await db('benches').insert({ workshop_id: workshopId, ...toColumns(input, db) }).returning(BENCH_COLUMNS)
       return row
@@ -33,7 +44,7 @@ export const benchesRepo = {
       rethrowDbError(err, UNIQUE_LABELS)
     }
   },
-  update(db: Knex, workshopId: number, id: number, version: number, input: BenchInput) {
-    return updateVersioned(db, 'benches', { workshopId, id, version }, toColumns(input, db), BENCH_COLUMNS, 'Bench')
+  update(db: Knex, workshopId: number, id: number, version: number, input: BenchInput): Promise<BenchRow> {
+    return updateVersioned<BenchRow>(db, 'benches', { workshopId, id, version }, toColumns(input, db), BENCH_COLUMNS, 'Bench')
   },
 }

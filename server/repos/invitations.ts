@@ -4,12 +4,26 @@ import type { Role } from '#shared/types/auth'
 
 const INVITE_COLUMNS = ['id', 'workshop_id', 'email', 'name', 'role', 'client_org_id', 'job_id', 'expires_at', 'accepted_at', 'created_at']
 
+/** An invitations row as INVITE_COLUMNS read it (the token hash stays in the table). */
+export interface InvitationRow {
+  id: number
+  workshop_id: number
+  email: string
+  name: string | null
+  role: Role
+  client_org_id: number | null
+  job_id: number | null
+  expires_at: Date
+  accepted_at: Date | null
+  created_at: Date
+}
+
 export const invitationsRepo = {
-  async insert(db: Knex, row: { workshop_id: number; email: string; name?: string | null; role: Role; client_org_id?: number | null; job_id?: number | null; token_hash: string; invited_by: number; expires_at: Date }) {
+  async insert(db: Knex, row: { workshop_id: number; email: string; name?: string | null; role: Role; client_org_id?: number | null; job_id?: number | null; token_hash: string; invited_by: number; expires_at: Date }): Promise<InvitationRow> {
     const [created] = await db('invitations').insert(row).returning(INVITE_COLUMNS)
     return created
   },
-  pending(db: Knex, workshopId: number) {
+  pending(db: Knex, workshopId: number): Promise<InvitationRow[]> {
     return db('invitations').select(INVITE_COLUMNS).where({ workshop_id: workshopId }).whereNull('accepted_at')
       .where('expires_at', '>', db.fn.now()).orderBy('created_at', 'desc')
   },

@@ -1,11 +1,29 @@
 // Every knex call for job_items, joined with the mould and grade the calculator needs.
 import type { Knex } from 'knex'
-import type { ItemRow } from '#shared/types/catalogue'
-
-export type { ItemRow }
 
 export const ITEM_COLUMNS = ['id', 'job_id', 'mould_id', 'profile', 'description', 'quantity', 'run_m', 'walls', 'min_piece_m',
   'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version'] as const
+
+/** A job_items row as ITEM_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
+export interface ItemRow {
+  id: number
+  job_id: number
+  mould_id: number | null
+  profile: string | null
+  description: string
+  quantity: number | null
+  run_m: number | null
+  walls: { lengthM: number }[] | null
+  min_piece_m: number | null
+  spares_pct: number
+  pieces_needed: number
+  grade_id: number | null
+  consistency: number | null
+  sort_order: number
+  version: number
+}
+/** An item with its mould's code, cavity and cast length and its grade's name. */
+export type ItemListRow = ItemRow & { mould_code: string | null; cavity_litres: number | null; cast_length_m: number | null; grade_name: string | null }
 
 export interface ItemColumns {
   mould_id: number | null
@@ -23,7 +41,7 @@ export interface ItemColumns {
 }
 
 export const jobItemsRepo = {
-  forJob(db: Knex, workshopId: number, jobId: number): Promise<ItemRow[]> {
+  forJob(db: Knex, workshopId: number, jobId: number): Promise<ItemListRow[]> {
     return db('job_items as i')
       .leftJoin('moulds as m', function () {
         this.on('m.id', 'i.mould_id').andOn('m.workshop_id', 'i.workshop_id')

@@ -1,16 +1,39 @@
 // Every knex call for jobs and job_members.
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
-import type { JobRow } from '#shared/types/catalogue'
 
-export type { JobRow }
+/** A jobs row as JOB_COLUMNS read it (DATE as 'YYYY-MM-DD': server/utils/db.ts). */
+export interface JobRow {
+  id: number
+  code: string
+  title: string
+  site: string | null
+  due_on: string | null
+  notes: string | null
+  state: string
+  sample_required: boolean
+  sample_state: string
+  sample_comment: string | null
+  sample_decided_by: number | null
+  sample_decided_at: Date | null
+  version: number
+  created_at: Date
+}
+export type JobListRow = JobRow & { item_count: number; member_count: number }
+export interface ClientJobRow {
+  id: number
+  code: string
+  title: string
+  site: string | null
+  due_on: string | null
+  state: string
+  sample_state: string
+  item_count: number
+}
+export interface JobMemberRow { id: number; name: string; email: string }
 
 export const JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'notes', 'state', 'sample_required', 'sample_state',
   'sample_comment', 'sample_decided_by', 'sample_decided_at', 'version', 'created_at'] as const
-
-/** What a client may see of a job: never notes or other internal fields. */
-export const CLIENT_JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'state', 'sample_required', 'sample_state',
-  'sample_comment', 'sample_decided_at'] as const
 
 export interface JobInput { code?: string; title?: string; site?: string | null; dueOn?: string | null; notes?: string | null; state?: string; sampleRequired?: boolean }
 
@@ -24,7 +47,7 @@ const itemCount = 'SELECT count(*)::int FROM job_items i WHERE i.job_id = j.id A
 
 export const jobsRepo = {
   /** Jobs a client user is a member of, in their workshop only. */
-  forClient(db: Knex, workshopId: number, userId: number) {
+  forClient(db: Knex, workshopId: number, userId: number): Promise<ClientJobRow[]> {
     return db('jobs as j')
       .join('job_members as m', function () {
         this.on('m.job_id', 'j.id').andOn('m.workshop_id', 'j.workshop_id')
@@ -34,7 +57,7 @@ export const jobsRepo = {
       .select(db.raw(`(${itemCount}) AS item_count`))
       .orderByRaw('j.due_on NULLS LAST')
   },
-  list(db: Knex, workshopId: number) {
+  list(db: Knex, workshopId: number): Promise<JobListRow[]> {
     return db('jobs as j').where('j.workshop_id', workshopId)
       .select(JOB_COLUMNS.map(c => `j.${c}`))
       .select(db.raw(`(${itemCount}) AS item_count`))
@@ -47,7 +70,7 @@ export const jobsRepo = {
   async isMember(db: Knex, workshopId: number, jobId: number, userId: number) {
     return !!(await db('job_members').first('job_id').where({ workshop_id: workshopId, job_id: jobId, user_id: userId }))
   },
-  members(db: Knex, workshopId: number, jobId: number) {
+  members(db: Knex, workshopId: number, jobId: number): Promise<JobMemberRow[]> {
     return db('job_members as m').join('users as u', function () {
       this.on('u.id', 'm.user_id').andOn('u.workshop_id', 'm.workshop_id')
     }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId })
@@ -71,7 +94,7 @@ export const jobsRepo = {
       rethrowDbError(err, UNIQUE_LABELS)
     }
   },
-  update(db: Knex, workshopId: number, id: number, version: number, input: JobInput & { sampleState?: string }) {
+  update(db: Knex, workshopId: number, id: number, version: number, input: JobInput & { sampleState?: string }): Promise<JobRow> {
     const cols: Record<string, unknown> = toColumns(input)
     if (input.sampleState) cols.sample_state = input.sampleState
     return updateVersioned<JobRow>(db, 'jobs', { workshopId, id, version }, cols, JOB_COLUMNS, 'Job')

@@ -1,13 +1,56 @@
 // Every knex call for moulds, their pour history and their state-change events.
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
-import type { MouldRow } from '#shared/types/catalogue'
-
-export type { MouldRow }
 
 export const MOULD_COLUMNS = ['id', 'bench_id', 'code', 'casts', 'material', 'cavity_litres', 'cast_length_m', 'prep_minutes',
   'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'state', 'state_changed_by', 'state_changed_at',
   'state_reason', 'version'] as const
+
+/** A moulds row as MOULD_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
+export interface MouldRow {
+  id: number
+  bench_id: number | null
+  code: string
+  casts: string
+  material: string
+  cavity_litres: number
+  cast_length_m: number | null
+  prep_minutes: number
+  clean_minutes: number
+  max_dwell_minutes: number
+  pulls: number
+  expected_pulls: number | null
+  state: string
+  state_changed_by: number | null
+  state_changed_at: Date | null
+  state_reason: string | null
+  version: number
+}
+/** A mould with its bench's name and the name of who last changed its state. */
+export type MouldListRow = MouldRow & { bench_name: string | null; state_changed_by_name: string | null }
+
+export interface MouldPourRow {
+  id: number
+  state: string
+  mix_at: Date
+  demoulded_at: Date | null
+  result: string | null
+  defect: string | null
+  is_sample: boolean
+  consistency: number | null
+  job_code: string | null
+  item: string | null
+  caster: string | null
+  lot_code: string | null
+}
+
+export interface MouldEventRow {
+  id: number
+  type: string
+  at: Date
+  data: { from?: string; to?: string; reason?: string | null }
+  actor: string | null
+}
 
 export interface MouldInput {
   code?: string
@@ -43,31 +86,31 @@ function listQuery(db: Knex, workshopId: number) {
 }
 
 export const mouldsRepo = {
-  list(db: Knex, workshopId: number): Promise<MouldRow[]> {
+  list(db: Knex, workshopId: number): Promise<MouldListRow[]> {
     return listQuery(db, workshopId).orderBy('m.code')
   },
-  byId(db: Knex, workshopId: number, id: number): Promise<MouldRow | undefined> {
+  byId(db: Knex, workshopId: number, id: number): Promise<MouldListRow | undefined> {
     return listQuery(db, workshopId).where('m.id', id).first()
   },
-  async insert(db: Knex, workshopId: number, actorId: number, input: MouldInput) {
+  async insert(db: Knex, workshopId: number, actorId: number, input: MouldInput): Promise<MouldRow> {
     try {
       const [row] = await db('moulds').insert({ workshop_id: workshopId, ...toColumns(input), state_changed_by: actorId, state_changed_at: db.fn.now() })
         .returning(MOULD_COLUMNS)
-      return row as MouldRow
+      return row
     }
     catch (err) {
       rethrowDbError(err, UNIQUE_LABELS)
     }
   },
-  update(db: Knex, workshopId: number, id: number, version: number, input: MouldInput) {
+  update(db: Knex, workshopId: number, id: number, version: number, input: MouldInput): Promise<MouldRow> {
     return updateVersioned<MouldRow>(db, 'moulds', { workshopId, id, version }, toColumns(input), MOULD_COLUMNS, 'Mould')
   },
-  setState(db: Knex, workshopId: number, id: number, version: number, s: { state: string; reason: string | null; actorId: number }) {
+  setState(db: Knex, workshopId: number, id: number, version: number, s: { state: string; reason: string | null; actorId: number }): Promise<MouldRow> {
     return updateVersioned<MouldRow>(db, 'moulds', { workshopId, id, version },
       { state: s.state, state_reason: s.reason, state_changed_by: s.actorId, state_changed_at: db.fn.now() }, MOULD_COLUMNS, 'Mould')
   },
   /** The mould's pours, newest first: job, item, caster, lot, result. */
-  pours(db: Knex, workshopId: number, mouldId: number, limit = 100) {
+  pours(db: Knex, workshopId: number, mouldId: number, limit = 100): Promise<MouldPourRow[]> {
     return db('pours as p')
       .leftJoin('job_items as i', function () {
         this.on('i.id', 'p.job_item_id').andOn('i.workshop_id', 'p.workshop_id')
@@ -87,7 +130,7 @@ export const mouldsRepo = {
       .orderBy('p.mix_at', 'desc').limit(limit)
   },
   /** State changes and other register entries about the mould, newest first. */
-  events(db: Knex, workshopId: number, mouldId: number) {
+  events(db: Knex, workshopId: number, mouldId: number): Promise<MouldEventRow[]> {
     return db('events as e').leftJoin('users as u', 'u.id', 'e.actor_id')
       .where({ 'e.workshop_id': workshopId, 'e.entity': 'mould', 'e.entity_id': String(mouldId) })
       .select('e.id', 'e.type', 'e.at', 'e.data', 'u.name as actor').orderBy('e.at', 'desc').limit(100)

@@ -3,9 +3,32 @@
 import type { Knex } from 'knex'
 import type { PlasterGrade } from '#shared/utils/plaster-core'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
-import type { GradeRow } from '#shared/types/catalogue'
 
-export type { GradeRow }
+/** A plaster_grades row as GRADE_COLUMNS read it (NUMERIC and INT8 come back as numbers, see server/utils/db.ts). */
+export interface GradeRow {
+  id: number
+  name: string
+  preset_key: string | null
+  form: 'beta' | 'alpha'
+  powder_density: number
+  consistency_min: number
+  consistency_max: number
+  consistency_default: number
+  demould_minutes_ref: number
+  set_time_water_exponent: number
+  temperature_factors: [number, number][]
+  hydration_heat: number
+  set_expansion_pct: number
+  purity: number
+  bag_kg: number
+  calibration_factor: number | null
+  calibration_count: number
+  calibration_applied: boolean
+  notes: string | null
+  archived_at: Date | null
+  version: number
+  updated_at: Date
+}
 
 export const GRADE_COLUMNS = ['id', 'name', 'preset_key', 'form', 'powder_density', 'consistency_min', 'consistency_max',
   'consistency_default', 'demould_minutes_ref', 'set_time_water_exponent', 'temperature_factors', 'hydration_heat',

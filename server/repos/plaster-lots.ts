@@ -2,9 +2,22 @@
 import type { Knex } from 'knex'
 import type { LotPourSums } from '#shared/utils/catalogue'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
-import type { LotRow } from '#shared/types/catalogue'
 
 export const LOT_COLUMNS = ['id', 'grade_id', 'lot_code', 'bags_received', 'bag_kg', 'received_on', 'use_by', 'notes', 'archived_at', 'version'] as const
+
+/** A plaster_lots row as LOT_COLUMNS read it (DATE as 'YYYY-MM-DD', NUMERIC as a number: server/utils/db.ts). */
+export interface LotRow {
+  id: number
+  grade_id: number
+  lot_code: string
+  bags_received: number
+  bag_kg: number
+  received_on: string
+  use_by: string | null
+  notes: string | null
+  archived_at: Date | null
+  version: number
+}
 
 export interface LotInput { gradeId?: number; lotCode?: string; bagsReceived?: number; bagKg?: number; receivedOn?: string; useBy?: string | null; notes?: string | null; archived?: boolean }
 
@@ -22,14 +35,15 @@ function toColumns(input: LotInput, db: Knex) {
 }
 
 export const lotsRepo = {
-  list(db: Knex, workshopId: number): Promise<LotRow[]> {
+  /** The lots with their grade's name, archived last, newest delivery first. */
+  list(db: Knex, workshopId: number): Promise<(LotRow & { grade_name: string })[]> {
     return db('plaster_lots as l').join('plaster_grades as g', function () {
       this.on('g.id', 'l.grade_id').andOn('g.workshop_id', 'l.workshop_id')
     }).where('l.workshop_id', workshopId)
       .select(LOT_COLUMNS.map(c => `l.${c}`)).select('g.name as grade_name')
       .orderByRaw('l.archived_at IS NOT NULL, l.received_on DESC, l.lot_code')
   },
-  byId(db: Knex, workshopId: number, id: number) {
+  byId(db: Knex, workshopId: number, id: number): Promise<LotRow | undefined> {
     return db('plaster_lots').first(LOT_COLUMNS).where({ workshop_id: workshopId, id })
   },
   /** Plaster per lot and pour state: recorded actual kg, and planned kg of pours without an actual. */
@@ -47,7 +61,7 @@ export const lotsRepo = {
     }
     return byLot
   },
-  async insert(db: Knex, workshopId: number, input: LotInput) {
+  async insert(db: Knex, workshopId: number, input: LotInput): Promise<LotRow> {
     try {
       const [row] = await db('plaster_lots').insert({ workshop_id: workshopId, ...toColumns(input, db) }).returning(LOT_COLUMNS)
       return row
@@ -56,8 +70,8 @@ export const lotsRepo = {
       rethrowDbError(err, UNIQUE_LABELS)
     }
   },
-  update(db: Knex, workshopId: number, id: number, version: number, input: LotInput) {
-    return updateVersioned(db, 'plaster_lots', { workshopId, id, version }, toColumns(input, db), LOT_COLUMNS, 'Lot')
+  update(db: Knex, workshopId: number, id: number, version: number, input: LotInput): Promise<LotRow> {
+    return updateVersioned<LotRow>(db, 'plaster_lots', { workshopId, id, version }, toColumns(input, db), LOT_COLUMNS, 'Lot')
   },
   /** Lots for the CSV export, newest delivery first. */
   exportQuery(db: Knex, workshopId: number) {
@@ -67,11 +81,4 @@ export const lotsRepo = {
       .select('l.lot_code', 'g.name as grade', 'l.bags_received', 'l.bag_kg', 'l.received_on', 'l.use_by', 'l.notes')
       .select(db.raw('l.archived_at IS NOT NULL AS archived')).orderBy('l.received_on', 'desc')
   },
-}
-
-/** Today as a calendar day in the workshop's own zone (use-by dates are calendar days there). */
-export async function workshopToday(db: Knex, workshopId: number): Promise<string> {
-  const r = await db('workshops').where({ id: workshopId })
-    .first(db.raw('to_char((now() AT TIME ZONE timezone)::date, \'YYYY-MM-DD\') AS today'))
-  return r.today
 }

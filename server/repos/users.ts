@@ -19,6 +19,17 @@ export interface UserRow {
 const COLUMNS = ['id', 'workshop_id', 'email', 'name', 'role', 'client_org_id', 'password_hash', 'session_version', 'disabled_at', 'version']
 const PUBLIC_COLUMNS = ['id', 'email', 'name', 'role', 'client_org_id', 'disabled_at', 'created_at']
 
+/** The columns of a users row anyone but the person may see (PUBLIC_COLUMNS). */
+export interface PublicUserRow {
+  id: number
+  email: string
+  name: string
+  role: Role
+  client_org_id: number | null
+  disabled_at: Date | null
+  created_at: Date
+}
+
 export const usersRepo = {
   async byEmail(db: Knex, email: string): Promise<UserRow | undefined> {
     const row: UserRow | undefined = await db('users').whereRaw('lower(email) = lower(?)', [email]).first(COLUMNS)
@@ -29,7 +40,7 @@ export const usersRepo = {
     return row
   },
   /** The workshop's people; has_pin says whether a tablet PIN is set (never the hash). */
-  list(db: Knex, workshopId: number) {
+  list(db: Knex, workshopId: number): Promise<(PublicUserRow & { has_pin: boolean })[]> {
     return db('users').select([...PUBLIC_COLUMNS, db.raw('pin_hash IS NOT NULL AS has_pin')])
       .where({ workshop_id: workshopId }).orderBy([{ column: 'role' }, { column: 'name' }])
   },
@@ -56,7 +67,7 @@ export const usersRepo = {
       .update({ password_hash: passwordHash, session_version: db.raw('session_version + 1'), updated_at: db.fn.now() })
   },
   /** Disables or re-enables; both end the user's sessions. */
-  async setDisabled(db: Knex, workshopId: number, id: number, disabled: boolean) {
+  async setDisabled(db: Knex, workshopId: number, id: number, disabled: boolean): Promise<PublicUserRow | undefined> {
     const [row] = await db('users').where({ workshop_id: workshopId, id })
       .update({
         disabled_at: disabled ? db.fn.now() : null,
@@ -66,7 +77,7 @@ export const usersRepo = {
       }).returning(PUBLIC_COLUMNS)
     return row
   },
-  async setRole(db: Knex, workshopId: number, id: number, role: Role) {
+  async setRole(db: Knex, workshopId: number, id: number, role: Role): Promise<PublicUserRow | undefined> {
     const [row] = await db('users').where({ workshop_id: workshopId, id })
       .update({ role, session_version: db.raw('session_version + 1'), version: db.raw('version + 1'), updated_at: db.fn.now() })
       .returning(PUBLIC_COLUMNS)

@@ -1,5 +1,6 @@
 // The workshop row (settings). The caller's own workshop only.
 import type { Knex } from 'knex'
+import type { WorkshopSettings } from '#shared/utils/workshop-schemas'
 
 export interface WorkshopRow {
   id: number
@@ -21,6 +22,12 @@ export const workshopsRepo = {
     const row: WorkshopRow | undefined = await db('workshops').first(COLUMNS).where({ id })
     return row
   },
+  /** Today as a calendar day in the workshop's own zone (use-by dates are calendar days there). */
+  async today(db: Knex, id: number): Promise<string> {
+    const r: { today: string } = await db('workshops').where({ id })
+      .first(db.raw('to_char((now() AT TIME ZONE timezone)::date, \'YYYY-MM-DD\') AS today'))
+    return r.today
+  },
   /** Updates when the version matches; returns undefined when someone else changed it first. */
   async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
     const [row] = await db('workshops').where({ id, version })
@@ -29,16 +36,17 @@ export const workshopsRepo = {
   },
 }
 
-export function workshopDto(row: WorkshopRow) {
+/** GET / PATCH /api/workshop: the settings as the settings form edits them (times as HH:MM). */
+export function workshopDto(row: WorkshopRow): WorkshopSettings {
   return {
     name: row.name,
     units: row.units,
     timezone: row.timezone,
     shiftStart: row.shift_start.slice(0, 5),
     shiftEnd: row.shift_end.slice(0, 5),
-    workingDays: row.working_days.map(Number),
-    defaultShopTempC: Number(row.default_shop_temp_c),
-    defaultHumidityPct: Number(row.default_humidity_pct),
+    workingDays: row.working_days,
+    defaultShopTempC: row.default_shop_temp_c,
+    defaultHumidityPct: row.default_humidity_pct,
     version: row.version,
   }
 }

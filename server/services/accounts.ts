@@ -10,6 +10,7 @@
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
 import type { Role } from '#shared/types/auth'
+import { workshopsRepo } from '../repos/workshops'
 import { usersRepo } from '../repos/users'
 import { invitationsRepo, resetsRepo } from '../repos/invitations'
 
@@ -24,7 +25,7 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
   // Setline accounts elsewhere (OWASP Authentication Cheat Sheet, "Authentication and Error
   // Messages": do not reveal whether an account exists).
   const existing = await usersRepo.byEmail(db, input.email)
-  if (existing && Number(existing.workshop_id) === actor.workshopId) conflict('A user with this e-mail already exists')
+  if (existing && existing.workshop_id === actor.workshopId) conflict('A user with this e-mail already exists')
   const { token, hash } = newLinkToken()
   const link = `${appEnv().APP_URL}/accept-invite?token=${token}`
   const invitation = await db.transaction(async (trx) => {
@@ -36,7 +37,8 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
       const job = await trx('jobs').where({ workshop_id: actor.workshopId, id: input.jobId }).first('id')
       if (!job) unprocessable([{ field: 'jobId', message: 'is not a job of this workshop' }])
     }
-    const workshop = await trx('workshops').where({ id: actor.workshopId }).first('name')
+    const workshop = await workshopsRepo.get(trx, actor.workshopId)
+    if (!workshop) notFound('Workshop')
     const row = await invitationsRepo.insert(trx, {
       workshop_id: actor.workshopId, email: input.email, name: input.name ?? null, role: input.role,
       client_org_id: input.clientOrgId ?? null, job_id: input.jobId ?? null, token_hash: hash,

@@ -1,40 +1,135 @@
 // Catalogue reads with their computed figures (stock on hand, life warning) and the mould
 // state change, which writes the mould and the register in one transaction.
+import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import { lotsRepo, workshopToday } from '../repos/plaster-lots'
-import { mouldsRepo, type MouldRow } from '../repos/moulds'
+import { lotsRepo, type LotInput, type LotRow } from '../repos/plaster-lots'
+import { workshopsRepo } from '../repos/workshops'
+import { mouldsRepo, type MouldEventRow, type MouldInput, type MouldListRow, type MouldPourRow } from '../repos/moulds'
 import { recordEvent } from '../repos/events'
+import { benchesRepo, type BenchInput, type BenchRow } from '../repos/benches'
+import { gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
+import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour } from '#shared/types/catalogue'
 
-export async function lotsWithStock(workshopId: number) {
+/** A timestamp as the wire sends it (what JSON.stringify made of the Date before). */
+export const isoOrNull = (d: Date | null): string | null => (d ? d.toISOString() : null)
+
+export function toBench(r: BenchRow): Bench {
+  return { id: r.id, name: r.name, kind: r.kind, lengthM: r.length_m, sortOrder: r.sort_order, archivedAt: isoOrNull(r.archived_at), version: r.version }
+}
+
+export async function listBenches(workshopId: number): Promise<Bench[]> {
+  return (await benchesRepo.list(useDb(), workshopId)).map(toBench)
+}
+
+export async function createBench(workshopId: number, input: BenchInput): Promise<Bench> {
+  return toBench(await benchesRepo.insert(useDb(), workshopId, input))
+}
+
+export function toGrade(r: GradeRow): Grade {
+  return {
+    id: r.id, name: r.name, presetKey: r.preset_key, plaster: plasterGradeFromRow(r), bagKg: r.bag_kg,
+    calibration: { factor: r.calibration_factor, count: r.calibration_count, applied: r.calibration_applied },
+    notes: r.notes, archivedAt: isoOrNull(r.archived_at), version: r.version,
+  }
+}
+
+export async function listGrades(workshopId: number): Promise<Grade[]> {
+  return (await gradesRepo.list(useDb(), workshopId)).map(toGrade)
+}
+
+export async function createGrade(workshopId: number, input: GradeInput): Promise<Grade> {
+  return toGrade(await gradesRepo.insert(useDb(), workshopId, input))
+}
+
+export async function updateGrade(workshopId: number, id: number, version: number, input: GradeInput): Promise<Grade> {
+  return toGrade(await gradesRepo.update(useDb(), workshopId, id, version, input))
+}
+
+export async function updateBench(workshopId: number, id: number, version: number, input: BenchInput): Promise<Bench> {
+  return toBench(await benchesRepo.update(useDb(), workshopId, id, version, input))
+}
+
+export function toLot(r: LotRow): Lot {
+  return {
+    id: r.id, gradeId: r.grade_id, lotCode: r.lot_code, bagsReceived: r.bags_received, bagKg: r.bag_kg,
+    receivedOn: r.received_on, useBy: r.use_by, notes: r.notes, archivedAt: isoOrNull(r.archived_at), version: r.version,
+  }
+}
+
+export async function lotsWithStock(workshopId: number): Promise<LotWithStock[]> {
   const db = useDb()
-  const [lots, sums, today] = await Promise.all([lotsRepo.list(db, workshopId), lotsRepo.pourSums(db, workshopId), workshopToday(db, workshopId)])
+  const [lots, sums, today] = await Promise.all([lotsRepo.list(db, workshopId), lotsRepo.pourSums(db, workshopId), workshopsRepo.today(db, workshopId)])
   return lots.map(l => ({
-    ...l,
+    ...toLot(l),
+    gradeName: l.grade_name,
     stock: lotStock({ bagsReceived: l.bags_received, bagKg: l.bag_kg, useBy: l.use_by, today, pours: sums.get(l.id) ?? [] }),
   }))
 }
 
-export function withLife<T extends Pick<MouldRow, 'pulls' | 'expected_pulls'>>(m: T) {
-  return { ...m, life: mouldLife({ pulls: m.pulls, expectedPulls: m.expected_pulls }) }
-}
-
-export async function mouldDetail(workshopId: number, id: number) {
+/** A delivery received, or a lot corrected or archived; the grade must be one of the workshop's. */
+export async function saveLot(workshopId: number, target: { id: number; version: number } | null, input: LotInput): Promise<Lot> {
   const db = useDb()
-  const mould = await mouldsRepo.byId(db, workshopId, id)
-  if (!mould) notFound('Mould')
-  const [pours, events] = await Promise.all([mouldsRepo.pours(db, workshopId, id), mouldsRepo.events(db, workshopId, id)])
-  return { ...withLife(mould), pours, events }
+  if (input.gradeId && !(await gradesRepo.byId(db, workshopId, input.gradeId))) unprocessable([{ field: 'gradeId', message: 'gradeId is not a plaster grade of this workshop' }])
+  return toLot(target ? await lotsRepo.update(db, workshopId, target.id, target.version, input) : await lotsRepo.insert(db, workshopId, input))
 }
 
-export async function setMouldState(actor: Actor, id: number, input: { state: string; reason?: string | null; version: number }) {
+export function toMould(r: MouldListRow): Mould {
+  return {
+    id: r.id, benchId: r.bench_id, benchName: r.bench_name, code: r.code, casts: r.casts, material: r.material,
+    cavityLitres: r.cavity_litres, castLengthM: r.cast_length_m, prepMinutes: r.prep_minutes, cleanMinutes: r.clean_minutes,
+    maxDwellMinutes: r.max_dwell_minutes, pulls: r.pulls, expectedPulls: r.expected_pulls, state: r.state,
+    stateChangedBy: r.state_changed_by, stateChangedByName: r.state_changed_by_name, stateChangedAt: isoOrNull(r.state_changed_at),
+    stateReason: r.state_reason, version: r.version, life: mouldLife({ pulls: r.pulls, expectedPulls: r.expected_pulls }),
+  }
+}
+
+function toMouldPour(r: MouldPourRow): MouldPour {
+  return {
+    id: r.id, state: r.state, mixAt: r.mix_at.toISOString(), demouldedAt: isoOrNull(r.demoulded_at), result: r.result, defect: r.defect,
+    isSample: r.is_sample, consistency: r.consistency, jobCode: r.job_code, item: r.item, caster: r.caster, lotCode: r.lot_code,
+  }
+}
+
+const toMouldEvent = (r: MouldEventRow): MouldEvent => ({ id: r.id, type: r.type, at: r.at.toISOString(), actor: r.actor, data: r.data })
+
+export async function listMoulds(workshopId: number): Promise<Mould[]> {
+  return (await mouldsRepo.list(useDb(), workshopId)).map(toMould)
+}
+
+/** The mould as the list shows it, read again after a write (bench and changer names joined). */
+async function mouldById(db: Knex, workshopId: number, id: number): Promise<Mould> {
+  const row = await mouldsRepo.byId(db, workshopId, id)
+  if (!row) notFound('Mould')
+  return toMould(row)
+}
+
+export async function mouldDetail(workshopId: number, id: number): Promise<MouldDetail> {
+  const db = useDb()
+  const mould = await mouldById(db, workshopId, id)
+  const [pours, events] = await Promise.all([mouldsRepo.pours(db, workshopId, id), mouldsRepo.events(db, workshopId, id)])
+  return { ...mould, pours: pours.map(toMouldPour), events: events.map(toMouldEvent) }
+}
+
+/** A new mould, or an edit of one's details; the bench must be one of the workshop's. */
+export async function saveMould(actor: Actor, target: { id: number; version: number } | null, input: MouldInput): Promise<Mould> {
+  return useDb().transaction(async (trx) => {
+    if (input.benchId && !(await benchesRepo.byId(trx, actor.workshopId, input.benchId))) unprocessable([{ field: 'benchId', message: 'benchId is not a bench of this workshop' }])
+    const row = target
+      ? await mouldsRepo.update(trx, actor.workshopId, target.id, target.version, input)
+      : await mouldsRepo.insert(trx, actor.workshopId, actor.id, input)
+    return mouldById(trx, actor.workshopId, row.id)
+  })
+}
+
+export async function setMouldState(actor: Actor, id: number, input: { state: string; reason?: string | null; version: number }): Promise<Mould> {
   return useDb().transaction(async (trx) => {
     const before = await mouldsRepo.byId(trx, actor.workshopId, id)
     if (!before) notFound('Mould')
-    const row = await mouldsRepo.setState(trx, actor.workshopId, id, input.version, { state: input.state, reason: input.reason ?? null, actorId: actor.id })
+    await mouldsRepo.setState(trx, actor.workshopId, id, input.version, { state: input.state, reason: input.reason ?? null, actorId: actor.id })
     await recordEvent(trx, {
       workshopId: actor.workshopId, entity: 'mould', entityId: id, type: 'mould.state_changed', actorId: actor.id,
       data: { from: before.state, to: input.state, reason: input.reason ?? null },
     })
-    return withLife(row)
+    return mouldById(trx, actor.workshopId, id)
   })
 }

@@ -2,21 +2,68 @@
 // the sample approval round (lead marks it ready, the client decides; both recorded and mailed).
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import { CLIENT_JOB_COLUMNS, jobsRepo, type JobRow } from '../repos/jobs'
-import { jobItemsRepo, type ItemColumns, type ItemRow } from '../repos/job-items'
+import { jobsRepo, type JobInput, type JobListRow, type JobRow } from '../repos/jobs'
+import { jobItemsRepo, type ItemColumns, type ItemListRow, type ItemRow } from '../repos/job-items'
 import { gradesRepo, type GradeRow } from '../repos/plaster-grades'
 import { mouldsRepo } from '../repos/moulds'
 import { usersRepo } from '../repos/users'
 import { inviteUser } from './accounts'
 import { PlasterInputError } from '#shared/utils/plaster-core'
 import type { JobItemCreateInput } from '#shared/utils/job-schemas'
+import type { ClientJobDetail, ClientJobSummary, ItemPlanView, Job, JobDetail, JobItem, JobListEntry, JobMemberResult, PlannedJobItem } from '#shared/types/jobs'
+
+const isoOrNull = (d: Date | null): string | null => (d ? d.toISOString() : null)
+
+export function toJob(r: JobRow): Job {
+  return {
+    id: r.id, code: r.code, title: r.title, site: r.site, dueOn: r.due_on, notes: r.notes, state: r.state,
+    sampleRequired: r.sample_required, sampleState: r.sample_state, sampleComment: r.sample_comment,
+    sampleDecidedBy: r.sample_decided_by, sampleDecidedAt: isoOrNull(r.sample_decided_at), version: r.version,
+  }
+}
+
+const toJobListEntry = (r: JobListRow): JobListEntry => ({ ...toJob(r), itemCount: r.item_count, memberCount: r.member_count })
+
+export function toJobItem(r: ItemRow): JobItem {
+  return {
+    id: r.id, jobId: r.job_id, mouldId: r.mould_id, profile: r.profile, description: r.description, quantity: r.quantity,
+    runM: r.run_m, walls: r.walls, minPieceM: r.min_piece_m, sparesPct: r.spares_pct, piecesNeeded: r.pieces_needed,
+    gradeId: r.grade_id, consistency: r.consistency, sortOrder: r.sort_order, version: r.version,
+  }
+}
+
+export async function listJobs(workshopId: number): Promise<JobListEntry[]> {
+  return (await jobsRepo.list(useDb(), workshopId)).map(toJobListEntry)
+}
+
+export async function createJob(workshopId: number, input: JobInput): Promise<Job> {
+  return toJob(await jobsRepo.insert(useDb(), workshopId, input))
+}
+
+/** Turning the sample requirement on or off moves the sample state to "to be cast" or "not required" unless the client has decided. */
+export async function updateJob(workshopId: number, id: number, version: number, input: JobInput): Promise<Job> {
+  const db = useDb()
+  const job = await jobsRepo.byId(db, workshopId, id)
+  if (!job) notFound('Job')
+  let sampleState: string | undefined
+  if (input.sampleRequired === true && job.sample_state === 'not_required') sampleState = 'awaiting_cast'
+  if (input.sampleRequired === false && job.sample_state !== 'approved') sampleState = 'not_required'
+  return toJob(await jobsRepo.update(db, workshopId, id, version, { ...input, sampleState }))
+}
+
+/** The client's own jobs (member of), with item counts; nothing internal. */
+export async function clientJobs(actor: Actor): Promise<ClientJobSummary[]> {
+  return (await jobsRepo.forClient(useDb(), actor.workshopId, actor.id)).map(r => ({
+    id: r.id, code: r.code, title: r.title, site: r.site, dueOn: r.due_on, state: r.state, sampleState: r.sample_state, itemCount: r.item_count,
+  }))
+}
 
 /**
  * The item's plan: pieces (with the cut list for a run) and plaster in kg and bags when the mould
  * and grade are known. A plan the model refuses (say the mould's cast length was edited so a wall
  * no longer cuts) is shown as missing rather than failing the whole job.
  */
-function itemPlan(item: ItemRow, grades: Map<number, GradeRow>) {
+function itemPlan(item: ItemListRow, grades: Map<number, GradeRow>): ItemPlanView {
   const grade = item.grade_id ? grades.get(item.grade_id) : undefined
   const run = item.walls && item.cast_length_m
     ? { walls: item.walls, castLengthM: item.cast_length_m, minPieceM: item.min_piece_m ?? DEFAULT_MIN_PIECE_M, sparesPct: item.spares_pct }
@@ -37,28 +84,38 @@ function itemPlan(item: ItemRow, grades: Map<number, GradeRow>) {
   return { cutList, plaster, bagKg: grade?.bag_kg ?? null }
 }
 
-async function loadJobForActor(db: Knex, actor: Actor, id: number): Promise<JobRow> {
-  const job = await jobsRepo.byId(db, actor.workshopId, id)
-  // a client who is not a member gets the same 404 as for a job that does not exist
-  if (!job || (actor.role === 'client' && !(await jobsRepo.isMember(db, actor.workshopId, id, actor.id)))) notFound('Job')
-  return job
+/** The job's items with their plans (the lead's page). */
+async function plannedItems(db: Knex, workshopId: number, id: number): Promise<PlannedJobItem[]> {
+  const [items, grades] = await Promise.all([jobItemsRepo.forJob(db, workshopId, id), gradesRepo.list(db, workshopId)])
+  const byId = new Map(grades.map(g => [g.id, g]))
+  return items.map(i => ({
+    ...toJobItem(i), mouldCode: i.mould_code, cavityLitres: i.cavity_litres, castLengthM: i.cast_length_m, gradeName: i.grade_name,
+    plan: itemPlan(i, byId),
+  }))
 }
 
-export async function jobDetail(actor: Actor, id: number) {
+/** One job for staff: everything, with item plans and client members. */
+export async function jobDetail(actor: Actor, id: number): Promise<JobDetail> {
   const db = useDb()
-  const job = await loadJobForActor(db, actor, id)
-  const [items, grades] = await Promise.all([jobItemsRepo.forJob(db, actor.workshopId, id), gradesRepo.list(db, actor.workshopId)])
-  const byId = new Map(grades.map(g => [g.id, g]))
-  const planned = items.map(i => ({ ...i, plan: itemPlan(i, byId) }))
-  if (actor.role === 'client') {
-    const visible = Object.fromEntries(CLIENT_JOB_COLUMNS.map(c => [c, job[c as keyof JobRow]]))
-    return {
-      ...visible, released: jobReleased(job),
-      items: planned.map(i => ({ id: i.id, description: i.description, profile: i.profile, mould_code: i.mould_code, quantity: i.quantity, run_m: i.run_m, pieces_needed: i.pieces_needed })),
-    }
+  const job = await jobsRepo.byId(db, actor.workshopId, id)
+  if (!job) notFound('Job')
+  const [items, members] = await Promise.all([plannedItems(db, actor.workshopId, id), jobsRepo.members(db, actor.workshopId, id)])
+  return { ...toJob(job), released: jobReleased(job), items, members }
+}
+
+/** One job as a client member sees it: never notes or other internal fields. */
+export async function clientJobDetail(actor: Actor, id: number): Promise<ClientJobDetail> {
+  const db = useDb()
+  const job = await jobsRepo.byId(db, actor.workshopId, id)
+  // a client who is not a member gets the same 404 as for a job that does not exist
+  if (!job || !(await jobsRepo.isMember(db, actor.workshopId, id, actor.id))) notFound('Job')
+  const items = await jobItemsRepo.forJob(db, actor.workshopId, id)
+  return {
+    id: job.id, code: job.code, title: job.title, site: job.site, dueOn: job.due_on, state: job.state,
+    sampleRequired: job.sample_required, sampleState: job.sample_state, sampleComment: job.sample_comment,
+    sampleDecidedAt: isoOrNull(job.sample_decided_at), released: jobReleased(job),
+    items: items.map(i => ({ id: i.id, description: i.description, profile: i.profile, mouldCode: i.mould_code, quantity: i.quantity, runM: i.run_m, piecesNeeded: i.pieces_needed })),
   }
-  const members = await jobsRepo.members(db, actor.workshopId, id)
-  return { ...job, released: jobReleased(job), items: planned, members }
 }
 
 function asItemError(err: unknown): never {
@@ -94,18 +151,18 @@ async function itemColumns(db: Knex, workshopId: number, input: JobItemCreateInp
   }
 }
 
-export async function addItem(actor: Actor, jobId: number, input: JobItemCreateInput) {
+export async function addItem(actor: Actor, jobId: number, input: JobItemCreateInput): Promise<JobItem> {
   const db = useDb()
   if (!(await jobsRepo.byId(db, actor.workshopId, jobId))) notFound('Job')
-  return jobItemsRepo.insert(db, actor.workshopId, jobId, await itemColumns(db, actor.workshopId, input))
+  return toJobItem(await jobItemsRepo.insert(db, actor.workshopId, jobId, await itemColumns(db, actor.workshopId, input)))
 }
 
-export async function updateItem(actor: Actor, jobId: number, id: number, input: JobItemCreateInput & { version: number }) {
+export async function updateItem(actor: Actor, jobId: number, id: number, input: JobItemCreateInput & { version: number }): Promise<JobItem> {
   const db = useDb()
   if (!(await jobItemsRepo.byId(db, actor.workshopId, jobId, id))) notFound('Item')
   const row = await jobItemsRepo.update(db, actor.workshopId, jobId, id, input.version, await itemColumns(db, actor.workshopId, input))
   if (!row) conflict('This item was changed by someone else; reload and try again')
-  return row
+  return toJobItem(row)
 }
 
 export async function removeItem(actor: Actor, jobId: number, id: number) {
@@ -116,15 +173,15 @@ export async function removeItem(actor: Actor, jobId: number, id: number) {
 }
 
 /** Adds an existing client of the workshop to the job, or invites a new one by e-mail into it. */
-export async function addClientMember(actor: Actor, jobId: number, input: { email: string; name?: string | null }) {
+export async function addClientMember(actor: Actor, jobId: number, input: { email: string; name?: string | null }): Promise<JobMemberResult> {
   const db = useDb()
   if (!(await jobsRepo.byId(db, actor.workshopId, jobId))) notFound('Job')
   const existing = await usersRepo.byEmail(db, input.email)
   if (existing) {
     if (existing.workshop_id !== actor.workshopId || existing.role !== 'client') conflict('This e-mail belongs to someone who is not a client of this workshop')
     await jobsRepo.addMember(db, actor.workshopId, jobId, existing.id)
-    return { status: 'added' as const, email: input.email }
+    return { status: 'added', email: input.email }
   }
   await inviteUser(actor, { email: input.email, role: 'client', name: input.name ?? undefined, jobId })
-  return { status: 'invited' as const, email: input.email }
+  return { status: 'invited', email: input.email }
 }

@@ -4,10 +4,12 @@
 // register. The sample's photo arrives with the photos issue.
 import type { Actor } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
+import { toJob } from './jobs'
+import type { Job, SampleDecisionResult } from '#shared/types/jobs'
 import { recordEvent } from '../repos/events'
 import { notifySampleDecision, notifySampleReady } from './notify'
 
-export async function markSample(actor: Actor, jobId: number, input: { state: 'awaiting_cast' | 'awaiting_approval'; version: number }) {
+export async function markSample(actor: Actor, jobId: number, input: { state: 'awaiting_cast' | 'awaiting_approval'; version: number }): Promise<Job> {
   const job = await useDb().transaction(async (trx) => {
     const before = await jobsRepo.byId(trx, actor.workshopId, jobId)
     if (!before) notFound('Job')
@@ -19,10 +21,10 @@ export async function markSample(actor: Actor, jobId: number, input: { state: 'a
     return row
   })
   void deliverDueMail().catch(() => undefined)
-  return job
+  return toJob(job)
 }
 
-export async function decideSample(actor: Actor, jobId: number, input: { decision: 'approved' | 'changes_requested'; comment?: string | null }) {
+export async function decideSample(actor: Actor, jobId: number, input: { decision: 'approved' | 'changes_requested'; comment?: string | null }): Promise<SampleDecisionResult> {
   const db = useDb()
   const job = await jobsRepo.byId(db, actor.workshopId, jobId)
   if (!job || !(await jobsRepo.isMember(db, actor.workshopId, jobId, actor.id))) notFound('Job')
@@ -34,5 +36,5 @@ export async function decideSample(actor: Actor, jobId: number, input: { decisio
     return updated
   })
   void deliverDueMail().catch(() => undefined)
-  return { id: row.id, sample_state: row.sample_state, sample_comment: row.sample_comment, sample_decided_at: row.sample_decided_at, released: jobReleased(row) }
+  return { id: row.id, sampleState: row.sample_state, sampleComment: row.sample_comment, sampleDecidedAt: row.sample_decided_at?.toISOString() ?? null, released: jobReleased(row) }
 }

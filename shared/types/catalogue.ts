@@ -1,141 +1,97 @@
-// Rows the catalogue and job routes return (snake_case, as the database names them), used by
-// the repos and by the pages.
+// What the catalogue routes send (camelCase on the wire): plaster grades, lots, benches, moulds.
 import type { LotStock, MouldLife } from '../utils/catalogue'
-import type { PlasterRunCutList } from '../utils/plaster-cutlist'
+import type { PlasterGrade } from '../utils/plaster-core'
 
-export interface GradeRow {
+/** A plaster grade as GET /api/grades lists it and POST / PATCH /api/grades answer: the
+ *  plaster model's values (`plaster`), the shop's bag mass and the register's calibration. */
+export interface Grade {
   id: number
   name: string
-  preset_key: string | null
-  form: 'beta' | 'alpha'
-  powder_density: number
-  consistency_min: number
-  consistency_max: number
-  consistency_default: number
-  demould_minutes_ref: number
-  set_time_water_exponent: number
-  temperature_factors: [number, number][]
-  hydration_heat: number
-  set_expansion_pct: number
-  purity: number
-  bag_kg: number
-  calibration_factor: number | null
-  calibration_count: number
-  calibration_applied: boolean
+  presetKey: string | null
+  plaster: PlasterGrade
+  bagKg: number
+  calibration: { factor: number | null; count: number; applied: boolean }
   notes: string | null
-  archived_at: string | null
+  archivedAt: string | null
   version: number
 }
 
-export interface LotRow {
+/** A lot as POST / PATCH /api/lots answer. */
+export interface Lot {
   id: number
-  grade_id: number
-  grade_name: string
-  lot_code: string
-  bags_received: number
-  bag_kg: number
-  received_on: string
-  use_by: string | null
+  gradeId: number
+  lotCode: string
+  bagsReceived: number
+  bagKg: number
+  receivedOn: string
+  useBy: string | null
   notes: string | null
-  archived_at: string | null
+  archivedAt: string | null
   version: number
 }
-export type LotWithStock = LotRow & { stock: LotStock }
+/** A lot as GET /api/lots lists it: with its grade's name and the stock on hand. */
+export type LotWithStock = Lot & { gradeName: string; stock: LotStock }
 
-export interface BenchRow {
+/** A bench as GET /api/benches lists it and POST / PATCH /api/benches answer. */
+export interface Bench {
   id: number
   name: string
   kind: string
-  length_m: number | null
-  sort_order: number
-  archived_at: string | null
+  lengthM: number | null
+  sortOrder: number
+  archivedAt: string | null
   version: number
 }
 
-export interface MouldRow {
+/** A mould as GET /api/moulds lists it and POST / PATCH /api/moulds and the state change answer,
+ *  with its bench, who last changed its state and its life warning. */
+export interface Mould {
   id: number
-  bench_id: number | null
-  bench_name?: string | null
+  benchId: number | null
+  benchName: string | null
   code: string
   casts: string
   material: string
-  cavity_litres: number
-  cast_length_m: number | null
-  prep_minutes: number
-  clean_minutes: number
-  max_dwell_minutes: number
+  cavityLitres: number
+  castLengthM: number | null
+  prepMinutes: number
+  cleanMinutes: number
+  maxDwellMinutes: number
   pulls: number
-  expected_pulls: number | null
+  expectedPulls: number | null
   state: string
-  state_changed_by: number | null
-  state_changed_by_name?: string | null
-  state_changed_at: string | null
-  state_reason: string | null
+  stateChangedBy: number | null
+  stateChangedByName: string | null
+  stateChangedAt: string | null
+  stateReason: string | null
   version: number
-}
-export type MouldWithLife = MouldRow & { life: MouldLife }
-
-export interface JobRow {
-  id: number
-  code: string
-  title: string
-  site: string | null
-  due_on: string | null
-  notes: string | null
-  state: string
-  sample_required: boolean
-  sample_state: string
-  sample_comment: string | null
-  sample_decided_by: number | null
-  sample_decided_at: string | null
-  version: number
+  life: MouldLife
 }
 
-export interface ItemRow {
+/** A pour in a mould's history, newest first. */
+export interface MouldPour {
   id: number
-  job_id: number
-  mould_id: number | null
-  profile: string | null
-  description: string
-  quantity: number | null
-  run_m: number | null
-  walls: { lengthM: number }[] | null
-  min_piece_m: number | null
-  spares_pct: number
-  pieces_needed: number
-  grade_id: number | null
+  state: string
+  mixAt: string
+  demouldedAt: string | null
+  result: string | null
+  defect: string | null
+  isSample: boolean
   consistency: number | null
-  sort_order: number
-  version: number
-  mould_code?: string | null
-  cavity_litres?: number | null
-  cast_length_m?: number | null
-  grade_name?: string | null
+  jobCode: string | null
+  item: string | null
+  caster: string | null
+  lotCode: string | null
 }
 
-export interface ItemPlanView {
-  cutList: PlasterRunCutList | null
-  plaster: { perPieceKg: number; plasterKg: number; waterKg: number; bags: number } | null
-  bagKg: number | null
-}
-
-export type JobDetail = JobRow & {
-  released: boolean
-  items: (ItemRow & { plan: ItemPlanView })[]
-  members: { id: number; name: string; email: string }[]
-}
-
-export interface ClientJobDetail {
+/** A register entry about the mould (state changes carry from, to and reason). */
+export interface MouldEvent {
   id: number
-  code: string
-  title: string
-  site: string | null
-  due_on: string | null
-  state: string
-  sample_required: boolean
-  sample_state: string
-  sample_comment: string | null
-  sample_decided_at: string | null
-  released: boolean
-  items: { id: number; description: string; profile: string | null; mould_code: string | null; quantity: number | null; run_m: number | null; pieces_needed: number }[]
+  type: string
+  at: string
+  actor: string | null
+  data: { from?: string; to?: string; reason?: string | null }
 }
+
+/** GET /api/moulds/[id]: the mould with its pours and register entries. */
+export type MouldDetail = Mould & { pours: MouldPour[]; events: MouldEvent[] }

@@ -1,6 +1,15 @@
 import type { PlasterGrade } from '../utils/plaster-core'
+import type { UnitSystem } from '../utils/units-display'
 
 /** A grade the mix card offers: the workshop's own (numeric id) or a preset (its key). */
 export interface MixGradeOption { id: number | string; name: string; bagKg: number; grade: PlasterGrade }
 /** A mould the mix card offers. */
 export interface MixMouldOption { id: number; code: string; casts: string; cavityLitres: number; maxDwellMinutes: number }
+
+/** GET /api/calc/options: what the mix card offers, in the workshop's units and usual shop temperature. */
+export interface MixOptions {
+  units: UnitSystem
+  defaultShopTempC: number
+  grades: (MixGradeOption & { id: number; calibration: { factor: number; count: number; applied: boolean } | null })[]
+  moulds: (MixMouldOption & { state: string })[]
+}

@@ -90,7 +90,7 @@ describe('sessions end', () => {
     const lead = await signIn(demo.lead.email, DEMO_PASSWORD)
     const off = await call(`/api/users/${u.id}`, { method: 'PATCH', cookie: lead, body: { disabled: true } })
     expect(off.status).toBe(200)
-    expect(off.data.disabled_at).not.toBeNull()
+    expect(off.data.disabledAt).not.toBeNull()
     const me = await call('/api/auth/me', { cookie: userCookie })
     expect(me.status).toBe(401)
     const again = await call('/api/auth/login', { method: 'POST', body: { email: u.email, password: DEMO_PASSWORD } })

@@ -26,13 +26,13 @@ async function newJob(extra: Record<string, unknown> = {}) {
 async function catalogue() {
   const moulds = (await call('/api/moulds', { cookie: lead })).data
   const grades = (await call('/api/grades', { cookie: lead })).data
-  return { cr101: moulds.find((m: { code: string }) => m.code === 'CR-101'), cb12: moulds.find((m: { code: string }) => m.code === 'CB-12'), beta: grades.find((g: { preset_key: string }) => g.preset_key === 'beta-casting') }
+  return { cr101: moulds.find((m: { code: string }) => m.code === 'CR-101'), cb12: moulds.find((m: { code: string }) => m.code === 'CB-12'), beta: grades.find((g: { presetKey: string }) => g.presetKey === 'beta-casting') }
 }
 
 describe('jobs', () => {
   it('a lead creates and edits a job; codes are unique; fields are validated; versions are checked', async () => {
     const job = await newJob()
-    expect(job).toMatchObject({ state: 'open', sample_state: 'not_required', version: 1 })
+    expect(job).toMatchObject({ state: 'open', sampleState: 'not_required', dueOn: '2027-01-15', version: 1 })
     expect((await call('/api/jobs', { method: 'POST', cookie: lead, body: { code: job.code, title: 'Again' } })).status).toBe(409)
     for (const [field, value] of [['code', ''], ['title', ''], ['dueOn', '15/01/2027'], ['state', 'lost'], ['sampleRequired', 'yes']] as const) {
       const bad = await call('/api/jobs', { method: 'POST', cookie: lead, body: { code: `J-${uid()}`, title: 'T', [field]: value } })
@@ -40,7 +40,7 @@ describe('jobs', () => {
       expect(bad.data.data.problems[0].field).toBe(field)
     }
     const edited = await call(`/api/jobs/${job.id}`, { method: 'PATCH', cookie: lead, body: { sampleRequired: true, state: 'on_hold', version: 1 } })
-    expect(edited.data).toMatchObject({ sample_state: 'awaiting_cast', state: 'on_hold', version: 2 })
+    expect(edited.data).toMatchObject({ sampleState: 'awaiting_cast', state: 'on_hold', version: 2 })
     expect((await call(`/api/jobs/${job.id}`, { method: 'PATCH', cookie: lead, body: { title: 'x', version: 1 } })).status).toBe(409)
     const list = await call('/api/jobs', { cookie: caster })
     expect(list.data.some((j: { id: number }) => j.id === job.id)).toBe(true)
@@ -52,7 +52,7 @@ describe('jobs', () => {
     const r = await call(`/api/jobs/${job.id}/items`, { method: 'POST', cookie: lead, body: { kind: 'run', mouldId: cr101.id, description: 'Hall cornice', walls, sparesPct: 10, minPieceM: 0.3, gradeId: beta.id } })
     expect(r.status).toBe(201)
     const cut = runCutList({ walls, castLengthM: 1.2, minPieceM: 0.3, sparesPct: 10 })
-    expect(r.data).toMatchObject({ pieces_needed: cut.lengths, run_m: 12.35, consistency: 70, quantity: null })
+    expect(r.data).toMatchObject({ piecesNeeded: cut.lengths, runM: 12.35, consistency: 70, quantity: null })
     const detail = await call(`/api/jobs/${job.id}`, { cookie: lead })
     const item = detail.data.items[0]
     expect(item.plan.cutList.lengths).toBe(cut.lengths)
@@ -84,7 +84,7 @@ describe('jobs', () => {
     const { cb12 } = await catalogue()
     const item = (await call(`/api/jobs/${job.id}/items`, { method: 'POST', cookie: lead, body: { kind: 'pieces', mouldId: cb12.id, description: 'Corbels', quantity: 4 } })).data
     const edited = await call(`/api/jobs/${job.id}/items/${item.id}`, { method: 'PATCH', cookie: lead, body: { kind: 'pieces', mouldId: cb12.id, description: 'Corbels', quantity: 6, version: 1 } })
-    expect(edited.data).toMatchObject({ pieces_needed: 6, version: 2 })
+    expect(edited.data).toMatchObject({ piecesNeeded: 6, version: 2 })
     const stale = await call(`/api/jobs/${job.id}/items/${item.id}`, { method: 'PATCH', cookie: lead, body: { kind: 'pieces', mouldId: cb12.id, description: 'Corbels', quantity: 7, version: 1 } })
     expect(stale.status).toBe(409)
     const csv = await call(`/api/jobs/${job.id}/export`, { cookie: lead })
@@ -107,12 +107,18 @@ describe('clients on a job', () => {
     const jobs = (await call('/api/jobs', { cookie: lead })).data
     const mill = jobs.find((j: { code: string }) => j.code === 'J-2603')
     const alder = jobs.find((j: { code: string }) => j.code === 'J-2602')
-    const mine = await call(`/api/jobs/${mill.id}`, { cookie: client })
+    const mine = await call(`/api/client/jobs/${mill.id}`, { cookie: client })
     expect(mine.status).toBe(200)
+    expect(mine.data).toMatchObject({ code: 'J-2603', sampleRequired: expect.any(Boolean), released: expect.any(Boolean) })
     expect(mine.data).not.toHaveProperty('notes')
     expect(mine.data).not.toHaveProperty('members')
     expect(mine.data.items[0]).not.toHaveProperty('plan')
-    expect((await call(`/api/jobs/${alder.id}`, { cookie: client })).status).toBe(404)
+    expect((await call(`/api/client/jobs/${alder.id}`, { cookie: client })).status).toBe(404)
+    // the staff view of a job is no route for a client at all
+    expect((await call(`/api/jobs/${mill.id}`, { cookie: client })).status).toBe(403)
+    const list = (await call('/api/client/jobs', { cookie: client })).data
+    expect(list.find((j: { code: string }) => j.code === 'J-2603')).toMatchObject({ itemCount: mine.data.items.length })
+    expect(list.some((j: { code: string }) => j.code === 'J-2602')).toBe(false)
     expect((await call(`/api/jobs/${mill.id}`, { method: 'PATCH', cookie: client, body: { title: 'x', version: 1 } })).status).toBe(403)
     expect((await call('/api/jobs', { cookie: client })).status).toBe(403)
   })
@@ -146,9 +152,9 @@ describe('clients on a job', () => {
     const member = await makeUser(await demoWorkshopId(), 'client', 'removed-client')
     await call(`/api/jobs/${job.id}/members`, { method: 'POST', cookie: lead, body: { email: member.email } })
     const memberCookie = await signIn(member.email, DEMO_PASSWORD)
-    expect((await call(`/api/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(200)
+    expect((await call(`/api/client/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(200)
     expect((await call(`/api/jobs/${job.id}/members/${member.id}`, { method: 'DELETE', cookie: lead })).status).toBe(204)
-    expect((await call(`/api/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(404)
+    expect((await call(`/api/client/jobs/${job.id}`, { cookie: memberCookie })).status).toBe(404)
     expect((await call(`/api/jobs/${job.id}/members/${member.id}`, { method: 'DELETE', cookie: lead })).status).toBe(404)
     expect((await call(`/api/jobs/${job.id}/members/abc`, { method: 'DELETE', cookie: lead })).data.data.problems[0].field).toBe('params.userId')
   })
@@ -163,14 +169,14 @@ describe('sample approval', () => {
     const memberCookie = await signIn(member.email, DEMO_PASSWORD)
     expect((await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: memberCookie, body: { decision: 'approved' } })).status).toBe(409)
     const ready = await call(`/api/jobs/${job.id}/sample`, { method: 'POST', cookie: lead, body: { state: 'awaiting_approval', version: 1 } })
-    expect(ready.data.sample_state).toBe('awaiting_approval')
+    expect(ready.data.sampleState).toBe('awaiting_approval')
     await waitForMail(lead, member.email, 'Sample ready for your approval')
     expect((await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: lead, body: { decision: 'approved' } })).status).toBe(403)
-    const before = await call(`/api/jobs/${job.id}`, { cookie: memberCookie })
+    const before = await call(`/api/client/jobs/${job.id}`, { cookie: memberCookie })
     expect(before.data.released).toBe(false)
     const ok = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: memberCookie, body: { decision: 'approved', comment: 'Crisp, go ahead' } })
     expect(ok.status).toBe(200)
-    expect(ok.data).toMatchObject({ sample_state: 'approved', released: true })
+    expect(ok.data).toMatchObject({ sampleState: 'approved', released: true, sampleDecidedAt: expect.any(String) })
     const row = await testDb()('jobs').where({ id: job.id }).first()
     expect(Number(row.sample_decided_by)).toBe(member.id)
     const events = await testDb()('events').where({ entity: 'job', entity_id: String(job.id) }).orderBy('id')
@@ -193,7 +199,7 @@ describe('sample approval', () => {
     const bad = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'maybe' } })
     expect(bad.data.data.problems[0].field).toBe('decision')
     const changes = await call(`/api/jobs/${job.id}/sample-decision`, { method: 'POST', cookie: otherCookie, body: { decision: 'changes_requested', comment: 'Deeper egg, please' } })
-    expect(changes.data).toMatchObject({ sample_state: 'changes_requested', sample_comment: 'Deeper egg, please', released: false })
+    expect(changes.data).toMatchObject({ sampleState: 'changes_requested', sampleComment: 'Deeper egg, please', released: false })
   })
 
   it('keeps workshops apart', async () => {

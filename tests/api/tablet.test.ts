@@ -144,7 +144,7 @@ describe('PIN on the profile', () => {
     const listed = async () => (await call('/api/tablet/people', { cookie: device })).data.people.map((p: { id: number }) => p.id)
     expect(await listed()).toContain(u.id)
     const people = await call('/api/users', { cookie: lead })
-    expect(people.data.find((p: { id: number }) => p.id === u.id).has_pin).toBe(true)
+    expect(people.data.find((p: { id: number }) => p.id === u.id).hasPin).toBe(true)
     const other = await makeOtherWorkshop()
     const otherLead = await signIn(other.lead.email, DEMO_PASSWORD)
     expect((await call(`/api/users/${u.id}/pin`, { method: 'DELETE', cookie: otherLead })).status).toBe(404)

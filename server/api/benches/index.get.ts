@@ -1,6 +1,6 @@
-import { benchesRepo } from '../../repos/benches'
+import { listBenches } from '../../services/catalogue'
 // Benches in board order (staff read).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, ...STAFF)
-  return benchesRepo.list(useDb(), actor.workshopId)
+  return listBenches(actor.workshopId)
 })

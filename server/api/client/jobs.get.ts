@@ -1,6 +1,6 @@
-import { jobsRepo } from '../../repos/jobs'
+import { clientJobs } from '../../services/jobs'
 // The client's own jobs (member of), with item counts; nothing internal.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'client')
-  return jobsRepo.forClient(useDb(), actor.workshopId, actor.id)
+  return clientJobs(actor)
 })

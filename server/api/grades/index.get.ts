@@ -1,6 +1,6 @@
-import { gradesRepo } from '../../repos/plaster-grades'
+import { listGrades } from '../../services/catalogue'
 // Plaster grades with their calibration (staff read; casters need them for batch weights).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, ...STAFF)
-  return gradesRepo.list(useDb(), actor.workshopId)
+  return listGrades(actor.workshopId)
 })

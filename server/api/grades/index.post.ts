@@ -1,9 +1,9 @@
-import { gradesRepo } from '../../repos/plaster-grades'
+import { createGrade } from '../../services/catalogue'
 // A new plaster grade, usually copied from a preset and edited (lead).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   const input = await validBody(event, gradeCreateSchema)
-  const row = await gradesRepo.insert(useDb(), actor.workshopId, input)
+  const grade = await createGrade(actor.workshopId, input)
   setResponseStatus(event, 201)
-  return row
+  return grade
 })

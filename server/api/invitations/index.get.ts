@@ -1,6 +1,6 @@
-import { invitationsRepo } from '../../repos/invitations'
+import { pendingInvitations } from '../../services/people'
 // Invitations not yet accepted (lead).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
-  return invitationsRepo.pending(useDb(), actor.workshopId)
+  return pendingInvitations(actor.workshopId)
 })

@@ -1,8 +1,7 @@
 import { jobDetail } from '../../services/jobs'
-// One job with its items and plan. Staff see everything; a client member sees the client view
-// (no notes, no internal fields); anyone else gets 404.
+// One job with its items, plan and client members (staff read; a client reads /api/client/jobs/:id).
 export default defineEventHandler(async (event) => {
-  const actor = await requireRole(event, ...EVERYONE)
+  const actor = await requireRole(event, ...STAFF)
   const { id } = validParams(event, idParamSchema)
   return jobDetail(actor, id)
 })

@@ -1,9 +1,9 @@
-import { jobsRepo } from '../../repos/jobs'
+import { createJob } from '../../services/jobs'
 // A new job (lead). A job that requires a sample starts with the sample to be cast.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   const input = await validBody(event, jobCreateSchema)
-  const row = await jobsRepo.insert(useDb(), actor.workshopId, input)
+  const job = await createJob(actor.workshopId, input)
   setResponseStatus(event, 201)
-  return row
+  return job
 })

@@ -1,7 +1,6 @@
-import { mouldsRepo } from '../../repos/moulds'
-import { withLife } from '../../services/catalogue'
+import { listMoulds } from '../../services/catalogue'
 // Moulds with bench, state and the life warning (staff read).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, ...STAFF)
-  return (await mouldsRepo.list(useDb(), actor.workshopId)).map(withLife)
+  return listMoulds(actor.workshopId)
 })

@@ -1,6 +1,6 @@
-import { usersRepo } from '../../repos/users'
+import { listPeople } from '../../services/people'
 // The workshop's people (lead).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
-  return usersRepo.list(useDb(), actor.workshopId)
+  return listPeople(actor.workshopId)
 })

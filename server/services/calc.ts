@@ -1,0 +1,39 @@
+// The mix card's reads: the workshop's grades in use and moulds not retired (through their
+// tables' repos), its display units and usual shop temperature.
+import type { Knex } from 'knex'
+import { gradesRepo } from '../repos/plaster-grades'
+import { mouldsRepo } from '../repos/moulds'
+import { workshopsRepo } from '../repos/workshops'
+import type { PlasterGrade } from '#shared/utils/plaster-core'
+import type { MixOptions } from '#shared/types/mix'
+
+export async function mixOptions(workshopId: number): Promise<MixOptions> {
+  const db = useDb()
+  const [grades, moulds, workshop] = await Promise.all([gradesRepo.list(db, workshopId), mouldsRepo.list(db, workshopId), workshopsRepo.get(db, workshopId)])
+  if (!workshop) notFound('Workshop')
+  return {
+    units: workshop.units,
+    defaultShopTempC: workshop.default_shop_temp_c,
+    // the grades list puts archived ones last, by name: those in use keep their name order
+    grades: grades.filter(g => !g.archived_at).map(g => ({
+      id: g.id, name: g.name, bagKg: g.bag_kg, grade: plasterGradeFromRow(g),
+      calibration: g.calibration_factor ? { factor: g.calibration_factor, count: g.calibration_count, applied: g.calibration_applied } : null,
+    })),
+    moulds: moulds.filter(m => m.state !== 'retired')
+      .map(m => ({ id: m.id, code: m.code, casts: m.casts, cavityLitres: m.cavity_litres, maxDwellMinutes: m.max_dwell_minutes, state: m.state })),
+  }
+}
+
+/** The grade a mix request names by id, as the plaster model wants it (422 when not the workshop's). */
+export async function mixGrade(db: Knex, workshopId: number, id: number): Promise<PlasterGrade> {
+  const row = await gradesRepo.byId(db, workshopId, id)
+  if (!row) unprocessable([{ field: 'gradeId', message: 'is not a plaster grade of this workshop' }])
+  return plasterGradeFromRow(row)
+}
+
+/** The cavity and dwell of a mould a mix request names by id (422 when not the workshop's). */
+export async function mixMould(db: Knex, workshopId: number, id: number): Promise<{ cavityLitres: number; maxDwellMinutes: number }> {
+  const row = await mouldsRepo.byId(db, workshopId, id)
+  if (!row) unprocessable([{ field: 'mouldId', message: 'is not a mould of this workshop' }])
+  return { cavityLitres: row.cavity_litres, maxDwellMinutes: row.max_dwell_minutes }
+}
