@@ -5,7 +5,7 @@ import { beforeEach, describe, expect, it } from 'vitest'
 import { flushPromises } from '@vue/test-utils'
 import { mountSuspended, registerEndpoint } from '@nuxt/test-utils/runtime'
 import { readBody } from 'h3'
-import type { BenchRow, GradeRow, MouldRow } from '#shared/types/catalogue'
+import type { Bench, Grade, Mould } from '#shared/types/catalogue'
 import CatalogueLotForm from '../../app/components/catalogue/CatalogueLotForm.vue'
 import CatalogueMouldForm from '../../app/components/catalogue/CatalogueMouldForm.vue'
 import TabletPinForm from '../../app/components/tablet/TabletPinForm.vue'
@@ -35,7 +35,7 @@ async function submit(w: Wrapper) {
 const errorOf = (w: Wrapper, id: string) => w.find(`#${id}-error`).exists() ? w.find(`#${id}-error`).text().replace('✕ ', '') : ''
 
 describe('CatalogueLotForm', () => {
-  const grades = [{ id: 3, name: 'Fine casting (beta)', bag_kg: 25, archived_at: null }] as unknown as GradeRow[]
+  const grades = [{ id: 3, name: 'Fine casting (beta)', bagKg: 25, archivedAt: null }] as unknown as Grade[]
   record('/api/lots', 'POST', { id: 1 })
 
   it('shows the schema\'s problems beside the fields and sends nothing', async () => {
@@ -64,7 +64,7 @@ describe('CatalogueLotForm', () => {
 })
 
 describe('CatalogueMouldForm', () => {
-  const benches = [{ id: 4, name: 'North bench', archived_at: null }] as unknown as BenchRow[]
+  const benches = [{ id: 4, name: 'North bench', archivedAt: null }] as unknown as Bench[]
   record('/api/moulds', 'POST', { id: 41 })
 
   it('shows the schema\'s problems beside the fields and sends nothing', async () => {
@@ -97,7 +97,7 @@ describe('CatalogueMouldForm', () => {
 })
 
 describe('JobsItemForm', () => {
-  const moulds = [{ id: 7, code: 'CR-3', casts: 'Cornice run', state: 'ready', cast_length_m: 1.2, cavity_litres: 3 }] as unknown as MouldRow[]
+  const moulds = [{ id: 7, code: 'CR-3', casts: 'Cornice run', state: 'ready', castLengthM: 1.2, cavityLitres: 3 }] as unknown as Mould[]
   record('/api/jobs/5/items', 'POST', { id: 51 })
 
   it('asks for the quantity and for a mould or a profile, and sends nothing', async () => {
