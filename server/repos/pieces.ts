@@ -75,6 +75,17 @@ const QUEUE_ORDER = 'ORDER BY j.due_on NULLS LAST, coalesce(p.demoulded_at, c.cr
 const asNumberId = <T extends { id: number | string }>(r: T) => ({ ...r, id: Number(r.id) })
 
 export const piecesRepo = {
+  async markTaken(db: Knex, workshopId: number, mark: string): Promise<boolean> {
+    return !!(await db('pieces').first('id').where({ workshop_id: workshopId, mark }))
+  },
+  /** A new piece from a demoulded pour. */
+  async insert(db: Knex, workshopId: number, p: { pourId: number; jobItemId: number | null; mark: string; dryMassKg: number; wetMassKg: number; state: FinishingPieceState }) {
+    const [row] = await db('pieces').insert({
+      workshop_id: workshopId, pour_id: p.pourId, job_item_id: p.jobItemId, mark: p.mark, state: p.state,
+      dry_mass_kg: p.dryMassKg, wet_mass_kg: p.wetMassKg,
+    }).returning(['id', 'mark', 'state', 'dry_mass_kg', 'wet_mass_kg', 'version'])
+    return { id: Number(row.id), mark: row.mark as string, state: row.state as FinishingPieceState, dryMassKg: Number(row.dry_mass_kg), wetMassKg: Number(row.wet_mass_kg), version: row.version as number }
+  },
   async forUpdate(db: Knex, workshopId: number, id: number): Promise<PieceRow | undefined> {
     const row = await db('pieces').first(...ROW_COLUMNS).where({ workshop_id: workshopId, id }).forUpdate()
     return row ? asNumberId(row) : undefined

@@ -14,9 +14,9 @@ import { boardLocalDay } from '#shared/utils/board-rules'
 import { jobsRepo } from '../repos/jobs'
 import { piecesRepo } from '../repos/pieces'
 import { dispatchesRepo } from '../repos/dispatches'
-import { floorRepo } from '../repos/floor'
+import { recordEvent } from '../repos/events'
 import { actionTime, runOnce } from './actions'
-import { loadWorkshop } from './pours'
+import { loadWorkshop } from './workshop'
 import { pieceDto } from './finishing-queue'
 
 const round3 = (kg: number) => Math.round(kg * 1000) / 1000
@@ -43,9 +43,9 @@ export function createDispatch(actor: Actor, jobId: number, input: FinishingDisp
     const ids = pieces.map(p => p.id)
     await dispatchesRepo.dispatchPieces(trx, ws.id, ids, id)
     for (const p of pieces) {
-      await floorRepo.event(trx, { workshopId: ws.id, entity: 'piece', entityId: p.id, type: 'piece.dispatched', actorId: actor.id, at, backdated, data: { from: 'packed', to: 'dispatched', mark: p.mark, dispatchId: id, noteNo } })
+      await recordEvent(trx, { workshopId: ws.id, entity: 'piece', entityId: p.id, type: 'piece.dispatched', actorId: actor.id, at, backdated, data: { from: 'packed', to: 'dispatched', mark: p.mark, dispatchId: id, noteNo } })
     }
-    await floorRepo.event(trx, { workshopId: ws.id, entity: 'dispatch', entityId: id, type: 'dispatch.created', actorId: actor.id, at, backdated, data: { jobId, noteNo, pieceIds: ids } })
+    await recordEvent(trx, { workshopId: ws.id, entity: 'dispatch', entityId: id, type: 'dispatch.created', actorId: actor.id, at, backdated, data: { jobId, noteNo, pieceIds: ids } })
     return {
       result: { id, noteNo, pieces: ids.length },
       after: () => {

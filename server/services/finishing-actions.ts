@@ -6,12 +6,11 @@ import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'
 import { FINISHING_STEPS, type FinishingActionInput, type FinishingPieceState } from '#shared/utils/finishing-schemas'
 import { PLASTER_DRY_FREE_WATER_PCT, dryness } from '#shared/utils/plaster-drying'
-import { PlasterInputError } from '#shared/utils/plaster-core'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { piecesRepo, type PieceRow } from '../repos/pieces'
-import { floorRepo } from '../repos/floor'
+import { recordEvent } from '../repos/events'
 import { actionTime, runOnce } from './actions'
-import { loadWorkshop } from './pours'
+import { loadWorkshop } from './workshop'
 import { dryingRoom, pieceDtos } from './finishing-queue'
 import { notifyJobReady } from './notify'
 
@@ -22,16 +21,6 @@ const STATE_WORDS: Record<FinishingPieceState, string> = {
   to_fettle: 'waiting to be fettled', repair: 'in repair', drying: 'drying', ready: 'ready', packed: 'packed', dispatched: 'dispatched', rejected: 'rejected',
 }
 const or = (states: readonly string[]) => states.map(s => STATE_WORDS[s as FinishingPieceState]).join(' or ')
-
-function model<T>(fn: () => T): T {
-  try {
-    return fn()
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
-    throw e
-  }
-}
 
 /** The piece, locked, in a state this action may start from and at the version the tablet saw. */
 async function lockForStep(trx: Knex, actor: Actor, id: number, input: FinishingActionInput) {
@@ -49,7 +38,7 @@ async function write(c: StepContext, kind: FinishingActionInput['kind'], patch: 
   const to = FINISHING_STEPS[kind].to
   const ok = await piecesRepo.step(c.trx, c.actor.workshopId, c.row.id, c.row.version, { state: to, ...patch })
   if (!ok) conflict(`Piece ${c.row.mark} was changed by someone else; reload to see it`)
-  await floorRepo.event(c.trx, {
+  await recordEvent(c.trx, {
     workshopId: c.actor.workshopId, entity: 'piece', entityId: c.row.id, type: `piece.${kind}`, actorId: c.actor.id,
     at: c.at, backdated: c.backdated, data: { from: c.row.state, to, mark: c.row.mark, ...data },
   })
@@ -61,9 +50,9 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
   const airTempC = input.dryingTempC ?? room.tempC
   const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
   const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
-  const est = model(() => finishingDryBy({
+  const est = finishingDryBy({
     from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct,
-  }))
+  })
   const hours = Number.isFinite(est.hours) ? est.hours : null
   await write(c, 'fettled', { dry_by: est.dryBy, drying_temp_c: airTempC, drying_humidity_pct: relHumidityPct, reason: null },
     { dryingTempC: airTempC, dryingHumidityPct: relHumidityPct, roomFrom: input.dryingTempC === undefined ? room.source : 'form', hours, dryBy: est.dryBy, warnings: est.warnings })
@@ -71,7 +60,7 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
 }
 
 async function weighed(c: StepContext, input: Extract<FinishingActionInput, { kind: 'weighed' }>): Promise<StepOutcome> {
-  const d = model(() => dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) }))
+  const d = dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) })
   await piecesRepo.addWeighing(c.trx, c.actor.workshopId, { pieceId: c.row.id, kg: input.weighedKg, at: c.at, by: c.actor.id })
   await write(c, 'weighed', {}, { weighedKg: input.weighedKg, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry })
   return { dryness: d }

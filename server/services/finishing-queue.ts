@@ -8,7 +8,7 @@ import type { WorkshopRow } from '../repos/workshops'
 import { dryness } from '#shared/utils/plaster-drying'
 import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '#shared/utils/finishing'
 import { boardLocalDay } from '#shared/utils/board-rules'
-import { loadWorkshop } from './pours'
+import { loadWorkshop } from './workshop'
 
 const num = (v: string | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)

@@ -2,7 +2,7 @@
 // escaping, BOM): one row per pour, then one per grade of the requisition. Times in the
 // workshop's zone, as on the wall.
 import { daySheet } from '../../services/day-sheet'
-import { loadWorkshop } from '../../services/pours'
+import { loadWorkshop } from '../../services/workshop'
 
 const text = (key: string) => ({ key, header: key })
 const figure = (key: string) => ({ key, header: key, number: true })

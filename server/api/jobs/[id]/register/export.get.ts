@@ -2,7 +2,7 @@
 // keyset pages and flow through csv-stringify, so a 100,000-pour job never sits in memory.
 import { jobsRepo } from '../../../../repos/jobs'
 import { registerRepo } from '../../../../repos/register'
-import { loadWorkshop } from '../../../../services/pours'
+import { loadWorkshop } from '../../../../services/workshop'
 
 const COLUMNS: [string, string][] = [
   ['pour_id', 'pour'], ['state', 'pour state'], ['is_sample', 'sample'], ['mark', 'piece mark'], ['piece_state', 'piece state'],
