@@ -17,7 +17,7 @@ import { dispatchesRepo } from '../repos/dispatches'
 import { recordEvent } from '../repos/events'
 import { actionTime, runOnce } from './actions'
 import { loadWorkshop } from './workshop'
-import { pieceDto } from './finishing-queue'
+import { pieceDto } from '../queries/finishing-queue'
 
 const round3 = (kg: number) => Math.round(kg * 1000) / 1000
 

@@ -1,7 +1,6 @@
 // The caster's pour actions on the floor: start mixing → poured → demoulded, each exactly once
 // (services/actions.ts), in one transaction with its register entry. The server is the judge of
 // the order of steps and of the version the tablet saw.
-import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FloorActionInput } from '#shared/utils/floor-schemas'
 import { FLOOR_STEPS } from '#shared/utils/floor-schemas'
@@ -15,26 +14,15 @@ import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
 import { calibrationFactor } from '#shared/utils/plaster-set'
 import { pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
-import { actionTime, runOnce } from './actions'
+import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
 import { loadWorkshop } from './workshop'
 import { floorCards } from '../queries/floor-today'
 import type { FloorActionResult } from '#shared/types/floor'
 
 const MINUTE_MS = 60_000
 
-interface StepContext { trx: Knex; actor: Actor; row: PourStepRow; at: Date; backdated: boolean }
-
-/** The pour, locked, in the state this action needs and at the version the tablet saw. */
-async function lockForStep(trx: Knex, actor: Actor, id: number, input: FloorActionInput) {
-  const row = await poursRepo.forStep(trx, actor.workshopId, id)
-  if (!row) notFound('Pour')
-  const step = FLOOR_STEPS[input.kind]
-  if (row.state !== step.from) {
-    conflict(`This pour is already ${row.state}: it cannot be marked ${input.kind.replace('_', ' ')} (that needs ${step.from})`, { state: row.state, version: row.version })
-  }
-  if (row.version !== input.version) conflict('This pour was changed by someone else; reload to see it', { state: row.state, version: row.version })
-  return row
-}
+type StepContext = Step<PourStepRow>
+type MadePiece = { id: number; mark: string } | null
 
 async function gradeAndMould(c: StepContext) {
   const grade = await pourFactsRepo.grade(c.trx, c.actor.workshopId, c.row.grade_id)
@@ -42,10 +30,12 @@ async function gradeAndMould(c: StepContext) {
   return { grade, gradeModel: plasterGradeFromRow(grade), mould }
 }
 
-async function write(c: StepContext, type: string, patch: Record<string, unknown>, data: Record<string, unknown>) {
-  const ok = await poursRepo.step(c.trx, c.actor.workshopId, c.row.id, c.row.version, { ...patch, ...(c.backdated ? { backdated: true } : {}) })
-  if (!ok) conflict('This pour was changed by someone else; reload to see it')
-  await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'pour', entityId: c.row.id, type, actorId: c.actor.id, at: c.at, backdated: c.backdated, data })
+function write(c: StepContext, type: string, patch: Record<string, unknown>, data: Record<string, unknown>) {
+  return writeStep(c, {
+    update: (trx, workshopId, id, version) => poursRepo.step(trx, workshopId, id, version, { ...patch, ...(c.backdated ? { backdated: true } : {}) }),
+    changed: 'This pour was changed by someone else; reload to see it',
+    entity: 'pour', type, data,
+  })
 }
 
 async function startMixing(c: StepContext, input: Extract<FloorActionInput, { kind: 'start_mixing' }>) {
@@ -130,15 +120,18 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   return { id: piece.id, mark }
 }
 
-const STEPS = { start_mixing: startMixing, poured, demoulded } as const
-
-/** POST /api/pours/:id/actions: one step of a pour, exactly once per actionId. */
-export function pourAction(actor: Actor, pourId: number, input: FloorActionInput) {
-  return runOnce<FloorActionResult>(actor, input.actionId, { kind: `pour.${input.kind}`, entityId: pourId }, async (trx) => {
-    const row = await lockForStep(trx, actor, pourId, input)
-    const previous = input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null
-    const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }
-    const piece = await (STEPS[input.kind] as (c: StepContext, i: FloorActionInput) => Promise<{ id: number; mark: string } | null>)(c, input)
+const floorSteps: StepMachine<PourStepRow, FloorActionInput, MadePiece, FloorActionResult> = {
+  entity: 'pour',
+  noun: 'Pour',
+  lock: (trx, workshopId, id) => poursRepo.forStep(trx, workshopId, id),
+  refuseState: (row, input) => {
+    const from = FLOOR_STEPS[input.kind].from
+    return row.state === from ? null : `This pour is already ${row.state}: it cannot be marked ${input.kind.replace('_', ' ')} (that needs ${from})`
+  },
+  changed: () => 'This pour was changed by someone else; reload to see it',
+  previousAt: (_trx, _workshopId, row, input) => (input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null),
+  steps: { start_mixing: startMixing, poured, demoulded },
+  async answer(trx, actor, pourId, piece) {
     const [card] = await floorCards(trx, actor.workshopId, [pourId])
     return {
       result: { card: card!, piece },
@@ -147,5 +140,10 @@ export function pourAction(actor: Actor, pourId: number, input: FloorActionInput
         if (piece) emitToWorkshop(actor.workshopId, { type: 'piece.created', id: piece.id, row: { ...piece, pourId } })
       },
     }
-  })
+  },
+}
+
+/** POST /api/pours/:id/actions: one step of a pour, exactly once per actionId. */
+export function pourAction(actor: Actor, pourId: number, input: FloorActionInput) {
+  return runStep(floorSteps, actor, pourId, input)
 }
