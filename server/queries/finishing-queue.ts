@@ -10,7 +10,7 @@ import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '#shared/utils/finis
 import { boardLocalDay } from '#shared/utils/board-rules'
 import { loadWorkshop } from '../services/workshop'
 
-const num = (v: string | null) => (v === null ? null : Number(v))
+const num = (v: number | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
 
 export function pieceDto(r: PieceViewRow): FinishingPieceDto {

@@ -41,7 +41,7 @@ export function createDispatch(actor: Actor, jobId: number, input: FinishingDisp
     const noteNo = await dispatchesRepo.nextNoteNo(trx, ws.id, boardLocalDay(at, ws.timezone).slice(0, 4))
     const id = await dispatchesRepo.insert(trx, ws.id, { jobId, noteNo, at, by: actor.id, notes: input.notes || null })
     const ids = pieces.map(p => p.id)
-    await dispatchesRepo.dispatchPieces(trx, ws.id, ids, id)
+    await piecesRepo.dispatch(trx, ws.id, ids, id)
     for (const p of pieces) {
       await recordEvent(trx, { workshopId: ws.id, entity: 'piece', entityId: p.id, type: 'piece.dispatched', actorId: actor.id, at, backdated, data: { from: 'packed', to: 'dispatched', mark: p.mark, dispatchId: id, noteNo } })
     }

@@ -36,3 +36,8 @@ export async function setShopDay(actor: Actor, day: string, input: { tempC: numb
   emitToWorkshop(ws.id, { type: 'shopday.updated', id: day, row: dto })
   return dto
 }
+
+/** The shop days entered for the local days from..to. */
+export async function shopDaysBetween(workshopId: number, from: string, to: string) {
+  return (await shopDaysRepo.between(useDb(), workshopId, from, to)).map(shopDayDto)
+}
