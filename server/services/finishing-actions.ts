@@ -1,5 +1,5 @@
 // The finisher's piece actions: fettled → drying (with a dry-by time), weighed, ready, packed,
-// and repair, repaired, rejected; each exactly once (services/actions.ts) in one transaction
+// and repair, repaired, rejected; each exactly once (services/step-machine.ts) in one transaction
 // with its register entry. The server judges the order of steps and the version the tablet saw.
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'

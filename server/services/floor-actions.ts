@@ -1,5 +1,5 @@
 // The caster's pour actions on the floor: start mixing → poured → demoulded, each exactly once
-// (services/actions.ts), in one transaction with its register entry. The server is the judge of
+// (services/step-machine.ts), in one transaction with its register entry. The server is the judge of
 // the order of steps and of the version the tablet saw.
 import type { Actor } from '../utils/auth'
 import type { FloorActionInput } from '#shared/utils/floor-schemas'
