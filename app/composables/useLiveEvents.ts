@@ -1,12 +1,17 @@
 // Lets a page react to live events of some types while it is mounted; `onCatchUp` runs
-// after a reconnect (default: the same refresh).
-import type { LiveEvent } from '#shared/types/live'
+// after a reconnect (default: the handler with a catch-up event).
+import type { LiveCatchUp, LiveEvent, LiveEventType } from '#shared/types/live'
 
-export function useLiveEvents(types: string[], onEvent: (e: LiveEvent) => void, onCatchUp?: () => void) {
+export function useLiveEvents<T extends LiveEventType>(types: readonly T[], onEvent: (e: Extract<LiveEvent, { type: T }> | LiveCatchUp) => void, onCatchUp?: () => void) {
   const live = useLiveStore()
+  const wanted = new Set<LiveEventType>(types)
   let stop: (() => void) | undefined
   onMounted(() => {
-    stop = live.listen({ match: e => types.includes(e.type), onEvent, onCatchUp: onCatchUp ?? (() => onEvent({ type: 'catch-up', id: 0 })) })
+    stop = live.listen({
+      match: e => wanted.has(e.type),
+      onEvent: e => onEvent(e as Extract<LiveEvent, { type: T }>),
+      onCatchUp: onCatchUp ?? (() => onEvent({ type: 'catch-up', id: 0 })),
+    })
   })
   onBeforeUnmount(() => stop?.())
 }

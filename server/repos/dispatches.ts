@@ -75,9 +75,4 @@ export const dispatchesRepo = {
       this.on('o.id', 'j.client_org_id').andOn('o.workshop_id', 'j.workshop_id')
     }).first('j.id', 'j.code', 'j.title', 'j.site', 'o.name as client').where({ 'j.workshop_id': workshopId, 'j.id': jobId })
   },
-  /** Marks the pieces dispatched on a note, each moving its version on. */
-  async dispatchPieces(db: Knex, workshopId: number, ids: number[], dispatchId: number) {
-    await db('pieces').where({ workshop_id: workshopId }).whereIn('id', ids)
-      .update({ state: 'dispatched', dispatch_id: dispatchId, version: db.raw('version + 1'), updated_at: db.fn.now() })
-  },
 }

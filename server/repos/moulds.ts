@@ -145,3 +145,18 @@ export const mouldsRepo = {
       .orderBy('m.code')
   },
 }
+
+/** The floor's writes to a mould: its row locked for a pour's step, its state and pull count. */
+export const mouldFloorRepo = {
+  forStep(db: Knex, workshopId: number, id: number) {
+    return db('moulds').first('id', 'code', 'state', 'pulls', 'cavity_litres', 'max_dwell_minutes', 'prep_minutes', 'clean_minutes', 'version')
+      .where({ workshop_id: workshopId, id }).forUpdate()
+  },
+  /** Moves the mould's state (and optionally counts a pull), bumping its version. */
+  async moveState(db: Knex, workshopId: number, id: number, state: string, actorId: number, pull = false) {
+    await db('moulds').where({ workshop_id: workshopId, id }).update({
+      state, state_changed_by: actorId, state_changed_at: db.fn.now(), version: db.raw('version + 1'), updated_at: db.fn.now(),
+      ...(pull ? { pulls: db.raw('pulls + 1') } : {}),
+    })
+  },
+}

@@ -10,8 +10,8 @@ export interface PieceRow {
   mark: string
   pour_id: number
   job_item_id: number | null
-  dry_mass_kg: string
-  wet_mass_kg: string
+  dry_mass_kg: number
+  wet_mass_kg: number
   dry_by: Date | null
   dispatch_id: number | null
 }
@@ -24,25 +24,25 @@ export interface PieceViewRow {
   version: number
   mark: string
   state: FinishingPieceState
-  dry_mass_kg: string
-  wet_mass_kg: string
+  dry_mass_kg: number
+  wet_mass_kg: number
   dry_by: Date | null
-  drying_temp_c: string | null
-  drying_humidity_pct: string | null
+  drying_temp_c: number | null
+  drying_humidity_pct: number | null
   reason: string | null
   dispatch_id: number | null
   created_at: Date
   demoulded_at: Date | null
   mould_code: string
   mould_casts: string
-  cavity_litres: string
+  cavity_litres: number
   item_id: number | null
   item_description: string | null
   job_id: number | null
   job_code: string | null
   job_title: string | null
   job_due_on: string | null
-  weighed_kg: string | null
+  weighed_kg: number | null
   weighed_at: Date | null
 }
 
@@ -75,6 +75,22 @@ const QUEUE_ORDER = 'ORDER BY j.due_on NULLS LAST, coalesce(p.demoulded_at, c.cr
 const asNumberId = <T extends { id: number | string }>(r: T) => ({ ...r, id: Number(r.id) })
 
 export const piecesRepo = {
+  /** Marks the pieces dispatched on a note, each moving its version on. */
+  async dispatch(db: Knex, workshopId: number, ids: number[], dispatchId: number) {
+    await db('pieces').where({ workshop_id: workshopId }).whereIn('id', ids)
+      .update({ state: 'dispatched', dispatch_id: dispatchId, version: db.raw('version + 1'), updated_at: db.fn.now() })
+  },
+  async markTaken(db: Knex, workshopId: number, mark: string): Promise<boolean> {
+    return !!(await db('pieces').first('id').where({ workshop_id: workshopId, mark }))
+  },
+  /** A new piece from a demoulded pour. */
+  async insert(db: Knex, workshopId: number, p: { pourId: number; jobItemId: number | null; mark: string; dryMassKg: number; wetMassKg: number; state: FinishingPieceState }) {
+    const [row] = await db('pieces').insert({
+      workshop_id: workshopId, pour_id: p.pourId, job_item_id: p.jobItemId, mark: p.mark, state: p.state,
+      dry_mass_kg: p.dryMassKg, wet_mass_kg: p.wetMassKg,
+    }).returning(['id', 'mark', 'state', 'dry_mass_kg', 'wet_mass_kg', 'version'])
+    return { id: Number(row.id), mark: row.mark as string, state: row.state as FinishingPieceState, dryMassKg: Number(row.dry_mass_kg), wetMassKg: Number(row.wet_mass_kg), version: row.version as number }
+  },
   async forUpdate(db: Knex, workshopId: number, id: number): Promise<PieceRow | undefined> {
     const row = await db('pieces').first(...ROW_COLUMNS).where({ workshop_id: workshopId, id }).forUpdate()
     return row ? asNumberId(row) : undefined

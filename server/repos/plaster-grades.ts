@@ -78,3 +78,11 @@ export const gradesRepo = {
     return updateVersioned<GradeRow>(db, 'plaster_grades', { workshopId, id, version }, toColumns(input, db), GRADE_COLUMNS, 'Plaster grade')
   },
 }
+
+/** The grade's demould calibration, which each demoulded pour moves on (plaster-set.ts calibrationFactor). */
+export const gradeCalibrationRepo = {
+  async set(db: Knex, workshopId: number, gradeId: number, factor: number, count: number) {
+    await db('plaster_grades').where({ workshop_id: workshopId, id: gradeId })
+      .update({ calibration_factor: factor, calibration_count: count, updated_at: db.fn.now() })
+  },
+}

@@ -1,6 +1,8 @@
 // Every knex call for pours (and the facts about moulds, items, casters and lots that a
 // pour's rules need). Workshop in every WHERE; ids from PostgreSQL bigints arrive as numbers.
 import type { Knex } from 'knex'
+import type { PourState } from '#shared/types/board'
+import { recordEvent } from './events'
 
 export interface PourDtoRow {
   id: number
@@ -19,7 +21,7 @@ export interface PourDtoRow {
   grade_id: number
   grade_name: string
   lot_id: number | null
-  state: 'planned' | 'mixing' | 'setting' | 'demoulded' | 'void'
+  state: PourState
   is_sample: boolean
   consistency: number
   set_factor: number
@@ -32,6 +34,35 @@ export interface PourDtoRow {
   water_kg_planned: number
   warnings: string[]
 }
+
+/** A pour's row as its floor steps read and write it (locked), with its actuals. */
+export interface PourStepRow {
+  id: number
+  version: number
+  state: PourState
+  mould_id: number
+  job_item_id: number | null
+  grade_id: number
+  lot_id: number | null
+  consistency: number
+  set_factor: number
+  plaster_kg_planned: number
+  water_kg_planned: number
+  plaster_kg_actual: number | null
+  water_kg_actual: number | null
+  water_temp_c: number | null
+  powder_temp_c: number | null
+  shop_temp_c: number | null
+  slurry_temp_c: number | null
+  mixing_at: Date | null
+  poured_at: Date | null
+  demoulded_at: Date | null
+  predicted_demould_minutes: number | null
+}
+
+const STEP_COLUMNS = ['id', 'version', 'state', 'mould_id', 'job_item_id', 'grade_id', 'lot_id', 'consistency', 'set_factor',
+  'plaster_kg_planned', 'water_kg_planned', 'plaster_kg_actual', 'water_kg_actual', 'water_temp_c', 'powder_temp_c', 'shop_temp_c',
+  'slurry_temp_c', 'mixing_at', 'poured_at', 'demoulded_at', 'predicted_demould_minutes'] as const
 
 /** The PourDto's columns; one query, so the board is a single read of pours. */
 const DTO_SQL = `SELECT p.id, p.version, p.mould_id, m.code AS mould_code, m.bench_id, b.name AS bench_name, m.casts,
@@ -171,10 +202,24 @@ export const poursRepo = {
     return n === 1
   },
   event(db: Knex, e: { workshopId: number; pourId: number; type: string; actorId: number; data: Record<string, unknown> }) {
-    return db('events').insert({
-      workshop_id: e.workshopId, entity: 'pour', entity_id: String(e.pourId), type: e.type, actor_id: e.actorId,
-      at: db.fn.now(), data: JSON.stringify(e.data),
-    })
+    return recordEvent(db, { workshopId: e.workshopId, entity: 'pour', entityId: e.pourId, type: e.type, actorId: e.actorId, data: e.data })
+  },
+  /** The pour row for a floor step, with its actuals, locked until the transaction ends. */
+  forStep(db: Knex, workshopId: number, id: number): Promise<PourStepRow | undefined> {
+    return db('pours').first(...STEP_COLUMNS).where({ workshop_id: workshopId, id }).forUpdate()
+  },
+  /** Writes one floor step when the version still matches; false when someone else moved it on. */
+  async step(db: Knex, workshopId: number, id: number, version: number, patch: Record<string, unknown>): Promise<boolean> {
+    const n = await db('pours').where({ workshop_id: workshopId, id, version })
+      .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() })
+    return n === 1
+  },
+  /** The grade's (predicted, actual) demould pairs in register order, oldest first. */
+  async calibrationPairs(db: Knex, workshopId: number, gradeId: number) {
+    const rows = await db('pours').select('predicted_demould_minutes', 'actual_demould_minutes')
+      .where({ workshop_id: workshopId, grade_id: gradeId }).whereNotNull('actual_demould_minutes').whereNotNull('predicted_demould_minutes')
+      .orderBy([{ column: 'demoulded_at' }, { column: 'id' }])
+    return rows.map(r => ({ predictedMinutes: Number(r.predicted_demould_minutes), actualMinutes: Number(r.actual_demould_minutes) }))
   },
 }
 

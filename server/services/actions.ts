@@ -105,7 +105,8 @@ export async function runOnce<T>(actor: Actor, actionId: string, target: ActionT
       // a savepoint: a refused action leaves nothing behind but its stored refusal
       outcome = await trx.transaction(inner => work(inner))
     }
-    catch (e) {
+    catch (thrown) {
+      const e = asHttpError(thrown)
       const status = (e as HttpishError)?.statusCode
       if (!status || !STORED_REFUSALS.has(status)) throw e
       refusal = e as HttpishError

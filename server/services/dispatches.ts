@@ -14,10 +14,10 @@ import { boardLocalDay } from '#shared/utils/board-rules'
 import { jobsRepo } from '../repos/jobs'
 import { piecesRepo } from '../repos/pieces'
 import { dispatchesRepo } from '../repos/dispatches'
-import { floorRepo } from '../repos/floor'
+import { recordEvent } from '../repos/events'
 import { actionTime, runOnce } from './actions'
-import { loadWorkshop } from './pours'
-import { pieceDto } from './finishing-queue'
+import { loadWorkshop } from './workshop'
+import { pieceDto } from '../queries/finishing-queue'
 
 const round3 = (kg: number) => Math.round(kg * 1000) / 1000
 
@@ -41,11 +41,11 @@ export function createDispatch(actor: Actor, jobId: number, input: FinishingDisp
     const noteNo = await dispatchesRepo.nextNoteNo(trx, ws.id, boardLocalDay(at, ws.timezone).slice(0, 4))
     const id = await dispatchesRepo.insert(trx, ws.id, { jobId, noteNo, at, by: actor.id, notes: input.notes || null })
     const ids = pieces.map(p => p.id)
-    await dispatchesRepo.dispatchPieces(trx, ws.id, ids, id)
+    await piecesRepo.dispatch(trx, ws.id, ids, id)
     for (const p of pieces) {
-      await floorRepo.event(trx, { workshopId: ws.id, entity: 'piece', entityId: p.id, type: 'piece.dispatched', actorId: actor.id, at, backdated, data: { from: 'packed', to: 'dispatched', mark: p.mark, dispatchId: id, noteNo } })
+      await recordEvent(trx, { workshopId: ws.id, entity: 'piece', entityId: p.id, type: 'piece.dispatched', actorId: actor.id, at, backdated, data: { from: 'packed', to: 'dispatched', mark: p.mark, dispatchId: id, noteNo } })
     }
-    await floorRepo.event(trx, { workshopId: ws.id, entity: 'dispatch', entityId: id, type: 'dispatch.created', actorId: actor.id, at, backdated, data: { jobId, noteNo, pieceIds: ids } })
+    await recordEvent(trx, { workshopId: ws.id, entity: 'dispatch', entityId: id, type: 'dispatch.created', actorId: actor.id, at, backdated, data: { jobId, noteNo, pieceIds: ids } })
     return {
       result: { id, noteNo, pieces: ids.length },
       after: () => {

@@ -1,5 +1,5 @@
 // The finisher's piece actions: fettled → drying (with a dry-by time), weighed, ready, packed,
-// and repair, repaired, rejected; each exactly once (services/actions.ts) in one transaction
+// and repair, repaired, rejected; each exactly once (services/step-machine.ts) in one transaction
 // with its register entry. The server judges the order of steps and the version the tablet saw.
 //
 // The steps are FINISHING_STEPS (shared/utils/finishing-schemas.ts); every piece action, a
@@ -9,21 +9,18 @@
 // (COUNTED_POUR in server/repos/planning.ts), so its item is planned again. The `ready` step
 // mails the job's client when every item of the open job has its pieces ready, packed or
 // dispatched (notifyJobReady). Only packed pieces go on a dispatch note (services/dispatches.ts).
-import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'
 import { FINISHING_STEPS, type FinishingActionInput, type FinishingPieceState } from '#shared/utils/finishing-schemas'
 import { PLASTER_DRY_FREE_WATER_PCT, dryness } from '#shared/utils/plaster-drying'
-import { PlasterInputError } from '#shared/utils/plaster-core'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { piecesRepo, type PieceRow } from '../repos/pieces'
-import { floorRepo } from '../repos/floor'
-import { actionTime, runOnce } from './actions'
-import { loadWorkshop } from './pours'
-import { dryingRoom, pieceDtos } from './finishing-queue'
+import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
+import { loadWorkshop } from './workshop'
+import { dryingRoom, pieceDtos } from '../queries/finishing-queue'
 import { notifyJobReady } from './notify'
 
-interface StepContext { trx: Knex; actor: Actor; row: PieceRow; at: Date; backdated: boolean }
+type StepContext = Step<PieceRow>
 type StepOutcome = Partial<Pick<FinishingActionResult, 'dryness' | 'drying' | 'jobReady'>>
 
 const STATE_WORDS: Record<FinishingPieceState, string> = {
@@ -31,35 +28,12 @@ const STATE_WORDS: Record<FinishingPieceState, string> = {
 }
 const or = (states: readonly string[]) => states.map(s => STATE_WORDS[s as FinishingPieceState]).join(' or ')
 
-function model<T>(fn: () => T): T {
-  try {
-    return fn()
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
-    throw e
-  }
-}
-
-/** The piece, locked, in a state this action may start from and at the version the tablet saw. */
-async function lockForStep(trx: Knex, actor: Actor, id: number, input: FinishingActionInput) {
-  const row = await piecesRepo.forUpdate(trx, actor.workshopId, id)
-  if (!row) notFound('Piece')
-  const step = FINISHING_STEPS[input.kind]
-  if (!step.from.includes(row.state)) {
-    conflict(`Piece ${row.mark} is ${STATE_WORDS[row.state]}: it cannot be marked ${input.kind} (that needs a piece ${or(step.from)})`, { state: row.state, version: row.version })
-  }
-  if (row.version !== input.version) conflict(`Piece ${row.mark} was changed by someone else; reload to see it`, { state: row.state, version: row.version })
-  return row
-}
-
-async function write(c: StepContext, kind: FinishingActionInput['kind'], patch: Record<string, unknown>, data: Record<string, unknown>) {
+function write(c: StepContext, kind: FinishingActionInput['kind'], patch: Record<string, unknown>, data: Record<string, unknown>) {
   const to = FINISHING_STEPS[kind].to
-  const ok = await piecesRepo.step(c.trx, c.actor.workshopId, c.row.id, c.row.version, { state: to, ...patch })
-  if (!ok) conflict(`Piece ${c.row.mark} was changed by someone else; reload to see it`)
-  await floorRepo.event(c.trx, {
-    workshopId: c.actor.workshopId, entity: 'piece', entityId: c.row.id, type: `piece.${kind}`, actorId: c.actor.id,
-    at: c.at, backdated: c.backdated, data: { from: c.row.state, to, mark: c.row.mark, ...data },
+  return writeStep(c, {
+    update: (trx, workshopId, id, version) => piecesRepo.step(trx, workshopId, id, version, { state: to, ...patch }),
+    changed: `Piece ${c.row.mark} was changed by someone else; reload to see it`,
+    entity: 'piece', type: `piece.${kind}`, data: { from: c.row.state, to, mark: c.row.mark, ...data },
   })
 }
 
@@ -69,9 +43,9 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
   const airTempC = input.dryingTempC ?? room.tempC
   const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
   const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
-  const est = model(() => finishingDryBy({
+  const est = finishingDryBy({
     from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct,
-  }))
+  })
   const hours = Number.isFinite(est.hours) ? est.hours : null
   await write(c, 'fettled', { dry_by: est.dryBy, drying_temp_c: airTempC, drying_humidity_pct: relHumidityPct, reason: null },
     { dryingTempC: airTempC, dryingHumidityPct: relHumidityPct, roomFrom: input.dryingTempC === undefined ? room.source : 'form', hours, dryBy: est.dryBy, warnings: est.warnings })
@@ -79,7 +53,7 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
 }
 
 async function weighed(c: StepContext, input: Extract<FinishingActionInput, { kind: 'weighed' }>): Promise<StepOutcome> {
-  const d = model(() => dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) }))
+  const d = dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) })
   await piecesRepo.addWeighing(c.trx, c.actor.workshopId, { pieceId: c.row.id, kg: input.weighedKg, at: c.at, by: c.actor.id })
   await write(c, 'weighed', {}, { weighedKg: input.weighedKg, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry })
   return { dryness: d }
@@ -147,24 +121,32 @@ async function packed(c: StepContext): Promise<StepOutcome> {
   return {}
 }
 
-const STEPS = { fettled, weighed, ready, repair, repaired, rejected, packed } as const
-
-/** POST /api/pieces/:id/actions: one finishing step of a piece, exactly once per actionId. */
-export function pieceAction(actor: Actor, pieceId: number, input: FinishingActionInput) {
-  return runOnce<FinishingActionResult>(actor, input.actionId, { kind: `piece.${input.kind}`, entityId: pieceId }, async (trx) => {
-    const row = await lockForStep(trx, actor, pieceId, input)
-    const previous = await piecesRepo.lastEventAt(trx, actor.workshopId, pieceId)
-    const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }
-    const out = await (STEPS[input.kind] as (c: StepContext, i: FinishingActionInput) => Promise<StepOutcome>)(c, input)
+const finishingSteps: StepMachine<PieceRow, FinishingActionInput, StepOutcome, FinishingActionResult> = {
+  entity: 'piece',
+  noun: 'Piece',
+  lock: (trx, workshopId, id) => piecesRepo.forUpdate(trx, workshopId, id),
+  refuseState: (row, input) => {
+    const from = FINISHING_STEPS[input.kind].from
+    return from.includes(row.state) ? null : `Piece ${row.mark} is ${STATE_WORDS[row.state]}: it cannot be marked ${input.kind} (that needs a piece ${or(from)})`
+  },
+  changed: row => `Piece ${row.mark} was changed by someone else; reload to see it`,
+  previousAt: (trx, workshopId, row) => piecesRepo.lastEventAt(trx, workshopId, row.id),
+  steps: { fettled, weighed, ready, repair, repaired, rejected, packed },
+  async answer(trx, actor, pieceId, out) {
     const [piece] = await pieceDtos(trx, actor.workshopId, [pieceId])
     const jobId = piece!.job?.id ?? null
     return {
       result: { piece: piece!, dryness: out.dryness ?? null, drying: out.drying ?? null, jobReady: out.jobReady ?? false },
       after: () => {
-        emitToWorkshop(actor.workshopId, { type: 'piece.updated', id: pieceId, version: piece!.version, row: piece })
+        emitToWorkshop(actor.workshopId, { type: 'piece.updated', id: pieceId, version: piece!.version, row: piece! })
         // the client's progress counts moved: tell the job's room only that, nothing internal
         if (jobId) emitToJob(actor.workshopId, jobId, { type: 'job.progress', id: jobId })
       },
     }
-  })
+  },
+}
+
+/** POST /api/pieces/:id/actions: one finishing step of a piece, exactly once per actionId. */
+export function pieceAction(actor: Actor, pieceId: number, input: FinishingActionInput) {
+  return runStep(finishingSteps, actor, pieceId, input)
 }

@@ -1,60 +1,41 @@
 // The caster's pour actions on the floor: start mixing → poured → demoulded, each exactly once
-// (services/actions.ts), in one transaction with its register entry. The server is the judge of
+// (services/step-machine.ts), in one transaction with its register entry. The server is the judge of
 // the order of steps and of the version the tablet saw.
-import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FloorActionInput } from '#shared/utils/floor-schemas'
 import { FLOOR_STEPS } from '#shared/utils/floor-schemas'
-import { floorRepo, type FloorPourRow } from '../repos/floor'
-import { pourFactsRepo } from '../repos/pours'
+import { poursRepo, pourFactsRepo, type PourStepRow } from '../repos/pours'
+import { mouldFloorRepo } from '../repos/moulds'
+import { piecesRepo } from '../repos/pieces'
+import { recordEvent } from '../repos/events'
+import { gradeCalibrationRepo } from '../repos/plaster-grades'
 import { shopDaysRepo } from '../repos/shop-days'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
 import { calibrationFactor } from '#shared/utils/plaster-set'
-import { PlasterInputError } from '#shared/utils/plaster-core'
-import { PlanningInputError } from '#shared/utils/workshop-calendar'
 import { pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
-import { actionTime, runOnce } from './actions'
-import { loadWorkshop } from './pours'
-import { floorCards } from './floor-today'
+import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
+import { loadWorkshop } from './workshop'
+import { floorCards } from '../queries/floor-today'
 import type { FloorActionResult } from '#shared/types/floor'
 
 const MINUTE_MS = 60_000
 
-interface StepContext { trx: Knex; actor: Actor; row: FloorPourRow; at: Date; backdated: boolean }
-
-function model<T>(fn: () => T): T {
-  try {
-    return fn()
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError || e instanceof PlanningInputError) unprocessable([{ field: e.field, message: e.message }])
-    throw e
-  }
-}
-
-/** The pour, locked, in the state this action needs and at the version the tablet saw. */
-async function lockForStep(trx: Knex, actor: Actor, id: number, input: FloorActionInput) {
-  const row = await floorRepo.forUpdate(trx, actor.workshopId, id)
-  if (!row) notFound('Pour')
-  const step = FLOOR_STEPS[input.kind]
-  if (row.state !== step.from) {
-    conflict(`This pour is already ${row.state}: it cannot be marked ${input.kind.replace('_', ' ')} (that needs ${step.from})`, { state: row.state, version: row.version })
-  }
-  if (row.version !== input.version) conflict('This pour was changed by someone else; reload to see it', { state: row.state, version: row.version })
-  return row
-}
+type StepContext = Step<PourStepRow>
+type MadePiece = { id: number; mark: string } | null
 
 async function gradeAndMould(c: StepContext) {
   const grade = await pourFactsRepo.grade(c.trx, c.actor.workshopId, c.row.grade_id)
-  const mould = await floorRepo.mould(c.trx, c.actor.workshopId, c.row.mould_id)
+  const mould = await mouldFloorRepo.forStep(c.trx, c.actor.workshopId, c.row.mould_id)
   return { grade, gradeModel: plasterGradeFromRow(grade), mould }
 }
 
-async function write(c: StepContext, type: string, patch: Record<string, unknown>, data: Record<string, unknown>) {
-  const ok = await floorRepo.step(c.trx, c.actor.workshopId, c.row.id, c.row.version, { ...patch, ...(c.backdated ? { backdated: true } : {}) })
-  if (!ok) conflict('This pour was changed by someone else; reload to see it')
-  await floorRepo.event(c.trx, { workshopId: c.actor.workshopId, entity: 'pour', entityId: c.row.id, type, actorId: c.actor.id, at: c.at, backdated: c.backdated, data })
+function write(c: StepContext, type: string, patch: Record<string, unknown>, data: Record<string, unknown>) {
+  return writeStep(c, {
+    update: (trx, workshopId, id, version) => poursRepo.step(trx, workshopId, id, version, { ...patch, ...(c.backdated ? { backdated: true } : {}) }),
+    changed: 'This pour was changed by someone else; reload to see it',
+    entity: 'pour', type, data,
+  })
 }
 
 async function startMixing(c: StepContext, input: Extract<FloorActionInput, { kind: 'start_mixing' }>) {
@@ -62,7 +43,7 @@ async function startMixing(c: StepContext, input: Extract<FloorActionInput, { ki
   if (mould.state === 'repair' || mould.state === 'retired') conflict(`Mould ${mould.code} is in ${mould.state}: ask the lead before casting in it`)
   const lotId = input.lotId === undefined ? c.row.lot_id : input.lotId
   if (lotId) {
-    const lot = await floorRepo.lot(c.trx, c.actor.workshopId, lotId)
+    const lot = await pourFactsRepo.lot(c.trx, c.actor.workshopId, lotId)
     if (!lot || Number(lot.grade_id) !== Number(c.row.grade_id)) unprocessable([{ field: 'lotId', message: 'is not a lot of this pour\'s plaster grade' }])
   }
   const ws = await loadWorkshop(c.trx, c.actor.workshopId)
@@ -70,35 +51,35 @@ async function startMixing(c: StepContext, input: Extract<FloorActionInput, { ki
   const powderTempC = input.powderTempC ?? shopTempC
   const plasterKg = Number(c.row.plaster_kg_planned)
   const waterKg = Number(c.row.water_kg_planned)
-  const slurryTempC = model(() => slurryTemperature({ plasterKg, waterKg, waterTempC: input.waterTempC, powderTempC }))
+  const slurryTempC = slurryTemperature({ plasterKg, waterKg, waterTempC: input.waterTempC, powderTempC })
   // the clock restarts at the real start of mixing, on the planned batch until the pour's weights are in
-  const t = model(() => pourTiming({
+  const t = pourTiming({
     mixAt: c.at, grade: gradeModel, consistency: Number(c.row.consistency), slurryTempC, setFactor: Number(c.row.set_factor),
     mould: { prepMinutes: mould.prep_minutes, cleanMinutes: mould.clean_minutes, maxDwellMinutes: mould.max_dwell_minutes },
-  }))
+  })
   await write(c, 'pour.mixing', {
     state: 'mixing', mixing_at: c.at, lot_id: lotId ?? null, water_temp_c: input.waterTempC, powder_temp_c: powderTempC,
     slurry_temp_c: slurryTempC, demould_open_at: t.demouldOpenAt, demould_close_at: t.demouldCloseAt,
   }, { lotId: lotId ?? null, waterTempC: input.waterTempC, powderTempC, slurryTempC, demouldOpenAt: t.demouldOpenAt, demouldCloseAt: t.demouldCloseAt })
   // starting the next pour is where the caster has cleaned the mould: cleaning (or ready) → in use
-  await floorRepo.mouldState(c.trx, c.actor.workshopId, mould.id, 'in_use', c.actor.id)
+  await mouldFloorRepo.moveState(c.trx, c.actor.workshopId, mould.id, 'in_use', c.actor.id)
   return null
 }
 
 async function poured(c: StepContext, input: Extract<FloorActionInput, { kind: 'poured' }>) {
   const { gradeModel, mould } = await gradeAndMould(c)
   const consistency = (100 * input.waterKg) / input.plasterKg
-  model(() => castFromBatch({ plasterKg: input.plasterKg, waterKg: input.waterKg, grade: gradeModel }))
+  castFromBatch({ plasterKg: input.plasterKg, waterKg: input.waterKg, grade: gradeModel })
   const waterTempC = input.waterTempC ?? (c.row.water_temp_c === null ? input.shopTempC : Number(c.row.water_temp_c))
   const powderTempC = c.row.powder_temp_c === null ? input.shopTempC : Number(c.row.powder_temp_c)
-  const slurryTempC = model(() => slurryTemperature({ plasterKg: input.plasterKg, waterKg: input.waterKg, waterTempC, powderTempC }))
+  const slurryTempC = slurryTemperature({ plasterKg: input.plasterKg, waterKg: input.waterKg, waterTempC, powderTempC })
   const timing = { grade: gradeModel, consistency, slurryTempC }
-  const t = model(() => pourTiming({
+  const t = pourTiming({
     ...timing, mixAt: c.row.mixing_at!, setFactor: Number(c.row.set_factor),
     mould: { prepMinutes: mould.prep_minutes, cleanMinutes: mould.clean_minutes, maxDwellMinutes: mould.max_dwell_minutes },
-  }))
+  })
   // the model's own prediction (set factor 1), so calibration compares actual with the bare model
-  const predicted = model(() => pourSetMinutes({ ...timing, setFactor: 1 })).openAfterMix
+  const predicted = pourSetMinutes({ ...timing, setFactor: 1 }).openAfterMix
   await write(c, 'pour.poured', {
     state: 'setting', poured_at: c.at, plaster_kg_actual: input.plasterKg, water_kg_actual: input.waterKg, shop_temp_c: input.shopTempC,
     water_temp_c: waterTempC, slurry_temp_c: slurryTempC, demould_open_at: t.demouldOpenAt, demould_close_at: t.demouldCloseAt,
@@ -109,10 +90,10 @@ async function poured(c: StepContext, input: Extract<FloorActionInput, { kind: '
 
 /** A piece's mark: job code without dashes, mould code, the mould's pull number (e.g. J2601-CR101-007). */
 async function pieceMark(c: StepContext, mould: { code: string; pulls: number }) {
-  const job = await floorRepo.jobCode(c.trx, c.actor.workshopId, c.row.job_item_id)
-  const mark = `${(job?.code ?? 'STOCK').replace(/-/g, '')}-${mould.code}-${String(mould.pulls + 1).padStart(3, '0')}`
+  const item = c.row.job_item_id ? await pourFactsRepo.item(c.trx, c.actor.workshopId, c.row.job_item_id) : undefined
+  const mark = `${(item?.job_code ?? 'STOCK').replace(/-/g, '')}-${mould.code}-${String(mould.pulls + 1).padStart(3, '0')}`
   // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
-  return (await floorRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+  return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
 }
 
 async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind: 'demoulded' }>) {
@@ -120,34 +101,37 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   const actualMinutes = (c.at.getTime() - c.row.mixing_at!.getTime()) / MINUTE_MS
   // the cast holds the batch less what stayed in the bowl and on the spill (the board's waste allowance)
   const keep = 1 + POUR_WASTE_PCT / 100
-  const cast = model(() => castFromBatch({ plasterKg: Number(c.row.plaster_kg_actual) / keep, waterKg: Number(c.row.water_kg_actual) / keep, grade: gradeModel }))
+  const cast = castFromBatch({ plasterKg: Number(c.row.plaster_kg_actual) / keep, waterKg: Number(c.row.water_kg_actual) / keep, grade: gradeModel })
   const mark = await pieceMark(c, mould)
   await write(c, 'pour.demoulded', {
     state: 'demoulded', demoulded_at: c.at, result: input.result, defect: input.result === 'defect' ? input.defect : null,
     notes: input.notes ?? null, actual_demould_minutes: actualMinutes,
   }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark })
   // a defect goes to the finisher as a repair to judge (repair or reject); a sound cast to fettling
-  const piece = await floorRepo.insertPiece(c.trx, c.actor.workshopId, {
+  const piece = await piecesRepo.insert(c.trx, c.actor.workshopId, {
     pourId: c.row.id, jobItemId: c.row.job_item_id, mark, dryMassKg: cast.dryMassKg, wetMassKg: cast.wetMassKg,
     state: input.result === 'sound' ? 'to_fettle' : 'repair',
   })
-  await floorRepo.event(c.trx, { workshopId: c.actor.workshopId, entity: 'piece', entityId: piece.id, type: 'piece.created', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { pourId: c.row.id, mark, state: piece.state } })
-  await floorRepo.mouldState(c.trx, c.actor.workshopId, mould.id, 'cleaning', c.actor.id, true)
-  await floorRepo.event(c.trx, { workshopId: c.actor.workshopId, entity: 'mould', entityId: mould.id, type: 'mould.state_changed', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { from: mould.state, to: 'cleaning', pull: mould.pulls + 1, pourId: c.row.id } })
-  const cal = calibrationFactor(await floorRepo.calibrationPairs(c.trx, c.actor.workshopId, c.row.grade_id))
-  await floorRepo.setCalibration(c.trx, c.actor.workshopId, c.row.grade_id, cal.factor, cal.count)
+  await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'piece', entityId: piece.id, type: 'piece.created', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { pourId: c.row.id, mark, state: piece.state } })
+  await mouldFloorRepo.moveState(c.trx, c.actor.workshopId, mould.id, 'cleaning', c.actor.id, true)
+  await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'mould', entityId: mould.id, type: 'mould.state_changed', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { from: mould.state, to: 'cleaning', pull: mould.pulls + 1, pourId: c.row.id } })
+  const cal = calibrationFactor(await poursRepo.calibrationPairs(c.trx, c.actor.workshopId, c.row.grade_id))
+  await gradeCalibrationRepo.set(c.trx, c.actor.workshopId, c.row.grade_id, cal.factor, cal.count)
   return { id: piece.id, mark }
 }
 
-const STEPS = { start_mixing: startMixing, poured, demoulded } as const
-
-/** POST /api/pours/:id/actions: one step of a pour, exactly once per actionId. */
-export function pourAction(actor: Actor, pourId: number, input: FloorActionInput) {
-  return runOnce<FloorActionResult>(actor, input.actionId, { kind: `pour.${input.kind}`, entityId: pourId }, async (trx) => {
-    const row = await lockForStep(trx, actor, pourId, input)
-    const previous = input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null
-    const c: StepContext = { trx, actor, row, ...actionTime(input.at, previous) }
-    const piece = await (STEPS[input.kind] as (c: StepContext, i: FloorActionInput) => Promise<{ id: number; mark: string } | null>)(c, input)
+const floorSteps: StepMachine<PourStepRow, FloorActionInput, MadePiece, FloorActionResult> = {
+  entity: 'pour',
+  noun: 'Pour',
+  lock: (trx, workshopId, id) => poursRepo.forStep(trx, workshopId, id),
+  refuseState: (row, input) => {
+    const from = FLOOR_STEPS[input.kind].from
+    return row.state === from ? null : `This pour is already ${row.state}: it cannot be marked ${input.kind.replace('_', ' ')} (that needs ${from})`
+  },
+  changed: () => 'This pour was changed by someone else; reload to see it',
+  previousAt: (_trx, _workshopId, row, input) => (input.kind === 'poured' ? row.mixing_at : input.kind === 'demoulded' ? row.poured_at : null),
+  steps: { start_mixing: startMixing, poured, demoulded },
+  async answer(trx, actor, pourId, piece) {
     const [card] = await floorCards(trx, actor.workshopId, [pourId])
     return {
       result: { card: card!, piece },
@@ -156,5 +140,10 @@ export function pourAction(actor: Actor, pourId: number, input: FloorActionInput
         if (piece) emitToWorkshop(actor.workshopId, { type: 'piece.created', id: piece.id, row: { ...piece, pourId } })
       },
     }
-  })
+  },
+}
+
+/** POST /api/pours/:id/actions: one step of a pour, exactly once per actionId. */
+export function pourAction(actor: Actor, pourId: number, input: FloorActionInput) {
+  return runStep(floorSteps, actor, pourId, input)
 }

@@ -27,7 +27,7 @@ async function visiblePhoto(db: Knex, actor: Actor, id: string): Promise<StoredP
 }
 
 /** Live event to the job room when clients may see the photo (or just saw it), else to staff only. */
-function emitPhoto(actor: Actor, type: string, row: Pick<PhotoRow, 'id' | 'job_id' | 'shared'> & Partial<PhotoRow>, clientsCare: boolean) {
+function emitPhoto(actor: Actor, type: 'photo.created' | 'photo.updated' | 'photo.deleted', row: Pick<PhotoRow, 'id' | 'job_id' | 'shared'> & Partial<PhotoRow>, clientsCare: boolean) {
   // the same event reaches clients: only what a client may see (pages refetch for the rest)
   const event = { type, id: row.id, row: { id: row.id, job_id: row.job_id, shared: row.shared, caption: row.caption ?? null } }
   if (clientsCare) emitToJob(actor.workshopId, row.job_id, event)

@@ -5,10 +5,11 @@ import type { Actor } from '../utils/auth'
 import type { WorkshopRow } from '../repos/workshops'
 import { planningRepo } from '../repos/planning'
 import { poursRepo } from '../repos/pours'
-import { loadWorkshop, planPourRow, withOverlapAnswer, workshopCalendar } from './pours'
+import { planPourRow, withOverlapAnswer } from './pours'
+import { loadWorkshop, workshopCalendar } from './workshop'
 import { boardDayStart } from '#shared/utils/board-rules'
-import { planPours, type PlanPoursInput, type PlannerItem } from '#shared/utils/planner'
-import { PlasterInputError } from '#shared/utils/plaster-core'
+import { planPours } from '#shared/utils/planner'
+import type { PlanPoursInput, PlannerItem } from '#shared/types/planner'
 
 const DAY_MS = 86_400_000
 const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_MS).toISOString().slice(0, 10)
@@ -55,14 +56,7 @@ export async function previewPlan(actor: Actor, range: { from: string; to: strin
   const db = useDb()
   const ws = await loadWorkshop(db, actor.workshopId)
   const { input, descriptions } = await plannerInput(db, ws, range.from, range.to)
-  let result: ReturnType<typeof planPours>
-  try {
-    result = planPours(input)
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
-    throw e
-  }
+  const result = planPours(input)
   return {
     pours: result.pours.map(p => ({
       jobItemId: Number(p.itemId), jobId: Number(p.jobId), jobCode: p.jobCode, itemDescription: descriptions.get(p.itemId) ?? null,

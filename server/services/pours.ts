@@ -3,19 +3,19 @@
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { PourMoveInput } from '#shared/utils/pour-schemas'
+import type { PourDto } from '#shared/types/board'
 import { poursRepo, pourFactsRepo, type PourDtoRow, type PourWrite } from '../repos/pours'
 import { shopDaysRepo } from '../repos/shop-days'
-import { workshopsRepo, type WorkshopRow } from '../repos/workshops'
+import type { WorkshopRow } from '../repos/workshops'
+import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
-import { PlasterInputError } from '#shared/utils/plaster-core'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
 
-export type PourDto = ReturnType<typeof pourDto>
-
-export function pourDto(r: PourDtoRow, now = new Date()) {
+/** A pour as every route and live event sends it (the one declared PourDto, shared/types/board.ts). */
+export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
   return {
     id: r.id, version: r.version, mouldId: r.mould_id, mouldCode: r.mould_code,
     jobItemId: r.job_item_id, jobId: r.job_id, jobCode: r.job_code, itemDescription: r.item_description,
@@ -26,10 +26,6 @@ export function pourDto(r: PourDtoRow, now = new Date()) {
     plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned), warnings: r.warnings,
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
   }
-}
-
-export function workshopCalendar(ws: WorkshopRow) {
-  return { timezone: ws.timezone, shiftStart: ws.shift_start, shiftEnd: ws.shift_end, workingDays: ws.working_days.map(Number) }
 }
 
 /** What a pour is planned from; absent fields default from the job item, then the grade. */
@@ -62,24 +58,16 @@ async function loadNamed(trx: Knex, ws: number, p: PourPlanInput) {
   return { mould, item, caster, grade, lot }
 }
 
+type Named = Awaited<ReturnType<typeof loadNamed>>
+
 /** Refusals that are not about the request's shape: 409 naming what stands in the way. */
-function refuse(named: Awaited<ReturnType<typeof loadNamed>>, isSample: boolean) {
+function refuse(named: Named, isSample: boolean) {
   const { mould, item } = named
   if (mould.state === 'repair' || mould.state === 'retired') {
     conflict(`Mould ${mould.code} is in ${mould.state === 'repair' ? 'repair' : 'retirement'} and cannot be planned`)
   }
   if (item && item.sample_required && item.sample_state !== 'approved' && !isSample) {
     conflict(`Job ${item.job_code} is waiting for sample approval: plan its sample first`)
-  }
-}
-
-function plasterOr422<T>(fn: () => T): T {
-  try {
-    return fn()
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError) field422(e.field, e.message)
-    throw e
   }
 }
 
@@ -91,28 +79,26 @@ async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Da
     + ` by pour ${c.id}${c.job_code ? ` (${c.job_code})` : ''}`, { pourId: c.id })
 }
 
-/**
- * The row to write for a planned pour and its warnings: every rule of the board in one place.
- * `selfId` is the pour being moved, left out of its own clash, caster, life and lot counts.
- */
-export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId?: number, recompute = false): Promise<PourWrite> {
-  if (!recompute) await poursRepo.lockMoulds(trx, ws.id, [p.mouldId])
-  const named = await loadNamed(trx, ws.id, p)
-  const isSample = p.isSample ?? false
-  if (!recompute) refuse(named, isSample)
-  const { mould, item, caster, grade, lot } = named
+/** The pour's timing and batch from the model, on the workshop's shop temperature of its day. */
+async function timingAndBatch(trx: Knex, ws: WorkshopRow, named: Named, p: PourPlanInput) {
+  const { mould, item, grade } = named
   const gradeModel = plasterGradeFromRow(grade)
   const consistency = p.consistency ?? (item?.consistency ? Number(item.consistency) : gradeModel.consistency.default)
   const setFactor = p.setFactor ?? 1
   const day = boardLocalDay(p.slotStart, ws.timezone)
   const slurryTempC = (await shopDaysRepo.tempOn(trx, ws.id, day)) ?? Number(ws.default_shop_temp_c)
-  const t = plasterOr422(() => pourTimingFromSlotStart({
+  const t = pourTimingFromSlotStart({
     slotStart: p.slotStart, grade: gradeModel, consistency, slurryTempC, setFactor,
     mould: { prepMinutes: mould.prep_minutes, cleanMinutes: mould.clean_minutes, maxDwellMinutes: mould.max_dwell_minutes },
-  }))
-  const batch = plasterOr422(() => batchForCavity({ cavityLitres: Number(mould.cavity_litres), consistency, grade: gradeModel, wastePct: POUR_WASTE_PCT }))
-  const clipped = recompute ? await clipToNext(trx, ws, mould.id, t, selfId!) : null
-  if (!recompute) await refuseClash(trx, ws, mould.id, t.slotStart, t.slotEnd, selfId)
+  })
+  const batch = batchForCavity({ cavityLitres: Number(mould.cavity_litres), consistency, grade: gradeModel, wastePct: POUR_WASTE_PCT })
+  return { t, batch, consistency, setFactor }
+}
+
+/** The row to write with the board's warnings; `extraWarning` is a retimed pour's clipped slot. */
+async function pourWrite(trx: Knex, ws: WorkshopRow, named: Named, p: PourPlanInput, plan: Awaited<ReturnType<typeof timingAndBatch>>, selfId: number | undefined, extraWarning: string | null = null): Promise<PourWrite> {
+  const { mould, item, caster, grade, lot } = named
+  const { t, batch, consistency, setFactor } = plan
   const near = caster ? await poursRepo.casterMixesNear(trx, ws.id, caster.id, t.mixAt, selfId) : []
   const lotLeft = lot ? Number(lot.bags_received) * Number(lot.bag_kg) - (await poursRepo.lotUsedKg(trx, ws.id, lot.id, selfId)) - batch.plasterKg : 0
   const warnings = pourWarnings({
@@ -124,13 +110,39 @@ export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, 
     mouldPlannedPours: (await poursRepo.openOnMould(trx, ws.id, mould.id, selfId)) + 1,
     lot: lot ? { code: lot.lot_code, leftKg: lotLeft } : null,
   }, ws.timezone)
-  if (clipped) warnings.push(clipped)
+  if (extraWarning) warnings.push(extraWarning)
   return {
     job_item_id: item?.id ?? null, mould_id: mould.id, caster_id: caster?.id ?? null, grade_id: grade.id, lot_id: lot?.id ?? null,
-    is_sample: isSample, consistency, set_factor: setFactor, slotStart: t.slotStart, slotEnd: t.slotEnd, mix_at: t.mixAt,
+    is_sample: p.isSample ?? false, consistency, set_factor: setFactor, slotStart: t.slotStart, slotEnd: t.slotEnd, mix_at: t.mixAt,
     demould_open_at: t.demouldOpenAt, demould_close_at: t.demouldCloseAt,
     plaster_kg_planned: batch.plasterKg, water_kg_planned: batch.waterKg, warnings,
   }
+}
+
+/**
+ * The row to write for a pour the lead plans or moves, and its warnings: every rule of the
+ * board in one place. The mould is locked first; a mould in repair or retired, a job waiting
+ * for its sample and a clash with another pour on the mould are refused (409).
+ * `selfId` is the pour being moved, left out of its own clash, caster, life and lot counts.
+ */
+export async function planPourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId?: number): Promise<PourWrite> {
+  await poursRepo.lockMoulds(trx, ws.id, [p.mouldId])
+  const named = await loadNamed(trx, ws.id, p)
+  refuse(named, p.isSample ?? false)
+  const plan = await timingAndBatch(trx, ws, named, p)
+  await refuseClash(trx, ws, named.mould.id, plan.t.slotStart, plan.t.slotEnd, selfId)
+  return pourWrite(trx, ws, named, p, plan, selfId)
+}
+
+/**
+ * The row of a planned pour re-timed in place (its shop day changed): nothing is refused, the
+ * pour already stands on the board; the slot is clipped at the next pour instead (clipToNext).
+ */
+export async function retimePourRow(trx: Knex, ws: WorkshopRow, p: PourPlanInput, selfId: number): Promise<PourWrite> {
+  const named = await loadNamed(trx, ws.id, p)
+  const plan = await timingAndBatch(trx, ws, named, p)
+  const clipped = await clipToNext(trx, ws, named.mould.id, plan.t, selfId)
+  return pourWrite(trx, ws, named, p, plan, selfId, clipped)
 }
 
 /**
@@ -145,12 +157,6 @@ async function clipToNext(trx: Knex, ws: WorkshopRow, mouldId: number, t: { slot
   t.slotEnd = next
   return `With the day's shop temperature this cast is ready at ${boardClock(t.demouldOpenAt, ws.timezone)}, `
     + `after the next pour on this mould starts at ${boardClock(next, ws.timezone)}: move one of them.`
-}
-
-export async function loadWorkshop(db: Knex, workshopId: number): Promise<WorkshopRow> {
-  const ws = await workshopsRepo.get(db, workshopId)
-  if (!ws) notFound('Workshop')
-  return ws
 }
 
 /**

@@ -3,7 +3,9 @@
 import type { Actor } from '../utils/auth'
 import { poursRepo } from '../repos/pours'
 import { shopDaysRepo, shopDayDto } from '../repos/shop-days'
-import { loadWorkshop, planPourRow, pourDto, type PourDto } from './pours'
+import type { PourDto } from '#shared/types/board'
+import { pourDto, retimePourRow } from './pours'
+import { loadWorkshop } from './workshop'
 
 export async function setShopDay(actor: Actor, day: string, input: { tempC: number; humidityPct: number }) {
   const db = useDb()
@@ -16,10 +18,10 @@ export async function setShopDay(actor: Actor, day: string, input: { tempC: numb
     for (const p of pours) {
       const row = await poursRepo.forUpdate(trx, ws.id, p.id)
       if (row?.state !== 'planned') continue
-      const write = await planPourRow(trx, ws, {
+      const write = await retimePourRow(trx, ws, {
         mouldId: row.mould_id, slotStart: row.slot_start, jobItemId: row.job_item_id, casterId: row.caster_id, gradeId: row.grade_id,
         consistency: Number(row.consistency), setFactor: Number(row.set_factor), lotId: row.lot_id, isSample: row.is_sample,
-      }, p.id, true)
+      }, p.id)
       await poursRepo.replan(trx, ws.id, p.id, row.version, write)
       await poursRepo.event(trx, { workshopId: ws.id, pourId: p.id, type: 'pour.retimed', actorId: actor.id, data: { day, ...input, demouldOpenAt: write.demould_open_at, warnings: write.warnings } })
       changed.push(p.id)
@@ -33,4 +35,9 @@ export async function setShopDay(actor: Actor, day: string, input: { tempC: numb
   const dto = { ...shopDayDto(saved), moved }
   emitToWorkshop(ws.id, { type: 'shopday.updated', id: day, row: dto })
   return dto
+}
+
+/** The shop days entered for the local days from..to. */
+export async function shopDaysBetween(workshopId: number, from: string, to: string) {
+  return (await shopDaysRepo.between(useDb(), workshopId, from, to)).map(shopDayDto)
 }

@@ -2,17 +2,33 @@
 import type { H3Event } from 'h3'
 import type { ZodType, z } from 'zod'
 import { NUL_MESSAGE, fieldsWithNul } from '#shared/utils/input-fields'
+import { PlasterInputError } from '#shared/utils/plaster-core'
 
 export interface FieldProblem { field: string; message: string }
 
-export function unprocessable(problems: FieldProblem[]): never {
+function unprocessableError(problems: FieldProblem[]) {
   const first = problems[0]
-  throw createError({
+  return createError({
     statusCode: 422,
     statusMessage: 'Unprocessable Content',
     message: first ? `${first.field}: ${first.message}` : 'The request is not valid',
     data: { problems },
   })
+}
+
+export function unprocessable(problems: FieldProblem[]): never {
+  throw unprocessableError(problems)
+}
+
+/**
+ * The one place where the pure model's input errors (PlasterInputError and its
+ * PlanningInputError, each naming a field) become the 422 a schema failure gets; any other
+ * error comes back as it is. server/error-handler.ts applies it to every route's error, and
+ * runOnce (services/actions.ts) before it decides whether a refusal is stored, so services
+ * call the model without catching.
+ */
+export function asHttpError(e: unknown): unknown {
+  return e instanceof PlasterInputError ? unprocessableError([{ field: e.field, message: e.message }]) : e
 }
 
 function problemsOf(error: z.ZodError, prefix?: string): FieldProblem[] {

@@ -1,13 +1,49 @@
 // Live events: a service emits one after its transaction commits, to the workshop's room
 // (and, for what a client may see, to the job's room). Pages patch or refetch on them.
-export interface LiveEvent<Row = unknown> {
-  type: string
-  id: number | string
-  version?: number
-  row?: Row
-  /** Which session caused it, so the page that did the change can skip its own echo. */
-  origin?: string
+// One member per `type`, each with its own payload, so an emitter cannot send a row of the
+// wrong shape and a listener knows what it gets.
+import type { PourDto } from './board'
+import type { FinishingPieceDto } from './finishing'
+
+/** A shop day as saved, with how many planned pours of the day got a new demould time. */
+export interface LiveShopDay { day: string; tempC: number; humidityPct: number; moved: number }
+
+/** A piece the floor just made from a demoulded pour. */
+export interface LivePieceCreated { id: number; mark: string; pourId: number }
+
+/** Only what a client may see of a photo (the same event reaches the job's room). */
+export interface LivePhoto { id: string; job_id: number; shared: boolean; caption: string | null }
+
+/** The workshop's settings as GET /api/workshop returns them. */
+export interface LiveWorkshop {
+  name: string
+  units: 'metric' | 'imperial'
+  timezone: string
+  shiftStart: string
+  shiftEnd: string
+  workingDays: number[]
+  defaultShopTempC: number
+  defaultHumidityPct: number
+  version: number
 }
+
+export type LiveEvent
+  = | { type: 'pour.created' | 'pour.updated' | 'pour.voided'; id: number; version: number; row: PourDto }
+  /** many pours at once (the planner's accepted plan): read the board again */
+    | { type: 'board.refreshed'; id: number }
+    | { type: 'shopday.updated'; id: string; row: LiveShopDay }
+    | { type: 'piece.created'; id: number; row: LivePieceCreated }
+    | { type: 'piece.updated'; id: number; version: number; row: FinishingPieceDto }
+  /** a job's client counts moved; nothing internal is sent */
+    | { type: 'job.progress'; id: number }
+    | { type: 'dispatch.created'; id: number; row: { id: number; noteNo: string; jobId: number; pieceIds: number[] } }
+    | { type: 'photo.created' | 'photo.updated' | 'photo.deleted'; id: string; row: LivePhoto }
+    | { type: 'workshop.updated'; id: number; version: number; row: LiveWorkshop }
+
+export type LiveEventType = LiveEvent['type']
+
+/** Not sent by the server: the page's own signal that the socket came back and it should read again. */
+export interface LiveCatchUp { type: 'catch-up'; id: 0 }
 
 export const liveRooms = {
   workshop: (id: number) => `workshop:${id}`,

@@ -3,7 +3,7 @@
  * naming the first bad one. Ranges are sanity bounds (common practice) that keep typos out;
  * the database's own checks are the stricter ones. Pure: no I/O, no framework import.
  */
-import type { PlanPoursInput, PlannerExistingPour, PlannerItem, PlannerMould, PlannerMouldState } from './planner'
+import type { PlanPoursInput, PlannerExistingPour, PlannerItem, PlannerMould, PlannerMouldState } from '../types/planner'
 import { PlanningInputError, assertPlanningDate } from './workshop-calendar'
 
 function plannerNumber(value: unknown, field: string, min: number, max: number, integer = false): number {

@@ -7,7 +7,8 @@
  */
 import { performance } from 'node:perf_hooks'
 import { GRADE_PRESETS } from '#shared/utils/plaster'
-import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould } from '#shared/utils/planner'
+import { planPours } from '#shared/utils/planner'
+import type { PlanPoursInput, PlannerItem, PlannerMould } from '#shared/types/planner'
 import { record } from './lib/results'
 import { percentile } from './lib/stats'
 

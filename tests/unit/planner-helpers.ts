@@ -2,7 +2,7 @@
 import { expect } from 'vitest'
 import { GRADE_PRESETS } from '#shared/utils/plaster'
 import { shiftWindows, type WorkshopShiftCalendar } from '#shared/utils/workshop-calendar'
-import type { PlanPoursInput, PlanPoursResult, PlannerItem, PlannerMould } from '#shared/utils/planner'
+import type { PlanPoursInput, PlanPoursResult, PlannerItem, PlannerMould } from '#shared/types/planner'
 
 export const london: WorkshopShiftCalendar = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
 export const beta = GRADE_PRESETS['beta-casting']

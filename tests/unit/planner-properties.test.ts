@@ -2,7 +2,8 @@ import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import { GRADE_PRESETS, type PlasterGradePresetKey } from '#shared/utils/plaster'
 import { pourTiming } from '#shared/utils/pour-timing'
-import { planPours, type PlanPoursInput, type PlannerItem, type PlannerMould, type PlannerMouldState } from '#shared/utils/planner'
+import { planPours } from '#shared/utils/planner'
+import type { PlanPoursInput, PlannerItem, PlannerMould, PlannerMouldState } from '#shared/types/planner'
 import { DAY, MIN, expectInsideShifts, expectNoOverlaps } from './planner-helpers'
 
 const presetKeys = Object.keys(GRADE_PRESETS) as PlasterGradePresetKey[]

@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { PlanningInputError } from '#shared/utils/workshop-calendar'
-import { planPours, type PlanPoursInput } from '#shared/utils/planner'
+import { planPours } from '#shared/utils/planner'
+import type { PlanPoursInput } from '#shared/types/planner'
 import { MIN, baseInput, expectInsideShifts, expectNoOverlaps, item, mould } from './planner-helpers'
 
 // Timing used throughout (pour-timing.test.ts checks it): the beta casting preset at 70 and a

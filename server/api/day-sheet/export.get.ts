@@ -1,8 +1,7 @@
 // The day sheet as CSV (lead, caster), through the shared sender (server/utils/csv.ts: formula
 // escaping, BOM): one row per pour, then one per grade of the requisition. Times in the
 // workshop's zone, as on the wall.
-import { daySheet } from '../../services/day-sheet'
-import { loadWorkshop } from '../../services/pours'
+import { daySheet } from '../../queries/day-sheet'
 
 const text = (key: string) => ({ key, header: key })
 const figure = (key: string) => ({ key, header: key, number: true })
@@ -12,8 +11,8 @@ const COLUMNS = [text('section'), text('bench'), text('mould'), figure('casts'),
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead', 'caster')
   const { day } = validQuery(event, daySheetQuerySchema)
-  const [sheet, ws] = await Promise.all([daySheet(actor.workshopId, day), loadWorkshop(useDb(), actor.workshopId)])
-  const at = (iso: string) => boardClock(new Date(iso), ws.timezone).slice(11)
+  const sheet = await daySheet(actor.workshopId, day)
+  const at = (iso: string) => boardClock(new Date(iso), sheet.timezone).slice(11)
   const rows: Record<string, unknown>[] = []
   for (const b of sheet.benches) {
     for (const p of b.pours) {

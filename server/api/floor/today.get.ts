@@ -1,4 +1,4 @@
-import { floorToday } from '../../services/floor-today'
+import { floorToday } from '../../queries/floor-today'
 // Today's pours as floor cards: a caster's own, a lead's all (or one caster's with ?casterId=).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'caster', 'lead')

@@ -1,8 +1,6 @@
 // A job's casting register as CSV (lead), with the page's filters. Streamed: rows are read in
 // keyset pages and flow through csv-stringify, so a 100,000-pour job never sits in memory.
-import { jobsRepo } from '../../../../repos/jobs'
-import { registerRepo } from '../../../../repos/register'
-import { loadWorkshop } from '../../../../services/pours'
+import { registerExport } from '../../../../queries/register'
 
 const COLUMNS: [string, string][] = [
   ['pour_id', 'pour'], ['state', 'pour state'], ['is_sample', 'sample'], ['mark', 'piece mark'], ['piece_state', 'piece state'],
@@ -22,11 +20,8 @@ export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   const { id } = validParams(event, idParamSchema)
   const filter = validQuery(event, registerFilterSchema)
-  const db = useDb()
-  const job = await jobsRepo.byId(db, actor.workshopId, id)
-  if (!job) notFound('Job')
-  const ws = await loadWorkshop(db, actor.workshopId)
+  const { job, timezone, rows } = await registerExport(actor.workshopId, id, filter)
   // times are local to the workshop: the header names the zone so the file stands alone
-  const columns = COLUMNS.map(([key, header]) => ({ key, header: TIMES.has(key) ? `${header} (${ws.timezone})` : header, number: FIGURES.has(key) }))
-  return sendCsvRows(event, `setline-${job.code}-register.csv`, registerRepo.all(db, actor.workshopId, id, filter), columns)
+  const columns = COLUMNS.map(([key, header]) => ({ key, header: TIMES.has(key) ? `${header} (${timezone})` : header, number: FIGURES.has(key) }))
+  return sendCsvRows(event, `setline-${job.code}-register.csv`, rows, columns)
 })

@@ -1,7 +1,8 @@
-// The caster's day sheet: the day's pours by bench and the plaster to fetch from the store.
+// The day sheet screen's read: the day's pours by bench and the plaster to fetch from the store.
 import type { Knex } from 'knex'
 import { daySheetRepo, poursRepo, type PourDtoRow } from '../repos/pours'
 import { lotStockKg, lotToOpen, requisitionLine } from '#shared/utils/board-rules'
+import { workshopsRepo } from '../repos/workshops'
 
 function sheetPour(p: PourDtoRow) {
   return {
@@ -30,10 +31,11 @@ async function requisition(db: Knex, workshopId: number, day: string, pours: Pou
 export async function daySheet(workshopId: number, day: string) {
   const db = useDb()
   const [pours, benches, workshop] = await Promise.all([
-    poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId), db('workshops').first('timezone').where({ id: workshopId }),
+    poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId), workshopsRepo.get(db, workshopId),
   ])
+  if (!workshop) notFound('Workshop')
   const groups = benches.map(b => ({ benchId: b.id as number | null, benchName: b.name as string | null, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
   const loose = pours.filter(p => p.bench_id === null).map(sheetPour)
   if (loose.length) groups.push({ benchId: null, benchName: null, pours: loose })
-  return { day, timezone: workshop.timezone as string, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
+  return { day, timezone: workshop.timezone, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
 }

@@ -1,9 +1,12 @@
-// The board's read besides its pours: the workshop, benches, moulds, shop days, open job
-// items and casters in ONE query (json subselects), so the whole board is two queries.
-import type { Knex } from 'knex'
-import { COUNTED_POUR } from './planning'
+// The board screen's read (GET /api/board): the workshop, benches, moulds, shop days, open job
+// items and casters in ONE query (json subselects) beside the range's pours, so the whole board
+// is two queries.
+import type { BoardData } from '#shared/types/board'
+import { COUNTED_POUR } from '../repos/planning'
+import { poursRepo } from '../repos/pours'
+import { pourDto } from '../services/pours'
 
-export interface BoardContextRow {
+interface BoardContextRow {
   timezone: string
   shift_start: string
   shift_end: string
@@ -36,9 +39,31 @@ const SQL = `SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.un
      FROM users u WHERE u.workshop_id = w.id AND u.role IN ('caster', 'lead') AND u.disabled_at IS NULL) AS casters
   FROM workshops w WHERE w.id = :workshopId`
 
-export const boardRepo = {
-  async context(db: Knex, workshopId: number, from: string, to: string): Promise<BoardContextRow | undefined> {
-    const r = await db.raw(SQL, { workshopId, from, to })
-    return r.rows[0]
-  },
+/** The board for the local days from..to; 404 when the workshop is gone. */
+export async function boardData(workshopId: number, from: string, to: string): Promise<BoardData> {
+  const db = useDb()
+  const [ctx, pours] = await Promise.all([
+    db.raw(SQL, { workshopId, from, to }).then(r => r.rows[0] as BoardContextRow | undefined),
+    poursRepo.inDays(db, workshopId, from, to),
+  ])
+  if (!ctx) notFound('Workshop')
+  const now = new Date()
+  return {
+    workshop: {
+      timezone: ctx.timezone, shiftStart: ctx.shift_start.slice(0, 5), shiftEnd: ctx.shift_end.slice(0, 5),
+      workingDays: ctx.working_days.map(Number), units: ctx.units, defaultShopTempC: Number(ctx.default_shop_temp_c),
+    },
+    benches: ctx.benches.map(b => ({ id: Number(b.id), name: b.name, sortOrder: b.sort_order })),
+    moulds: ctx.moulds.map(m => ({
+      id: Number(m.id), code: m.code, casts: m.casts, benchId: m.bench_id === null ? null : Number(m.bench_id), benchName: m.bench_name,
+      state: m.state, pulls: m.pulls, expectedPulls: m.expected_pulls, lifeFlag: mouldLifeFlag(m.pulls, m.expected_pulls),
+    })),
+    pours: pours.map(p => pourDto(p, now)),
+    shopDays: ctx.shop_days.map(s => ({ day: s.day, tempC: Number(s.temp_c), humidityPct: Number(s.humidity_pct) })),
+    jobItems: ctx.job_items.map(i => ({
+      id: Number(i.id), jobId: Number(i.job_id), jobCode: i.job_code, description: i.description,
+      mouldId: i.mould_id === null ? null : Number(i.mould_id), piecesNeeded: i.pieces_needed, piecesPlanned: Number(i.pieces_planned), released: i.released,
+    })),
+    casters: ctx.casters.map(c => ({ id: Number(c.id), name: c.name })),
+  }
 }

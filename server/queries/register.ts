@@ -1,8 +1,10 @@
-// The casting register of a job: one row per pour with its piece (a pour makes at most one
+// The register screen's read, the casting register of a job: one row per pour with its piece (a pour makes at most one
 // piece), everything that traces the piece back to how it was cast. Times are formatted by
 // PostgreSQL in the workshop's timezone, so a 100,000-row export does no per-row date work in JS.
 import type { Knex } from 'knex'
 import type { RegisterFilter } from '#shared/utils/register-schemas'
+import { jobsRepo } from '../repos/jobs'
+import { loadWorkshop } from '../services/workshop'
 
 /** A download that stops reading for this long gives its database connection back (common practice). */
 const STALL_SECONDS = 120
@@ -84,7 +86,7 @@ function base(db: Knex, workshopId: number, jobId: number, f: RegisterFilter) {
   return q
 }
 
-export const registerRepo = {
+const registerRows = {
   async page(db: Knex, workshopId: number, jobId: number, f: RegisterFilter, page: number, pageSize: number) {
     const [rows, [count]] = await Promise.all([
       base(db, workshopId, jobId, f).select(db.raw(REGISTER_SELECT.join(', '))).orderBy('p.id').limit(pageSize).offset((page - 1) * pageSize),
@@ -127,4 +129,29 @@ export const registerRepo = {
     ])
     return { moulds: moulds as { id: number; code: string }[], casters: casters as { id: number; name: string }[] }
   },
+}
+
+async function jobOf(db: Knex, workshopId: number, jobId: number) {
+  const job = await jobsRepo.byId(db, workshopId, jobId)
+  if (!job) notFound('Job')
+  return job
+}
+
+/** GET /api/jobs/:id/register: one page of the job's register and the moulds and casters to filter by. */
+export async function registerPage(workshopId: number, jobId: number, f: RegisterFilter, page: number, pageSize: number) {
+  const db = useDb()
+  const job = await jobOf(db, workshopId, jobId)
+  const [{ rows, total }, choices] = await Promise.all([
+    registerRows.page(db, workshopId, jobId, f, page, pageSize),
+    registerRows.choices(db, workshopId, jobId),
+  ])
+  return { job: { id: job.id, code: job.code, title: job.title }, page, pageSize, total, rows, ...choices }
+}
+
+/** The register export: the job, the workshop's zone its times are in, and every row through one cursor. */
+export async function registerExport(workshopId: number, jobId: number, f: RegisterFilter) {
+  const db = useDb()
+  const job = await jobOf(db, workshopId, jobId)
+  const ws = await loadWorkshop(db, workshopId)
+  return { job, timezone: ws.timezone, rows: registerRows.all(db, workshopId, jobId, f) }
 }

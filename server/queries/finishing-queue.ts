@@ -1,4 +1,4 @@
-// The finisher's queue (GET /api/finishing) and the piece card every finishing answer carries.
+// The finisher's queue screen's read (GET /api/finishing) and the piece card every finishing answer carries.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FinishingPieceDto, FinishingQueue } from '#shared/types/finishing'
@@ -8,9 +8,9 @@ import type { WorkshopRow } from '../repos/workshops'
 import { dryness } from '#shared/utils/plaster-drying'
 import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '#shared/utils/finishing'
 import { boardLocalDay } from '#shared/utils/board-rules'
-import { loadWorkshop } from './pours'
+import { loadWorkshop } from '../services/workshop'
 
-const num = (v: string | null) => (v === null ? null : Number(v))
+const num = (v: number | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
 
 export function pieceDto(r: PieceViewRow): FinishingPieceDto {

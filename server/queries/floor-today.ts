@@ -1,15 +1,57 @@
-// The caster's day on the floor: today's pours (the workshop's local day) as cards with what a
+// The floor screen's read: today's pours (the workshop's local day) as cards with what a
 // caster needs at the bench: mould, batch weights, the demould window, lots in stock, cautions.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import { poursRepo, daySheetRepo } from '../repos/pours'
-import { floorRepo, type FloorActualsRow } from '../repos/floor'
 import { BURN_CAUTION } from '#shared/utils/plaster'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import type { FloorCardDto, FloorCaution } from '#shared/types/floor'
-import { loadWorkshop, pourDto, type PourDto } from './pours'
+import type { PourDto } from '#shared/types/board'
+import { pourDto } from '../services/pours'
+import { loadWorkshop } from '../services/workshop'
 
 export type { FloorCardDto }
+
+export interface FloorActualsRow {
+  id: number
+  mixing_at: Date | null
+  poured_at: Date | null
+  demoulded_at: Date | null
+  backdated: boolean
+  plaster_kg_actual: number | null
+  water_kg_actual: number | null
+  water_temp_c: number | null
+  powder_temp_c: number | null
+  shop_temp_c: number | null
+  slurry_temp_c: number | null
+  result: 'sound' | 'defect' | null
+  defect: string | null
+  lot_code: string | null
+  piece_mark: string | null
+  piece_id: number | null
+  cavity_litres: number
+  mould_state: string
+}
+
+/** The floor's extra facts about pours: actuals, lot, piece, the mould's cavity and state; and the casts left overnight. */
+const floorFacts = {
+  /** Pours still mixing or setting whose prep started before the local day (a cast left overnight). */
+  async openBefore(db: Knex, workshopId: number, day: string): Promise<number[]> {
+    const r = await db.raw(`SELECT p.id FROM pours p JOIN workshops w ON w.id = p.workshop_id
+      WHERE p.workshop_id = ? AND p.state IN ('mixing', 'setting') AND lower(p.slot) < (?::date)::timestamp AT TIME ZONE w.timezone
+      ORDER BY lower(p.slot), p.id`, [workshopId, day])
+    return r.rows.map((x: { id: string }) => Number(x.id))
+  },
+  /** The floor's extra facts for the given pours: actuals, lot, piece, the mould's cavity and state. */
+  actuals(db: Knex, workshopId: number, ids: number[]): Promise<FloorActualsRow[]> {
+    return db('pours as p').join('moulds as m', 'm.id', 'p.mould_id').leftJoin('plaster_lots as l', 'l.id', 'p.lot_id')
+      .leftJoin('pieces as pc', 'pc.pour_id', 'p.id')
+      .select('p.id', 'p.mixing_at', 'p.poured_at', 'p.demoulded_at', 'p.backdated', 'p.plaster_kg_actual', 'p.water_kg_actual',
+        'p.water_temp_c', 'p.powder_temp_c', 'p.shop_temp_c', 'p.slurry_temp_c', 'p.result', 'p.defect', 'l.lot_code',
+        'pc.mark as piece_mark', 'pc.id as piece_id', 'm.cavity_litres', 'm.state as mould_state')
+      .where({ 'p.workshop_id': workshopId }).whereIn('p.id', ids)
+  },
+}
 
 const num = (v: string | number | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? d.toISOString() : null)
@@ -37,7 +79,7 @@ export async function floorCards(db: Knex, workshopId: number, ids: number[]): P
   // one query for every card (a query per pour held one pooled connection each under load)
   const byId = new Map((await poursRepo.dtos(db, workshopId, ids)).map(r => [Number(r.id), r]))
   const rows = ids.map(id => byId.get(id)).filter(r => !!r)
-  const actuals = new Map((await floorRepo.actuals(db, workshopId, ids)).map(a => [Number(a.id), a]))
+  const actuals = new Map((await floorFacts.actuals(db, workshopId, ids)).map(a => [Number(a.id), a]))
   const gradeIds = [...new Set(rows.map(r => Number(r.grade_id)))]
   const lots = await daySheetRepo.lots(db, workshopId, gradeIds)
   return rows.map((r) => {
@@ -66,7 +108,7 @@ export async function floorToday(actor: Actor, casterId?: number) {
   const ws = await loadWorkshop(db, actor.workshopId)
   const day = boardLocalDay(new Date(), ws.timezone)
   const today = await poursRepo.startingOn(db, ws.id, day)
-  const open = await floorRepo.openBefore(db, ws.id, day)
+  const open = await floorFacts.openBefore(db, ws.id, day)
   const who = actor.role === 'caster' ? actor.id : casterId
   const ids = [...open, ...today.map(r => Number(r.id))].filter((id, i, all) => all.indexOf(id) === i)
   const cards = await floorCards(db, ws.id, ids)

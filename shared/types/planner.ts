@@ -1,0 +1,145 @@
+// The planner's public types (shared/utils/planner.ts): its input, what it proposes and why
+// it left pieces out. Kept apart from the planner so its input checks (planner-input.ts) need
+// only these, not the planner. Ids are strings (PostgreSQL bigints arrive as strings).
+import type { PlasterGrade } from '../utils/plaster-core'
+import type { WorkshopShiftCalendar } from '../utils/workshop-calendar'
+
+/** Mould states as in `moulds.state`. */
+export type PlannerMouldState = 'ready' | 'in_use' | 'cleaning' | 'repair' | 'retired'
+
+/** A mould as the planner sees it; minutes for durations; expectedPulls null = no known life. */
+export interface PlannerMould {
+  id: string
+  code: string
+  benchId: string | null
+  state: PlannerMouldState
+  prepMinutes: number
+  cleanMinutes: number
+  maxDwellMinutes: number
+  pulls: number
+  expectedPulls: number | null
+}
+
+/** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
+export interface PlannerExistingPour {
+  mouldId: string
+  slotStart: Date
+  slotEnd: Date
+  casterId?: string | null
+  mixAt?: Date | null
+}
+
+/**
+ * An open job item. `mouldIds`: the item's mould (job_items.mould_id); `alternativeMouldIds`:
+ * other moulds that cast the same profile. Together, in that order, they are the candidates
+ * (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
+ */
+export interface PlannerItem {
+  itemId: string
+  jobId: string
+  jobCode: string
+  dueOn: string | null
+  sampleReleased: boolean
+  piecesRemaining: number
+  mouldIds: string[]
+  alternativeMouldIds?: string[]
+  grade: PlasterGrade
+  consistency: number
+  /** overrides options.setFactor for this item (e.g. a retarder in its mix) */
+  setFactor?: number
+}
+
+/** Options; setFactor default 1, startAt default `from`, pourMinutes default POUR_MIX_MINUTES_DEFAULT. */
+export interface PlanPoursOptions {
+  setFactor?: number
+  startAt?: Date
+  pourMinutes?: number
+  /** caster ids; when given, each pour gets a caster free for its whole gauging */
+  casters?: string[]
+  projectionDays?: number
+}
+
+/**
+ * Input of planPours. shopTempByDay: °C per local date; days missing use defaultShopTempC
+ * (default 20 °C, the plaster model's reference). The slurry is taken at the shop's
+ * temperature (water and powder stored in the shop: common practice); a day below 0 °C gets
+ * no pours (the gauging water would freeze).
+ */
+export interface PlanPoursInput {
+  calendar: WorkshopShiftCalendar
+  from: Date
+  to: Date
+  moulds: PlannerMould[]
+  existingPours: PlannerExistingPour[]
+  items: PlannerItem[]
+  shopTempByDay?: Record<string, number>
+  defaultShopTempC?: number
+  options?: PlanPoursOptions
+}
+
+/** One proposed pour. slotStart..slotEnd is the `slot` to book; day is its shift's local date. */
+export interface ProposedPour {
+  itemId: string
+  jobId: string
+  jobCode: string
+  mouldId: string
+  mouldCode: string
+  benchId: string | null
+  casterId: string | null
+  day: string
+  slotStart: Date
+  mixAt: Date
+  demouldOpenAt: Date
+  demouldCloseAt: Date
+  slotEnd: Date
+  slurryTempC: number
+  consistency: number
+  setFactor: number
+  /** the window opens after the shift; the mould holds the cast until the next shift starts */
+  overnight: boolean
+  warnings: string[]
+}
+
+/**
+ * Per job. finishesOn: local date the job's last cast comes out of its mould (fettling and
+ * drying follow and are not planned here), when every piece is placed before `to`;
+ * projectedDate: the same date from the schedule continued past `to` (null when some piece
+ * cannot be placed at all, e.g. a sample still awaiting approval). onTime: projectedDate ≤ dueOn
+ * (any date when dueOn is null); a job with nothing left to cast is on time with no dates.
+ */
+export interface PlannerJobOutcome {
+  jobId: string
+  jobCode: string
+  dueOn: string | null
+  piecesPlanned: number
+  piecesRemaining: number
+  finishesOn: string | null
+  onTime: boolean
+  projectedDate: string | null
+}
+
+/** Why pieces of an item could not be placed at all (not even in the projection). */
+export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon'
+
+export interface PlannerUnplaced {
+  itemId: string
+  jobId: string
+  reason: PlannerUnplacedReason
+  pieces: number
+  message: string
+}
+
+/** A mould an open item names but the planner would not (further) use. */
+export interface PlannerMouldNote {
+  mouldId: string
+  code: string
+  reason: 'repair' | 'retired' | 'expected-life'
+  message: string
+}
+
+export interface PlanPoursResult {
+  pours: ProposedPour[]
+  jobs: PlannerJobOutcome[]
+  unplaced: PlannerUnplaced[]
+  moulds: PlannerMouldNote[]
+}
