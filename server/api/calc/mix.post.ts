@@ -15,11 +15,6 @@ export default defineEventHandler(async (event) => {
     cavityLitres ??= mould.cavityLitres
     maxDwellMinutes ??= mould.maxDwellMinutes
   }
-  try {
-    return mixSummary({ ...input, grade: grade!, cavityLitres: cavityLitres!, maxDwellMinutes: maxDwellMinutes ?? 240 })
-  }
-  catch (e) {
-    if (e instanceof PlasterInputError) unprocessable([{ field: e.field, message: e.message }])
-    throw e
-  }
+  // a PlasterInputError becomes a 422 naming the field in the error handler (asHttpError)
+  return mixSummary({ ...input, grade: grade!, cavityLitres: cavityLitres!, maxDwellMinutes: maxDwellMinutes ?? 240 })
 })
