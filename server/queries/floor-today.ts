@@ -2,7 +2,7 @@
 // caster needs at the bench: mould, batch weights, the demould window, lots in stock, cautions.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import { poursRepo, daySheetRepo } from '../repos/pours'
+import { poursRepo, daySheetRepo, type PourStepRow } from '../repos/pours'
 import { BURN_CAUTION } from '#shared/utils/plaster'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import type { FloorCardDto, FloorCaution } from '#shared/types/floor'
@@ -12,18 +12,10 @@ import { loadWorkshop } from '../services/workshop'
 
 export type { FloorCardDto }
 
-export interface FloorActualsRow {
-  id: number
-  mixing_at: Date | null
-  poured_at: Date | null
-  demoulded_at: Date | null
+type PourActuals = Pick<PourStepRow, 'id' | 'mixing_at' | 'poured_at' | 'demoulded_at' | 'plaster_kg_actual' | 'water_kg_actual'
+  | 'water_temp_c' | 'powder_temp_c' | 'shop_temp_c' | 'slurry_temp_c'>
+export interface FloorActualsRow extends PourActuals {
   backdated: boolean
-  plaster_kg_actual: number | null
-  water_kg_actual: number | null
-  water_temp_c: number | null
-  powder_temp_c: number | null
-  shop_temp_c: number | null
-  slurry_temp_c: number | null
   result: 'sound' | 'defect' | null
   defect: string | null
   lot_code: string | null

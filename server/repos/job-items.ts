@@ -25,20 +25,8 @@ export interface ItemRow {
 /** An item with its mould's code, cavity and cast length and its grade's name. */
 export type ItemListRow = ItemRow & { mould_code: string | null; cavity_litres: number | null; cast_length_m: number | null; grade_name: string | null }
 
-export interface ItemColumns {
-  mould_id: number | null
-  profile: string | null
-  description: string
-  quantity: number | null
-  run_m: number | null
-  walls: string | null
-  min_piece_m: number | null
-  spares_pct: number
-  pieces_needed: number
-  grade_id: number | null
-  consistency: number | null
-  sort_order: number
-}
+/** The columns a write sets (walls as JSON text). */
+export type ItemColumns = Omit<ItemRow, 'id' | 'job_id' | 'version' | 'walls'> & { walls: string | null }
 
 export const jobItemsRepo = {
   forJob(db: Knex, workshopId: number, jobId: number): Promise<ItemListRow[]> {

@@ -87,15 +87,8 @@ export interface ClientJobSummary {
 }
 
 /** GET /api/client/jobs/[id]: what a client member sees of a job. */
-export interface ClientJobDetail {
-  id: number
-  code: string
-  title: string
-  site: string | null
-  dueOn: string | null
-  state: string
+export interface ClientJobDetail extends Omit<ClientJobSummary, 'itemCount'> {
   sampleRequired: boolean
-  sampleState: string
   sampleComment: string | null
   sampleDecidedAt: string | null
   released: boolean
