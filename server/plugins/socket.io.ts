@@ -12,6 +12,7 @@ import { parse as parseCookies } from 'cookie-es'
 import { liveRooms } from '#shared/types/live'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
 import type { SealedSession } from '../utils/auth'
+import { jobsRepo } from '../repos/jobs'
 
 async function authenticate(socket: Socket) {
   const name = (useRuntimeConfig().session as { name?: string }).name ?? 'nuxt-session'
@@ -44,8 +45,8 @@ async function joinRooms(socket: Socket, user: { id: number; workshop_id: number
     await socket.join(liveRooms.workshop(user.workshop_id))
     return
   }
-  const jobs = await useDb()('job_members').where({ workshop_id: user.workshop_id, user_id: user.id }).pluck('job_id')
-  await socket.join(jobs.map(id => liveRooms.job(Number(id))))
+  const jobs = await jobsRepo.memberJobIds(useDb(), user.workshop_id, user.id)
+  await socket.join(jobs.map(id => liveRooms.job(id)))
 }
 
 /** Longest delay setTimeout takes (2^31 - 1 ms); a session ends sooner than that anyway. */

@@ -3,17 +3,17 @@ import type { Knex } from 'knex'
 import { daySheetRepo, poursRepo, type PourDtoRow } from '../repos/pours'
 import { lotStockKg, lotToOpen, requisitionLine } from '#shared/utils/board-rules'
 import { workshopsRepo } from '../repos/workshops'
+import type { DaySheetDto, DaySheetPour, DaySheetRequisition } from '#shared/types/day-sheet'
 
-function sheetPour(p: PourDtoRow) {
+function sheetPour(p: PourDtoRow): DaySheetPour {
   return {
     id: p.id, mouldCode: p.mould_code, casts: p.casts, jobCode: p.job_code, itemDescription: p.item_description, casterName: p.caster_name,
     mixAt: p.mix_at.toISOString(), demouldOpenAt: p.demould_open_at.toISOString(), demouldCloseAt: p.demould_close_at.toISOString(),
     gradeName: p.grade_name, consistency: Number(p.consistency), plasterKg: Number(p.plaster_kg_planned), waterKg: Number(p.water_kg_planned),
   }
 }
-export type DaySheetPour = ReturnType<typeof sheetPour>
 
-async function requisition(db: Knex, workshopId: number, day: string, pours: PourDtoRow[]) {
+async function requisition(db: Knex, workshopId: number, day: string, pours: PourDtoRow[]): Promise<DaySheetRequisition[]> {
   const gradeIds = [...new Set(pours.map(p => p.grade_id))]
   if (!gradeIds.length) return []
   const [grades, lots] = await Promise.all([daySheetRepo.grades(db, workshopId, gradeIds), daySheetRepo.lots(db, workshopId, gradeIds)])
@@ -28,13 +28,13 @@ async function requisition(db: Knex, workshopId: number, day: string, pours: Pou
   })
 }
 
-export async function daySheet(workshopId: number, day: string) {
+export async function daySheet(workshopId: number, day: string): Promise<DaySheetDto> {
   const db = useDb()
   const [pours, benches, workshop] = await Promise.all([
     poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId), workshopsRepo.get(db, workshopId),
   ])
   if (!workshop) notFound('Workshop')
-  const groups = benches.map(b => ({ benchId: b.id as number | null, benchName: b.name as string | null, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
+  const groups: DaySheetDto['benches'] = benches.map(b => ({ benchId: b.id, benchName: b.name, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
   const loose = pours.filter(p => p.bench_id === null).map(sheetPour)
   if (loose.length) groups.push({ benchId: null, benchName: null, pours: loose })
   return { day, timezone: workshop.timezone, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }

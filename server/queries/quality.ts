@@ -1,4 +1,5 @@
 // The quality screen's read: the demoulded pours of a period and their figures (shared/utils/quality.ts).
+import type { QualityReportDto } from '#shared/types/quality'
 import type { Knex } from 'knex'
 import type { QualityPour } from '#shared/utils/quality'
 
@@ -26,6 +27,6 @@ async function demouldedPours(db: Knex, workshopId: number, from: string, to: st
 }
 
 /** GET /api/quality: defect rates and demould calibration over the local days from..to. */
-export async function qualityReport(workshopId: number, from: string, to: string) {
+export async function qualityReport(workshopId: number, from: string, to: string): Promise<QualityReportDto> {
   return { from, to, ...qualityFigures(await demouldedPours(useDb(), workshopId, from, to)) }
 }

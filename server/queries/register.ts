@@ -5,6 +5,7 @@ import type { Knex } from 'knex'
 import type { RegisterFilter } from '#shared/utils/register-schemas'
 import { jobsRepo } from '../repos/jobs'
 import { loadWorkshop } from '../services/workshop'
+import type { RegisterPageDto, RegisterRow } from '#shared/types/register'
 
 /** A download that stops reading for this long gives its database connection back (common practice). */
 const STALL_SECONDS = 120
@@ -12,46 +13,15 @@ const STALL_SECONDS = 120
 const local = (col: string, as: string) => `to_char(${col} AT TIME ZONE w.timezone, 'YYYY-MM-DD HH24:MI') AS ${as}`
 
 const REGISTER_SELECT = [
-  'p.id AS pour_id', 'p.state', 'p.is_sample', 'pc.mark', 'pc.state AS piece_state', 'i.description AS item',
-  'm.code AS mould', 'g.name AS grade', 'l.lot_code AS lot', 'p.consistency', 'p.plaster_kg_actual', 'p.water_kg_actual',
-  'p.water_temp_c', 'p.powder_temp_c', 'p.shop_temp_c', 'p.slurry_temp_c',
-  local('p.mix_at', 'mix_planned'), local('p.mixing_at', 'mixing_at'), local('p.poured_at', 'poured_at'),
-  local('p.demould_open_at', 'demould_open'), local('p.demould_close_at', 'demould_close'), local('p.demoulded_at', 'demoulded_at'),
+  'p.id AS "pourId"', 'p.state', 'p.is_sample AS "isSample"', 'pc.mark', 'pc.state AS "pieceState"', 'i.description AS item',
+  'm.code AS mould', 'g.name AS grade', 'l.lot_code AS lot', 'p.consistency', 'p.plaster_kg_actual AS "plasterKgActual"', 'p.water_kg_actual AS "waterKgActual"',
+  'p.water_temp_c AS "waterTempC"', 'p.powder_temp_c AS "powderTempC"', 'p.shop_temp_c AS "shopTempC"', 'p.slurry_temp_c AS "slurryTempC"',
+  local('p.mix_at', '"mixPlanned"'), local('p.mixing_at', '"mixingAt"'), local('p.poured_at', '"pouredAt"'),
+  local('p.demould_open_at', '"demouldOpen"'), local('p.demould_close_at', '"demouldClose"'), local('p.demoulded_at', '"demouldedAt"'),
   'u.name AS caster', 'p.result', 'p.defect', 'p.backdated',
   `(SELECT count(*)::int FROM photos ph WHERE ph.workshop_id = p.workshop_id AND ph.job_id = i.job_id
      AND (ph.pour_id = p.id OR (pc.id IS NOT NULL AND ph.piece_id = pc.id))) AS photos`,
 ]
-
-// a type alias, not an interface: sendCsvRows takes Record<string, unknown> rows
-export type RegisterRow = {
-  pour_id: number
-  state: string
-  is_sample: boolean
-  mark: string | null
-  piece_state: string | null
-  item: string
-  mould: string
-  grade: string
-  lot: string | null
-  consistency: string
-  plaster_kg_actual: string | null
-  water_kg_actual: string | null
-  water_temp_c: string | null
-  powder_temp_c: string | null
-  shop_temp_c: string | null
-  slurry_temp_c: string | null
-  mix_planned: string
-  mixing_at: string | null
-  poured_at: string | null
-  demould_open: string
-  demould_close: string
-  demoulded_at: string | null
-  caster: string | null
-  result: string | null
-  defect: string | null
-  backdated: boolean
-  photos: number
-}
 
 /** The job's pours joined to everything the register shows, filtered; no select, no order. */
 function base(db: Knex, workshopId: number, jobId: number, f: RegisterFilter) {
@@ -138,7 +108,7 @@ async function jobOf(db: Knex, workshopId: number, jobId: number) {
 }
 
 /** GET /api/jobs/:id/register: one page of the job's register and the moulds and casters to filter by. */
-export async function registerPage(workshopId: number, jobId: number, f: RegisterFilter, page: number, pageSize: number) {
+export async function registerPage(workshopId: number, jobId: number, f: RegisterFilter, page: number, pageSize: number): Promise<RegisterPageDto> {
   const db = useDb()
   const job = await jobOf(db, workshopId, jobId)
   const [{ rows, total }, choices] = await Promise.all([

@@ -28,7 +28,7 @@ export const invitationsRepo = {
       .where('expires_at', '>', db.fn.now()).orderBy('created_at', 'desc')
   },
   /** An unexpired, unaccepted invitation by token hash, locked for acceptance when in a transaction. */
-  openByTokenHash(db: Knex, tokenHash: string) {
+  openByTokenHash(db: Knex, tokenHash: string): Promise<InvitationRow | undefined> {
     return db('invitations').select(INVITE_COLUMNS).where({ token_hash: tokenHash }).whereNull('accepted_at')
       .where('expires_at', '>', db.fn.now()).first()
   },

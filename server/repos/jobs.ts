@@ -76,6 +76,11 @@ export const jobsRepo = {
     }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId })
       .select('u.id', 'u.name', 'u.email').orderBy('u.name')
   },
+  /** The ids of the jobs a user is a member of (a client's live rooms). */
+  async memberJobIds(db: Knex, workshopId: number, userId: number): Promise<number[]> {
+    const ids: (number | string)[] = await db('job_members').where({ workshop_id: workshopId, user_id: userId }).pluck('job_id')
+    return ids.map(Number)
+  },
   addMember(db: Knex, workshopId: number, jobId: number, userId: number) {
     return db('job_members').insert({ workshop_id: workshopId, job_id: jobId, user_id: userId }).onConflict(['job_id', 'user_id']).ignore()
   },

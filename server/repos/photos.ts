@@ -1,10 +1,20 @@
 // Every knex call for photos, and the checks that a piece or pour named on an upload belongs
 // to the job. Workshop in every WHERE.
 import type { Knex } from 'knex'
-import type { PhotoDto } from '#shared/types/photos'
-
-/** The row as the database gives it: the DTO's fields, with created_at still a Date. */
-export interface PhotoRow extends Omit<PhotoDto, 'created_at'> { created_at: Date }
+/** A photos row as PHOTO_COLUMNS read it. */
+export interface PhotoRow {
+  id: string
+  job_id: number
+  piece_id: number | null
+  pour_id: number | null
+  caption: string | null
+  shared: boolean
+  uploaded_by: number | null
+  width: number
+  height: number
+  bytes: number
+  created_at: Date
+}
 
 /** Row plus storage keys: only the service sees the keys, routes never return them. */
 export interface StoredPhotoRow extends PhotoRow { workshop_id: number; thumb_key: string; display_key: string }

@@ -4,11 +4,10 @@
 // its place), so the counts never pass what was ordered because of a bad cast, and the client
 // is not shown that anything was rejected.
 import type { Knex } from 'knex'
-import type { ItemProgressDto } from '#shared/types/photos'
 import { COUNTED_POUR } from './planning'
 
-/** The row is what the client's page shows (shared/types/photos.ts). */
-export type ItemProgressRow = ItemProgressDto
+/** Per item, the counts the client's page shows (shared/types/photos.ts ItemProgressDto). */
+export interface ItemProgressRow { id: number; description: string; pieces_needed: number; planned: number; cast: number; fettled: number; dry: number; dispatched: number }
 
 const FETTLED = ['drying', 'ready', 'packed', 'dispatched']
 const DRY = ['ready', 'packed', 'dispatched']

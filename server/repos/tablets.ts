@@ -13,6 +13,9 @@ export interface TabletRow {
   updated_at: Date
 }
 
+/** A tablet as the lead's list reads it: when it was last used and who signed it in. */
+export interface TabletListRow { id: number; name: string; revoked_at: Date | null; created_at: Date; last_used_at: Date; signed_in_by_name: string | null }
+
 const COLUMNS = ['id', 'workshop_id', 'name', 'signed_in_by', 'revoked_at', 'created_at', 'updated_at']
 
 export const tabletsRepo = {
@@ -26,7 +29,7 @@ export const tabletsRepo = {
     return row
   },
   /** The workshop's tablets, live ones first, with who signed each in. */
-  list(db: Knex, workshopId: number) {
+  list(db: Knex, workshopId: number): Promise<TabletListRow[]> {
     return db('tablet_devices as t').leftJoin('users as u', 'u.id', 't.signed_in_by')
       .where('t.workshop_id', workshopId)
       .select('t.id', 't.name', 't.revoked_at', 't.created_at', 't.updated_at as last_used_at', 'u.name as signed_in_by_name')

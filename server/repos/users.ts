@@ -30,7 +30,24 @@ export interface PublicUserRow {
   created_at: Date
 }
 
+/** Who a notification goes to: an enabled user with their notify_prefs. */
+export interface RecipientRow { id: number; name: string; email: string; notify_prefs: unknown }
+
+const RECIPIENT_COLUMNS = ['u.id', 'u.name', 'u.email', 'u.notify_prefs']
+
 export const usersRepo = {
+  /** The enabled members of a job (its clients), by id. */
+  jobMemberRecipients(db: Knex, workshopId: number, jobId: number): Promise<RecipientRow[]> {
+    return db('job_members as m').join('users as u', function () {
+      this.on('u.id', 'm.user_id').andOn('u.workshop_id', 'm.workshop_id')
+    }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId }).whereNull('u.disabled_at')
+      .select(RECIPIENT_COLUMNS).orderBy('u.id')
+  },
+  /** The workshop's enabled leads, by id. */
+  leadRecipients(db: Knex, workshopId: number): Promise<RecipientRow[]> {
+    return db('users as u').where({ 'u.workshop_id': workshopId, 'u.role': 'lead' }).whereNull('u.disabled_at')
+      .select(RECIPIENT_COLUMNS).orderBy('u.id')
+  },
   async byEmail(db: Knex, email: string): Promise<UserRow | undefined> {
     const row: UserRow | undefined = await db('users').whereRaw('lower(email) = lower(?)', [email]).first(COLUMNS)
     return row

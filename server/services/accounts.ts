@@ -9,10 +9,12 @@
 // workshop's e-mail answers like a new address (accepting then fails for its owner).
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
-import type { Role } from '#shared/types/auth'
+import type { InvitationInfoDto, Role } from '#shared/types/auth'
 import { workshopsRepo } from '../repos/workshops'
 import { usersRepo } from '../repos/users'
 import { invitationsRepo, resetsRepo } from '../repos/invitations'
+import { clientOrgsRepo } from '../repos/client-orgs'
+import { jobsRepo } from '../repos/jobs'
 
 const INVITE_DAYS = 7
 const RESET_MINUTES = 60
@@ -30,12 +32,10 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
   const link = `${appEnv().APP_URL}/accept-invite?token=${token}`
   const invitation = await db.transaction(async (trx) => {
     if (input.clientOrgId) {
-      const org = await trx('client_orgs').where({ workshop_id: actor.workshopId, id: input.clientOrgId }).first('id')
-      if (!org) unprocessable([{ field: 'clientOrgId', message: 'is not a client organisation of this workshop' }])
+      if (!(await clientOrgsRepo.exists(trx, actor.workshopId, input.clientOrgId))) unprocessable([{ field: 'clientOrgId', message: 'is not a client organisation of this workshop' }])
     }
     if (input.jobId) {
-      const job = await trx('jobs').where({ workshop_id: actor.workshopId, id: input.jobId }).first('id')
-      if (!job) unprocessable([{ field: 'jobId', message: 'is not a job of this workshop' }])
+      if (!(await jobsRepo.byId(trx, actor.workshopId, input.jobId))) unprocessable([{ field: 'jobId', message: 'is not a job of this workshop' }])
     }
     const workshop = await workshopsRepo.get(trx, actor.workshopId)
     if (!workshop) notFound('Workshop')
@@ -58,6 +58,16 @@ export async function inviteUser(actor: Actor, input: { email: string; role: Rol
   })
   void deliverDueMail().catch(() => undefined)
   return invitation
+}
+
+/** What an open invitation link is for (410 once it expired or was used). */
+export async function invitationInfo(token: string): Promise<InvitationInfoDto> {
+  const db = useDb()
+  const inv = await invitationsRepo.openByTokenHash(db, hashLinkToken(token))
+  if (!inv) throw createError({ statusCode: 410, message: 'This invitation link has expired or was already used' })
+  const workshop = await workshopsRepo.get(db, inv.workshop_id)
+  if (!workshop) notFound('Workshop')
+  return { email: inv.email, name: inv.name, role: inv.role, workshop: workshop.name }
 }
 
 const INVITATION_GONE = 'This invitation link has expired or was already used; ask your workshop lead for a new one'
@@ -88,7 +98,7 @@ export async function acceptInvitation(event: H3Event, input: { token: string; n
       workshop_id: inv.workshop_id, email: inv.email, name: input.name, role: inv.role,
       client_org_id: inv.client_org_id, password_hash: passwordHash,
     })
-    if (inv.job_id) await trx('job_members').insert({ workshop_id: inv.workshop_id, job_id: inv.job_id, user_id: user.id }).onConflict().ignore()
+    if (inv.job_id) await jobsRepo.addMember(trx, inv.workshop_id, inv.job_id, user.id)
     const marked = await invitationsRepo.markAccepted(trx, inv.id, user.id)
     if (marked !== 1) conflict('This invitation was just used')
     return user

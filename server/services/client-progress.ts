@@ -5,8 +5,10 @@ import type { Actor } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
 import { photosRepo } from '../repos/photos'
 import { progressRepo } from '../repos/progress'
+import { toClientPhotoDto } from './photos'
+import type { ClientProgressDto } from '#shared/types/photos'
 
-export async function clientProgress(actor: Actor, jobId: number) {
+export async function clientProgress(actor: Actor, jobId: number): Promise<ClientProgressDto> {
   const db = useDb()
   const job = await jobsRepo.byId(db, actor.workshopId, jobId)
   if (!job || !(await jobsRepo.isMember(db, actor.workshopId, jobId, actor.id))) notFound('Job')
@@ -16,9 +18,9 @@ export async function clientProgress(actor: Actor, jobId: number) {
     photosRepo.forJob(db, actor.workshopId, jobId, true),
   ])
   return {
-    job: { id: job.id, code: job.code, title: job.title, due_on: job.due_on },
-    items,
-    expected_completion_at: expectedAt,
-    photos: photos.map(p => ({ id: p.id, caption: p.caption, width: p.width, height: p.height, created_at: p.created_at })),
+    job: { id: job.id, code: job.code, title: job.title, dueOn: job.due_on },
+    items: items.map(i => ({ id: i.id, description: i.description, piecesNeeded: i.pieces_needed, planned: i.planned, cast: i.cast, fettled: i.fettled, dry: i.dry, dispatched: i.dispatched })),
+    expectedCompletionAt: expectedAt?.toISOString() ?? null,
+    photos: photos.map(toClientPhotoDto),
   }
 }

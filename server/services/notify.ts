@@ -8,27 +8,13 @@
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'
+import { usersRepo, type RecipientRow } from '../repos/users'
+import { jobsRepo, type JobRow } from '../repos/jobs'
+import { workshopsRepo } from '../repos/workshops'
+import { mailOutboxRepo } from '../repos/mail-outbox'
 
-interface Recipient { id: number; name: string; email: string; notify_prefs: unknown }
-interface JobRef { id: number; code: string; title: string }
-
-const RECIPIENT_COLUMNS = ['u.id', 'u.name', 'u.email', 'u.notify_prefs']
-
-function jobMembers(trx: Knex, workshopId: number, jobId: number): Promise<Recipient[]> {
-  return trx('job_members as m').join('users as u', function () {
-    this.on('u.id', 'm.user_id').andOn('u.workshop_id', 'm.workshop_id')
-  }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId }).whereNull('u.disabled_at')
-    .select(RECIPIENT_COLUMNS).orderBy('u.id')
-}
-
-function leads(trx: Knex, workshopId: number): Promise<Recipient[]> {
-  return trx('users as u').where({ 'u.workshop_id': workshopId, 'u.role': 'lead' }).whereNull('u.disabled_at')
-    .select(RECIPIENT_COLUMNS).orderBy('u.id')
-}
-
-async function jobRef(trx: Knex, workshopId: number, jobId: number): Promise<JobRef | undefined> {
-  return trx('jobs').where({ workshop_id: workshopId, id: jobId }).first('id', 'code', 'title')
-}
+type Recipient = RecipientRow
+type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
 
 const link = (path: string) => `${appEnv().APP_URL}${path}`
 
@@ -46,7 +32,7 @@ async function send(trx: Knex, workshopId: number, kind: NotifyKind, to: Recipie
 
 /** To the job's client members: the sample is ready for approval. `round` is the job version. */
 export function notifySampleReady(trx: Knex, workshopId: number, job: JobRef & { version: number }) {
-  return jobMembers(trx, workshopId, job.id).then(to => send(trx, workshopId, 'sample_ready', to, r => ({
+  return usersRepo.jobMemberRecipients(trx, workshopId, job.id).then(to => send(trx, workshopId, 'sample_ready', to, r => ({
     subject: `Sample ready for your approval: ${job.code} ${job.title}`,
     lines: [`The sample cast for ${job.code} (${job.title}) is ready for your approval.`,
       'Approve it, or ask for changes with a comment, here:', link(`/client/jobs/${job.id}`), '',
@@ -60,11 +46,11 @@ export function notifySampleReady(trx: Knex, workshopId: number, job: JobRef & {
  * a workshop-local day queues the mail, later calls that day are absorbed.
  */
 export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: number) {
-  const job = await jobRef(trx, workshopId, jobId)
+  const job = await jobsRepo.byId(trx, workshopId, jobId)
   if (!job) return 0
-  const ws = await trx('workshops').where({ id: workshopId }).first('timezone')
+  const ws = await workshopsRepo.get(trx, workshopId)
   const day = boardLocalDay(new Date(), ws?.timezone ?? 'UTC')
-  return send(trx, workshopId, 'photos_shared', await jobMembers(trx, workshopId, jobId), r => ({
+  return send(trx, workshopId, 'photos_shared', await usersRepo.jobMemberRecipients(trx, workshopId, jobId), r => ({
     subject: `New photos of ${job.code} ${job.title}`,
     lines: [`The workshop has shared new photos of ${job.code} (${job.title}).`, 'See them on your job page:', link(`/client/jobs/${job.id}`)],
     dedupeKey: `photos:${job.id}:${day}:${r.id}`,
@@ -73,9 +59,9 @@ export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: n
 
 /** To the job's client members: the job is ready for dispatch (called when the last needed piece is ready). */
 export async function notifyJobReady(trx: Knex, workshopId: number, jobId: number) {
-  const job = await jobRef(trx, workshopId, jobId)
+  const job = await jobsRepo.byId(trx, workshopId, jobId)
   if (!job) return 0
-  return send(trx, workshopId, 'job_ready', await jobMembers(trx, workshopId, jobId), r => ({
+  return send(trx, workshopId, 'job_ready', await usersRepo.jobMemberRecipients(trx, workshopId, jobId), r => ({
     subject: `Ready for dispatch: ${job.code} ${job.title}`,
     lines: [`Every piece of ${job.code} (${job.title}) is ready for dispatch.`, 'The workshop will be in touch about delivery. Your job page:', link(`/client/jobs/${job.id}`)],
     dedupeKey: `job-ready:${job.id}:${r.id}`,
@@ -86,7 +72,7 @@ export async function notifyJobReady(trx: Knex, workshopId: number, jobId: numbe
 export async function notifySampleDecision(trx: Knex, workshopId: number, input: { job: JobRef; clientName: string; decision: 'approved' | 'changes_requested'; comment: string | null; decidedAt: Date }) {
   const { job, clientName, decision, comment } = input
   const verdict = decision === 'approved' ? 'approved the sample' : 'asked for changes to the sample'
-  return send(trx, workshopId, 'sample_decision', await leads(trx, workshopId), r => ({
+  return send(trx, workshopId, 'sample_decision', await usersRepo.leadRecipients(trx, workshopId), r => ({
     subject: `${job.code}: ${clientName} ${verdict}`,
     lines: [`${clientName} ${verdict} for ${job.code} (${job.title}).`,
       comment ? `Their comment: ${comment}` : 'They left no comment.', '', link(`/lead/jobs/${job.id}`)],
@@ -107,26 +93,11 @@ const OVERDUE_LOOKBACK_MS = 2 * 86_400_000
  * left past its window can crack or stick in the mould, so the lead hears of it once.
  */
 export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
-  const overdue: { id: number; workshop_id: number; code: string; demould_close_at: Date; timezone: string; job_code: string | null }[] = await db('pours as p')
-    .join('moulds as m', function () {
-      this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
-    })
-    .join('workshops as w', 'w.id', 'p.workshop_id')
-    .leftJoin('job_items as i', function () {
-      this.on('i.id', 'p.job_item_id').andOn('i.workshop_id', 'p.workshop_id')
-    })
-    .leftJoin('jobs as j', function () {
-      this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'p.workshop_id')
-    })
-    .whereIn('p.state', ['planned', 'mixing', 'setting']).where('p.demould_close_at', '<', now)
-    .where('p.demould_close_at', '>', new Date(now.getTime() - OVERDUE_LOOKBACK_MS))
-    .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`))
-    .select('p.id', 'p.workshop_id', 'm.code', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
-    .orderBy('p.id').limit(200)
+  const overdue = await mailOutboxRepo.overduePoursUnmailed(db, now, new Date(now.getTime() - OVERDUE_LOOKBACK_MS), 200)
   let queued = 0
   for (const p of overdue) {
     await db.transaction(async (trx) => {
-      queued += await send(trx, p.workshop_id, 'demould_overdue', await leads(trx, p.workshop_id), r => ({
+      queued += await send(trx, p.workshop_id, 'demould_overdue', await usersRepo.leadRecipients(trx, p.workshop_id), r => ({
         subject: `Demould overdue: mould ${p.code}${p.job_code ? ` (${p.job_code})` : ''}`,
         lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${boardClock(new Date(p.demould_close_at), p.timezone)}.`,
           'Check the cast on the pour board:', link('/lead/board')],

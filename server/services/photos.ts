@@ -1,6 +1,7 @@
 // Photos of a job: upload (validate, make WebP variants, store, then one transaction for the
 // rows), list, caption and share, delete, and serving a variant to whoever may see it.
 // Clients see only shared photos of jobs they are a member of; anything else is a 404.
+import type { ClientPhotoDto, PhotoDto } from '#shared/types/photos'
 import { readFile } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import type { Storage } from 'unstorage'
@@ -29,7 +30,7 @@ async function visiblePhoto(db: Knex, actor: Actor, id: string): Promise<StoredP
 /** Live event to the job room when clients may see the photo (or just saw it), else to staff only. */
 function emitPhoto(actor: Actor, type: 'photo.created' | 'photo.updated' | 'photo.deleted', row: Pick<PhotoRow, 'id' | 'job_id' | 'shared'> & Partial<PhotoRow>, clientsCare: boolean) {
   // the same event reaches clients: only what a client may see (pages refetch for the rest)
-  const event = { type, id: row.id, row: { id: row.id, job_id: row.job_id, shared: row.shared, caption: row.caption ?? null } }
+  const event = { type, id: row.id, row: { id: row.id, jobId: row.job_id, shared: row.shared, caption: row.caption ?? null } }
   if (clientsCare) emitToJob(actor.workshopId, row.job_id, event)
   else emitToWorkshop(actor.workshopId, event)
 }
@@ -68,7 +69,7 @@ async function removeKeys(store: Storage, keys: string[]) {
   await Promise.allSettled(keys.map(k => store.removeItem(k)))
 }
 
-export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUploadFields, files: UploadedFile[], store: Storage = photoStorage()) {
+export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUploadFields, files: UploadedFile[], store: Storage = photoStorage()): Promise<PhotoDto[]> {
   const db = useDb()
   await jobVisibleTo(db, actor, jobId)
   const links = await checkLinks(db, actor, jobId, fields)
@@ -93,7 +94,7 @@ export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUpl
       return inserted
     })
     for (const row of rows) emitPhoto(actor, 'photo.created', row, row.shared)
-    return rows
+    return rows.map(toPhotoDto)
   }
   catch (err) {
     await removeKeys(store, keys)
@@ -101,15 +102,26 @@ export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUpl
   }
 }
 
-export async function listPhotos(actor: Actor, jobId: number) {
+export function toPhotoDto(r: PhotoRow): PhotoDto {
+  return {
+    id: r.id, jobId: r.job_id, pieceId: r.piece_id, pourId: r.pour_id, caption: r.caption, shared: r.shared,
+    uploadedBy: r.uploaded_by, width: r.width, height: r.height, bytes: r.bytes, createdAt: r.created_at.toISOString(),
+  }
+}
+
+/** Clients never learn who in the shop took a photo, nor which pour or piece it shows. */
+export const toClientPhotoDto = (r: PhotoRow): ClientPhotoDto =>
+  ({ id: r.id, caption: r.caption, width: r.width, height: r.height, createdAt: r.created_at.toISOString() })
+
+/** A job's photos: all of them for staff, the shared ones in the client's shape for a client member. */
+export async function listPhotos(actor: Actor, jobId: number): Promise<PhotoDto[] | ClientPhotoDto[]> {
   const db = useDb()
   await jobVisibleTo(db, actor, jobId)
   const rows = await photosRepo.forJob(db, actor.workshopId, jobId, actor.role === 'client')
-  // clients never learn who in the shop took a photo, nor which pour or piece it shows
-  return actor.role === 'client' ? rows.map(({ id, caption, width, height, created_at }) => ({ id, caption, width, height, created_at })) : rows
+  return actor.role === 'client' ? rows.map(toClientPhotoDto) : rows.map(toPhotoDto)
 }
 
-export async function updatePhoto(actor: Actor, id: string, input: PhotoPatch) {
+export async function updatePhoto(actor: Actor, id: string, input: PhotoPatch): Promise<PhotoDto> {
   const db = useDb()
   const before = await visiblePhoto(db, actor, id)
   const row = await db.transaction(async (trx) => {
@@ -120,7 +132,7 @@ export async function updatePhoto(actor: Actor, id: string, input: PhotoPatch) {
     return updated
   })
   emitPhoto(actor, 'photo.updated', row, row.shared || before.shared)
-  return row
+  return toPhotoDto(row)
 }
 
 export async function deletePhoto(actor: Actor, id: string, store: Storage = photoStorage()) {

@@ -15,7 +15,9 @@ import type { H3Event } from 'h3'
 import type { Actor } from '../utils/auth'
 import { liveRooms } from '#shared/types/live'
 import { tabletsRepo } from '../repos/tablets'
+import type { TabletDeviceDto, TabletPickerDto, TabletRevokedDto } from '#shared/types/tablets'
 import { usersRepo } from '../repos/users'
+import { workshopsRepo } from '../repos/workshops'
 import { userSessionsRepo } from '../repos/user-sessions'
 
 /**
@@ -35,6 +37,26 @@ export async function registerTablet(actor: Actor, name: string, oldToken: strin
 }
 
 /** Revokes a tablet of the lead's workshop; whoever is switched in on it is signed out. */
+/** The workshop's tablets, live ones first; `currentId` is the tablet the asking device is, if any. */
+export async function listTablets(actor: Actor, currentId: number | undefined): Promise<TabletDeviceDto[]> {
+  const rows = await tabletsRepo.list(useDb(), actor.workshopId)
+  return rows.map(r => ({
+    id: r.id, name: r.name, revokedAt: r.revoked_at?.toISOString() ?? null, createdAt: r.created_at.toISOString(),
+    lastUsedAt: r.last_used_at.toISOString(), signedInByName: r.signed_in_by_name, current: r.id === currentId,
+  }))
+}
+
+/** The picker a tablet shows: its name, its workshop's and the casters and finishers with a PIN. */
+export async function tabletPicker(tablet: { id: number; name: string; workshop_id: number }): Promise<TabletPickerDto> {
+  const db = useDb()
+  const [workshop, people] = await Promise.all([workshopsRepo.get(db, tablet.workshop_id), usersRepo.tabletPeople(db, tablet.workshop_id, TABLET_ROLES)])
+  if (!workshop) notFound('Workshop')
+  return { tablet: { id: tablet.id, name: tablet.name }, workshop: workshop.name, people }
+}
+
+export const revokedDto = (row: { id: number; name: string; revoked_at: Date | null }): TabletRevokedDto =>
+  ({ id: row.id, name: row.name, revokedAt: row.revoked_at?.toISOString() ?? null })
+
 export async function revokeTablet(actor: Actor, id: number) {
   const db = useDb()
   const existing = await tabletsRepo.byId(db, actor.workshopId, id)

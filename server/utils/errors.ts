@@ -23,13 +23,16 @@ export function unprocessable(problems: FieldProblem[]): never {
 /**
  * The one place where the pure model's input errors (PlasterInputError and its
  * PlanningInputError, each naming a field) become the 422 a schema failure gets; any other
- * error comes back as it is. server/error-handler.ts applies it to every route's error, and
+ * error comes back as it is; field paths are dotted like a schema's. server/error-handler.ts applies it to every route's error, and
  * runOnce (services/actions.ts) before it decides whether a refusal is stored, so services
  * call the model without catching.
  */
 export function asHttpError(e: unknown): unknown {
-  return e instanceof PlasterInputError ? unprocessableError([{ field: e.field, message: e.message }]) : e
+  return e instanceof PlasterInputError ? unprocessableError([{ field: dottedPath(e.field), message: e.message }]) : e
 }
+
+/** The model names list members as `walls[0]`; a 422 names them as a schema does (`walls.0`). */
+const dottedPath = (field: string) => field.replace(/\[(\d+)\]/g, '.$1')
 
 function problemsOf(error: z.ZodError, prefix?: string): FieldProblem[] {
   return error.issues.map((i) => {

@@ -2,6 +2,7 @@
 // worker (server/plugins/mail-worker.ts) sends with retries, so an SMTP outage loses nothing.
 import nodemailer, { type Transporter } from 'nodemailer'
 import type { Knex } from 'knex'
+import { mailOutboxRepo } from '../repos/mail-outbox'
 
 export interface OutgoingMail {
   workshopId: number | null
@@ -30,7 +31,7 @@ function mailer() {
 }
 
 export async function queueMail(db: Knex, mail: OutgoingMail) {
-  await db('mail_outbox').insert({
+  await mailOutboxRepo.insert(db, {
     workshop_id: mail.workshopId,
     user_id: mail.userId ?? null,
     to_email: mail.to,
@@ -38,7 +39,7 @@ export async function queueMail(db: Knex, mail: OutgoingMail) {
     subject: mail.subject,
     text: mail.text,
     dedupe_key: mail.dedupeKey ?? null,
-  }).onConflict('dedupe_key').ignore()
+  })
 }
 
 const MAX_ATTEMPTS = 8
@@ -66,9 +67,7 @@ async function sendBatch(): Promise<number> {
   const db = useDb()
   let sent = 0
   await db.transaction(async (trx) => {
-    const due = await trx('mail_outbox').select('id', 'workshop_id', 'to_email', 'subject', 'text', 'html', 'attempts')
-      .where('status', 'queued').where('next_attempt_at', '<=', trx.fn.now())
-      .orderBy('id').limit(20).forUpdate().skipLocked()
+    const due = await mailOutboxRepo.due(trx, 20)
     for (const m of due) {
       try {
         await mailer().sendMail({
@@ -76,17 +75,13 @@ async function sendBatch(): Promise<number> {
           // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
           headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
         })
-        await trx('mail_outbox').where({ id: m.id }).update({ status: 'sent', sent_at: trx.fn.now(), attempts: m.attempts + 1, last_error: null })
+        await mailOutboxRepo.markSent(trx, m.id, m.attempts + 1)
         sent++
       }
       catch (err) {
         const attempts = m.attempts + 1
-        await trx('mail_outbox').where({ id: m.id }).update({
-          attempts,
-          status: attempts >= MAX_ATTEMPTS ? 'failed' : 'queued',
-          last_error: String(err instanceof Error ? err.message : err).slice(0, 500),
-          next_attempt_at: trx.raw(`now() + make_interval(secs => ?)`, [retryDelaySeconds(attempts)]),
-        })
+        await mailOutboxRepo.markFailed(trx, m.id, attempts, attempts >= MAX_ATTEMPTS,
+          String(err instanceof Error ? err.message : err).slice(0, 500), retryDelaySeconds(attempts))
       }
     }
   })

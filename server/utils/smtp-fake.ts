@@ -4,6 +4,7 @@
 // workshop's messages, and a message without a workshop is shown to no one. It can be told to
 // refuse a workshop's next N messages, to prove that the mail outbox retries after a
 // mail-server outage, without touching any other workshop's mail.
+import type { CapturedMail } from '#shared/types/mail'
 import { SMTPServer } from 'smtp-server'
 import { simpleParser } from 'mailparser'
 
@@ -13,17 +14,6 @@ import { simpleParser } from 'mailparser'
  * which mail servers pass on untouched.
  */
 export const MAIL_WORKSHOP_HEADER = 'X-Setline-Workshop'
-
-export interface CapturedMail {
-  id: number
-  workshopId: number | null
-  from: string
-  to: string[]
-  subject: string
-  text: string
-  html: string | null
-  receivedAt: string
-}
 
 export interface SmtpFake {
   port: number

@@ -21,3 +21,6 @@ export const ROLE_HOME: Record<Role, string> = {
   finisher: '/finishing',
   client: '/client',
 }
+
+/** GET /api/auth/invitation: what an invitation link is for, so the accept page can greet the person. */
+export interface InvitationInfoDto { email: string; name: string | null; role: Role; workshop: string }

@@ -12,7 +12,7 @@ export interface LiveShopDay { day: string; tempC: number; humidityPct: number; 
 export interface LivePieceCreated { id: number; mark: string; pourId: number }
 
 /** Only what a client may see of a photo (the same event reaches the job's room). */
-export interface LivePhoto { id: string; job_id: number; shared: boolean; caption: string | null }
+export interface LivePhoto { id: string; jobId: number; shared: boolean; caption: string | null }
 
 /** The workshop's settings as GET /api/workshop returns them. */
 export interface LiveWorkshop {

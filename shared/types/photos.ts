@@ -1,25 +1,27 @@
-// Rows the photo and client progress routes return.
+// What the photo and client progress routes return.
+
+/** GET /api/jobs/:id/photos (staff), and what an upload or a PATCH answers. */
 export interface PhotoDto {
   id: string
-  job_id: number
-  piece_id: number | null
-  pour_id: number | null
+  jobId: number
+  pieceId: number | null
+  pourId: number | null
   caption: string | null
   shared: boolean
-  uploaded_by: number | null
+  uploadedBy: number | null
   width: number
   height: number
   bytes: number
-  created_at: string
+  createdAt: string
 }
 
-/** What a client sees of a shared photo. */
-export interface ClientPhotoDto { id: string; caption: string | null; width: number; height: number; created_at: string }
+/** What a client sees of a shared photo: never who took it, nor which pour or piece it shows. */
+export interface ClientPhotoDto { id: string; caption: string | null; width: number; height: number; createdAt: string }
 
 export interface ItemProgressDto {
   id: number
   description: string
-  pieces_needed: number
+  piecesNeeded: number
   planned: number
   cast: number
   fettled: number
@@ -27,9 +29,10 @@ export interface ItemProgressDto {
   dispatched: number
 }
 
+/** GET /api/client/jobs/:id/progress */
 export interface ClientProgressDto {
-  job: { id: number; code: string; title: string; due_on: string | null }
+  job: { id: number; code: string; title: string; dueOn: string | null }
   items: ItemProgressDto[]
-  expected_completion_at: string | null
+  expectedCompletionAt: string | null
   photos: ClientPhotoDto[]
 }

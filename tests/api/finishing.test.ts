@@ -255,7 +255,7 @@ describe('a rejected piece goes back to the planner', () => {
     const mine = async () => (await call('/api/planner/preview', { method: 'POST', cookie: lead, body: range })).data.pours.filter((x: { jobItemId: number }) => x.jobItemId === itemId)
     expect(await mine()).toEqual([])
     const progress = async () => (await call(`/api/client/jobs/${job}/progress`, { cookie: clientCookie })).data.items[0]
-    expect(await progress()).toMatchObject({ pieces_needed: 1, planned: 1, cast: 1 })
+    expect(await progress()).toMatchObject({ piecesNeeded: 1, planned: 1, cast: 1 })
     const r = await act(p.id, { kind: 'rejected', version: 1, reason: 'crack: right through' })
     expect(r.status).toBe(200)
     expect(r.data.piece).toMatchObject({ state: 'rejected', reason: 'crack: right through' })

@@ -44,7 +44,7 @@ describe('register', () => {
     expect(all.data).toMatchObject({ total: 5, page: 1, pageSize: 2 })
     expect(all.data.rows).toHaveLength(2)
     // 2026-03-02 09:05 UTC is 09:05 in Europe/London (GMT in March before the change)
-    expect(all.data.rows[0]).toMatchObject({ mould: expect.any(String), mixing_at: '2026-03-02 09:05', result: 'sound', backdated: false, photos: 0 })
+    expect(all.data.rows[0]).toMatchObject({ mould: expect.any(String), mixingAt: '2026-03-02 09:05', result: 'sound', backdated: false, photos: 0 })
     expect(all.data.moulds.map((m: { id: number }) => m.id).sort()).toEqual([t.mouldA, t.mouldB].sort())
     const q = (s: string) => call(`/api/jobs/${t.job}/register?${s}`, { cookie: lead }).then(r => r.data.total)
     expect(await q('result=defect')).toBe(2)

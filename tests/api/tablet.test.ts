@@ -87,7 +87,7 @@ describe('signing a tablet in', () => {
     const session = setCookieOf(res.headers, 'setline-session')!
     expect(session).toMatch(/^setline-session=;|Max-Age=0|Expires=Thu, 01 Jan 1970/i)
     const list = await call('/api/tablets', { cookie: `${lead}; ${device}` })
-    expect(list.data.find((t: { id: number }) => t.id === id)).toMatchObject({ name: 'Casting shop tablet', revoked_at: null, current: true })
+    expect(list.data.find((t: { id: number }) => t.id === id)).toMatchObject({ name: 'Casting shop tablet', revokedAt: null, current: true })
   })
 
   it('names the field when the name is missing, and signing the same device in again revokes its old row', async () => {
@@ -288,7 +288,7 @@ describe('revoking a tablet', () => {
     }
     const revoked = await call(`/api/tablets/${id}/revoke`, { method: 'POST', cookie: lead })
     expect(revoked.status).toBe(200)
-    expect(revoked.data.revoked_at).not.toBeNull()
+    expect(revoked.data.revokedAt).not.toBeNull()
     expect(await dropped).toBe('io server disconnect')
     await expect(liveSocket(cookie)).rejects.toThrow()
     const after = await call('/api/floor/today', { cookie })
@@ -299,7 +299,7 @@ describe('revoking a tablet', () => {
     expect(picker.status).toBe(401)
     expect(setCookieOf(picker.headers, 'setline-tablet')).toMatch(/^setline-tablet=;|Max-Age=0|Expires=Thu, 01 Jan 1970/i)
     const list = await call('/api/tablets', { cookie: lead })
-    expect(list.data.find((t: { id: number }) => t.id === id).revoked_at).not.toBeNull()
+    expect(list.data.find((t: { id: number }) => t.id === id).revokedAt).not.toBeNull()
     expect((await call(`/api/tablets/${id}/revoke`, { method: 'POST', cookie: lead })).status).toBe(200)
   })
 })

@@ -1,6 +1,8 @@
+import { workshopsRepo } from '../../repos/workshops'
 // The signed-in user as the server sees them now (role and name from the database).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event)
-  const workshop = await useDb()('workshops').select('name', 'units', 'timezone').where({ id: actor.workshopId }).first()
+  const ws = await workshopsRepo.get(useDb(), actor.workshopId)
+  const workshop = ws && { name: ws.name, units: ws.units, timezone: ws.timezone }
   return { id: actor.id, name: actor.name, email: actor.email, role: actor.role, home: ROLE_HOME[actor.role], workshop }
 })

@@ -1,7 +1,7 @@
 // Revokes a shared tablet (lead): it can no longer switch, and whoever is on it is signed out.
 // Revoking one already revoked answers its row again.
 import { tabletsRepo } from '../../../repos/tablets'
-import { revokeTablet } from '../../../services/tablets'
+import { revokeTablet, revokedDto } from '../../../services/tablets'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
@@ -10,5 +10,5 @@ export default defineEventHandler(async (event) => {
   // a lead revoking the very device they hold: it forgets the tablet too
   const token = getCookie(event, TABLET_COOKIE)
   if (token && (await tabletsRepo.byTokenHash(useDb(), hashLinkToken(token)))?.id === row.id) clearTabletCookie(event)
-  return { id: row.id, name: row.name, revoked_at: row.revoked_at }
+  return revokedDto(row)
 })

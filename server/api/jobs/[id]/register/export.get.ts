@@ -3,18 +3,18 @@
 import { registerExport } from '../../../../queries/register'
 
 const COLUMNS: [string, string][] = [
-  ['pour_id', 'pour'], ['state', 'pour state'], ['is_sample', 'sample'], ['mark', 'piece mark'], ['piece_state', 'piece state'],
+  ['pourId', 'pour'], ['state', 'pour state'], ['isSample', 'sample'], ['mark', 'piece mark'], ['pieceState', 'piece state'],
   ['item', 'item'], ['mould', 'mould'], ['grade', 'grade'], ['lot', 'lot'], ['consistency', 'consistency (water per 100 plaster)'],
-  ['plaster_kg_actual', 'plaster kg'], ['water_kg_actual', 'water kg'], ['water_temp_c', 'water °C'], ['powder_temp_c', 'powder °C'],
-  ['shop_temp_c', 'shop °C'], ['slurry_temp_c', 'slurry °C'], ['mix_planned', 'mix planned'], ['mixing_at', 'mixing'],
-  ['poured_at', 'poured'], ['demould_open', 'demould window opens'], ['demould_close', 'demould window closes'],
-  ['demoulded_at', 'demoulded'], ['caster', 'caster'], ['result', 'result'], ['defect', 'defect'], ['photos', 'photos'],
+  ['plasterKgActual', 'plaster kg'], ['waterKgActual', 'water kg'], ['waterTempC', 'water °C'], ['powderTempC', 'powder °C'],
+  ['shopTempC', 'shop °C'], ['slurryTempC', 'slurry °C'], ['mixPlanned', 'mix planned'], ['mixingAt', 'mixing'],
+  ['pouredAt', 'poured'], ['demouldOpen', 'demould window opens'], ['demouldClose', 'demould window closes'],
+  ['demouldedAt', 'demoulded'], ['caster', 'caster'], ['result', 'result'], ['defect', 'defect'], ['photos', 'photos'],
   ['backdated', 'back-dated'],
 ]
 
-const TIMES = new Set(['mix_planned', 'mixing_at', 'poured_at', 'demould_open', 'demould_close', 'demoulded_at'])
+const TIMES = new Set(['mixPlanned', 'mixingAt', 'pouredAt', 'demouldOpen', 'demouldClose', 'demouldedAt'])
 /** Figures: a negative temperature stays a number in the spreadsheet (server/utils/csv.ts). */
-const FIGURES = new Set(['pour_id', 'consistency', 'plaster_kg_actual', 'water_kg_actual', 'water_temp_c', 'powder_temp_c', 'shop_temp_c', 'slurry_temp_c', 'photos'])
+const FIGURES = new Set(['pourId', 'consistency', 'plasterKgActual', 'waterKgActual', 'waterTempC', 'powderTempC', 'shopTempC', 'slurryTempC', 'photos'])
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')

@@ -1,0 +1,11 @@
+// GET /api/dev/mails: one message the local SMTP fake captured (development aid).
+export interface CapturedMail {
+  id: number
+  workshopId: number | null
+  from: string
+  to: string[]
+  subject: string
+  text: string
+  html: string | null
+  receivedAt: string
+}
