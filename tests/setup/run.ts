@@ -58,7 +58,8 @@ function laneStep(name: string, cmd: string, args: string[], env: Record<string,
   const t = Date.now()
   const logFile = join(outDir, `${name.replace(/\W+/g, '-')}.log`)
   const log = createWriteStream(logFile)
-  const proc = spawn(cmd, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'], env: stepEnv(env) })
+  // a group of its own, so a stop ends vitest, its workers and their app servers, not only npx
+  const proc = spawn(cmd, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'], env: stepEnv(env), detached: true })
   running.add(proc)
   proc.stdout.pipe(log, { end: false })
   proc.stderr.pipe(log, { end: false })
@@ -125,7 +126,7 @@ async function main() {
   // Ctrl-C or a stopped CI job: end the steps and the cluster rather than leave them running
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {
     process.once(signal, () => {
-      for (const p of running) p.kill('SIGTERM')
+      for (const p of running) if (p.pid) process.kill(-p.pid, 'SIGTERM')
       db.stop()
       process.exit(130)
     })
