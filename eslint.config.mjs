@@ -5,7 +5,7 @@ export default createConfigForNuxt({
   features: { stylistic: { indent: 2, quotes: 'single', semi: false } },
   dirs: { src: ['./app'] },
 }).append({
-  ignores: ['.output/**', '.nuxt/**', '.data/**', 'test-output/**', 'node_modules/**'],
+  ignores: ['.output/**', '.nuxt/**', '.nuxt-vitest/**', '.nuxt-build/**', '.data/**', 'test-output/**', 'node_modules/**'],
 }).append({
   rules: {
     'vue/multi-word-component-names': 'off',

@@ -6,6 +6,8 @@ import { SCRYPT_OPTIONS } from './server/utils/password-policy'
 export default defineNuxtConfig({
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
   devtools: { enabled: false },
+  // npm test builds into a folder of its own while nuxt prepare (typecheck) writes .nuxt beside it
+  ...process.env.SETLINE_BUILD_DIR ? { buildDir: process.env.SETLINE_BUILD_DIR } : {},
   app: {
     head: {
       htmlAttrs: { lang: 'en' },

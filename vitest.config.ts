@@ -5,11 +5,21 @@ import { realpathSync } from 'node:fs'
 import Unimport from 'unimport/unplugin'
 import { nitroAutoImports } from './tests/setup/server-imports'
 
-// Projects, run by tests/setup/run.ts in order: unit (pure code in shared/), component
-// (Vue components inside a Nuxt environment, tests/nuxt), services (server/repos and
-// server/services imported directly, against a throwaway PostgreSQL, no build), api (the built server over
-// HTTP against a throwaway PostgreSQL) and e2e (Debian's chromium through playwright-core
-// against the same built server).
+// Projects, run by tests/setup/run.ts (which says what runs side by side): unit (pure code in
+// shared/), component (Vue components inside a Nuxt environment, tests/nuxt), services
+// (server/repos and server/services imported directly, against a throwaway PostgreSQL, no
+// build), api (the built server over HTTP against a throwaway PostgreSQL) and e2e (Debian's
+// chromium through playwright-core against the same built server).
+// `--project X` on the command line (npm test passes one per step) loads only what X needs:
+// the component project starts Nuxt to build its config, the services project reads the list
+// of Nitro's auto-imports, and neither is worth doing for another project's run.
+const asked = process.argv.flatMap((a, i, all) => a === '--project' ? [all[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : [])
+const only = async <T>(name: string, make: () => T | Promise<T>) => !asked.length || asked.includes(name) ? [await make()] : []
+// API and browser files each have their own database and server, so they run side by side;
+// SETLINE_TEST_WORKERS sets how many at once (default 3 API files, 2 browser files on 2 cores,
+// where most of a file's time is spent waiting on its server, its database or chromium).
+const workers = (fallback: number) => Number(process.env.SETLINE_TEST_WORKERS) || fallback
+
 const alias = {
   '~~': fileURLToPath(new URL('./', import.meta.url)),
   '#shared': fileURLToPath(new URL('./shared', import.meta.url)),
@@ -26,20 +36,25 @@ export default defineConfig({
           include: ['tests/unit/**/*.test.ts'],
           environment: 'node',
           setupFiles: ['tests/setup/unit.ts'],
+          // the property tests run hundreds of cases: 5 s is too short on a loaded 2-core machine
+          testTimeout: 30_000,
         },
       },
       // A git worktree may link node_modules to another checkout; vite serves files by their
       // real path, so allow that path (the same folder when node_modules is not a link).
-      await defineVitestProject({
+      ...await only('component', () => defineVitestProject({
         server: { fs: { allow: [realpathSync(fileURLToPath(new URL('./node_modules', import.meta.url))), fileURLToPath(new URL('./', import.meta.url))] } },
         test: {
           name: 'component',
           include: ['tests/nuxt/**/*.test.ts'],
           environment: 'nuxt',
-          environmentOptions: { nuxt: { domEnvironment: 'happy-dom' } },
+          // setting up the Nuxt app in each file outlasts the default 10 s on a loaded 2-core machine
+          hookTimeout: 60_000,
+          // a build folder of its own, so the production build and nuxt prepare (typecheck) can run beside it
+          environmentOptions: { nuxt: { domEnvironment: 'happy-dom', overrides: { buildDir: fileURLToPath(new URL('./.nuxt-vitest', import.meta.url)) } } },
         },
-      }),
-      {
+      })),
+      ...await only('services', () => ({
         resolve: { alias },
         // server code as Nitro compiles it: its auto-imports made explicit, in server/ only
         plugins: [Unimport.vite({ imports: nitroAutoImports(), include: [/[\\/]server[\\/].*\.ts$/], dts: false })],
@@ -50,9 +65,9 @@ export default defineConfig({
           setupFiles: ['tests/setup/services.ts'],
           testTimeout: 30_000,
           hookTimeout: 60_000,
-          fileParallelism: false,
+          maxWorkers: 2,
         },
-      },
+      })),
       {
         resolve: { alias },
         test: {
@@ -62,7 +77,7 @@ export default defineConfig({
           setupFiles: ['tests/setup/per-file.ts'],
           testTimeout: 30_000,
           hookTimeout: 60_000,
-          fileParallelism: false,
+          maxWorkers: workers(3),
         },
       },
       {
@@ -74,7 +89,7 @@ export default defineConfig({
           setupFiles: ['tests/setup/per-file.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,
-          fileParallelism: false,
+          maxWorkers: workers(2),
           // pages answer after a server round trip and a re-render: a loaded 2-core runner needs
           // more than expect.poll's default second (a poll still ends as soon as it matches)
           expect: { poll: { timeout: 10_000 } },
