@@ -11,12 +11,15 @@ interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: s
 export const WORKSHOP_ME_KEY = 'workshop-me'
 
 export function useWorkshopFormat() {
-  const { data } = useFetch<MeWorkshop>('/api/auth/me', { key: WORKSHOP_ME_KEY, dedupe: 'defer', getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key] })
+  const fetched = useFetch<MeWorkshop>('/api/auth/me', { key: WORKSHOP_ME_KEY, dedupe: 'defer', getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key] })
+  const { data } = fetched
   const units = computed<UnitSystem>(() => data.value?.workshop?.units ?? 'metric')
   const zone = computed(() => data.value?.workshop?.timezone ?? 'UTC')
   const name = computed(() => data.value?.workshop?.name ?? '')
   const label = computed(() => UNIT_LABELS[units.value])
   return {
+    /** Await in a page's setup when a first render needs the zone or units (today, a default). */
+    ready: Promise.resolve(fetched).then(() => undefined),
     units, zone, name, label,
     /** '6.32 kg' / '13.93 lb' and the like, in the workshop's units. */
     mass: (kg: number, digits?: number) => formatUnits.mass(kg, units.value, digits),

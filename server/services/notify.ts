@@ -8,6 +8,7 @@
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'
+import { formatDateTime } from '#shared/utils/workshop-format'
 
 interface Recipient { id: number; name: string; email: string; notify_prefs: unknown }
 interface JobRef { id: number; code: string; title: string }
@@ -128,7 +129,7 @@ export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
     await db.transaction(async (trx) => {
       queued += await send(trx, p.workshop_id, 'demould_overdue', await leads(trx, p.workshop_id), r => ({
         subject: `Demould overdue: mould ${p.code}${p.job_code ? ` (${p.job_code})` : ''}`,
-        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${boardClock(new Date(p.demould_close_at), p.timezone)}.`,
+        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone)}.`,
           'Check the cast on the pour board:', link('/lead/board')],
         dedupeKey: `overdue:${p.id}:${r.id}`,
       }))

@@ -73,3 +73,9 @@ export function inputValue(q: Quantity, metric: number | null | undefined, u: Un
 export function metricValue(q: keyof typeof fromDisplay, typed: number | '' | null | undefined, u: UnitSystem): number | '' {
   return typeof typed === 'number' && Number.isFinite(typed) ? fromDisplay[q](typed, u) : ''
 }
+
+/** A label written in °C (a temperature band such as '10–15 °C') in the display system: '50–59 °F'. */
+export function tempLabel(celsiusLabel: string, u: UnitSystem): string {
+  if (u === 'metric' || !celsiusLabel.includes('°C')) return celsiusLabel
+  return celsiusLabel.replace(/-?\d+(\.\d+)?/g, n => String(Math.round(toDisplay.temp(Number(n), u)))).replace(/°C/g, '°F')
+}

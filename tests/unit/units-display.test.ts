@@ -2,7 +2,7 @@
 // 1 US gal = 3.785411784 L, °F = 1.8 °C + 32) and round trips back to metric.
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { displayNumber, formatUnits, fromDisplay, inputValue, metricValue, toDisplay } from '#shared/utils/units-display'
+import { displayNumber, formatUnits, fromDisplay, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
 
 describe('display units', () => {
   it('formats metric and imperial with their units', () => {
@@ -45,5 +45,13 @@ describe('display units for tables, inputs and bags', () => {
       expect(fromDisplay.density(toDisplay.density(v, 'imperial'), 'imperial')).toBeCloseTo(v, 9)
       expect(fromDisplay.tempDelta(toDisplay.tempDelta(v, 'imperial'), 'imperial')).toBeCloseTo(v, 9)
     }))
+  })
+})
+
+describe('temperature labels', () => {
+  it('rewrites a °C band in °F and leaves metric alone', () => {
+    expect(tempLabel('10–15 °C', 'imperial')).toBe('50–59 °F') // 10 °C = 50 °F, 15 °C = 59 °F
+    expect(tempLabel('< 10 °C', 'imperial')).toBe('< 50 °F')
+    expect(tempLabel('10–15 °C', 'metric')).toBe('10–15 °C')
   })
 })
