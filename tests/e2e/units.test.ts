@@ -67,12 +67,20 @@ describe('a workshop on imperial', () => {
     const found = await walk(page, paths)
     await screenshot(page, 'units-imperial-last-lead-page')
     expect(found).toEqual({})
-    // the settings form shows the usual temperature in °F and the mix card labels its cavity in US gal
+  }, 240_000)
+
+  it('takes the usual temperature in °F and labels the mix card\'s cavity in US gal', async () => {
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.goto(`${base}/lead/settings`)
-    await page.getByLabel('Usual shop temperature (°F)').waitFor()
+    await page.locator('html[data-hydrated]').waitFor()
+    const temp = page.getByLabel('Usual shop temperature (°F)')
+    const shown = Number(await temp.inputValue())
+    const stored = (await call('/api/workshop', { cookie: leadCookie })).data.defaultShopTempC
+    expect(shown).toBeCloseTo(stored * 1.8 + 32, 1) // °F = 1.8 × °C + 32 (NIST SP 811)
     await page.goto(`${base}/mix`)
     await page.getByLabel('Cavity (US gal)').waitFor()
-  })
+  }, 120_000)
 
   it('shows no metric unit on the caster\'s floor and the finisher\'s room', async () => {
     const caster = await browser.context.newPage()
@@ -82,7 +90,7 @@ describe('a workshop on imperial', () => {
     const finisher = await browser.context.newPage()
     await signInThroughForm(finisher, base, demo.finisher.email, DEMO_PASSWORD)
     expect(await walk(finisher, ['/finishing'])).toEqual({})
-  })
+  }, 120_000)
 
   it('prints the day sheet with the workshop, its day and shop temperature, and boxes to write in', async () => {
     const page = await browser.context.newPage()
