@@ -1,18 +1,23 @@
 // Times on the board and the floor are shown and entered in the workshop's timezone,
-// whatever zone the browser is in (luxon does the zone arithmetic).
+// whatever zone the browser is in. The styles people read (a time, a day, both) come from the
+// one formatting module (shared/utils/workshop-format.ts, 24-hour clock); luxon does the
+// arithmetic of wall-clock entry.
 import { DateTime } from 'luxon'
+import { dayIn, formatDateTime, formatDay, formatTime, todayIn } from '#shared/utils/workshop-format'
 
 export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
   const z = () => toValue(zone)
   return {
-    /** 'HH:mm' of an instant in the workshop's zone. */
-    clock: (iso: string) => DateTime.fromISO(iso, { zone: z() }).toFormat('HH:mm'),
-    /** A short weekday, day, month and time of an instant, e.g. 'Tue 4 Mar 14:30'. */
-    when: (iso: string) => DateTime.fromISO(iso, { zone: z() }).toFormat('ccc d LLL HH:mm'),
+    /** 'HH:mm' of an instant in the workshop's zone, 24-hour clock. */
+    clock: (iso: string) => formatTime(iso, z()),
+    /** The day and time of an instant, e.g. 'Thu 3 Dec 2026 14:30'. */
+    when: (iso: string) => formatDateTime(iso, z()),
+    /** The day of an instant (or a 'yyyy-MM-dd' day) for people, e.g. 'Thu 3 Dec 2026'. */
+    date: (iso: string) => formatDay(iso, z()),
     /** 'yyyy-MM-dd' of an instant in the workshop's zone. */
-    day: (iso: string | Date) => (typeof iso === 'string' ? DateTime.fromISO(iso, { zone: z() }) : DateTime.fromJSDate(iso, { zone: z() })).toISODate()!,
+    day: (iso: string | Date) => dayIn(iso, z()),
     /** Today in the workshop's zone. */
-    today: () => DateTime.now().setZone(z()).toISODate()!,
+    today: () => todayIn(z()),
     /** A wall-clock date and time in the workshop's zone as an ISO instant. */
     toInstant: (day: string, clock: string) => DateTime.fromISO(`${day}T${clock}`, { zone: z() }).toUTC().toISO()!,
     /** Adds whole days to a 'yyyy-MM-dd' day. */

@@ -3,6 +3,7 @@ import type { Knex } from 'knex'
 import { daySheetRepo, poursRepo, type PourDtoRow } from '../repos/pours'
 import { lotStockKg, lotToOpen, requisitionLine } from '#shared/utils/board-rules'
 import { workshopsRepo } from '../repos/workshops'
+import { shopDaysRepo } from '../repos/shop-days'
 import type { DaySheetDto, DaySheetPour, DaySheetRequisition } from '#shared/types/day-sheet'
 
 function sheetPour(p: PourDtoRow): DaySheetPour {
@@ -28,14 +29,21 @@ async function requisition(db: Knex, workshopId: number, day: string, pours: Pou
   })
 }
 
-export async function daySheet(workshopId: number, day: string): Promise<DaySheetDto> {
+/** The sheet of `day`, or of the workshop's own today (its zone, not UTC) when no day is asked for. */
+export async function daySheet(workshopId: number, asked?: string): Promise<DaySheetDto> {
   const db = useDb()
-  const [pours, benches, workshop] = await Promise.all([
+  const day = asked ?? await workshopsRepo.today(db, workshopId)
+  const [pours, benches, workshop, shopTempC] = await Promise.all([
     poursRepo.startingOn(db, workshopId, day), daySheetRepo.benches(db, workshopId), workshopsRepo.get(db, workshopId),
+    shopDaysRepo.tempOn(db, workshopId, day),
   ])
   if (!workshop) notFound('Workshop')
   const groups: DaySheetDto['benches'] = benches.map(b => ({ benchId: b.id, benchName: b.name, pours: pours.filter(p => p.bench_id === b.id).map(sheetPour) }))
   const loose = pours.filter(p => p.bench_id === null).map(sheetPour)
   if (loose.length) groups.push({ benchId: null, benchName: null, pours: loose })
-  return { day, timezone: workshop.timezone, benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours) }
+  return {
+    day, timezone: workshop.timezone, workshopName: workshop.name, units: workshop.units,
+    shopTemp: shopTempC === null ? { tempC: Number(workshop.default_shop_temp_c), usual: true } : { tempC: shopTempC, usual: false },
+    benches: groups.filter(g => g.pours.length), requisition: await requisition(db, workshopId, day, pours),
+  }
 }

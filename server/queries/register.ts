@@ -123,5 +123,5 @@ export async function registerExport(workshopId: number, jobId: number, f: Regis
   const db = useDb()
   const job = await jobOf(db, workshopId, jobId)
   const ws = await loadWorkshop(db, workshopId)
-  return { job, timezone: ws.timezone, rows: registerRows.all(db, workshopId, jobId, f) }
+  return { job, timezone: ws.timezone, units: ws.units, rows: registerRows.all(db, workshopId, jobId, f) }
 }

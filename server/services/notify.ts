@@ -12,6 +12,7 @@ import { usersRepo, type RecipientRow } from '../repos/users'
 import { jobsRepo, type JobRow } from '../repos/jobs'
 import { workshopsRepo } from '../repos/workshops'
 import { mailOutboxRepo } from '../repos/mail-outbox'
+import { formatDateTime } from '#shared/utils/workshop-format'
 
 type Recipient = RecipientRow
 type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
@@ -99,7 +100,7 @@ export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
     await db.transaction(async (trx) => {
       queued += await send(trx, p.workshop_id, 'demould_overdue', await usersRepo.leadRecipients(trx, p.workshop_id), r => ({
         subject: `Demould overdue: mould ${p.code}${p.job_code ? ` (${p.job_code})` : ''}`,
-        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${boardClock(new Date(p.demould_close_at), p.timezone)}.`,
+        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone)}.`,
           'Check the cast on the pour board:', link('/lead/board')],
         dedupeKey: `overdue:${p.id}:${r.id}`,
       }))

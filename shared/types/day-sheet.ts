@@ -1,5 +1,6 @@
-// GET /api/day-sheet: the day's pours by bench and the plaster requisition per grade.
+// GET /api/day-sheet: the paper a caster pins at the bench.
 import type { RequisitionLine } from '#shared/utils/board-rules'
+import type { UnitSystem } from '../utils/units-display'
 
 export interface DaySheetPour {
   id: number
@@ -22,8 +23,13 @@ export interface DaySheetRequisition extends RequisitionLine {
 }
 
 export interface DaySheetDto {
+  /** the sheet's calendar day, 'yyyy-MM-dd' (the workshop's today when none was asked for) */
   day: string
   timezone: string
+  workshopName: string
+  units: UnitSystem
+  /** the day's shop temperature as set on the board, or the workshop's usual one (`usual`) */
+  shopTemp: { tempC: number; usual: boolean }
   benches: { benchId: number | null; benchName: string | null; pours: DaySheetPour[] }[]
   requisition: DaySheetRequisition[]
 }

@@ -39,7 +39,8 @@ export const boardRangeSchema = z.object({ from: boardDay('from'), to: boardDay(
 
 export const pourIdParamsSchema = z.object({ id: idText('id') })
 export const shopDayParamsSchema = z.object({ day: boardDay('day') })
-export const daySheetQuerySchema = z.object({ day: boardDay('day') })
+/** No day: the workshop's own today (its zone). */
+export const daySheetQuerySchema = z.object({ day: boardDay('day').optional() })
 
 export const pourCreateSchema = z.object({
   mouldId: bodyId('mouldId'),

@@ -1,14 +1,16 @@
 // Display units. Setline computes and stores metric (kg, L, °C, m); a workshop may show
 // imperial (lb, US gal, °F, in). Conversions are the exact factors of NIST SP 811, from
 // plaster-units.ts; these helpers only format and parse for people.
-import { cToF, fToC, kgToLb, lbToKg, litresToUsGallons, usGallonsToLitres } from './plaster-units'
+import { cToF, fToC, kgToLb, lbToKg, litresToUsGallons, usGallonsToLitres, LITRES_PER_US_GALLON } from './plaster-units'
 
 export type UnitSystem = 'metric' | 'imperial'
 
-export const UNIT_LABELS: Record<UnitSystem, { mass: string; temp: string; volume: string; length: string }> = {
-  metric: { mass: 'kg', temp: '°C', volume: 'L', length: 'm' },
-  imperial: { mass: 'lb', temp: '°F', volume: 'US gal', length: 'in' },
+export const UNIT_LABELS: Record<UnitSystem, { mass: string; temp: string; volume: string; length: string; density: string; tempDelta: string }> = {
+  metric: { mass: 'kg', temp: '°C', volume: 'L', length: 'm', density: 'kg/L', tempDelta: 'K' },
+  imperial: { mass: 'lb', temp: '°F', volume: 'US gal', length: 'in', density: 'lb/US gal', tempDelta: '°F' },
 }
+
+export type Quantity = keyof typeof toDisplay
 
 const M_PER_IN = 0.0254
 
@@ -19,6 +21,8 @@ export const toDisplay = {
   tempDelta: (dc: number, u: UnitSystem) => (u === 'imperial' ? dc * 1.8 : dc),
   volume: (l: number, u: UnitSystem) => (u === 'imperial' ? litresToUsGallons(l) : l),
   length: (m: number, u: UnitSystem) => (u === 'imperial' ? m / M_PER_IN : m),
+  /** kg/L → lb/US gal: (1 / 0.45359237) × 3.785411784 = 8.3454 lb/US gal per kg/L. */
+  density: (kgPerL: number, u: UnitSystem) => (u === 'imperial' ? kgToLb(kgPerL) * LITRES_PER_US_GALLON : kgPerL),
 }
 
 /** A display-system value back to metric (what an input in °F or lb means). */
@@ -27,6 +31,8 @@ export const fromDisplay = {
   temp: (v: number, u: UnitSystem) => (u === 'imperial' ? fToC(v) : v),
   volume: (v: number, u: UnitSystem) => (u === 'imperial' ? usGallonsToLitres(v) : v),
   length: (v: number, u: UnitSystem) => (u === 'imperial' ? v * M_PER_IN : v),
+  tempDelta: (v: number, u: UnitSystem) => (u === 'imperial' ? v / 1.8 : v),
+  density: (v: number, u: UnitSystem) => (u === 'imperial' ? lbToKg(v) / LITRES_PER_US_GALLON : v),
 }
 
 function fixed(v: number, digits: number) {
@@ -40,4 +46,36 @@ export const formatUnits = {
   tempDelta: (dc: number, u: UnitSystem, digits = 0) => `${fixed(toDisplay.tempDelta(dc, u), digits)} ${u === 'imperial' ? '°F' : 'K'}`,
   volume: (l: number, u: UnitSystem, digits = 2) => `${fixed(toDisplay.volume(l, u), digits)} ${UNIT_LABELS[u].volume}`,
   length: (m: number, u: UnitSystem, digits = 2) => `${fixed(toDisplay.length(m, u), u === 'imperial' ? 1 : digits)} ${UNIT_LABELS[u].length}`,
+  density: (kgPerL: number, u: UnitSystem, digits = 3) => `${fixed(toDisplay.density(kgPerL, u), digits)} ${UNIT_LABELS[u].density}`,
+  /** Bags of a given mass, e.g. '2 × 25 kg' or '2 × 55.1 lb'. */
+  bags: (count: number, bagKg: number, u: UnitSystem) => `${count} × ${bagMass(bagKg, u)}`,
+}
+
+/** A bag's mass as printed on it: whole kilograms, pounds to one decimal unless whole. */
+function bagMass(kg: number, u: UnitSystem) {
+  const v = toDisplay.mass(kg, u)
+  return `${Number.isInteger(Math.round(v * 10) / 10) ? Math.round(v) : v.toFixed(1)} ${UNIT_LABELS[u].mass}`
+}
+
+/** The number alone in the display system, for a table column or an input whose label names the unit. */
+export function displayNumber(q: Quantity, metric: number, u: UnitSystem, digits = 2): string {
+  return fixed(toDisplay[q](metric, u), digits)
+}
+
+/** The value to put in an input: display system, rounded to `digits` (no trailing float noise). */
+export function inputValue(q: Quantity, metric: number | null | undefined, u: UnitSystem, digits = 2): number | '' {
+  if (metric === null || metric === undefined || !Number.isFinite(metric)) return ''
+  const f = 10 ** digits
+  return Math.round(toDisplay[q](metric, u) * f) / f
+}
+
+/** What a number typed in the display system means in metric ('' stays empty). */
+export function metricValue(q: keyof typeof fromDisplay, typed: number | '' | null | undefined, u: UnitSystem): number | '' {
+  return typeof typed === 'number' && Number.isFinite(typed) ? fromDisplay[q](typed, u) : ''
+}
+
+/** A label written in °C (a temperature band such as '10–15 °C') in the display system: '50–59 °F'. */
+export function tempLabel(celsiusLabel: string, u: UnitSystem): string {
+  if (u === 'metric' || !celsiusLabel.includes('°C')) return celsiusLabel
+  return celsiusLabel.replace(/-?\d+(\.\d+)?/g, n => String(Math.round(toDisplay.temp(Number(n), u)))).replace(/°C/g, '°F')
 }

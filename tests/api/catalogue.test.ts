@@ -106,8 +106,13 @@ describe('plaster lots', () => {
     expect(r.status).toBe(200)
     expect(r.headers.get('content-type')).toMatch(/text\/csv/)
     expect(r.headers.get('content-disposition')).toMatch(/attachment; filename="setline-lots.csv"/)
-    expect(String(r.data).split('\n')[0]).toBe('lot code,grade,bags received,bag kg,received on,use by,archived,notes')
-    expect(String(r.data)).toMatch(/FC-2611-A,Fine casting \(beta\),40,25/)
+    expect(String(r.data).split('\n')[0]).toBe('lot code,grade,bags received,bag (kg),received on,use by,on hand (kg),on hand (bags),warnings,archived,notes')
+    expect(String(r.data)).toMatch(/FC-2611-A,Fine casting \(beta\),40,25\.00,/)
+    // stock on hand as the Lots page works it out (the same service), in the same row
+    const page = (await call('/api/lots', { cookie: lead })).data as { lotCode: string; stock: { onHandKg: number; onHandBags: number } }[]
+    const fc = page.find(l => l.lotCode === 'FC-2611-A')!
+    const row = String(r.data).split('\n').find(line => line.startsWith('FC-2611-A,'))!
+    expect(row).toContain(`,${fc.stock.onHandKg.toFixed(1)},${fc.stock.onHandBags},`)
     expect((await call('/api/lots/export', { cookie: caster })).status).toBe(403)
   })
 })
@@ -184,7 +189,10 @@ describe('moulds', () => {
     const csv = await call('/api/moulds/export', { cookie: lead })
     expect(csv.headers.get('content-type')).toMatch(/text\/csv/)
     expect(String(csv.data)).toMatch(/^code,casts,material,bench/)
-    expect(String(csv.data)).toMatch(/PM-33,.*,plaster_piece,Small-work bench,0.8,0.9,20,15,45,55,80,repair/)
+    // the words the page shows, not the stored codes; figures in the workshop's units (metric here)
+    expect(String(csv.data).split('\n')[0]).toContain('cavity (L),cast length (m)')
+    expect(String(csv.data)).toMatch(/PM-33,.*,Plaster piece mould,Small-work bench,0\.800,0\.900,20,15,45,55,80,Repair/)
+    expect(String(csv.data)).not.toMatch(/,(plaster_piece|grp_case|in_use),/)
   })
 
   it('keeps workshops apart', async () => {

@@ -61,8 +61,8 @@ describe('CSV exports cannot carry a formula', () => {
     expect(row).not.toMatch(/(^|,)"?=/)
     expect(row).toContain(',\'@SUM(1+1)')
     const cells = row.split(',')
-    expect(cells[header.indexOf('shop °C')]).toBe('-3.5')
-    expect(text).toContain('water °C')
+    expect(cells[header.indexOf('shop temp (°C)')]).toBe('-3.5')
+    expect(text).toContain('water temp (°C)')
   })
 
   it('lots, moulds and job items escape text cells; the day sheet goes through the same sender', async () => {
@@ -82,7 +82,7 @@ describe('CSV exports cannot carry a formula', () => {
     expect(items.text).toContain(',\'=1+1,')
     const sheet = await download('/api/day-sheet/export?day=2027-04-21')
     expect([...sheet.bytes.slice(0, 3)]).toEqual(BOM)
-    expect(sheet.text.slice(1).split('\n')[0]).toBe('section,bench,mould,casts,job,item,caster,mix,demould_open,demould_close,grade,consistency,plaster_kg,water_kg,bags,lot_to_open')
+    expect(sheet.text.slice(1).split('\n')[0]).toBe('section,bench,mould,casts,job,item,caster,mix,demould_open,demould_close,grade,consistency,plaster_kg,water_kg,water_L,bags,bag_kg,lot_to_open')
   })
 })
 

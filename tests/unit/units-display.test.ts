@@ -2,7 +2,7 @@
 // 1 US gal = 3.785411784 L, °F = 1.8 °C + 32) and round trips back to metric.
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { formatUnits, fromDisplay, toDisplay } from '#shared/utils/units-display'
+import { displayNumber, formatUnits, fromDisplay, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
 
 describe('display units', () => {
   it('formats metric and imperial with their units', () => {
@@ -22,5 +22,36 @@ describe('display units', () => {
         expect(fromDisplay[q](toDisplay[q](v, u), u)).toBeCloseTo(v, 9)
       }
     }))
+  })
+})
+
+describe('display units for tables, inputs and bags', () => {
+  it('converts density, bag counts and input values', () => {
+    // 1 kg/L = (1 / 0.45359237) lb × 3.785411784 per US gal = 8.3454 lb/US gal (NIST SP 811 factors)
+    expect(formatUnits.density(1, 'imperial')).toBe('8.345 lb/US gal')
+    expect(formatUnits.density(1.6, 'metric')).toBe('1.600 kg/L')
+    expect(formatUnits.bags(2, 25, 'metric')).toBe('2 × 25 kg')
+    expect(formatUnits.bags(2, 25, 'imperial')).toBe('2 × 55.1 lb') // 25 / 0.45359237 = 55.12
+    expect(formatUnits.bags(3, 22.6796185, 'imperial')).toBe('3 × 50 lb') // a 50 lb bag is 22.6796185 kg
+    expect(displayNumber('volume', 3.785411784, 'imperial')).toBe('1.00')
+    expect(inputValue('temp', 18, 'imperial', 1)).toBe(64.4) // 18 × 1.8 + 32
+    expect(inputValue('mass', null, 'imperial')).toBe('')
+    expect(metricValue('temp', 64.4, 'imperial')).toBeCloseTo(18, 9)
+    expect(metricValue('mass', '', 'imperial')).toBe('')
+  })
+
+  it('round-trips density and temperature differences', () => {
+    fc.assert(fc.property(fc.double({ min: 0.01, max: 50, noNaN: true }), (v) => {
+      expect(fromDisplay.density(toDisplay.density(v, 'imperial'), 'imperial')).toBeCloseTo(v, 9)
+      expect(fromDisplay.tempDelta(toDisplay.tempDelta(v, 'imperial'), 'imperial')).toBeCloseTo(v, 9)
+    }))
+  })
+})
+
+describe('temperature labels', () => {
+  it('rewrites a °C band in °F and leaves metric alone', () => {
+    expect(tempLabel('10–15 °C', 'imperial')).toBe('50–59 °F') // 10 °C = 50 °F, 15 °C = 59 °F
+    expect(tempLabel('< 10 °C', 'imperial')).toBe('< 50 °F')
+    expect(tempLabel('10–15 °C', 'metric')).toBe('10–15 °C')
   })
 })

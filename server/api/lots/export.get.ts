@@ -1,10 +1,22 @@
-import { lotsRepo } from '../../repos/plaster-lots'
-// The lots as CSV (lead). Stock on hand is on the page; the file lists what was received.
+// The lots as CSV (lead), with the figures the Lots page shows: stock on hand and its warnings
+// beside what was received, masses in the workshop's units with the unit in the header.
+import { lotsWithStock } from '../../services/catalogue'
+import { workshopsRepo } from '../../repos/workshops'
+import { UNIT_LABELS, displayNumber } from '#shared/utils/units-display'
+
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
-  return sendCsv(event, 'setline-lots.csv', lotsRepo.exportQuery(useDb(), actor.workshopId), [
+  const [lots, ws] = await Promise.all([lotsWithStock(actor.workshopId), workshopsRepo.get(useDb(), actor.workshopId)])
+  const u = ws?.units ?? 'metric'
+  const mass = UNIT_LABELS[u].mass
+  return sendCsvRows(event, 'setline-lots.csv', lots.map(l => ({
+    lot_code: l.lotCode, grade: l.gradeName, bags_received: l.bagsReceived, bag: displayNumber('mass', l.bagKg, u, 2),
+    received_on: l.receivedOn, use_by: l.useBy ?? '', on_hand: displayNumber('mass', l.stock.onHandKg, u, 1), on_hand_bags: l.stock.onHandBags,
+    warnings: l.stock.warnings.join(' '), archived: l.archivedAt !== null, notes: l.notes ?? '',
+  })), [
     { key: 'lot_code', header: 'lot code' }, { key: 'grade', header: 'grade' }, { key: 'bags_received', header: 'bags received', number: true },
-    { key: 'bag_kg', header: 'bag kg', number: true }, { key: 'received_on', header: 'received on' }, { key: 'use_by', header: 'use by' },
-    { key: 'archived', header: 'archived' }, { key: 'notes', header: 'notes' },
+    { key: 'bag', header: `bag (${mass})`, number: true }, { key: 'received_on', header: 'received on' }, { key: 'use_by', header: 'use by' },
+    { key: 'on_hand', header: `on hand (${mass})`, number: true }, { key: 'on_hand_bags', header: 'on hand (bags)', number: true },
+    { key: 'warnings', header: 'warnings' }, { key: 'archived', header: 'archived' }, { key: 'notes', header: 'notes' },
   ])
 })

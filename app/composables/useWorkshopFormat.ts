@@ -1,0 +1,41 @@
+// The signed-in person's workshop as every page shows it: its name, display units and timezone
+// (GET /api/auth/me, fetched once and shared under one key; settings refreshes it on save).
+// Pages format through this, never with toLocaleString or toISOString: the days and times are
+// the workshop's (shared/utils/workshop-format.ts), the numbers in its units
+// (shared/utils/units-display.ts), so one change of the workshop's settings reaches every screen.
+import { UNIT_LABELS, displayNumber, formatUnits, inputValue, metricValue, type Quantity, type UnitSystem } from '#shared/utils/units-display'
+import { dayIn, formatDateTime, formatDay, formatTime, todayIn } from '#shared/utils/workshop-format'
+
+interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: string } | null }
+
+export const WORKSHOP_ME_KEY = 'workshop-me'
+
+export function useWorkshopFormat() {
+  const fetched = useFetch<MeWorkshop>('/api/auth/me', { key: WORKSHOP_ME_KEY, dedupe: 'defer', getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key] })
+  const { data } = fetched
+  const units = computed<UnitSystem>(() => data.value?.workshop?.units ?? 'metric')
+  const zone = computed(() => data.value?.workshop?.timezone ?? 'UTC')
+  const name = computed(() => data.value?.workshop?.name ?? '')
+  const label = computed(() => UNIT_LABELS[units.value])
+  return {
+    /** Await in a page's setup when a first render needs the zone or units (today, a default). */
+    ready: Promise.resolve(fetched).then(() => undefined),
+    units, zone, name, label,
+    /** '6.32 kg' / '13.93 lb' and the like, in the workshop's units. */
+    mass: (kg: number, digits?: number) => formatUnits.mass(kg, units.value, digits),
+    volume: (l: number, digits?: number) => formatUnits.volume(l, units.value, digits),
+    temp: (c: number, digits?: number) => formatUnits.temp(c, units.value, digits),
+    length: (m: number, digits?: number) => formatUnits.length(m, units.value, digits),
+    density: (kgPerL: number, digits?: number) => formatUnits.density(kgPerL, units.value, digits),
+    bags: (count: number, bagKg: number) => formatUnits.bags(count, bagKg, units.value),
+    /** The number alone, for a column or input whose label names the unit. */
+    num: (q: Quantity, metric: number, digits = 2) => displayNumber(q, metric, units.value, digits),
+    toInput: (q: Quantity, metric: number | null | undefined, digits = 2) => inputValue(q, metric, units.value, digits),
+    toMetric: (q: Quantity, typed: number | '' | null | undefined) => metricValue(q, typed, units.value),
+    day: (at: Date | string | number) => formatDay(at, zone.value),
+    time: (at: Date | string | number) => formatTime(at, zone.value),
+    dateTime: (at: Date | string | number) => formatDateTime(at, zone.value),
+    today: () => todayIn(zone.value),
+    dayOf: (at: Date | string | number) => dayIn(at, zone.value),
+  }
+}

@@ -1,0 +1,114 @@
+// Imperial everywhere: with the workshop switched to lb / US gal / °F / in through the settings
+// API, every page each role reads shows no metric unit (kg, L, °C, mm, m) unless both scales are
+// written on purpose ("49 °C (120 °F)"). The board and the lead's Today page are left to their
+// own change (they take these helpers after it lands). Also: the day sheet opens on the
+// workshop's own day and prints with its name and shop temperature.
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
+import { testContext } from '../setup/context'
+import { call, signIn } from '../setup/http'
+
+const base = testContext().baseUrl
+let browser: Awaited<ReturnType<typeof openBrowser>>
+let leadCookie = ''
+
+beforeAll(async () => {
+  browser = await openBrowser()
+  leadCookie = await signIn(demo.lead.email, DEMO_PASSWORD)
+  const before = (await call('/api/workshop', { cookie: leadCookie })).data
+  const saved = await call('/api/workshop', { method: 'PATCH', cookie: leadCookie, body: { ...before, units: 'imperial' } })
+  expect(saved.status).toBe(200)
+})
+afterAll(async () => {
+  await browser?.close()
+  await closeTestDb()
+})
+beforeEach(async () => {
+  await browser.context.clearCookies()
+})
+
+/** Both scales side by side, written on purpose: '49 °C (120 °F)' or '120 °F (49 °C)'. */
+const BOTH = /-?\d+(\.\d+)?\s?°C \(-?\d+(\.\d+)? °F\)|-?\d+(\.\d+)?\s?°F \(-?\d+(\.\d+)? °C\)/g
+/** A metric unit after a figure, or as a column or field label. */
+const METRIC = /\d\s?(kg|L|mm|m)\b|°C|\bkg\b|kg\/L|\(L\)|, L\b|\(m\)|, m\b|\(mm\)/
+
+/** The workshop's own words (what a mould casts, typed by the lead) are theirs, not Setline's units. */
+let ownWords: string[] = []
+
+async function metricOn(page: Page, path: string) {
+  await page.goto(`${base}${path}`)
+  await page.locator('html[data-hydrated]').waitFor()
+  await page.locator('main').waitFor()
+  // the settings' choice between the two systems names both on purpose
+  let text = (await page.locator('main').innerText()).replace(BOTH, '').replace('Metric (kg, L, °C, m)', '')
+  for (const words of ownWords) text = text.split(words).join('')
+  const lines = text.split('\n').filter(l => METRIC.test(l))
+  return lines
+}
+
+async function walk(page: Page, paths: string[]) {
+  const found: Record<string, string[]> = {}
+  for (const path of paths) {
+    const lines = await metricOn(page, path)
+    if (lines.length) found[path] = lines
+  }
+  return found
+}
+
+describe('a workshop on imperial', () => {
+  it('shows no metric unit on the pages the lead reads', async () => {
+    const k = testDb()
+    const job = await k('jobs').orderBy('id').first('id')
+    const mould = await k('moulds').orderBy('id').first('id')
+    const dispatch = await k('dispatches').orderBy('id').first('id')
+    ownWords = (await k('moulds').select('casts')).map(m => m.casts as string).sort((a, b) => b.length - a.length)
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+    const paths = ['/lead/jobs', `/lead/jobs/${job.id}`, `/lead/jobs/${job.id}/register`, '/lead/moulds', `/lead/moulds/${mould.id}`,
+      '/lead/plasters', '/lead/lots', '/lead/quality', '/lead/settings', '/day-sheet?day=2027-04-21', '/day-sheet', '/mix', '/cautions', '/account',
+      ...(dispatch ? [`/dispatches/${dispatch.id}`] : [])]
+    const found = await walk(page, paths)
+    await screenshot(page, 'units-imperial-last-lead-page')
+    expect(found).toEqual({})
+  }, 240_000)
+
+  it('takes the usual temperature in °F and labels the mix card\'s cavity in US gal', async () => {
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+    await page.goto(`${base}/lead/settings`)
+    await page.locator('html[data-hydrated]').waitFor()
+    const temp = page.getByLabel('Usual shop temperature (°F)')
+    const shown = Number(await temp.inputValue())
+    const stored = (await call('/api/workshop', { cookie: leadCookie })).data.defaultShopTempC
+    expect(shown).toBeCloseTo(stored * 1.8 + 32, 1) // °F = 1.8 × °C + 32 (NIST SP 811)
+    await page.goto(`${base}/mix`)
+    await page.getByLabel('Cavity (US gal)').waitFor()
+  }, 120_000)
+
+  it('shows no metric unit on the caster\'s floor and the finisher\'s room', async () => {
+    const caster = await browser.context.newPage()
+    await signInThroughForm(caster, base, demo.caster1.email, DEMO_PASSWORD)
+    expect(await walk(caster, ['/floor', '/day-sheet'])).toEqual({})
+    await browser.context.clearCookies()
+    const finisher = await browser.context.newPage()
+    await signInThroughForm(finisher, base, demo.finisher.email, DEMO_PASSWORD)
+    expect(await walk(finisher, ['/finishing'])).toEqual({})
+  }, 120_000)
+
+  it('prints the day sheet with the workshop, its day and shop temperature, and boxes to write in', async () => {
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
+    await page.goto(`${base}/day-sheet`)
+    await page.locator('html[data-hydrated]').waitFor()
+    const head = await page.getByTestId('sheet-head').innerText()
+    expect(head).toContain('Larkspur Ornamental Plaster')
+    expect(head).toMatch(/shop \d+\.\d °F/)
+    await page.emulateMedia({ media: 'print' })
+    const boxes = page.locator('td.write-in')
+    if (await boxes.count()) expect(await boxes.first().isVisible()).toBe(true)
+    await expect.poll(() => page.locator('header').first().isVisible()).toBe(false)
+    await screenshot(page, 'day-sheet-print')
+  })
+})
