@@ -33,6 +33,8 @@ export interface PourDtoRow {
   plaster_kg_planned: number
   water_kg_planned: number
   warnings: string[]
+  /** the workshop's zone, for the clock times in a missed start's words */
+  timezone: string
 }
 
 /** A pour's row as its floor steps read and write it (locked), with its actuals. */
@@ -58,19 +60,22 @@ export interface PourStepRow {
   poured_at: Date | null
   demoulded_at: Date | null
   predicted_demould_minutes: number | null
+  demould_open_at: Date
+  demould_close_at: Date
 }
 
 const STEP_COLUMNS = ['id', 'version', 'state', 'mould_id', 'job_item_id', 'grade_id', 'lot_id', 'consistency', 'set_factor',
   'plaster_kg_planned', 'water_kg_planned', 'plaster_kg_actual', 'water_kg_actual', 'water_temp_c', 'powder_temp_c', 'shop_temp_c',
-  'slurry_temp_c', 'mixing_at', 'poured_at', 'demoulded_at', 'predicted_demould_minutes'] as const
+  'slurry_temp_c', 'mixing_at', 'poured_at', 'demoulded_at', 'predicted_demould_minutes', 'demould_open_at', 'demould_close_at'] as const
 
 /** The PourDto's columns; one query, so the board is a single read of pours. */
 const DTO_SQL = `SELECT p.id, p.version, p.mould_id, m.code AS mould_code, m.bench_id, b.name AS bench_name, m.casts,
     p.job_item_id, i.job_id, j.code AS job_code, i.description AS item_description,
     p.caster_id, u.name AS caster_name, p.grade_id, g.name AS grade_name, p.lot_id, p.state, p.is_sample,
     p.consistency, p.set_factor, lower(p.slot) AS slot_start, upper(p.slot) AS slot_end, p.mix_at,
-    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings
+    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings, ws.timezone
   FROM pours p
+  JOIN workshops ws ON ws.id = p.workshop_id
   JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = p.workshop_id
   LEFT JOIN benches b ON b.id = m.bench_id AND b.workshop_id = p.workshop_id
   JOIN plaster_grades g ON g.id = p.grade_id AND g.workshop_id = p.workshop_id
@@ -218,6 +223,8 @@ export const poursRepo = {
   async calibrationPairs(db: Knex, workshopId: number, gradeId: number) {
     const rows = await db('pours').select('predicted_demould_minutes', 'actual_demould_minutes')
       .where({ workshop_id: workshopId, grade_id: gradeId }).whereNotNull('actual_demould_minutes').whereNotNull('predicted_demould_minutes')
+      // an early or late-attended demould does not measure the set time: only in-window ones calibrate
+      .where('demould_timing', 'in_window')
       .orderBy([{ column: 'demoulded_at' }, { column: 'id' }])
     return rows.map(r => ({ predictedMinutes: Number(r.predicted_demould_minutes), actualMinutes: Number(r.actual_demould_minutes) }))
   },

@@ -13,6 +13,7 @@ import { shopDaysRepo } from '../repos/shop-days'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
 import { calibrationFactor } from '#shared/utils/plaster-set'
 import { pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
+import { demouldTiming } from '#shared/utils/pour-status'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
 import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
 import { loadWorkshop } from './workshop'
@@ -103,10 +104,12 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   const keep = 1 + POUR_WASTE_PCT / 100
   const cast = castFromBatch({ plasterKg: Number(c.row.plaster_kg_actual) / keep, waterKg: Number(c.row.water_kg_actual) / keep, grade: gradeModel })
   const mark = await pieceMark(c, mould)
+  // early: the caster was asked on the tablet and went on; early and late stay out of calibration
+  const timing = demouldTiming({ demouldOpenAt: c.row.demould_open_at, demouldCloseAt: c.row.demould_close_at }, c.at)
   await write(c, 'pour.demoulded', {
     state: 'demoulded', demoulded_at: c.at, result: input.result, defect: input.result === 'defect' ? input.defect : null,
-    notes: input.notes ?? null, actual_demould_minutes: actualMinutes,
-  }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark })
+    notes: input.notes ?? null, actual_demould_minutes: actualMinutes, demould_timing: timing,
+  }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark, timing })
   // a defect goes to the finisher as a repair to judge (repair or reject); a sound cast to fettling
   const piece = await piecesRepo.insert(c.trx, c.actor.workshopId, {
     pourId: c.row.id, jobItemId: c.row.job_item_id, mark, dryMassKg: cast.dryMassKg, wetMassKg: cast.wetMassKg,

@@ -7,7 +7,8 @@
 // goes into NOTIFY_KINDS / NOTIFY_KIND_INFO (shared/utils/notify-schemas.ts); /account lists it.
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
-import { boardLocalDay } from '#shared/utils/board-rules'
+import { boardClock, boardLocalDay } from '#shared/utils/board-rules'
+import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
 interface Recipient { id: number; name: string; email: string; notify_prefs: unknown }
 interface JobRef { id: number; code: string; title: string }
@@ -102,12 +103,16 @@ export async function notifySampleDecision(trx: Knex, workshopId: number, input:
 const OVERDUE_LOOKBACK_MS = 2 * 86_400_000
 
 /**
- * The periodic overdue-demould check: non-void pours still planned, mixing or setting whose
- * demould window closed, one mail per pour and lead (dedupe key overdue:pourId:leadId). A cast
- * left past its window can crack or stick in the mould, so the lead hears of it once.
+ * The periodic check, in the words of pourSituation (shared/utils/pour-status.ts): an overdue
+ * demould (mixing or setting, window closed: a cast left past its window can crack or stick in
+ * the mould) and a missed start (still planned past its mix time and grace: nothing was cast,
+ * the pour needs re-planning) are mailed apart, once per pour and lead (dedupe keys
+ * overdue:pourId:leadId and missed:pourId:leadId), both under the lead's overdue preference.
  */
 export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
-  const overdue: { id: number; workshop_id: number; code: string; demould_close_at: Date; timezone: string; job_code: string | null }[] = await db('pours as p')
+  const since = new Date(now.getTime() - OVERDUE_LOOKBACK_MS)
+  const graceMs = MISSED_START_GRACE_MINUTES * 60_000
+  const late: { id: number; workshop_id: number; code: string; state: string; mix_at: Date; demould_close_at: Date; timezone: string; job_code: string | null }[] = await db('pours as p')
     .join('moulds as m', function () {
       this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
     })
@@ -118,20 +123,32 @@ export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
     .leftJoin('jobs as j', function () {
       this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'p.workshop_id')
     })
-    .whereIn('p.state', ['planned', 'mixing', 'setting']).where('p.demould_close_at', '<', now)
-    .where('p.demould_close_at', '>', new Date(now.getTime() - OVERDUE_LOOKBACK_MS))
-    .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`))
-    .select('p.id', 'p.workshop_id', 'm.code', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
+    .where(q => q
+      .where(d => d.whereIn('p.state', ['mixing', 'setting']).where('p.demould_close_at', '<', now).where('p.demould_close_at', '>', since)
+        .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`)))
+      .orWhere(d => d.where('p.state', 'planned').where('p.mix_at', '<', new Date(now.getTime() - graceMs)).where('p.mix_at', '>', since)
+        .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'missed:' || p.id || ':%'`))))
+    .select('p.id', 'p.workshop_id', 'm.code', 'p.state', 'p.mix_at', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
     .orderBy('p.id').limit(200)
   let queued = 0
-  for (const p of overdue) {
+  for (const p of late) {
+    const job = p.job_code ? ` (${p.job_code})` : ''
+    const forJob = p.job_code ? ` for ${p.job_code}` : ''
+    const missed = p.state === 'planned'
     await db.transaction(async (trx) => {
-      queued += await send(trx, p.workshop_id, 'demould_overdue', await leads(trx, p.workshop_id), r => ({
-        subject: `Demould overdue: mould ${p.code}${p.job_code ? ` (${p.job_code})` : ''}`,
-        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${boardClock(new Date(p.demould_close_at), p.timezone)}.`,
-          'Check the cast on the pour board:', link('/lead/board')],
-        dedupeKey: `overdue:${p.id}:${r.id}`,
-      }))
+      queued += await send(trx, p.workshop_id, 'demould_overdue', await leads(trx, p.workshop_id), r => (missed
+        ? {
+            subject: `Missed start: mould ${p.code}${job}`,
+            lines: [`The pour on mould ${p.code}${forJob} was never mixed: it was due at ${boardClock(new Date(p.mix_at), p.timezone)}. Nothing is in the mould.`,
+              'Re-plan or void it on the pour board:', link('/lead/board')],
+            dedupeKey: `missed:${p.id}:${r.id}`,
+          }
+        : {
+            subject: `Overdue demould: mould ${p.code}${job}`,
+            lines: [`The cast on mould ${p.code}${forJob} is still in the mould, and its demould window closed at ${boardClock(new Date(p.demould_close_at), p.timezone)}.`,
+              'Check the cast on the pour board:', link('/lead/board')],
+            dedupeKey: `overdue:${p.id}:${r.id}`,
+          }))
     })
   }
   return queued

@@ -10,12 +10,14 @@ import type { WorkshopRow } from '../repos/workshops'
 import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
+import { pourSituation } from '#shared/utils/pour-status'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
 
 /** A pour as every route and live event sends it (the one declared PourDto, shared/types/board.ts). */
 export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
+  const situation = pourSituation({ state: r.state, mixAt: r.mix_at, demouldOpenAt: r.demould_open_at, demouldCloseAt: r.demould_close_at }, now)
   return {
     id: r.id, version: r.version, mouldId: r.mould_id, mouldCode: r.mould_code,
     jobItemId: r.job_item_id, jobId: r.job_id, jobCode: r.job_code, itemDescription: r.item_description,
@@ -23,9 +25,16 @@ export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
     state: r.state, isSample: r.is_sample, consistency: Number(r.consistency), setFactor: Number(r.set_factor),
     slotStart: r.slot_start.toISOString(), slotEnd: r.slot_end.toISOString(), mixAt: r.mix_at.toISOString(),
     demouldOpenAt: r.demould_open_at.toISOString(), demouldCloseAt: r.demould_close_at.toISOString(),
-    plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned), warnings: r.warnings,
+    plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned),
+    warnings: situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone), ...r.warnings] : r.warnings,
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
+    situation,
   }
+}
+
+/** The line a missed start leads the pour's warnings with (the board lists warnings). */
+function missedStartWarning(mixAt: Date, timezone: string) {
+  return `Missed start: never mixed; the mix was due at ${boardClock(mixAt, timezone)}. Re-plan or void it.`
 }
 
 /** What a pour is planned from; absent fields default from the job item, then the grade. */
