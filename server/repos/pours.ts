@@ -155,7 +155,10 @@ export const poursRepo = {
   /** The first non-void pour on the mould whose slot overlaps start..end (other than `exceptId`). */
   clash(db: Knex, workshopId: number, mouldId: number, start: Date, end: Date, exceptId?: number) {
     const q = db('pours as p').leftJoin('job_items as i', 'i.id', 'p.job_item_id').leftJoin('jobs as j', 'j.id', 'i.job_id')
-      .first('p.id', db.raw('lower(p.slot) AS slot_start'), db.raw('upper(p.slot) AS slot_end'), 'j.code as job_code')
+      .join('moulds as m', function () {
+        this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
+      })
+      .first('p.id', db.raw('lower(p.slot) AS slot_start'), db.raw('upper(p.slot) AS slot_end'), 'j.code as job_code', 'm.code as mould_code', 'p.mix_at')
       .where({ 'p.workshop_id': workshopId, 'p.mould_id': mouldId }).whereNot('p.state', 'void')
       .whereRaw('p.slot && tstzrange(?, ?)', [start.toISOString(), end.toISOString()]).orderByRaw('lower(p.slot)')
     if (exceptId) q.whereNot('p.id', exceptId)
@@ -263,6 +266,7 @@ export const daySheetRepo = {
   },
   lots(db: Knex, workshopId: number, gradeIds: number[]) {
     return db('plaster_lots as l').select('l.id', 'l.grade_id', 'l.lot_code', 'l.received_on', 'l.use_by', 'l.bags_received', 'l.bag_kg')
+      .select(db.raw(`to_char(l.use_by, 'YYYY-MM-DD') AS use_by_day, to_char(l.received_on, 'YYYY-MM-DD') AS received_day`))
       .select(db.raw(`(SELECT coalesce(sum(coalesce(p.plaster_kg_actual, p.plaster_kg_planned)), 0)::float8 FROM pours p
         WHERE p.workshop_id = l.workshop_id AND p.lot_id = l.id AND p.state <> 'void') AS used_kg`))
       .where({ 'l.workshop_id': workshopId }).whereIn('l.grade_id', gradeIds).whereNull('l.archived_at')

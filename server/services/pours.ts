@@ -80,12 +80,13 @@ function refuse(named: Named, isSample: boolean) {
   }
 }
 
-/** The clashing pour on a mould as a 409: 'This mould is already taken from … to …'. */
+/** The clashing pour on a mould as a 409: 'This mould is already taken from … to … by the J-2601 pour on CR-101 mixing at …'. */
 async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Date, end: Date, selfId?: number) {
   const c = await poursRepo.clash(db, ws.id, mouldId, start, end, selfId)
   if (!c) return
+  // the other pour by what the lead sees on the board: its job, its mould and its mix time
   conflict(`This mould is already taken from ${boardClock(c.slot_start, ws.timezone)} to ${boardClock(c.slot_end, ws.timezone)}`
-    + ` by pour ${c.id}${c.job_code ? ` (${c.job_code})` : ''}`, { pourId: c.id })
+    + ` by the ${c.job_code ? `${c.job_code} ` : ''}pour on ${c.mould_code} mixing at ${boardClock(c.mix_at, ws.timezone)}`, { pourId: c.id })
 }
 
 /** The pour's timing and batch from the model, on the workshop's shop temperature of its day. */

@@ -30,6 +30,12 @@ export interface ItemProgressDto {
 export interface ClientProgressDto {
   job: { id: number; code: string; title: string; due_on: string | null }
   items: ItemProgressDto[]
+  /** when the last piece is expected ready to dispatch; null unless every piece is planned */
   expected_completion_at: string | null
+  /** what the page says about completion (shared/utils/client-completion.ts) */
+  completion:
+    | { kind: 'ready_by'; readyBy: string; timezone: string }
+    | { kind: 'not_planned'; notPlanned: number; ordered: number }
+    | { kind: 'never_dries' | 'all_ready' }
   photos: ClientPhotoDto[]
 }
