@@ -7,7 +7,8 @@ import { jobsRepo } from '../repos/jobs'
 import { photosRepo } from '../repos/photos'
 import { progressRepo } from '../repos/progress'
 import { loadWorkshop } from './workshop'
-import { jobCompletion } from '#shared/utils/client-completion'
+import { jobCompletion, type Completion } from '#shared/utils/client-completion'
+import type { ClientProgressDto } from '#shared/types/photos'
 import { castFromBatch } from '#shared/utils/plaster'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
 import { POUR_WASTE_PCT } from '#shared/utils/board-rules'
@@ -19,6 +20,10 @@ function plannedCast(c: { plaster_kg_planned: string | number; water_kg_planned:
     plasterKg: Number(c.plaster_kg_actual ?? c.plaster_kg_planned) / keep, waterKg: Number(c.water_kg_actual ?? c.water_kg_planned) / keep, grade: plasterGradeFromRow(c),
   })
   return { wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg }
+}
+
+function completionDto(c: Completion, timezone: string): ClientProgressDto['completion'] {
+  return c.kind === 'ready_by' ? { kind: c.kind, readyBy: c.at.toISOString(), timezone } : c
 }
 
 export async function clientProgress(actor: Actor, jobId: number) {
@@ -44,9 +49,7 @@ export async function clientProgress(actor: Actor, jobId: number) {
     job: { id: job.id, code: job.code, title: job.title, due_on: job.due_on },
     items,
     expected_completion_at: completion.kind === 'ready_by' ? completion.at.toISOString() : null,
-    completion: completion.kind === 'ready_by'
-      ? { kind: completion.kind, readyBy: completion.at.toISOString(), timezone: ws.timezone }
-      : completion.kind === 'not_planned' ? { kind: completion.kind, notPlanned: completion.notPlanned, ordered: completion.ordered } : { kind: completion.kind },
+    completion: completionDto(completion, ws.timezone),
     photos: photos.map(p => ({ id: p.id, caption: p.caption, width: p.width, height: p.height, created_at: p.created_at })),
   }
 }

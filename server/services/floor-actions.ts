@@ -89,12 +89,21 @@ async function poured(c: StepContext, input: Extract<FloorActionInput, { kind: '
   return null
 }
 
-/** A piece's mark: job code without dashes, mould code, the mould's pull number (e.g. J2601-CR101-007). */
+/**
+ * A piece's mark, one scheme: the job code as written, '#', the piece's number within the job
+ * (J-2601#017); a piece cast for stock: the mould code, '#M' and the mould's pull (CR-101#M117).
+ * Short, printable on a label, and unambiguous: codes cannot contain '#', and a stock piece's
+ * number starts with M. Marks stored before this scheme keep their form.
+ */
 async function pieceMark(c: StepContext, mould: { code: string; pulls: number }) {
   const item = c.row.job_item_id ? await pourFactsRepo.item(c.trx, c.actor.workshopId, c.row.job_item_id) : undefined
-  const mark = `${(item?.job_code ?? 'STOCK').replace(/-/g, '')}-${mould.code}-${String(mould.pulls + 1).padStart(3, '0')}`
-  // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
-  return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+  if (!item) {
+    const mark = `${mould.code}#M${String(mould.pulls + 1).padStart(3, '0')}`
+    // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
+    return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+  }
+  const next = await piecesRepo.nextInJob(c.trx, c.actor.workshopId, Number(item.job_id), item.job_code)
+  return `${item.job_code}#${String(next).padStart(3, '0')}`
 }
 
 async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind: 'demoulded' }>) {

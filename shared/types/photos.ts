@@ -36,6 +36,7 @@ export interface ClientProgressDto {
   completion:
     | { kind: 'ready_by'; readyBy: string; timezone: string }
     | { kind: 'not_planned'; notPlanned: number; ordered: number }
-    | { kind: 'never_dries' | 'all_ready' }
+    | { kind: 'never_dries' }
+    | { kind: 'all_ready' }
   photos: ClientPhotoDto[]
 }

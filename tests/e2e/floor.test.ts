@@ -109,7 +109,7 @@ describe('floor', () => {
       await demoulded(page, p.id)
       await expect.poll(() => stateOf(page, p.id), { timeout: 15_000 }).toBe('demoulded')
       await expect.poll(barState, { timeout: 15_000 }).toMatch(/demoulded/i)
-      await expect.poll(() => card(page, p.id).textContent(), { timeout: 15_000 }).toMatch(/Piece .*-001/)
+      await expect.poll(() => card(page, p.id).textContent(), { timeout: 15_000 }).toMatch(/Piece .*#001/)
       // recorded as early, in the row and its event, and left out of the grade's calibration
       expect(await fx.k('pours').where({ id: p.id }).first('demould_timing')).toEqual({ demould_timing: 'early' })
       const ev = await fx.k('events').where({ entity: 'pour', entity_id: String(p.id), type: 'pour.demoulded' }).first('data')
@@ -122,7 +122,7 @@ describe('floor', () => {
       const upload = card(page, p.id).getByRole('button', { name: 'Upload photo' })
       expect((await upload.boundingBox())!.height).toBeGreaterThanOrEqual(64)
       await upload.click()
-      await expect.poll(() => card(page, p.id).getByTestId('floor-photo').textContent(), { timeout: 15_000 }).toMatch(/1 photo added to .*-001/)
+      await expect.poll(() => card(page, p.id).getByTestId('floor-photo').textContent(), { timeout: 15_000 }).toMatch(/1 photo added to .*#001/)
       const piece = await fx.k('pieces').where({ pour_id: p.id }).first('id')
       expect(await fx.k('photos').where({ piece_id: piece.id }).pluck('caption')).toEqual(['Straight out of the mould'])
       await page.setViewportSize({ width: 1180, height: 820 })
