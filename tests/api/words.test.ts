@@ -62,7 +62,7 @@ describe('422s in the user\'s words', () => {
   it('a wall the cut list cannot split names Wall 5 and the shortest piece, not walls[4] or minPieceM', async () => {
     const cr101 = await fx.k('moulds').where({ workshop_id: fx.workshopId, code: 'CR-101' }).first('id')
     const walls = [{ lengthM: 3 }, { lengthM: 3 }, { lengthM: 3 }, { lengthM: 3 }, { lengthM: 0.1 }]
-    const r = await call(`/api/jobs/${jobId}/items`, { method: 'POST', cookie: lead, body: { kind: 'run', mouldId: cr101.id, description: 'Hall cornice', walls, minPieceM: 0.5 } })
+    const r = await call(`/api/jobs/${jobId}/items`, { method: 'POST', cookie: lead, body: { kind: 'run', mouldId: Number(cr101.id), description: 'Hall cornice', walls, minPieceM: 0.5 } })
     expect(r.status).toBe(422)
     expect(r.data.data.problems[0].field).toBe('walls.4.lengthM')
     expect(r.data.message).toMatch(/^Wall 5 \(0\.1 m\) cannot be cut into pieces of 0\.5–[\d.]+ m: make the shortest piece shorter/)
