@@ -73,6 +73,7 @@ describe('client completion', () => {
 
   it('a lead on a phone opens the menu that replaces the hidden sidebar, and Escape closes it', async () => {
     const page = await browser.context.newPage()
+    await page.context().clearCookies()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.locator('html[data-hydrated]').waitFor()
     const menu = page.getByTestId('nav-menu')

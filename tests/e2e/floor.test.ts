@@ -56,7 +56,7 @@ const poured = (page: Page, id: number) => step(page, id, async () => {
 })
 /** Demoulds as sound; just after pouring the window is not open yet, so the card asks first: go on. */
 const demoulded = (page: Page, id: number) => step(page, id, async () => {
-  await page.getByTestId('ask-confirm').click()
+  await card(page, id).getByTestId('ask-confirm').click()
   await card(page, id).getByText('Sound', { exact: true }).click()
 })
 const stateOf = (page: Page, id: number) => card(page, id).getAttribute('data-state')
@@ -93,7 +93,7 @@ describe('floor', () => {
       await screenshot(page, 'floor-card-setting')
       // before the window opens the card asks first, showing the window; Escape waits
       await card(page, p.id).getByTestId('floor-next').click()
-      const ask = page.getByTestId('ask-dialog')
+      const ask = card(page, p.id).getByTestId('ask-dialog')
       await expect.poll(() => ask.isVisible()).toBe(true)
       const countdown = await card(page, p.id).getByTestId('floor-countdown').textContent()
       const window = countdown!.match(/window (\d\d:\d\d–\d\d:\d\d)/)![1]!
