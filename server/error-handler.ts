@@ -9,7 +9,17 @@ import { H3Error, setResponseHeader } from 'h3'
 import { DATABASE_DOWN_MESSAGE, DATABASE_RETRY_AFTER_SECONDS, isDatabaseUnavailable } from './utils/database-down'
 import { asHttpError } from './utils/errors'
 
+/** The reason phrases of RFC 9110 §15 for the refusals Setline answers with. */
+const REASON_PHRASES: Record<number, string> = {
+  400: 'Bad Request', 401: 'Unauthorized', 403: 'Forbidden', 404: 'Not Found', 405: 'Method Not Allowed',
+  409: 'Conflict', 413: 'Content Too Large', 415: 'Unsupported Media Type', 422: 'Unprocessable Content', 429: 'Too Many Requests',
+}
+
 const handler: NitroErrorHandler = (error, event) => {
+  // a refusal made with createError({ statusCode, message }) has no status message of its own:
+  // without this, a 401, 404 or 409 goes out as "Server Error"
+  const phrase = REASON_PHRASES[error.statusCode]
+  if (phrase && (!error.statusMessage || error.statusMessage === 'Server Error')) error.statusMessage = phrase
   const refusal = asHttpError(error.cause)
   if (refusal !== error.cause && refusal instanceof H3Error) {
     error.statusCode = refusal.statusCode

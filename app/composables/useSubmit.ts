@@ -4,6 +4,25 @@
 // sums them up, or carries the server's own sentence for any other refusal; `message` says what
 // a success did; `refresh` reads the page's data again after a success.
 import type { ZodType, z } from 'zod'
+import { inUserWords, valueAt } from '#shared/utils/field-labels'
+
+/**
+ * After a refusal, focus goes to the first field marked wrong (UiField's `<id>-error` names its
+ * input), else to the message on top: a keyboard or screen-reader user lands on the problem,
+ * not on <body>.
+ */
+async function focusFirstProblem() {
+  if (!import.meta.client) return
+  await nextTick()
+  const error = document.querySelector<HTMLElement>('[id$="-error"][role="alert"]')
+  const field = error ? document.getElementById(error.id.slice(0, -'-error'.length)) : null
+  if (field) return field.focus()
+  const message = document.querySelector<HTMLElement>('.notice-error[role="alert"]')
+  if (message) {
+    message.tabIndex = -1
+    message.focus()
+  }
+}
 
 export interface SubmitOptions {
   /** Runs after every successful action (a page's refresh, or an emit to its parent). */
@@ -44,10 +63,15 @@ export function useSubmit(options: SubmitOptions = {}) {
     clear()
     const r = schema.safeParse(value)
     if (r.success) return r.data
-    for (const issue of r.error.issues) errors.value[issue.path.join('.') || 'form'] ??= issue.message
+    for (const issue of r.error.issues) {
+      const path = issue.path.join('.')
+      // the same words as the server's 422: the label the person sees, "is required" when empty
+      errors.value[path || 'form'] ??= path ? inUserWords(path, issue.message, valueAt(value, issue.path), true) : issue.message
+    }
     formError.value = options.summary === 'first'
       ? r.error.issues[0]?.message ?? 'Check the form'
       : 'Please correct the fields marked below.'
+    void focusFirstProblem()
     return undefined
   }
 
@@ -56,6 +80,7 @@ export function useSubmit(options: SubmitOptions = {}) {
     const problems = (err as { data?: { data?: { problems?: { field: string; message: string }[] } } })?.data?.data?.problems
     for (const p of problems ?? []) errors.value[p.field] = p.message
     formError.value = apiErrorMessage(err)
+    void focusFirstProblem()
   }
 
   /**

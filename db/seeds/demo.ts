@@ -110,9 +110,9 @@ async function seedJobs(k: Knex, workshopId: number, c: Ctx) {
 
   const pour = (p: PourSeed) => seedPour(k, workshopId, c, p)
   for (const [i, hour] of [8, 10, 12, 14].entries()) {
-    await pour({ item: cornice, mould: 'cr101', grade: 'beta-casting', lot: 'fine1', consistency: 70, day: -1, hour, caster: 'caster1', state: 'demoulded', mark: `J2601-${String(i + 1).padStart(3, '0')}`, pieceState: i < 2 ? 'drying' : 'to_fettle' })
+    await pour({ item: cornice, mould: 'cr101', grade: 'beta-casting', lot: 'fine1', consistency: 70, day: -1, hour, caster: 'caster1', state: 'demoulded', mark: `J-2601#${String(i + 1).padStart(3, '0')}`, pieceState: i < 2 ? 'drying' : 'to_fettle' })
   }
-  await pour({ item: centres, mould: 'cc210', grade: 'beta-fibrous', lot: 'fibrous', consistency: 68, day: -2, hour: 9, caster: 'caster2', state: 'demoulded', sample: true, mark: 'J2602-S01', pieceState: 'ready' })
+  await pour({ item: centres, mould: 'cc210', grade: 'beta-fibrous', lot: 'fibrous', consistency: 68, day: -2, hour: 9, caster: 'caster2', state: 'demoulded', sample: true, mark: 'J-2602#001', pieceState: 'ready' })
   for (const hour of [8, 10, 13]) {
     await pour({ item: cornice, mould: 'cr101', grade: 'beta-casting', lot: 'fine1', consistency: 70, day: 0, hour, caster: 'caster1', state: 'planned' })
   }

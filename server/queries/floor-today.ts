@@ -65,6 +65,22 @@ function cautionsOf(p: PourDto): FloorCaution[] {
   return out
 }
 
+/**
+ * The lots a caster is offered for a pour: those with stock (and the pour's own), in-date ones
+ * first, oldest received first (first in, first out, as the day sheet's lotToOpen), then the
+ * expired ones, marked (old plaster sets fast or unevenly: common practice).
+ */
+function floorLots(lots: { id: number | string; lot_code: string; bags_received: number | string; bag_kg: number | string; used_kg: number | string; use_by_day: string | null; received_day: string }[], ownLotId: number, today: string): FloorCardDto['lots'] {
+  return lots
+    .map(l => ({
+      id: Number(l.id), lotCode: l.lot_code, leftKg: Number(l.bags_received) * Number(l.bag_kg) - Number(l.used_kg),
+      useBy: l.use_by_day, expired: l.use_by_day !== null && l.use_by_day < today, receivedOn: l.received_day,
+    }))
+    .filter(l => l.leftKg > 0 || ownLotId === l.id)
+    .sort((a, b) => Number(a.expired) - Number(b.expired) || a.receivedOn.localeCompare(b.receivedOn) || a.id - b.id)
+    .map(({ receivedOn: _, ...l }) => l)
+}
+
 /** Cards for the given pours, in the order given. */
 export async function floorCards(db: Knex, workshopId: number, ids: number[]): Promise<FloorCardDto[]> {
   if (!ids.length) return []
@@ -82,9 +98,7 @@ export async function floorCards(db: Knex, workshopId: number, ids: number[]): P
       mould: { code: r.mould_code, casts: r.casts, cavityLitres: Number(a.cavity_litres), state: a.mould_state },
       bench: r.bench_id ? { id: Number(r.bench_id), name: r.bench_name! } : null,
       actual: actualOf(a),
-      lots: lots.filter(l => Number(l.grade_id) === Number(r.grade_id))
-        .map(l => ({ id: Number(l.id), lotCode: l.lot_code as string, leftKg: Number(l.bags_received) * Number(l.bag_kg) - Number(l.used_kg) }))
-        .filter(l => l.leftKg > 0 || Number(r.lot_id) === l.id),
+      lots: floorLots(lots.filter(l => Number(l.grade_id) === Number(r.grade_id)), Number(r.lot_id), boardLocalDay(new Date(), r.timezone)),
       cautions: cautionsOf(pour),
     }
   })

@@ -15,8 +15,8 @@ export interface OutboxInsert {
 
 export interface DueMailRow { id: number; workshop_id: number | null; to_email: string; subject: string; text: string; html: string | null; attempts: number }
 
-/** A pour whose demould window closed and whose lead mail was not queued yet, with what the mail names. */
-export interface OverduePourRow { id: number; workshop_id: number; code: string; demould_close_at: Date; timezone: string; job_code: string | null }
+/** A pour the lead has not been mailed about yet (an overdue demould or a missed start), with what the mail names. */
+export interface LatePourRow { id: number; workshop_id: number; code: string; state: string; mix_at: Date; demould_close_at: Date; timezone: string; job_code: string | null }
 
 export const mailOutboxRepo = {
   /** A second mail with the same dedupe key is absorbed. */
@@ -46,7 +46,11 @@ export const mailOutboxRepo = {
    * `since` and `now`, with no overdue mail queued yet (dedupe keys overdue:pourId:leadId),
    * across workshops (the periodic check), each row naming its own workshop.
    */
-  overduePoursUnmailed(db: Knex, now: Date, since: Date, limit: number): Promise<OverduePourRow[]> {
+  /**
+   * Pours the lead has not yet been mailed about: overdue demoulds (mixing or setting, window
+   * closed) and missed starts (still planned past mix time plus `graceMs`), within `since`.
+   */
+  latePoursUnmailed(db: Knex, now: Date, since: Date, graceMs: number, limit: number): Promise<LatePourRow[]> {
     return db('pours as p')
       .join('moulds as m', function () {
         this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
@@ -58,10 +62,12 @@ export const mailOutboxRepo = {
       .leftJoin('jobs as j', function () {
         this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'p.workshop_id')
       })
-      .whereIn('p.state', ['planned', 'mixing', 'setting']).where('p.demould_close_at', '<', now)
-      .where('p.demould_close_at', '>', since)
-      .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`))
-      .select('p.id', 'p.workshop_id', 'm.code', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
+      .where(q => q
+        .where(d => d.whereIn('p.state', ['mixing', 'setting']).where('p.demould_close_at', '<', now).where('p.demould_close_at', '>', since)
+          .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`)))
+        .orWhere(d => d.where('p.state', 'planned').where('p.mix_at', '<', new Date(now.getTime() - graceMs)).where('p.mix_at', '>', since)
+          .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'missed:' || p.id || ':%'`))))
+      .select('p.id', 'p.workshop_id', 'm.code', 'p.state', 'p.mix_at', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
       .orderBy('p.id').limit(limit)
   },
 }

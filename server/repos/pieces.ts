@@ -83,6 +83,20 @@ export const piecesRepo = {
   async markTaken(db: Knex, workshopId: number, mark: string): Promise<boolean> {
     return !!(await db('pieces').first('id').where({ workshop_id: workshopId, mark }))
   },
+  /**
+   * The next piece number within a job for the mark scheme 'CODE#NNN': one more than the highest
+   * such number among the job's marks. The job's row is locked first, so two demoulds of one job
+   * at once number their pieces one after the other.
+   */
+  async nextInJob(db: Knex, workshopId: number, jobId: number, jobCode: string): Promise<number> {
+    await db('jobs').first('id').where({ workshop_id: workshopId, id: jobId }).forUpdate()
+    const prefix = `${jobCode}#`
+    const r = await db('pieces').where({ workshop_id: workshopId })
+      .whereRaw('left(mark, ?) = ?', [prefix.length, prefix])
+      .whereRaw(`substr(mark, ?) ~ '^[0-9]+$'`, [prefix.length + 1])
+      .first(db.raw('coalesce(max(substr(mark, ?)::int), 0) AS n', [prefix.length + 1]))
+    return Number(r?.n ?? 0) + 1
+  },
   /** A new piece from a demoulded pour. */
   async insert(db: Knex, workshopId: number, p: { pourId: number; jobItemId: number | null; mark: string; dryMassKg: number; wetMassKg: number; state: FinishingPieceState }) {
     const [row] = await db('pieces').insert({

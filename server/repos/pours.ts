@@ -33,6 +33,8 @@ export interface PourDtoRow {
   plaster_kg_planned: number
   water_kg_planned: number
   warnings: string[]
+  /** the workshop's zone, for the clock times in a missed start's words */
+  timezone: string
 }
 
 /** A pour's row as its floor steps read and write it (locked), with its actuals. */
@@ -58,19 +60,22 @@ export interface PourStepRow {
   poured_at: Date | null
   demoulded_at: Date | null
   predicted_demould_minutes: number | null
+  demould_open_at: Date
+  demould_close_at: Date
 }
 
 const STEP_COLUMNS = ['id', 'version', 'state', 'mould_id', 'job_item_id', 'grade_id', 'lot_id', 'consistency', 'set_factor',
   'plaster_kg_planned', 'water_kg_planned', 'plaster_kg_actual', 'water_kg_actual', 'water_temp_c', 'powder_temp_c', 'shop_temp_c',
-  'slurry_temp_c', 'mixing_at', 'poured_at', 'demoulded_at', 'predicted_demould_minutes'] as const
+  'slurry_temp_c', 'mixing_at', 'poured_at', 'demoulded_at', 'predicted_demould_minutes', 'demould_open_at', 'demould_close_at'] as const
 
 /** The PourDto's columns; one query, so the board is a single read of pours. */
 const DTO_SQL = `SELECT p.id, p.version, p.mould_id, m.code AS mould_code, m.bench_id, b.name AS bench_name, m.casts,
     p.job_item_id, i.job_id, j.code AS job_code, i.description AS item_description,
     p.caster_id, u.name AS caster_name, p.grade_id, g.name AS grade_name, p.lot_id, p.state, p.is_sample,
     p.consistency, p.set_factor, lower(p.slot) AS slot_start, upper(p.slot) AS slot_end, p.mix_at,
-    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings
+    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings, ws.timezone
   FROM pours p
+  JOIN workshops ws ON ws.id = p.workshop_id
   JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = p.workshop_id
   LEFT JOIN benches b ON b.id = m.bench_id AND b.workshop_id = p.workshop_id
   JOIN plaster_grades g ON g.id = p.grade_id AND g.workshop_id = p.workshop_id
@@ -150,7 +155,10 @@ export const poursRepo = {
   /** The first non-void pour on the mould whose slot overlaps start..end (other than `exceptId`). */
   clash(db: Knex, workshopId: number, mouldId: number, start: Date, end: Date, exceptId?: number) {
     const q = db('pours as p').leftJoin('job_items as i', 'i.id', 'p.job_item_id').leftJoin('jobs as j', 'j.id', 'i.job_id')
-      .first('p.id', db.raw('lower(p.slot) AS slot_start'), db.raw('upper(p.slot) AS slot_end'), 'j.code as job_code')
+      .join('moulds as m', function () {
+        this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
+      })
+      .first('p.id', db.raw('lower(p.slot) AS slot_start'), db.raw('upper(p.slot) AS slot_end'), 'j.code as job_code', 'm.code as mould_code', 'p.mix_at')
       .where({ 'p.workshop_id': workshopId, 'p.mould_id': mouldId }).whereNot('p.state', 'void')
       .whereRaw('p.slot && tstzrange(?, ?)', [start.toISOString(), end.toISOString()]).orderByRaw('lower(p.slot)')
     if (exceptId) q.whereNot('p.id', exceptId)
@@ -218,6 +226,8 @@ export const poursRepo = {
   async calibrationPairs(db: Knex, workshopId: number, gradeId: number) {
     const rows = await db('pours').select('predicted_demould_minutes', 'actual_demould_minutes')
       .where({ workshop_id: workshopId, grade_id: gradeId }).whereNotNull('actual_demould_minutes').whereNotNull('predicted_demould_minutes')
+      // an early or late-attended demould does not measure the set time: only in-window ones calibrate
+      .where('demould_timing', 'in_window')
       .orderBy([{ column: 'demoulded_at' }, { column: 'id' }])
     return rows.map(r => ({ predictedMinutes: Number(r.predicted_demould_minutes), actualMinutes: Number(r.actual_demould_minutes) }))
   },
@@ -256,6 +266,7 @@ export const daySheetRepo = {
   },
   lots(db: Knex, workshopId: number, gradeIds: number[]) {
     return db('plaster_lots as l').select('l.id', 'l.grade_id', 'l.lot_code', 'l.received_on', 'l.use_by', 'l.bags_received', 'l.bag_kg')
+      .select(db.raw(`to_char(l.use_by, 'YYYY-MM-DD') AS use_by_day, to_char(l.received_on, 'YYYY-MM-DD') AS received_day`))
       .select(db.raw(`(SELECT coalesce(sum(coalesce(p.plaster_kg_actual, p.plaster_kg_planned)), 0)::float8 FROM pours p
         WHERE p.workshop_id = l.workshop_id AND p.lot_id = l.id AND p.state <> 'void') AS used_kg`))
       .where({ 'l.workshop_id': workshopId }).whereIn('l.grade_id', gradeIds).whereNull('l.archived_at')

@@ -24,6 +24,31 @@ export const progressRepo = {
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state = 'dispatched') AS dispatched`))
       .orderBy([{ column: 'i.sort_order' }, { column: 'i.id' }])
   },
+  /**
+   * The job's counted casts (non-void pours whose piece was not rejected) with what their ready
+   * time needs: the piece if demoulded, the planned batch, the mould's cavity and the grade.
+   */
+  casts(db: Knex, workshopId: number, jobId: number) {
+    return db('pours as p')
+      .join('job_items as i', function () {
+        this.on('i.id', 'p.job_item_id').andOn('i.workshop_id', 'p.workshop_id')
+      })
+      .join('moulds as m', function () {
+        this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
+      })
+      .join('plaster_grades as g', function () {
+        this.on('g.id', 'p.grade_id').andOn('g.workshop_id', 'p.workshop_id')
+      })
+      .leftJoin('pieces as c', function () {
+        this.on('c.pour_id', 'p.id').andOn('c.workshop_id', 'p.workshop_id')
+      })
+      .where({ 'p.workshop_id': workshopId, 'i.job_id': jobId })
+      .whereRaw(COUNTED_POUR)
+      .select('p.demould_open_at', 'p.demoulded_at', 'p.plaster_kg_planned', 'p.water_kg_planned', 'p.plaster_kg_actual', 'p.water_kg_actual',
+        'm.cavity_litres', 'c.state as piece_state', 'c.dry_by', 'c.wet_mass_kg', 'c.dry_mass_kg', 'g.form', 'g.powder_density',
+        'g.consistency_min', 'g.consistency_max', 'g.consistency_default', 'g.demould_minutes_ref', 'g.set_time_water_exponent',
+        'g.temperature_factors', 'g.hydration_heat', 'g.set_expansion_pct', 'g.purity')
+  },
   /** The latest demould opening of the job's pours that are not void: when the last cast can come out. */
   async expectedCompletion(db: Knex, workshopId: number, jobId: number): Promise<Date | null> {
     const row = await db('pours as p').join('job_items as i', function () {

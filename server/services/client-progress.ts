@@ -1,26 +1,56 @@
 // What a client's progress page shows: per item the counts planned, cast, fettled, dry and
-// dispatched, the expected completion from the board, and the shared photos. Nothing internal:
-// no casters, no defects, no notes.
+// dispatched, when the job is expected ready to dispatch (only once every piece is planned:
+// shared/utils/client-completion.ts), and the shared photos. Nothing internal: no casters, no
+// defects, no notes.
 import type { Actor } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
 import { photosRepo } from '../repos/photos'
 import { progressRepo } from '../repos/progress'
 import { toClientPhotoDto } from './photos'
+import { loadWorkshop } from './workshop'
+import { jobCompletion, type Completion } from '#shared/utils/client-completion'
 import type { ClientProgressDto } from '#shared/types/photos'
+import { castFromBatch } from '#shared/utils/plaster'
+import { plasterGradeFromRow } from '#shared/utils/catalogue'
+import { POUR_WASTE_PCT } from '#shared/utils/board-rules'
+
+/** A cast not yet out of the mould: its masses from the batch (less the board's waste allowance), as the demould step will. */
+function plannedCast(c: { plaster_kg_planned: string | number; water_kg_planned: string | number; plaster_kg_actual: string | number | null; water_kg_actual: string | number | null } & Parameters<typeof plasterGradeFromRow>[0]) {
+  const keep = 1 + POUR_WASTE_PCT / 100
+  const cast = castFromBatch({
+    plasterKg: Number(c.plaster_kg_actual ?? c.plaster_kg_planned) / keep, waterKg: Number(c.water_kg_actual ?? c.water_kg_planned) / keep, grade: plasterGradeFromRow(c),
+  })
+  return { wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg }
+}
+
+function completionDto(c: Completion, timezone: string): ClientProgressDto['completion'] {
+  return c.kind === 'ready_by' ? { kind: c.kind, readyBy: c.at.toISOString(), timezone } : c
+}
 
 export async function clientProgress(actor: Actor, jobId: number): Promise<ClientProgressDto> {
   const db = useDb()
   const job = await jobsRepo.byId(db, actor.workshopId, jobId)
   if (!job || !(await jobsRepo.isMember(db, actor.workshopId, jobId, actor.id))) notFound('Job')
-  const [items, expectedAt, photos] = await Promise.all([
+  const [items, casts, ws, photos] = await Promise.all([
     progressRepo.items(db, actor.workshopId, jobId),
-    progressRepo.expectedCompletion(db, actor.workshopId, jobId),
+    progressRepo.casts(db, actor.workshopId, jobId),
+    loadWorkshop(db, actor.workshopId),
     photosRepo.forJob(db, actor.workshopId, jobId, true),
   ])
+  const completion = jobCompletion({
+    items: items.map(i => ({ piecesNeeded: i.pieces_needed, planned: i.planned })),
+    // the drying room at the workshop's usual conditions: a plan days ahead has no shop day yet
+    room: { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct) },
+    casts: casts.map((c) => {
+      const mass = c.wet_mass_kg === null ? plannedCast(c) : { wetMassKg: Number(c.wet_mass_kg), dryMassKg: Number(c.dry_mass_kg) }
+      return { pieceState: c.piece_state, dryBy: c.dry_by, demouldedAt: c.demoulded_at, demouldOpenAt: c.demould_open_at, cavityLitres: Number(c.cavity_litres), ...mass }
+    }),
+  })
   return {
     job: { id: job.id, code: job.code, title: job.title, dueOn: job.due_on },
     items: items.map(i => ({ id: i.id, description: i.description, piecesNeeded: i.pieces_needed, planned: i.planned, cast: i.cast, fettled: i.fettled, dry: i.dry, dispatched: i.dispatched })),
-    expectedCompletionAt: expectedAt?.toISOString() ?? null,
+    expectedCompletionAt: completion.kind === 'ready_by' ? completion.at.toISOString() : null,
+    completion: completionDto(completion, ws.timezone),
     photos: photos.map(toClientPhotoDto),
   }
 }

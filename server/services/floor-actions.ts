@@ -13,6 +13,7 @@ import { shopDaysRepo } from '../repos/shop-days'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
 import { calibrationFactor } from '#shared/utils/plaster-set'
 import { pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
+import { demouldTiming } from '#shared/utils/pour-status'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
 import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
 import { loadWorkshop } from './workshop'
@@ -88,12 +89,21 @@ async function poured(c: StepContext, input: Extract<FloorActionInput, { kind: '
   return null
 }
 
-/** A piece's mark: job code without dashes, mould code, the mould's pull number (e.g. J2601-CR101-007). */
+/**
+ * A piece's mark, one scheme: the job code as written, '#', the piece's number within the job
+ * (J-2601#017); a piece cast for stock: the mould code, '#M' and the mould's pull (CR-101#M117).
+ * Short, printable on a label, and unambiguous: codes cannot contain '#', and a stock piece's
+ * number starts with M. Marks stored before this scheme keep their form.
+ */
 async function pieceMark(c: StepContext, mould: { code: string; pulls: number }) {
   const item = c.row.job_item_id ? await pourFactsRepo.item(c.trx, c.actor.workshopId, c.row.job_item_id) : undefined
-  const mark = `${(item?.job_code ?? 'STOCK').replace(/-/g, '')}-${mould.code}-${String(mould.pulls + 1).padStart(3, '0')}`
-  // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
-  return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+  if (!item) {
+    const mark = `${mould.code}#M${String(mould.pulls + 1).padStart(3, '0')}`
+    // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
+    return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+  }
+  const next = await piecesRepo.nextInJob(c.trx, c.actor.workshopId, Number(item.job_id), item.job_code)
+  return `${item.job_code}#${String(next).padStart(3, '0')}`
 }
 
 async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind: 'demoulded' }>) {
@@ -103,10 +113,12 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   const keep = 1 + POUR_WASTE_PCT / 100
   const cast = castFromBatch({ plasterKg: Number(c.row.plaster_kg_actual) / keep, waterKg: Number(c.row.water_kg_actual) / keep, grade: gradeModel })
   const mark = await pieceMark(c, mould)
+  // early: the caster was asked on the tablet and went on; early and late stay out of calibration
+  const timing = demouldTiming({ demouldOpenAt: c.row.demould_open_at, demouldCloseAt: c.row.demould_close_at }, c.at)
   await write(c, 'pour.demoulded', {
     state: 'demoulded', demoulded_at: c.at, result: input.result, defect: input.result === 'defect' ? input.defect : null,
-    notes: input.notes ?? null, actual_demould_minutes: actualMinutes,
-  }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark })
+    notes: input.notes ?? null, actual_demould_minutes: actualMinutes, demould_timing: timing,
+  }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark, timing })
   // a defect goes to the finisher as a repair to judge (repair or reject); a sound cast to fettling
   const piece = await piecesRepo.insert(c.trx, c.actor.workshopId, {
     pourId: c.row.id, jobItemId: c.row.job_item_id, mark, dryMassKg: cast.dryMassKg, wetMassKg: cast.wetMassKg,

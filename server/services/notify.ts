@@ -13,6 +13,7 @@ import { jobsRepo, type JobRow } from '../repos/jobs'
 import { workshopsRepo } from '../repos/workshops'
 import { mailOutboxRepo } from '../repos/mail-outbox'
 import { formatDateTime } from '#shared/utils/workshop-format'
+import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
 type Recipient = RecipientRow
 type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
@@ -89,21 +90,33 @@ export async function notifySampleDecision(trx: Knex, workshopId: number, input:
 const OVERDUE_LOOKBACK_MS = 2 * 86_400_000
 
 /**
- * The periodic overdue-demould check: non-void pours still planned, mixing or setting whose
- * demould window closed, one mail per pour and lead (dedupe key overdue:pourId:leadId). A cast
- * left past its window can crack or stick in the mould, so the lead hears of it once.
+ * The periodic check, in the words of pourSituation (shared/utils/pour-status.ts): an overdue
+ * demould (mixing or setting, window closed: a cast left past its window can crack or stick in
+ * the mould) and a missed start (still planned past its mix time and grace: nothing was cast,
+ * the pour needs re-planning) are mailed apart, once per pour and lead (dedupe keys
+ * overdue:pourId:leadId and missed:pourId:leadId), both under the lead's overdue preference.
  */
 export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
-  const overdue = await mailOutboxRepo.overduePoursUnmailed(db, now, new Date(now.getTime() - OVERDUE_LOOKBACK_MS), 200)
+  const late = await mailOutboxRepo.latePoursUnmailed(db, now, new Date(now.getTime() - OVERDUE_LOOKBACK_MS), MISSED_START_GRACE_MINUTES * 60_000, 200)
   let queued = 0
-  for (const p of overdue) {
+  for (const p of late) {
+    const job = p.job_code ? ` (${p.job_code})` : ''
+    const forJob = p.job_code ? ` for ${p.job_code}` : ''
+    const missed = p.state === 'planned'
     await db.transaction(async (trx) => {
-      queued += await send(trx, p.workshop_id, 'demould_overdue', await usersRepo.leadRecipients(trx, p.workshop_id), r => ({
-        subject: `Demould overdue: mould ${p.code}${p.job_code ? ` (${p.job_code})` : ''}`,
-        lines: [`The pour on mould ${p.code}${p.job_code ? ` for ${p.job_code}` : ''} is not demoulded, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone)}.`,
-          'Check the cast on the pour board:', link('/lead/board')],
-        dedupeKey: `overdue:${p.id}:${r.id}`,
-      }))
+      queued += await send(trx, p.workshop_id, 'demould_overdue', await usersRepo.leadRecipients(trx, p.workshop_id), r => (missed
+        ? {
+            subject: `Missed start: mould ${p.code}${job}`,
+            lines: [`The pour on mould ${p.code}${forJob} was never mixed: it was due at ${formatDateTime(new Date(p.mix_at), p.timezone)}. Nothing is in the mould.`,
+              'Re-plan or void it on the pour board:', link('/lead/board')],
+            dedupeKey: `missed:${p.id}:${r.id}`,
+          }
+        : {
+            subject: `Overdue demould: mould ${p.code}${job}`,
+            lines: [`The cast on mould ${p.code}${forJob} is still in the mould, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone)}.`,
+              'Check the cast on the pour board:', link('/lead/board')],
+            dedupeKey: `overdue:${p.id}:${r.id}`,
+          }))
     })
   }
   return queued

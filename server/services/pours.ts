@@ -10,12 +10,14 @@ import type { WorkshopRow } from '../repos/workshops'
 import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
+import { pourSituation } from '#shared/utils/pour-status'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
 
 /** A pour as every route and live event sends it (the one declared PourDto, shared/types/board.ts). */
 export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
+  const situation = pourSituation({ state: r.state, mixAt: r.mix_at, demouldOpenAt: r.demould_open_at, demouldCloseAt: r.demould_close_at }, now)
   return {
     id: r.id, version: r.version, mouldId: r.mould_id, mouldCode: r.mould_code,
     jobItemId: r.job_item_id, jobId: r.job_id, jobCode: r.job_code, itemDescription: r.item_description,
@@ -23,9 +25,16 @@ export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
     state: r.state, isSample: r.is_sample, consistency: Number(r.consistency), setFactor: Number(r.set_factor),
     slotStart: r.slot_start.toISOString(), slotEnd: r.slot_end.toISOString(), mixAt: r.mix_at.toISOString(),
     demouldOpenAt: r.demould_open_at.toISOString(), demouldCloseAt: r.demould_close_at.toISOString(),
-    plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned), warnings: r.warnings,
+    plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned),
+    warnings: situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone), ...r.warnings] : r.warnings,
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
+    situation,
   }
+}
+
+/** The line a missed start leads the pour's warnings with (the board lists warnings). */
+function missedStartWarning(mixAt: Date, timezone: string) {
+  return `Missed start: never mixed; the mix was due at ${boardClock(mixAt, timezone)}. Re-plan or void it.`
 }
 
 /** What a pour is planned from; absent fields default from the job item, then the grade. */
@@ -71,12 +80,13 @@ function refuse(named: Named, isSample: boolean) {
   }
 }
 
-/** The clashing pour on a mould as a 409: 'This mould is already taken from … to …'. */
+/** The clashing pour on a mould as a 409: 'This mould is already taken from … to … by the J-2601 pour on CR-101 mixing at …'. */
 async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Date, end: Date, selfId?: number) {
   const c = await poursRepo.clash(db, ws.id, mouldId, start, end, selfId)
   if (!c) return
+  // the other pour by what the lead sees on the board: its job, its mould and its mix time
   conflict(`This mould is already taken from ${boardClock(c.slot_start, ws.timezone)} to ${boardClock(c.slot_end, ws.timezone)}`
-    + ` by pour ${c.id}${c.job_code ? ` (${c.job_code})` : ''}`, { pourId: c.id })
+    + ` by the ${c.job_code ? `${c.job_code} ` : ''}pour on ${c.mould_code} mixing at ${boardClock(c.mix_at, ws.timezone)}`, { pourId: c.id })
 }
 
 /** The pour's timing and batch from the model, on the workshop's shop temperature of its day. */

@@ -3,15 +3,29 @@ import type { H3Event } from 'h3'
 import type { ZodType, z } from 'zod'
 import { NUL_MESSAGE, fieldsWithNul } from '#shared/utils/input-fields'
 import { PlasterInputError } from '#shared/utils/plaster-core'
+import { fieldLabel, inUserWords, valueAt } from '#shared/utils/field-labels'
 
 export interface FieldProblem { field: string; message: string }
 
-function unprocessableError(problems: FieldProblem[]) {
+/**
+ * A problem in the user's words (shared/utils/field-labels.ts): the field keeps its code name,
+ * for the form to put the message beside its input; the message names the label they see.
+ */
+function worded(p: FieldProblem): FieldProblem {
+  const label = fieldLabel(p.field)
+  const message = inUserWords(p.field, p.message)
+  if (label === p.field || message.startsWith(label) || message.includes(label)) return { field: p.field, message }
+  return { field: p.field, message: `${label} ${message}` }
+}
+
+function unprocessableError(raw: FieldProblem[]) {
+  const problems = raw.map(worded)
   const first = problems[0]
+  const headline = first && fieldLabel(first.field) !== first.field ? first.message : first ? `${first.field}: ${first.message}` : ''
   return createError({
     statusCode: 422,
     statusMessage: 'Unprocessable Content',
-    message: first ? `${first.field}: ${first.message}` : 'The request is not valid',
+    message: headline || 'The request is not valid',
     data: { problems },
   })
 }
@@ -34,10 +48,12 @@ export function asHttpError(e: unknown): unknown {
 /** The model names list members as `walls[0]`; a 422 names them as a schema does (`walls.0`). */
 const dottedPath = (field: string) => field.replace(/\[(\d+)\]/g, '.$1')
 
-function problemsOf(error: z.ZodError, prefix?: string): FieldProblem[] {
+function problemsOf(error: z.ZodError, value: unknown, prefix?: string): FieldProblem[] {
   return error.issues.map((i) => {
     const path = i.path.map(String).join('.')
-    return { field: [prefix, path].filter(Boolean).join('.') || (prefix ?? 'body'), message: i.message }
+    const field = [prefix, path].filter(Boolean).join('.') || (prefix ?? 'body')
+    // an empty required field says so, in its label, rather than "must be between …"
+    return { field, message: path ? inUserWords(path, i.message, valueAt(value, i.path), true) : i.message }
   })
 }
 
@@ -49,7 +65,7 @@ export function parseOr422<S extends ZodType>(schema: S, value: unknown, prefix?
   const nul = fieldsWithNul(value)
   if (nul.length) unprocessable(nul.map(f => ({ field: [prefix, f].filter(Boolean).join('.') || (prefix ?? 'body'), message: NUL_MESSAGE })))
   const r = schema.safeParse(value)
-  if (!r.success) unprocessable(problemsOf(r.error, prefix))
+  if (!r.success) unprocessable(problemsOf(r.error, value, prefix))
   return r.data
 }
 

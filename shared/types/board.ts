@@ -1,5 +1,7 @@
 // The board's data as GET /api/board returns it (the contract shared by the board page and
 // the pours routes). Instants are ISO strings, days 'YYYY-MM-DD'.
+import type { PourSituation } from '../utils/pour-status'
+
 export type PourState = 'planned' | 'mixing' | 'setting' | 'demoulded' | 'void'
 
 export interface PourDto {
@@ -27,8 +29,12 @@ export interface PourDto {
   demouldCloseAt: string
   plasterKg: number
   waterKg: number
+  /** the stored warnings, led by a missed start when the pour was never mixed in time */
   warnings: string[]
+  /** a cast in the mould past its window (an overdue demould; never a missed start) */
   overdue: boolean
+  /** where the pour stands against its clock (shared/utils/pour-status.ts), the same word on every screen */
+  situation: PourSituation
 }
 
 export interface BoardMould {

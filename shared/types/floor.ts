@@ -25,7 +25,8 @@ export interface FloorCardDto {
     pieceMark: string | null
     pieceId: number | null
   }
-  lots: { id: number; lotCode: string; leftKg: number }[]
+  /** in-date lots first (oldest received first), then expired ones, marked */
+  lots: { id: number; lotCode: string; leftKg: number; useBy: string | null; expired: boolean }[]
   cautions: FloorCaution[]
 }
 

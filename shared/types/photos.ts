@@ -33,6 +33,13 @@ export interface ItemProgressDto {
 export interface ClientProgressDto {
   job: { id: number; code: string; title: string; dueOn: string | null }
   items: ItemProgressDto[]
+  /** when the last piece is expected ready to dispatch; null unless every piece is planned */
   expectedCompletionAt: string | null
+  /** what the page says about completion (shared/utils/client-completion.ts) */
+  completion:
+    | { kind: 'ready_by'; readyBy: string; timezone: string }
+    | { kind: 'not_planned'; notPlanned: number; ordered: number }
+    | { kind: 'never_dries' }
+    | { kind: 'all_ready' }
   photos: ClientPhotoDto[]
 }

@@ -23,12 +23,13 @@ export const POUR_WASTE_PCT = 5
 export type BoardPourState = 'planned' | 'mixing' | 'setting' | 'demoulded' | 'void'
 
 /**
- * Overdue: the pour's demould window has closed and the cast is still not out, i.e. a
- * planned, mixing or setting pour with now past demouldCloseAt. A setting pour past the close
- * risks a stuck or cracked cast; a planned one past it was never cast and needs re-planning.
+ * Overdue demould: the pour's demould window has closed with a cast still in the mould, i.e. a
+ * mixing or setting pour with now past demouldCloseAt (it risks a stuck or cracked cast). A
+ * planned pour past its time was never cast: that is a missed start, told apart
+ * (pourSituation in pour-status.ts, the one classification every screen uses).
  */
 export function pourOverdue(p: { state: BoardPourState; demouldCloseAt: Date }, now: Date): boolean {
-  if (p.state !== 'planned' && p.state !== 'mixing' && p.state !== 'setting') return false
+  if (p.state !== 'mixing' && p.state !== 'setting') return false
   return now.getTime() > p.demouldCloseAt.getTime()
 }
 

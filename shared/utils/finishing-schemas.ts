@@ -2,6 +2,7 @@
 // note (POST /api/jobs/:id/dispatches), shared by the tablet's forms and the routes. Nuxt
 // auto-imports every export of shared/utils, so the names carry a finishing prefix.
 import { z } from 'zod'
+import { CAST_DEFECTS } from './floor-schemas'
 import { PLASTER_DRYING_MAX_C } from './plaster-drying'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
 import { CALENDAR_YEARS, isCalendarInstant } from './input-fields'
@@ -15,11 +16,10 @@ export const FINISHING_STATE_WORDS: Record<FinishingPieceState, string> = {
 }
 
 /**
- * The trade's words for what is wrong with a cast when it goes to repair or is rejected
- * (common practice in fibrous and solid plaster shops: an arris is a sharp edge, enrichment
- * the modelled ornament). The form offers these and free text beside them.
+ * What is wrong with a cast when it goes to repair or is rejected: the same list the caster
+ * picks from at demould (CAST_DEFECTS, floor-schemas.ts). The form offers these and free text beside them.
  */
-export const FINISHING_REASONS = ['air holes', 'crack', 'chipped arris', 'broken enrichment', 'soft or chalky', 'warped', 'short fill', 'damaged in handling'] as const
+export const FINISHING_REASONS = CAST_DEFECTS
 
 export const FINISHING_ACTION_KINDS = ['fettled', 'weighed', 'ready', 'repair', 'repaired', 'rejected', 'packed'] as const
 export type FinishingActionKind = (typeof FINISHING_ACTION_KINDS)[number]

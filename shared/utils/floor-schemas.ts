@@ -4,8 +4,14 @@ import { z } from 'zod'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
 import { CALENDAR_YEARS, PG_INTEGER_MAX, idText, isCalendarInstant } from './input-fields'
 
-/** The trade's words for what went wrong with a cast (common practice in casting shops). */
-export const FLOOR_DEFECTS = ['air holes', 'crack', 'short fill', 'soft cast', 'chipped edge', 'stuck in mould', 'distorted'] as const
+/**
+ * The trade's words for what went wrong with a cast: one list for demoulding and finishing
+ * (common practice in fibrous and solid plaster shops: an arris is a sharp edge, enrichment the
+ * modelled ornament). Earlier demoulds may carry older words (chipped edge, distorted, soft cast).
+ */
+export const CAST_DEFECTS = ['air holes', 'crack', 'short fill', 'soft or chalky', 'chipped arris', 'broken enrichment', 'warped', 'stuck in mould', 'damaged in handling'] as const
+/** What the caster picks at demould: the one list. */
+export const FLOOR_DEFECTS = CAST_DEFECTS
 export type FloorDefect = (typeof FLOOR_DEFECTS)[number]
 
 export const FLOOR_ACTION_KINDS = ['start_mixing', 'poured', 'demoulded'] as const

@@ -12,7 +12,7 @@ export const NOTIFY_KIND_INFO: Record<NotifyKind, { label: string; roles: Role[]
   photos_shared: { label: 'New photos of my job (at most one mail per job a day)', roles: ['client'] },
   job_ready: { label: 'My job is ready for dispatch', roles: ['client'] },
   sample_decision: { label: 'A client approves a sample or asks for changes', roles: ['lead'] },
-  demould_overdue: { label: 'A demould is overdue (its window has closed)', roles: ['lead'] },
+  demould_overdue: { label: 'An overdue demould (a cast past its window) or a missed start (a pour never mixed)', roles: ['lead'] },
 }
 
 export type NotifyPrefs = Record<NotifyKind, boolean>

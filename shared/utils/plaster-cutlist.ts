@@ -33,7 +33,7 @@ export interface PlasterRunCutList {
 function splitWall(lengthM: number, cast: number, min: number, field: string): number[] {
   const k = Math.max(1, Math.ceil(lengthM / cast - LENGTH_EPS))
   if (k * min > lengthM + LENGTH_EPS) {
-    throw new PlasterInputError(field, `${field} (${lengthM} m) cannot be cut into pieces of ${min}–${cast} m; lower minPieceM`)
+    throw new PlasterInputError(field, `${field} (${lengthM} m) cannot be cut into pieces of ${min}–${cast} m: make the shortest piece shorter`)
   }
   const rest = lengthM - (k - 1) * cast
   let pieces: number[]

@@ -2,6 +2,7 @@
 // and shop-temperature band, and predicted against actual demould time per grade. Pure: the
 // route reads the demoulded pours of a period and hands them here.
 import { calibrationFactor } from './plaster-set'
+import { demouldTiming } from './pour-status'
 
 export interface QualityPour {
   mould: string
@@ -13,6 +14,8 @@ export interface QualityPour {
   mixingAt: Date | null
   /** the plan's demould window opening */
   demouldOpenAt: Date
+  /** the window's close; a demould after it was late-attended */
+  demouldCloseAt: Date
   demouldedAt: Date | null
 }
 
@@ -68,13 +71,15 @@ function medianOf(values: number[]): number | null {
 
 /**
  * Per grade: predicted = plan's demould opening − mixing start, actual = demoulded − mixing
- * start, the same samples the register's calibration uses. The factor is calibrationFactor's median ratio over
+ * start, the same samples the register's calibration uses: demoulds inside the window only (an
+ * early one was taken out before the set said so, a late one when someone came by; neither
+ * measures the set time). The factor is calibrationFactor's median ratio over
  * every sample of the period (lastN 10000), so it agrees with the grade page's factor.
  */
 function calibrationByGrade(pours: QualityPour[]): GradeCalibration[] {
   const byGrade = new Map<string, { predictedMinutes: number; actualMinutes: number }[]>()
   for (const p of pours) {
-    if (!p.mixingAt || !p.demouldedAt) continue
+    if (!p.mixingAt || !p.demouldedAt || demouldTiming(p, p.demouldedAt) !== 'in_window') continue
     const sample = {
       predictedMinutes: (p.demouldOpenAt.getTime() - p.mixingAt.getTime()) / 60_000,
       actualMinutes: (p.demouldedAt.getTime() - p.mixingAt.getTime()) / 60_000,

@@ -36,7 +36,7 @@ describe('GET /api/board', () => {
     expect(r.data.benches).toContainEqual({ id: fx.benchId, name: expect.any(String), sortOrder: 90 })
     const mine = r.data.pours.filter((p: { mouldId: number }) => p.mouldId === mouldId)
     expect(mine.map((p: { id: number }) => p.id)).toEqual([inside.id])
-    expect(mine[0]).toEqual({ ...inside, overdue: false })
+    expect(mine[0]).toEqual({ ...inside, overdue: false, situation: 'waiting' })
     const moulds = new Map(r.data.moulds.map((m: { id: number }) => [m.id, m]))
     expect(moulds.get(mouldId)).toMatchObject({ benchId: fx.benchId, state: 'ready', pulls: 0, expectedPulls: 100, lifeFlag: false })
     expect(moulds.get(worn)).toMatchObject({ lifeFlag: true })
@@ -54,12 +54,16 @@ describe('GET /api/board', () => {
     expect(r.data.pours.map((p: { id: number }) => p.id)).toContain(late.id)
   })
 
-  it('marks a pour whose window has closed as overdue', async () => {
+  it('names a never-mixed pour past its time a missed start and a cast past its window an overdue demould', async () => {
     const mouldId = await fx.mould({ max_dwell_minutes: 30 })
     const past = (await post({ mouldId, slotStart: '2025-06-02T09:00:00+01:00' })).data
-    expect(past.overdue).toBe(true)
+    expect(past).toMatchObject({ overdue: false, situation: 'missed_start' })
+    expect(past.warnings[0]).toMatch(/^Missed start: never mixed; the mix was due at 2025-06-02 09:\d\d/)
+    await fx.k('pours').where({ id: past.id }).update({ state: 'setting', mixing_at: past.mixAt, poured_at: past.mixAt })
     const r = await board('2025-06-02', '2025-06-02')
-    expect(r.data.pours.find((p: { id: number }) => p.id === past.id).overdue).toBe(true)
+    const seen = r.data.pours.find((p: { id: number }) => p.id === past.id)
+    expect(seen).toMatchObject({ overdue: true, situation: 'overdue_demould' })
+    expect(seen.warnings.join(' ')).not.toContain('Missed start')
   })
 
   it('refuses a range over 31 days or a bad day, naming the field', async () => {

@@ -140,7 +140,9 @@ describe('POST /api/pours/:id/actions: the order of steps', () => {
     const before = await fx.k('moulds').where({ id: p.mouldId }).first('pulls')
     const d = await act(p.id, { kind: 'demoulded', version: 3, result: 'sound' })
     expect(d.status, JSON.stringify(d.data)).toBe(200)
-    const mark = `${jobCode.replace(/-/g, '')}-${p.mouldCode}-${String(before.pulls + 1).padStart(3, '0')}`
+    // the mark scheme: job code as written, '#', the piece's number within the job (this one included)
+    const ofJob = await fx.k('pieces').where({ workshop_id: fx.workshopId }).where('mark', 'like', `${jobCode}#%`).count({ n: '*' })
+    const mark = `${jobCode}#${String(Number(ofJob[0]!.n)).padStart(3, '0')}`
     expect(d.data.piece.mark).toBe(mark)
     const piece = await fx.k('pieces').where({ pour_id: p.id }).first()
     const cast = castFromBatch({ plasterKg: 2.9 / 1.05, waterKg: 2.03 / 1.05, grade })

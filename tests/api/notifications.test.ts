@@ -114,11 +114,11 @@ describe('notifications', () => {
     }).returning('id'))[0].id as number
     const codeOf = async (mouldId: number) => (await fx.k('moulds').where({ id: mouldId }).first('code')).code as string
     const pour = await overduePour(mould)
-    await waitForMail(lead, demo.lead.email, `Demould overdue: mould ${await codeOf(mould)}`)
+    await waitForMail(lead, demo.lead.email, `Overdue demould: mould ${await codeOf(mould)}`)
     // a second overdue pour's mail proves that the check ran again after the first one's
     const laterMould = await fx.mould()
     const later = await overduePour(laterMould)
-    await waitForMail(lead, demo.lead.email, `Demould overdue: mould ${await codeOf(laterMould)}`)
+    await waitForMail(lead, demo.lead.email, `Overdue demould: mould ${await codeOf(laterMould)}`)
     const rows = await fx.k('mail_outbox').where('dedupe_key', 'like', `overdue:${pour}:%`).select('to_email')
     expect(rows.filter((r: { to_email: string }) => r.to_email === demo.lead.email)).toHaveLength(1)
     await fx.k('pours').whereIn('id', [pour, later]).update({ state: 'void', void_reason: 'test done' })

@@ -146,7 +146,7 @@ describe('a whole day', () => {
     await signInThroughForm(ada, base, demo.client1.email, DEMO_PASSWORD, '/client')
     await ada.getByRole('link', { name: new RegExp(job.code) }).click()
     await ada.getByRole('heading', { level: 1, name: new RegExp(job.code) }).waitFor()
-    await ada.getByRole('button', { name: 'Open photo: Sample rose out of the mould' }).waitFor()
+    await ada.getByRole('button', { name: /^Open photo: Sample rose out of the mould/ }).waitFor()
     expect(await ada.content()).not.toContain(demo.caster2.name) // nothing internal: not who cast it
     await shot(ada, 'client-job')
     await ada.getByLabel('Approve the sample: go ahead with the run').check()

@@ -8,6 +8,7 @@ import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
+import { seriousAxeViolations } from '../setup/axe'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -21,12 +22,12 @@ afterAll(async () => {
   await closeTestDb()
 })
 
-/** A pour planned for caster 1 starting this minute on a fresh mould (today, whatever the clock says). */
-async function pourNow() {
+/** A pour planned for caster 1 starting `minutesAgo` before this minute on a fresh mould (today, whatever the clock says). */
+async function pourNow(minutesAgo = 5, mould: Record<string, unknown> = {}) {
   const jobId = await fx.job()
   const itemId = await fx.item(jobId, null)
-  const mouldId = await fx.mould()
-  const slotStart = new Date(Math.floor(Date.now() / 60_000) * 60_000 - 5 * 60_000).toISOString()
+  const mouldId = await fx.mould(mould)
+  const slotStart = new Date(Math.floor(Date.now() / 60_000) * 60_000 - minutesAgo * 60_000).toISOString()
   const lead = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: demo.lead.email, password: DEMO_PASSWORD }) })
   const cookie = lead.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
   const r = await fetch(`${base}/api/pours`, { method: 'POST', headers: { 'content-type': 'application/json', cookie }, body: JSON.stringify({ mouldId, slotStart, jobItemId: itemId, casterId: fx.casterId }) })
@@ -53,7 +54,9 @@ const startMixing = (page: Page, id: number) => step(page, id, async () => {
 const poured = (page: Page, id: number) => step(page, id, async () => {
   await card(page, id).getByLabel('Shop °C').fill('17')
 })
+/** Demoulds as sound; just after pouring the window is not open yet, so the card asks first: go on. */
 const demoulded = (page: Page, id: number) => step(page, id, async () => {
+  await card(page, id).getByTestId('ask-confirm').click()
   await card(page, id).getByText('Sound', { exact: true }).click()
 })
 const stateOf = (page: Page, id: number) => card(page, id).getAttribute('data-state')
@@ -75,6 +78,11 @@ describe('floor', () => {
       await page.goto(`${base}/floor`)
       await card(page, p.id).waitFor()
       await screenshot(page, 'floor-card-planned')
+      expect(await seriousAxeViolations(page)).toEqual([])
+      // tap targets on the tablet: the caution links in the card and the footer at least 48 px high
+      const heights = await page.locator('[data-testid="floor-card"] a[href^="/cautions"], [data-testid="floor-footer"] a').evaluateAll(els => els.map(e => e.getBoundingClientRect().height))
+      expect(heights.length).toBeGreaterThanOrEqual(3)
+      for (const h of heights) expect(h).toBeGreaterThanOrEqual(48)
       await startMixing(page, p.id)
       await expect.poll(() => stateOf(page, p.id), { timeout: 15_000 }).toBe('mixing')
       await expect.poll(barState, { timeout: 15_000 }).toMatch(/mixing/i)
@@ -83,17 +91,38 @@ describe('floor', () => {
       await expect.poll(barState, { timeout: 15_000 }).toMatch(/setting/i)
       await expect(card(page, p.id).getByTestId('floor-countdown').getAttribute('data-phase')).resolves.toBe('setting')
       await screenshot(page, 'floor-card-setting')
+      // before the window opens the card asks first, showing the window; Escape waits
+      await card(page, p.id).getByTestId('floor-next').click()
+      const ask = card(page, p.id).getByTestId('ask-dialog')
+      await expect.poll(() => ask.isVisible()).toBe(true)
+      const countdown = await card(page, p.id).getByTestId('floor-countdown').textContent()
+      const window = countdown!.match(/window (\d\d:\d\d–\d\d:\d\d)/)![1]!
+      await expect(ask.textContent()).resolves.toContain(`The demould window is ${window}`)
+      await expect(ask.getByRole('heading').textContent()).resolves.toBe('Demould before the window opens?')
+      await expect.poll(() => page.evaluate(() => document.activeElement?.closest('dialog') !== null)).toBe(true)
+      await screenshot(page, 'floor-early-demould-question')
+      expect(await seriousAxeViolations(page)).toEqual([])
+      await page.keyboard.press('Escape')
+      await expect.poll(() => ask.isVisible()).toBe(false)
+      expect(await card(page, p.id).getByTestId('floor-action-form').count()).toBe(0)
+      expect(await stateOf(page, p.id)).toBe('setting')
       await demoulded(page, p.id)
       await expect.poll(() => stateOf(page, p.id), { timeout: 15_000 }).toBe('demoulded')
       await expect.poll(barState, { timeout: 15_000 }).toMatch(/demoulded/i)
-      await expect.poll(() => card(page, p.id).textContent(), { timeout: 15_000 }).toMatch(/Piece .*-001/)
+      await expect.poll(() => card(page, p.id).textContent(), { timeout: 15_000 }).toMatch(/Piece .*#001/)
+      // recorded as early, in the row and its event, and left out of the grade's calibration
+      expect(await fx.k('pours').where({ id: p.id }).first('demould_timing')).toEqual({ demould_timing: 'early' })
+      const ev = await fx.k('events').where({ entity: 'pour', entity_id: String(p.id), type: 'pour.demoulded' }).first('data')
+      expect(ev.data.timing).toBe('early')
       // a photo of the piece just out of the mould, from the tablet
       await card(page, p.id).getByRole('button', { name: 'Photo of this piece' }).click()
       const jpeg = await sharp({ create: { width: 800, height: 600, channels: 3, background: '#e8e1d4' } }).jpeg().toBuffer()
       await card(page, p.id).locator('input[type=file]').first().setInputFiles({ name: 'demould.jpg', mimeType: 'image/jpeg', buffer: jpeg })
       await card(page, p.id).getByLabel('Caption').fill('Straight out of the mould')
-      await card(page, p.id).getByRole('button', { name: 'Upload photo' }).click()
-      await expect.poll(() => card(page, p.id).getByTestId('floor-photo').textContent(), { timeout: 15_000 }).toMatch(/1 photo added to .*-001/)
+      const upload = card(page, p.id).getByRole('button', { name: 'Upload photo' })
+      expect((await upload.boundingBox())!.height).toBeGreaterThanOrEqual(64)
+      await upload.click()
+      await expect.poll(() => card(page, p.id).getByTestId('floor-photo').textContent(), { timeout: 15_000 }).toMatch(/1 photo added to .*#001/)
       const piece = await fx.k('pieces').where({ pour_id: p.id }).first('id')
       expect(await fx.k('photos').where({ piece_id: piece.id }).pluck('caption')).toEqual(['Straight out of the mould'])
       await page.setViewportSize({ width: 1180, height: 820 })
@@ -104,6 +133,41 @@ describe('floor', () => {
     finally {
       await leadCtx.close()
     }
+  }, 120_000)
+
+  it('offline: the card works out its window from the start of mixing taken on the tablet', async () => {
+    // planned 90 min ago on a mould that holds a cast 30 min: the planned window has closed
+    const p = await pourNow(90, { max_dwell_minutes: 30 })
+    const planned = await fx.k('pours').where({ id: p.id }).first('mix_at', 'demould_open_at', 'demould_close_at')
+    const page = await browser.context.newPage()
+    await signInAs(page, demo.caster1.email)
+    await page.goto(`${base}/floor`)
+    await card(page, p.id).waitFor()
+    await expect.poll(() => card(page, p.id).getAttribute('data-phase')).toBe('missed')
+    await browser.context.setOffline(true)
+    try {
+      const tapped = Date.now()
+      await startMixing(page, p.id)
+      await expect.poll(() => stateOf(page, p.id)).toBe('mixing')
+      await poured(page, p.id)
+      await expect.poll(() => stateOf(page, p.id)).toBe('setting')
+      // the window moved by (start − planned mix): it opens in the future, not "overdue"
+      const countdown = card(page, p.id).getByTestId('floor-countdown')
+      await expect.poll(() => countdown.getAttribute('data-phase')).toBe('setting')
+      const shift = tapped - planned.mix_at.getTime()
+      const opens = planned.demould_open_at.getTime() + shift
+      const clock = (ms: number) => new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(ms)
+      const note = (await countdown.textContent())!
+      // the tap falls within a few seconds of `tapped`: the opening is that minute or the next
+      expect([clock(opens), clock(opens + 60_000)].some(c => note.includes(`window ${c}`)), note).toBe(true)
+      expect(note).not.toMatch(/overdue/i)
+      await screenshot(page, 'floor-offline-window')
+    }
+    finally {
+      await browser.context.setOffline(false)
+    }
+    await expect.poll(() => page.getByTestId('outbox-pending').textContent(), { timeout: 30_000 }).toMatch(/All actions sent/)
+    await page.close()
   }, 120_000)
 
   it('offline: three steps wait in the outbox and land once when the connection returns', async () => {

@@ -41,7 +41,12 @@ async function switchIn(page: Page, name: string, pin: string) {
 describe('shared tablet', () => {
   it('the lead signs the tablet in, a caster switches in and sees the floor, then the finisher the fettling queue', async () => {
     const page = await browser.context.newPage()
-    page.on('dialog', d => void d.accept())
+    // the app asks in its own dialog: a native confirm() here would fail the journey
+    const native: string[] = []
+    page.on('dialog', (d) => {
+      native.push(d.message())
+      void d.dismiss()
+    })
 
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.goto(`${base}/lead/people`)
@@ -49,7 +54,14 @@ describe('shared tablet', () => {
     await page.getByLabel('Name for this device').fill('Casting shop tablet')
     await screenshot(page, 'tablet-1-lead-people')
     await page.getByRole('button', { name: 'Use this device as a shared tablet' }).click()
+    const ask = page.getByRole('dialog', { name: 'Make this device a shared tablet?' })
+    await ask.waitFor()
+    await expect(ask.textContent()).resolves.toContain('"Casting shop tablet"')
+    await expect.poll(() => page.evaluate(() => document.activeElement?.closest('dialog')?.getAttribute('data-testid'))).toBe('ask-dialog')
+    await screenshot(page, 'tablet-1b-ask')
+    await ask.getByRole('button', { name: 'Make it a shared tablet' }).click()
     await page.waitForURL(`${base}/tablet`)
+    expect(native).toEqual([])
     await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
     await expect.poll(() => page.getByTestId('tablet-name').textContent()).toContain('Casting shop tablet')
     // the lead's session on this device has ended; leads are not on the picker

@@ -22,11 +22,14 @@ const min = (n: number) => n * 60_000
 const calendar = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
 
 describe('pourOverdue', () => {
-  it('a planned, mixing or setting pour is overdue once its window has closed', () => {
-    for (const state of ['planned', 'mixing', 'setting'] as const) {
+  it('a mixing or setting pour is overdue once its window has closed', () => {
+    for (const state of ['mixing', 'setting'] as const) {
       expect(pourOverdue({ state, demouldCloseAt: close }, new Date(close.getTime() + 1))).toBe(true)
       expect(pourOverdue({ state, demouldCloseAt: close }, close)).toBe(false)
     }
+  })
+  it('a planned pour is never an overdue demould: nothing is in the mould (a missed start)', () => {
+    expect(pourOverdue({ state: 'planned', demouldCloseAt: close }, new Date(close.getTime() + min(600)))).toBe(false)
   })
   it('a demoulded or void pour is never overdue', () => {
     const later = new Date(close.getTime() + min(600))

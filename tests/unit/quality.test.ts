@@ -4,7 +4,7 @@ import { notifyPrefsOf, notifyPrefsPatchSchema } from '#shared/utils/notify-sche
 
 const at = (min: number) => new Date(Date.UTC(2027, 0, 4, 9) + min * 60_000)
 function pour(over: Partial<QualityPour> = {}): QualityPour {
-  return { mould: 'CR-1', grade: 'Beta', caster: 'Idris', shopTempC: 18, result: 'sound', mixingAt: at(0), demouldOpenAt: at(30), demouldedAt: at(36), ...over }
+  return { mould: 'CR-1', grade: 'Beta', caster: 'Idris', shopTempC: 18, result: 'sound', mixingAt: at(0), demouldOpenAt: at(30), demouldCloseAt: at(120), demouldedAt: at(36), ...over }
 }
 
 describe('temperatureBand', () => {
@@ -34,6 +34,13 @@ describe('qualityFigures', () => {
     // predicted 30 min each; actual 36, 45 and 30 → ratios 1.2, 1.5, 1.0 → median 1.2
     const f = qualityFigures([pour(), pour({ demouldedAt: at(45) }), pour({ demouldedAt: at(30) }), pour({ demouldedAt: null })])
     expect(f.calibration).toEqual([{ grade: 'Beta', count: 3, factor: 1.2, predictedMinutes: 30, actualMinutes: 36 }])
+  })
+
+  it('leaves early and late-attended demoulds out of the calibration', () => {
+    // in window: 36 → 1.2; early (20 < 30) and late (130 > 120) would pull the median either way
+    const f = qualityFigures([pour(), pour({ demouldedAt: at(20) }), pour({ demouldedAt: at(130) }), pour({ demouldedAt: at(131) })])
+    expect(f.calibration).toEqual([{ grade: 'Beta', count: 1, factor: 1.2, predictedMinutes: 30, actualMinutes: 36 }])
+    expect(f.pours).toBe(4)
   })
 
   it('leaves out samples without a mixing time or with a non-positive time; no sample gives factor 1', () => {

@@ -1,0 +1,76 @@
+/**
+ * The date a client is told their job will be ready to dispatch. Only when every piece
+ * ordered is planned: until then the page says how many are not planned yet, because a date
+ * from part of a job would be untrue. Once all are planned, the date is the latest of each
+ * planned cast's ready time:
+ *
+ *   a piece already dry (ready, packed, dispatched)  no wait
+ *   a piece put to dry with a dry-by                 its dry-by
+ *   any other cast                                   demoulded (or the plan's demould opening)
+ *                                                    + FETTLING_ALLOWANCE_HOURS
+ *                                                    + drying hours (finishingDryBy: the drying
+ *                                                      estimate of plaster-drying.ts, Carrier's
+ *                                                      equation as in the ASHRAE Handbook, at the
+ *                                                      workshop's usual temperature and humidity)
+ *
+ * Pure: the server gathers the facts.
+ */
+import { finishingDryBy } from './finishing'
+
+/**
+ * Hours from demoulding until a cast is fettled and racked to dry: 2 (common practice for
+ * cast ornament fettled the day it comes out; a repair takes longer, and the weighing decides
+ * when it is dry in any case).
+ */
+export const FETTLING_ALLOWANCE_HOURS = 2
+
+const HOUR_MS = 3_600_000
+
+export interface CompletionCast {
+  /** the piece's state once demoulded, or null for a cast not yet out of the mould */
+  pieceState: string | null
+  dryBy: Date | null
+  demouldedAt: Date | null
+  demouldOpenAt: Date
+  wetMassKg: number
+  dryMassKg: number
+  cavityLitres: number
+}
+
+export interface CompletionInput {
+  /** per item: pieces ordered and pieces planned (non-void pours not rejected) */
+  items: { piecesNeeded: number; planned: number }[]
+  casts: CompletionCast[]
+  room: { tempC: number; humidityPct: number }
+}
+
+export type Completion
+  = | { kind: 'ready_by'; at: Date }
+    | { kind: 'not_planned'; notPlanned: number; ordered: number }
+    | { kind: 'never_dries' }
+    | { kind: 'all_ready' }
+
+const DRY = ['ready', 'packed', 'dispatched']
+
+/** When the last piece is expected ready to dispatch, or how many pieces are not planned yet. */
+export function jobCompletion(input: CompletionInput): Completion {
+  const ordered = input.items.reduce((s, i) => s + i.piecesNeeded, 0)
+  const notPlanned = input.items.reduce((s, i) => s + Math.max(0, i.piecesNeeded - i.planned), 0)
+  if (notPlanned > 0 || ordered === 0) return { kind: 'not_planned', notPlanned, ordered }
+  let last = 0
+  for (const c of input.casts) {
+    if (c.pieceState && DRY.includes(c.pieceState)) continue
+    if (c.dryBy) {
+      last = Math.max(last, c.dryBy.getTime())
+      continue
+    }
+    const out = (c.demouldedAt ?? c.demouldOpenAt).getTime() + FETTLING_ALLOWANCE_HOURS * HOUR_MS
+    const dry = finishingDryBy({
+      from: new Date(out), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres,
+      airTempC: input.room.tempC, relHumidityPct: input.room.humidityPct,
+    })
+    if (!dry.dryBy) return { kind: 'never_dries' }
+    last = Math.max(last, dry.dryBy.getTime())
+  }
+  return last ? { kind: 'ready_by', at: new Date(last) } : { kind: 'all_ready' }
+}

@@ -1,0 +1,93 @@
+/**
+ * Field names in the words a person sees. Schemas and the plaster model name fields as the
+ * code does (waterTempC, walls[4].lengthM) so forms can put a message beside its input; every
+ * message a person reads goes through `inUserWords`, which puts the form's label in place of
+ * the name (Water temperature, Wall 5, Shortest piece) and says "is required" for an empty
+ * required field. Used by the server's one 422 (server/utils/errors.ts) and by the forms'
+ * own check (app/composables/useFormErrors.ts). Pure.
+ */
+
+/** The label of each field name, as the forms show it (the unit beside it left out). */
+export const FIELD_LABELS: Record<string, string> = {
+  waterTempC: 'Water temperature',
+  powderTempC: 'Powder temperature',
+  slurryTempC: 'Slurry temperature',
+  shopTempC: 'Shop temperature',
+  defaultShopTempC: 'Usual shop temperature',
+  consistency: 'Consistency',
+  plasterKg: 'Plaster weight',
+  waterKg: 'Water weight',
+  cavityLitres: 'Cavity',
+  wastePct: 'Waste allowance',
+  setFactor: 'Set factor',
+  maxDwellMinutes: 'Longest time in the mould',
+  prepMinutes: 'Preparation time',
+  cleanMinutes: 'Cleaning time',
+  minPieceM: 'Shortest piece',
+  castLengthM: 'Cast length',
+  sparesPct: 'Spares',
+  runM: 'Run length',
+  piecesNeeded: 'Quantity',
+  lotId: 'Plaster lot',
+  gradeId: 'Plaster grade',
+  mouldId: 'Mould',
+  jobItemId: 'Job item',
+  casterId: 'Caster',
+  benchId: 'Bench',
+  slotStart: 'Start',
+  useBy: 'Use by',
+  receivedOn: 'Received on',
+  bagKg: 'Bag weight',
+  bagsReceived: 'Bags received',
+  lotCode: 'Lot code',
+  humidityPct: 'Humidity',
+  tempC: 'Temperature',
+  dryingTempC: 'Room temperature',
+  dryingHumidityPct: 'Room humidity',
+  expectedPulls: 'Expected pulls',
+  dueOn: 'Due on',
+}
+
+const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)
+
+/**
+ * The label of a field path: 'waterTempC' → 'Water temperature', 'walls.4.lengthM' or
+ * 'walls[4].lengthM' → 'Wall 5', 'walls.4' → 'Wall 5'; a name without a label stays as it is.
+ */
+export function fieldLabel(path: string): string {
+  const s = segments(path)
+  const wall = s.indexOf('walls')
+  if (wall >= 0 && /^\d+$/.test(s[wall + 1] ?? '')) return `Wall ${Number(s[wall + 1]) + 1}`
+  if (s[0] === 'walls' && s.length === 1) return 'Walls'
+  for (let i = s.length - 1; i >= 0; i--) {
+    const label = FIELD_LABELS[s[i]!]
+    if (label) return label
+  }
+  return path
+}
+
+const NAME = /walls(?:\[\d+\]|\.\d+)(?:\.lengthM)?|\b[a-z]+[A-Z][A-Za-z]*\b/g
+
+/**
+ * A message in the user's words: code names (camelCase names anywhere, a plain name such as
+ * 'consistency' only where it leads the message) become their labels; an empty required field
+ * says it is required. `value` is what was sent for the field, when known.
+ */
+export function inUserWords(field: string, message: string, value?: unknown, known = false): string {
+  const label = fieldLabel(field)
+  if (known && (value === undefined || value === null || value === '') && label !== field) return `${label} is required`
+  let out = message.replace(NAME, m => (m.startsWith('walls') || FIELD_LABELS[m] ? fieldLabel(m) : m))
+  const lead = out.match(/^([a-z]+)\b/)?.[1]
+  if (lead && FIELD_LABELS[lead]) out = FIELD_LABELS[lead] + out.slice(lead.length)
+  return out
+}
+
+/** The value at a dotted field path in a request body, for inUserWords. */
+export function valueAt(body: unknown, path: (string | number | symbol)[]): unknown {
+  let v = body
+  for (const k of path) {
+    if (v === null || typeof v !== 'object') return undefined
+    v = (v as Record<string, unknown>)[String(k)]
+  }
+  return v
+}

@@ -1,0 +1,36 @@
+import { describe, expect, it } from 'vitest'
+import { FETTLING_ALLOWANCE_HOURS, jobCompletion, type CompletionCast } from '#shared/utils/client-completion'
+import { finishingDryBy } from '#shared/utils/finishing'
+
+// The drying hours come from finishingDryBy (Carrier's equation as in the ASHRAE Handbook,
+// tested in plaster-drying.test.ts); these checks are about which cast sets the date.
+const room = { tempC: 18, humidityPct: 60 }
+const at = (h: number) => new Date(Date.UTC(2027, 4, 3, 8) + h * 3_600_000)
+const cast = (over: Partial<CompletionCast> = {}): CompletionCast => ({
+  pieceState: null, dryBy: null, demouldedAt: null, demouldOpenAt: at(0), wetMassKg: 4.4, dryMassKg: 3.4, cavityLitres: 2.5, ...over,
+})
+
+describe('jobCompletion', () => {
+  it('gives no date while a piece is not planned, and says how many', () => {
+    const r = jobCompletion({ items: [{ piecesNeeded: 18, planned: 8 }, { piecesNeeded: 2, planned: 3 }], casts: [cast()], room })
+    expect(r).toEqual({ kind: 'not_planned', notPlanned: 10, ordered: 20 })
+  })
+
+  it('once all are planned, the last cast out plus fettling plus its drying estimate', () => {
+    const r = jobCompletion({ items: [{ piecesNeeded: 2, planned: 2 }], casts: [cast(), cast({ demouldOpenAt: at(30) })], room })
+    const last = finishingDryBy({ from: at(30 + FETTLING_ALLOWANCE_HOURS), wetMassKg: 4.4, dryMassKg: 3.4, cavityLitres: 2.5, airTempC: 18, relHumidityPct: 60 })
+    expect(r).toEqual({ kind: 'ready_by', at: last.dryBy })
+    // days of drying after the last demould, not the demould itself
+    expect(last.dryBy!.getTime() - at(30).getTime()).toBeGreaterThan(24 * 3_600_000)
+  })
+
+  it('uses a piece\'s own dry-by, skips pieces already dry, and when all are dry says so', () => {
+    const r = jobCompletion({ items: [{ piecesNeeded: 2, planned: 2 }], casts: [cast({ pieceState: 'drying', dryBy: at(500), demouldedAt: at(1) }), cast({ pieceState: 'ready', demouldedAt: at(900) })], room })
+    expect(r).toEqual({ kind: 'ready_by', at: at(500) })
+    expect(jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [cast({ pieceState: 'packed' })], room })).toEqual({ kind: 'all_ready' })
+  })
+
+  it('says it cannot tell in saturated air', () => {
+    expect(jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [cast()], room: { tempC: 18, humidityPct: 100 } })).toEqual({ kind: 'never_dries' })
+  })
+})
