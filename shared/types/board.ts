@@ -1,5 +1,8 @@
 // The board's data as GET /api/board returns it (the contract shared by the board page and
 // the pours routes). Instants are ISO strings, days 'YYYY-MM-DD'.
+/** The board's views: the shift day, and the working days of one or two weeks in shift hours. */
+export type BoardView = 'day' | 'week' | 'fortnight'
+
 export type PourState = 'planned' | 'mixing' | 'setting' | 'demoulded' | 'void'
 
 export interface PourDto {

@@ -1,5 +1,8 @@
-// Browser journey on the pour board: the lead creates a pour on an empty slot, drags it
-// to another mould, is refused a clash, then runs the planner and accepts its plan.
+// Browser journeys on the pour board: the lead creates a pour on an empty slot, drags it
+// to another mould, is refused a clash, then runs the planner and accepts its plan; plans a
+// week in the week view (working days, shift hours, kept in the URL), previews the planner
+// over it, pages the board forward and back and accepts exactly what was previewed; and
+// reads the refusal that names the proposal which can no longer be placed.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Locator, Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
@@ -64,7 +67,93 @@ async function selectByText(select: Locator, text: string) {
   await select.selectOption(value!)
 }
 
+const addDays = (day: string, n: number) => new Date(Date.parse(`${day}T12:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10)
+
+interface Previewed { jobItemId: number; mouldId: number; mouldCode: string; jobCode: string; slotStart: string }
+
+async function signedInBoard(query: string) {
+  const lead = DEMO_USERS.find(u => u.key === 'lead')!
+  const page = await browser.context.newPage()
+  await signInThroughForm(page, base, lead.email, DEMO_PASSWORD)
+  await page.goto(`${base}/lead/board?${query}`)
+  await page.getByRole('heading', { level: 1, name: 'Pour board' }).waitFor()
+  return page
+}
+
+/** Previews the planner over from..to and returns the proposals the server answered with. */
+async function previewPlan(page: Page, from: string, to: string) {
+  await page.locator('#plan-from').fill(from)
+  await page.locator('#plan-to').fill(to)
+  const answer = page.waitForResponse(r => r.url().endsWith('/api/planner/preview'))
+  await page.getByRole('button', { name: 'Preview plan' }).click()
+  const body = await (await answer).json() as { pours: Previewed[] }
+  await expect.poll(async () => (await page.getByTestId('plan-summary').textContent().catch(() => '')) ?? '', { timeout: 20_000 }).toMatch(/\d+ pours proposed/)
+  return body.pours
+}
+
 describe('pour board', () => {
+  it('plans a week: working days in shift hours, kept in the URL, planner accepted after paging', async () => {
+    const monday = addDays(quietMonday(), 7)
+    const page = await signedInBoard(`view=week&date=${monday}`)
+    await page.setViewportSize({ width: 1280, height: 900 })
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}"]`).first().waitFor()
+    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
+    // the demo works Monday to Friday from 07:30 to 16:00: no weekend and no night columns
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 5)}"]`).count()).toBe(0)
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}T07:00"]`).count()).toBe(1)
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}T03:00"]`).count()).toBe(0)
+    // the whole week fits 1280 px: no lane scrolls sideways
+    const sideways = await page.locator('.setline-board .fc-scroller').evaluateAll(els => els.some(el => el.scrollWidth > el.clientWidth + 1))
+    expect(sideways).toBe(false)
+    await screenshot(page, 'board-week-1280')
+
+    // a reload opens the same board
+    await page.reload()
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}"]`).first().waitFor()
+    expect(await page.locator('#board-date').inputValue()).toBe(monday)
+    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
+
+    // the planner over the working week; then the board pages forward and back
+    const proposals = await previewPlan(page, monday, addDays(monday, 4))
+    expect(proposals.length).toBeGreaterThan(0)
+    const summary = await page.getByTestId('plan-summary').textContent()
+    await page.getByRole('button', { name: 'Later' }).click()
+    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(addDays(monday, 7))
+    await page.getByRole('button', { name: 'Earlier' }).click()
+    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(monday)
+    expect(await page.locator('#plan-from').inputValue()).toBe(monday)
+    expect(await page.locator('#plan-to').inputValue()).toBe(addDays(monday, 4))
+    expect(await page.getByTestId('plan-summary').textContent()).toBe(summary)
+    await page.getByRole('button', { name: 'Accept plan' }).click()
+    await expectMessage(page, new RegExp(`Plan accepted: ${proposals.length} pours written`))
+
+    // every previewed pour landed where it was previewed
+    const board = await (await page.request.get(`${base}/api/board?from=${monday}&to=${addDays(monday, 7)}`)).json() as { pours: { jobItemId: number; mouldId: number; slotStart: string }[] }
+    const landed = new Set(board.pours.map(p => `${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))
+    expect(proposals.filter(p => !landed.has(`${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))).toEqual([])
+    await screenshot(page, 'board-week-planned')
+    await page.close()
+  }, 120_000)
+
+  it('names the proposal that can no longer be placed and writes nothing', async () => {
+    const day = addDays(quietMonday(), 15)
+    const page = await signedInBoard(`view=day&date=${day}`)
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${day}"]`).first().waitFor()
+    const proposals = await previewPlan(page, day, day)
+    expect(proposals.length).toBeGreaterThan(0)
+    // someone else takes the first proposal's mould at its time meanwhile
+    const first = proposals[0]!
+    const taken = await page.request.post(`${base}/api/pours`, { headers: { origin: base }, data: { mouldId: first.mouldId, slotStart: first.slotStart } })
+    expect(taken.status()).toBe(201)
+    await page.getByRole('button', { name: 'Accept plan' }).click()
+    await expect.poll(async () => (await page.getByTestId('plan-error').textContent().catch(() => '')) ?? '', { timeout: 10_000 })
+      .toMatch(new RegExp(`^${first.jobCode} on ${first.mouldCode} at .+ can no longer be placed: This mould is already taken`))
+    const board = await (await page.request.get(`${base}/api/board?from=${day}&to=${day}`)).json() as { pours: unknown[] }
+    expect(board.pours).toHaveLength(1)
+    await screenshot(page, 'board-plan-refused')
+    await page.close()
+  }, 120_000)
+
   it('creates, drags, refuses a clash, plans and accepts', async () => {
     const lead = DEMO_USERS.find(u => u.key === 'lead')!
     const page = await browser.context.newPage()
@@ -96,7 +185,7 @@ describe('pour board', () => {
     await selectByText(page.getByLabel('Job item'), 'J-2603 · Scroll corbels')
     await page.getByRole('button', { name: 'Put on the board' }).click()
     await expectMessage(page, /Planned J-2603 on CB-12/)
-    await page.getByRole('button', { name: /Open pour J-2603 on CB-12/ }).click()
+    await page.getByRole('button', { name: /Move pour J-2603 on CB-12/ }).click()
     await selectByText(page.locator('#move-mould'), 'RS-05')
     await page.getByRole('button', { name: 'Move pour' }).click()
     await expect.poll(async () => await page.getByRole('dialog').getByRole('alert').textContent().catch(() => ''), { timeout: 10_000 }).toMatch(/taken|overlap/i)
