@@ -3,7 +3,7 @@
 // week in the week view (working days, shift hours, kept in the URL), previews the planner
 // over it, pages the board forward and back and accepts exactly what was previewed; and
 // reads the refusal that names the proposal which can no longer be placed.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import type { Locator, Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
@@ -16,6 +16,10 @@ beforeAll(async () => {
 })
 afterAll(async () => {
   await browser?.close()
+})
+// each journey signs in afresh: a session left from the one before would skip the sign-in form
+afterEach(async () => {
+  await browser?.context.clearCookies()
 })
 
 /**
@@ -134,6 +138,25 @@ describe('pour board', () => {
     await screenshot(page, 'board-week-planned')
     await page.close()
   }, 120_000)
+
+  it('Today lists what needs the lead, each line linking to where it is dealt with', async () => {
+    const lead = DEMO_USERS.find(u => u.key === 'lead')!
+    const page = await browser.context.newPage()
+    await signInThroughForm(page, base, lead.email, DEMO_PASSWORD)
+    await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor()
+    const links = page.locator('[data-testid="today-lines"] a')
+    await links.first().waitFor()
+    const hrefs = await links.evaluateAll(els => els.map(a => a.getAttribute('href') ?? ''))
+    for (const href of hrefs) expect(href).toMatch(/^\/(lead\/board\?view=day&date=\d{4}-\d{2}-\d{2}|lead\/jobs\/\d+|lead\/lots|lead\/moulds\/\d+|finishing|lead\/mails)$/)
+    // the demo's mould in repair: its line opens that mould
+    const repair = page.getByRole('link', { name: /Mould PM-33 is waiting for repair/ })
+    const href = await repair.getAttribute('href')
+    await screenshot(page, 'today')
+    await repair.click()
+    await page.waitForURL(`${base}${href}`)
+    await expect.poll(async () => (await page.getByRole('heading', { level: 1 }).textContent()) ?? '').toMatch(/PM-33/)
+    await page.close()
+  }, 60_000)
 
   it('names the proposal that can no longer be placed and writes nothing', async () => {
     const day = addDays(quietMonday(), 15)
