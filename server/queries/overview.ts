@@ -91,7 +91,7 @@ export async function overviewToday(workshopId: number, db = useDb()): Promise<T
     workshopId, lookback: LOOKBACK_DAYS, dueSoon: DUE_SOON_DAYS, shortBags: SHORT_BAGS, lifeFraction: MOULD_LIFE_FLAG_FRACTION,
   })).rows[0]
   if (!r) notFound('Workshop')
-  const when = (iso: string) => `${boardLocalDay(new Date(iso), r.timezone)} ${boardClock(new Date(iso), r.timezone)}`
+  const when = (iso: string) => boardClock(new Date(iso), r.timezone)
   const board = (day: string) => `/lead/board?view=day&date=${day}`
   const lines: TodayLine[] = [
     ...r.missed.map(p => ({ kind: 'missed-start' as const, at: new Date(p.start).toISOString(), to: board(p.day),

@@ -96,49 +96,6 @@ async function previewPlan(page: Page, from: string, to: string) {
 }
 
 describe('pour board', () => {
-  it('plans a week: working days in shift hours, kept in the URL, planner accepted after paging', async () => {
-    const monday = addDays(quietMonday(), 7)
-    const page = await signedInBoard(`view=week&date=${monday}`)
-    await page.setViewportSize({ width: 1280, height: 900 })
-    await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}"]`).first().waitFor()
-    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
-    // the demo works Monday to Friday from 07:30 to 16:00: no weekend and no night columns
-    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 5)}"]`).count()).toBe(0)
-    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}T07:00"]`).count()).toBe(1)
-    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}T03:00"]`).count()).toBe(0)
-    // the whole week fits 1280 px: no lane scrolls sideways
-    const sideways = await page.locator('.setline-board .fc-scroller').evaluateAll(els => els.some(el => el.scrollWidth > el.clientWidth + 1))
-    expect(sideways).toBe(false)
-    await screenshot(page, 'board-week-1280')
-
-    // a reload opens the same board
-    await page.reload()
-    await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}"]`).first().waitFor()
-    expect(await page.locator('#board-date').inputValue()).toBe(monday)
-    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
-
-    // the planner over the working week; then the board pages forward and back
-    const proposals = await previewPlan(page, monday, addDays(monday, 4))
-    expect(proposals.length).toBeGreaterThan(0)
-    const summary = await page.getByTestId('plan-summary').textContent()
-    await page.getByRole('button', { name: 'Later' }).click()
-    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(addDays(monday, 7))
-    await page.getByRole('button', { name: 'Earlier' }).click()
-    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(monday)
-    expect(await page.locator('#plan-from').inputValue()).toBe(monday)
-    expect(await page.locator('#plan-to').inputValue()).toBe(addDays(monday, 4))
-    expect(await page.getByTestId('plan-summary').textContent()).toBe(summary)
-    await page.getByRole('button', { name: 'Accept plan' }).click()
-    await expectMessage(page, new RegExp(`Plan accepted: ${proposals.length} pours written`))
-
-    // every previewed pour landed where it was previewed
-    const board = await (await page.request.get(`${base}/api/board?from=${monday}&to=${addDays(monday, 7)}`)).json() as { pours: { jobItemId: number; mouldId: number; slotStart: string }[] }
-    const landed = new Set(board.pours.map(p => `${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))
-    expect(proposals.filter(p => !landed.has(`${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))).toEqual([])
-    await screenshot(page, 'board-week-planned')
-    await page.close()
-  }, 120_000)
-
   it('Today lists what needs the lead, each line linking to where it is dealt with', async () => {
     const lead = DEMO_USERS.find(u => u.key === 'lead')!
     const page = await browser.context.newPage()
@@ -210,7 +167,7 @@ describe('pour board', () => {
     await expectMessage(page, /Planned J-2603 on CB-12/)
     await page.getByRole('button', { name: /Move pour J-2603 on CB-12/ }).click()
     await selectByText(page.locator('#move-mould'), 'RS-05')
-    await page.getByRole('button', { name: 'Move pour' }).click()
+    await page.getByRole('button', { name: 'Move pour', exact: true }).click()
     await expect.poll(async () => await page.getByRole('dialog').getByRole('alert').textContent().catch(() => ''), { timeout: 10_000 }).toMatch(/taken|overlap/i)
     await screenshot(page, 'board-clash-refused')
     await page.getByRole('button', { name: 'Close' }).click()
@@ -232,6 +189,67 @@ describe('pour board', () => {
     await page.getByRole('heading', { level: 1, name: new RegExp(`Day sheet ${day}`) }).waitFor()
     await expect(page.getByTestId('requisition').textContent()).resolves.toMatch(/\d+ × 25 kg/)
     await screenshot(page, 'day-sheet')
+    await page.close()
+  }, 120_000)
+  it('plans a week: working days in shift hours, kept in the URL, planner accepted after paging', async () => {
+    const monday = addDays(quietMonday(), 7)
+    const page = await signedInBoard(`view=week&date=${monday}`)
+    await page.setViewportSize({ width: 1280, height: 900 })
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}"]`).first().waitFor()
+    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
+    // the demo works Monday to Friday from 07:30 to 16:00: no weekend and no night columns
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 5)}"]`).count()).toBe(0)
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}T07:00"]`).count()).toBe(1)
+    expect(await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}T03:00"]`).count()).toBe(0)
+    // the whole week fits 1280 px: no lane scrolls sideways
+    const sideways = await page.locator('.setline-board .fc-scroller').evaluateAll(els => els.some(el => el.scrollWidth > el.clientWidth + 1))
+    expect(sideways).toBe(false)
+    await screenshot(page, 'board-week-1280')
+
+    // a reload opens the same board
+    await page.reload()
+    await page.locator(`.fc-timeline-slot-lane[data-date^="${addDays(monday, 4)}"]`).first().waitFor()
+    expect(await page.locator('#board-date').inputValue()).toBe(monday)
+    expect(await page.getByRole('button', { name: 'Week' }).getAttribute('aria-pressed')).toBe('true')
+
+    // the planner over the working week; then the board pages forward and back
+    const proposals = await previewPlan(page, monday, addDays(monday, 4))
+    expect(proposals.length).toBeGreaterThan(0)
+    const summary = await page.getByTestId('plan-summary').textContent()
+    await page.getByRole('button', { name: 'Later' }).click()
+    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(addDays(monday, 7))
+    await page.getByRole('button', { name: 'Earlier' }).click()
+    await expect.poll(() => page.locator('#board-date').inputValue()).toBe(monday)
+    expect(await page.locator('#plan-from').inputValue()).toBe(monday)
+    expect(await page.locator('#plan-to').inputValue()).toBe(addDays(monday, 4))
+    expect(await page.getByTestId('plan-summary').textContent()).toBe(summary)
+    await page.getByRole('button', { name: 'Accept plan' }).click()
+    await expectMessage(page, new RegExp(`Plan accepted: ${proposals.length} pours written`))
+
+    // every previewed pour landed where it was previewed
+    // (the board's wire form: t[0] is the slot's start in epoch ms)
+    const board = await (await page.request.get(`${base}/api/board?from=${monday}&to=${addDays(monday, 7)}`)).json() as { pours: { jobItemId: number; mouldId: number; t: number[] }[] }
+    const landed = new Set(board.pours.map(p => `${p.jobItemId}/${p.mouldId}/${p.t[0]}`))
+    expect(proposals.filter(p => !landed.has(`${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))).toEqual([])
+    await screenshot(page, 'board-week-planned')
+
+    // printed in black and white: the states differ by edge and word, not by colour alone
+    await page.emulateMedia({ media: 'print' })
+    // one bar dressed as each state in turn (the page is closed afterwards)
+    const looks = await page.locator('.fc-timeline-event.pour').evaluateAll(els => els.slice(0, 1).map((el) => {
+      const edge = (cls: string) => {
+        el.className = `fc-timeline-event pour ${cls}`
+        const cs = getComputedStyle(el)
+        return `${cs.borderTopStyle} ${cs.borderTopWidth} ${cs.backgroundColor}`
+      }
+      return { planned: edge('pour-planned'), mixing: edge('pour-mixing'), setting: edge('pour-setting'), overdue: edge('pour-setting pour-overdue') }
+    }))
+    const look = looks[0]!
+    expect(new Set(Object.values(look)).size).toBe(4)
+    // no fill colour in print: every state's bar is white paper
+    for (const v of Object.values(look)) expect(v).toMatch(/rgb\(255, 255, 255\)$/)
+    expect(await page.locator('.fc-timeline-event.pour .pour-state').first().textContent()).toMatch(/planned|mixing|setting|demoulded|overdue/)
+    await page.emulateMedia({ media: 'screen' })
     await page.close()
   }, 120_000)
 })
