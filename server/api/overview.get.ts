@@ -1,5 +1,5 @@
 import { overviewToday } from '../queries/overview'
-// The lead's "today": open jobs by due date, moulds by state, today's pours by state.
+// The lead's Today: what needs the lead now, each line linking to where it is dealt with.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   return overviewToday(actor.workshopId)

@@ -1,10 +1,11 @@
-// The board screen's read (GET /api/board): the workshop, benches, moulds, shop days, open job
-// items and casters in ONE query (json subselects) beside the range's pours, so the whole board
-// is two queries.
-import type { BoardData } from '#shared/types/board'
+// The board screen's read (GET /api/board) in ONE query and one round trip: the workshop,
+// benches, moulds, shop days, open job items, casters, and the range's pours in their lean
+// wire form (shared/types/board.ts BoardPourRow: ids, instants once as epoch ms) with the
+// names they refer to as lookup tables. PostgreSQL builds the pour objects as JSON, so the
+// server maps no pour row. Where a pour stands (missed start, overdue demould…) is worked out
+// when the row is expanded (shared/utils/board-lean.ts), against `now`, the server's clock. Measured by tests/bench/board.ts beside the raw SQL.
+import type { BoardData, BoardPourRow } from '#shared/types/board'
 import { COUNTED_POUR } from '../repos/planning'
-import { poursRepo } from '../repos/pours'
-import { pourDto } from '../services/pours'
 
 interface BoardContextRow {
   timezone: string
@@ -18,9 +19,17 @@ interface BoardContextRow {
   shop_days: { day: string; temp_c: number; humidity_pct: number }[]
   job_items: { id: number; job_id: number; job_code: string; description: string; mould_id: number | null; pieces_needed: number; pieces_planned: number; released: boolean }[]
   casters: { id: number; name: string }[]
+  pours: BoardPourRow[]
+  lookups: BoardData['lookups']
 }
 
-const SQL = `SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.units, w.default_shop_temp_c,
+/** The local days from..to (inclusive) in the workshop's zone. */
+const DAYS = `tstzrange((:from::date)::timestamp AT TIME ZONE w.timezone, ((:to::date) + 1)::timestamp AT TIME ZONE w.timezone)`
+const MS = (x: string) => `floor(extract(epoch FROM ${x}) * 1000)::bigint`
+
+const SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
+  rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
+SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.units, w.default_shop_temp_c,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
      FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,
   (SELECT coalesce(json_agg(json_build_object('id', m.id, 'code', m.code, 'casts', m.casts, 'bench_id', m.bench_id, 'bench_name', b.name,
@@ -36,19 +45,29 @@ const SQL = `SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.un
      FROM job_items i JOIN jobs j ON j.id = i.job_id AND j.workshop_id = w.id
      WHERE i.workshop_id = w.id AND j.state = 'open') AS job_items,
   (SELECT coalesce(json_agg(json_build_object('id', u.id, 'name', u.name) ORDER BY u.name), '[]')
-     FROM users u WHERE u.workshop_id = w.id AND u.role IN ('caster', 'lead') AND u.disabled_at IS NULL) AS casters
-  FROM workshops w WHERE w.id = :workshopId`
+     FROM users u WHERE u.workshop_id = w.id AND u.role IN ('caster', 'lead') AND u.disabled_at IS NULL) AS casters,
+  (SELECT coalesce(json_agg(json_build_object('id', p.id, 'version', p.version, 'mouldId', p.mould_id, 'jobItemId', p.job_item_id,
+       'casterId', p.caster_id, 'gradeId', p.grade_id, 'lotId', p.lot_id, 'state', p.state, 'isSample', p.is_sample,
+       'consistency', p.consistency, 'setFactor', p.set_factor,
+       't', json_build_array(${MS('lower(p.slot)')}, ${MS('upper(p.slot)')}, ${MS('p.mix_at')}, ${MS('p.demould_open_at')}, ${MS('p.demould_close_at')}),
+       'plasterKg', p.plaster_kg_planned, 'waterKg', p.water_kg_planned, 'warnings', p.warnings) ORDER BY lower(p.slot), p.id), '[]')
+     FROM rp p) AS pours,
+  json_build_object(
+    'jobs', (SELECT coalesce(json_object_agg(j.id, j.code), '{}') FROM jobs j WHERE j.workshop_id = w.id
+      AND j.id IN (SELECT i.job_id FROM job_items i JOIN rp ON rp.job_item_id = i.id WHERE i.workshop_id = w.id)),
+    'items', (SELECT coalesce(json_object_agg(i.id, json_build_object('jobId', i.job_id, 'description', i.description)), '{}') FROM job_items i
+      WHERE i.workshop_id = w.id AND i.id IN (SELECT job_item_id FROM rp)),
+    'grades', (SELECT coalesce(json_object_agg(g.id, g.name), '{}') FROM plaster_grades g WHERE g.workshop_id = w.id AND g.id IN (SELECT grade_id FROM rp)),
+    'people', (SELECT coalesce(json_object_agg(u.id, u.name), '{}') FROM users u WHERE u.workshop_id = w.id AND u.id IN (SELECT caster_id FROM rp))
+  ) AS lookups
+  FROM w`
 
 /** The board for the local days from..to; 404 when the workshop is gone. */
 export async function boardData(workshopId: number, from: string, to: string): Promise<BoardData> {
-  const db = useDb()
-  const [ctx, pours] = await Promise.all([
-    db.raw(SQL, { workshopId, from, to }).then(r => r.rows[0] as BoardContextRow | undefined),
-    poursRepo.inDays(db, workshopId, from, to),
-  ])
+  const ctx: BoardContextRow | undefined = (await useDb().raw(SQL, { workshopId, from, to })).rows[0]
   if (!ctx) notFound('Workshop')
-  const now = new Date()
   return {
+    now: Date.now(),
     workshop: {
       timezone: ctx.timezone, shiftStart: ctx.shift_start.slice(0, 5), shiftEnd: ctx.shift_end.slice(0, 5),
       workingDays: ctx.working_days.map(Number), units: ctx.units, defaultShopTempC: Number(ctx.default_shop_temp_c),
@@ -58,7 +77,8 @@ export async function boardData(workshopId: number, from: string, to: string): P
       id: Number(m.id), code: m.code, casts: m.casts, benchId: m.bench_id === null ? null : Number(m.bench_id), benchName: m.bench_name,
       state: m.state, pulls: m.pulls, expectedPulls: m.expected_pulls, lifeFlag: mouldLifeFlag(m.pulls, m.expected_pulls),
     })),
-    pours: pours.map(p => pourDto(p, now)),
+    pours: ctx.pours,
+    lookups: ctx.lookups,
     shopDays: ctx.shop_days.map(s => ({ day: s.day, tempC: Number(s.temp_c), humidityPct: Number(s.humidity_pct) })),
     jobItems: ctx.job_items.map(i => ({
       id: Number(i.id), jobId: Number(i.job_id), jobCode: i.job_code, description: i.description,

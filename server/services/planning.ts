@@ -1,6 +1,7 @@
 // Fill the board from open job items: the planner's input read from the database (preview),
 // and the lead's accepted proposal written in one transaction (accept).
 import type { Knex } from 'knex'
+import { H3Error } from 'h3'
 import type { Actor } from '../utils/auth'
 import type { WorkshopRow } from '../repos/workshops'
 import { planningRepo } from '../repos/planning'
@@ -71,6 +72,21 @@ export async function previewPlan(actor: Actor, range: { from: string; to: strin
   }
 }
 
+/** Adds `pourIndex` (the proposal refused) to a 4xx answer's data; other errors pass as they are. */
+async function withPourIndex<T>(index: () => number | null, fn: () => Promise<T>): Promise<T> {
+  try {
+    return await fn()
+  }
+  catch (e) {
+    const err = asHttpError(e)
+    const i = index()
+    if (i !== null && err instanceof H3Error && err.statusCode >= 400 && err.statusCode < 500) {
+      err.data = { ...(err.data as Record<string, unknown> | undefined), pourIndex: i }
+    }
+    throw err
+  }
+}
+
 export interface AcceptedPour { jobItemId: number; mouldId: number; slotStart: Date; casterId?: number | null }
 
 /** Writes the accepted pours, all or none: any refusal (an overlap above all) rolls back every one. */
@@ -84,17 +100,21 @@ export async function acceptPlan(actor: Actor, range: { from: string; to: string
     if (t < start || t >= end) unprocessable([{ field: `pours.${i}.slotStart`, message: `must fall between ${range.from} and ${range.to}` }])
   })
   let last: { id: number; start: Date; end: Date } | null = null
-  const created = await withOverlapAnswer(ws, () => last, () => db.transaction(async (trx) => {
+  // the proposal being written when a refusal comes: the board names it (job, mould, time)
+  let current: number | null = null
+  const created = await withPourIndex(() => current, () => withOverlapAnswer(ws, () => last, () => db.transaction(async (trx) => {
     // every mould of the plan locked up front, in id order, so two accepts cannot deadlock
     await poursRepo.lockMoulds(trx, ws.id, pours.map(p => p.mouldId))
-    for (const p of pours) {
+    for (const [i, p] of pours.entries()) {
+      current = i
+      last = null
       const write = await planPourRow(trx, ws, { jobItemId: p.jobItemId, mouldId: p.mouldId, slotStart: p.slotStart, casterId: p.casterId ?? null })
       last = { id: write.mould_id, start: write.slotStart, end: write.slotEnd }
       const pourId = await poursRepo.insert(trx, ws.id, actor.id, write)
       await poursRepo.event(trx, { workshopId: ws.id, pourId, type: 'pour.planned', actorId: actor.id, data: { planner: true, mouldId: write.mould_id, jobItemId: write.job_item_id, slotStart: write.slotStart, warnings: write.warnings } })
     }
     return pours.length
-  }))
+  })))
   emitToWorkshop(ws.id, { type: 'board.refreshed', id: ws.id })
   return { created }
 }

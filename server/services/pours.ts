@@ -10,7 +10,7 @@ import type { WorkshopRow } from '../repos/workshops'
 import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
-import { pourSituation } from '#shared/utils/pour-status'
+import { missedStartWarning, pourSituation } from '#shared/utils/pour-status'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
@@ -30,11 +30,6 @@ export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
     situation,
   }
-}
-
-/** The line a missed start leads the pour's warnings with (the board lists warnings). */
-function missedStartWarning(mixAt: Date, timezone: string) {
-  return `Missed start: never mixed; the mix was due at ${boardClock(mixAt, timezone)}. Re-plan or void it.`
 }
 
 /** What a pour is planned from; absent fields default from the job item, then the grade. */

@@ -1,6 +1,8 @@
 // The board's data as GET /api/board returns it (the contract shared by the board page and
 // the pours routes). Instants are ISO strings, days 'YYYY-MM-DD'.
 import type { PourSituation } from '../utils/pour-status'
+/** The board's views: the shift day, and the working days of one or two weeks in shift hours. */
+export type BoardView = 'day' | 'week' | 'fortnight'
 
 export type PourState = 'planned' | 'mixing' | 'setting' | 'demoulded' | 'void'
 
@@ -49,15 +51,53 @@ export interface BoardMould {
   lifeFlag: boolean
 }
 
+/**
+ * A pour on the board's wire form: ids only (names come once each from BoardData.lookups and
+ * the moulds and casters lists) and its instants once, as epoch milliseconds in `t`:
+ * [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt]. shared/utils/board-lean.ts
+ * expands it into a PourDto.
+ */
+export interface BoardPourRow {
+  id: number
+  version: number
+  mouldId: number
+  jobItemId: number | null
+  casterId: number | null
+  gradeId: number
+  lotId: number | null
+  state: PourState
+  isSample: boolean
+  consistency: number
+  setFactor: number
+  t: [number, number, number, number, number]
+  plasterKg: number
+  waterKg: number
+  warnings: string[]
+}
+
 export interface BoardData {
+  /** the server's clock when the board was read (ms): where each pour stands is judged against it */
+  now: number
   workshop: { timezone: string; shiftStart: string; shiftEnd: string; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number }
   benches: { id: number; name: string; sortOrder: number }[]
   moulds: BoardMould[]
-  pours: PourDto[]
+  pours: BoardPourRow[]
+  /** names the pours refer to, each sent once (keys are ids) */
+  lookups: {
+    jobs: Record<number, string>
+    items: Record<number, { jobId: number; description: string }>
+    grades: Record<number, string>
+    /** the casters the pours name */
+    people: Record<number, string>
+  }
   shopDays: { day: string; tempC: number; humidityPct: number }[]
   jobItems: { id: number; jobId: number; jobCode: string; description: string; mouldId: number | null; piecesNeeded: number; piecesPlanned: number; released: boolean }[]
+  /** active casters and leads: who a pour can be given to */
   casters: { id: number; name: string }[]
 }
+
+/** The board as its components read it: the pours expanded to PourDto. */
+export type BoardScreen = Omit<BoardData, 'pours'> & { pours: PourDto[] }
 
 /** A pour the planner proposes, shown on the board as a ghost bar until the lead accepts. */
 export interface ProposedPourView {
@@ -69,4 +109,27 @@ export interface ProposedPourView {
   demouldCloseAt: string
   jobCode: string
   itemDescription?: string
+}
+
+/**
+ * One line of the lead's Today: what needs the lead now, and where it is dealt with (`to`, a
+ * path in the app). `kind` groups the lines; `text` is the sentence shown; `at` the day or
+ * instant it concerns, when there is one.
+ */
+export type TodayLineKind = 'missed-start' | 'demould-overdue' | 'job-late' | 'lot' | 'mould' | 'finishing' | 'sample' | 'mail'
+
+export interface TodayLine {
+  kind: TodayLineKind
+  text: string
+  to: string
+  at: string | null
+}
+
+/** GET /api/overview: the lead's Today. */
+export interface TodayOverview {
+  workshop: string
+  timezone: string
+  now: string
+  lines: TodayLine[]
+  poursTodayByState: Record<string, number>
 }

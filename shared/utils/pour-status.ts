@@ -17,6 +17,7 @@
  * server moves the window to the real start of mixing, so the card does the same meanwhile.
  * Pure: no I/O, no framework import.
  */
+import { boardClock } from './board-rules'
 
 export type PourSituation = 'waiting' | 'mix_now' | 'missed_start' | 'mixing' | 'setting' | 'ready' | 'overdue_demould' | 'demoulded' | 'void'
 
@@ -85,4 +86,9 @@ export function pourWindowFromSteps<P extends { state: string; mixAt: string; de
   if (!Number.isFinite(shift)) return pour
   const move = (iso: string) => new Date(Date.parse(iso) + shift).toISOString()
   return { ...pour, mixAt: start.at, demouldOpenAt: move(pour.demouldOpenAt), demouldCloseAt: move(pour.demouldCloseAt) }
+}
+
+/** The line a missed start leads the pour's warnings with (the board lists warnings). */
+export function missedStartWarning(mixAt: Date | string, timezone: string) {
+  return `Missed start: never mixed; the mix was due at ${boardClock(new Date(ms(mixAt)), timezone)}. Re-plan or void it.`
 }

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
+import { expandBoardPours } from '../../shared/utils/board-lean'
 
 // April 2027 is BST (UTC+1): local 09:00 is 08:00Z. Days far from the demo's and other files'.
 const local = (day: string, hhmm: string) => `${day}T${hhmm}:00+01:00`
@@ -16,7 +17,12 @@ beforeAll(async () => {
 afterAll(closeTestDb)
 
 const post = (body: Record<string, unknown>) => call('/api/pours', { method: 'POST', cookie: lead, body })
-const board = (from: string, to: string, cookie = lead) => call(`/api/board?from=${from}&to=${to}`, { cookie })
+/** GET /api/board with its lean pours kept as `wire` and expanded as the board page does into `pours`. */
+const board = async (from: string, to: string, cookie = lead) => {
+  const r = await call(`/api/board?from=${from}&to=${to}`, { cookie })
+  if (r.status === 200) r.data = { ...r.data, wire: r.data.pours, pours: expandBoardPours(r.data) }
+  return r
+}
 
 describe('GET /api/board', () => {
   it('returns the calendar, benches, moulds, the range\'s non-void pours, items and casters', async () => {
@@ -36,7 +42,16 @@ describe('GET /api/board', () => {
     expect(r.data.benches).toContainEqual({ id: fx.benchId, name: expect.any(String), sortOrder: 90 })
     const mine = r.data.pours.filter((p: { mouldId: number }) => p.mouldId === mouldId)
     expect(mine.map((p: { id: number }) => p.id)).toEqual([inside.id])
+    // the expanded lean row is exactly the pour the write route answered with
     expect(mine[0]).toEqual({ ...inside, overdue: false, situation: 'waiting' })
+    // on the wire: ids and one array of epoch ms, the names once in the lookups
+    const wire = r.data.wire.find((p: { id: number }) => p.id === inside.id)
+    expect(wire).not.toHaveProperty('mouldCode')
+    expect(wire).not.toHaveProperty('jobCode')
+    expect(wire.t).toEqual([inside.slotStart, inside.slotEnd, inside.mixAt, inside.demouldOpenAt, inside.demouldCloseAt].map(Date.parse))
+    expect(r.data.lookups.jobs[job]).toBe(inside.jobCode)
+    expect(r.data.lookups.items[item]).toEqual({ jobId: job, description: inside.itemDescription })
+    expect(r.data.lookups.people[fx.casterId]).toBe(fx.casterName)
     const moulds = new Map(r.data.moulds.map((m: { id: number }) => [m.id, m]))
     expect(moulds.get(mouldId)).toMatchObject({ benchId: fx.benchId, state: 'ready', pulls: 0, expectedPulls: 100, lifeFlag: false })
     expect(moulds.get(worn)).toMatchObject({ lifeFlag: true })
@@ -182,5 +197,69 @@ describe('day sheet', () => {
     const bad = await call('/api/day-sheet?day=20-04-2027', { cookie: lead })
     expect(bad.status).toBe(422)
     expect(bad.data.data.problems[0].field).toBe('query.day')
+  })
+})
+
+describe('GET /api/overview (Today)', () => {
+  interface Line { kind: string; text: string; to: string; at: string | null }
+  const today = async () => {
+    const r = await call('/api/overview', { cookie: lead })
+    expect(r.status).toBe(200)
+    return r.data as { workshop: string; timezone: string; lines: Line[]; poursTodayByState: Record<string, number> }
+  }
+  const lineWith = (lines: Line[], text: string) => lines.find(l => l.text.includes(text))
+
+  it('lists what needs the lead now, each line linking to where it is dealt with', async () => {
+    const mouldId = await fx.mould({ max_dwell_minutes: 600 })
+    const mouldCode = (await fx.k('moulds').where({ id: mouldId }).first('code')).code as string
+    const job = await fx.job({ due_on: '2027-04-01' })
+    const jobCode = (await fx.k('jobs').where({ id: job }).first('code')).code as string
+    const item = await fx.item(job, mouldId, { pieces_needed: 2 })
+    // a pour that should have started three hours ago, still planned
+    const missed = (await post({ mouldId, slotStart: new Date(Date.now() - 3 * 3_600_000).toISOString(), jobItemId: item })).data
+    // a pour on the board after the job's due date: projected late
+    await post({ mouldId, slotStart: local('2027-04-05', '09:00'), jobItemId: item })
+    const settingMould = await fx.mould()
+    const setting = (await post({ mouldId: settingMould, slotStart: '2026-01-05T09:00:00Z' })).data
+    await fx.k('pours').where({ id: setting.id }).update({ state: 'setting' })
+    const repair = await fx.mould({ state: 'repair' })
+    const worn = await fx.mould({ pulls: 96, expected_pulls: 100 })
+    const stale = await fx.lot({ use_by: '2026-01-02' })
+    const short = await fx.lot({ bags_received: 1 })
+    const healthy = await fx.lot({ use_by: '2999-01-01' })
+    const sample = await fx.job({ sample_required: true, sample_state: 'changes_requested' })
+
+    const { lines } = await today()
+    const missedLine = lineWith(lines, `${jobCode} on ${mouldCode} missed its start`)
+    expect(missedLine).toMatchObject({ kind: 'missed-start', at: missed.slotStart })
+    const localDay = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/London' }).format(new Date(missed.slotStart))
+    expect(missedLine!.to).toBe(`/lead/board?view=day&date=${localDay}`)
+    const settingCode = (await fx.k('moulds').where({ id: settingMould }).first('code')).code as string
+    expect(lines.find(l => l.kind === 'demould-overdue' && l.text.includes(`on ${settingCode}`)))
+      .toMatchObject({ to: '/lead/board?view=day&date=2026-01-05' })
+    expect(lineWith(lines, `${jobCode} projected late`)).toMatchObject({ kind: 'job-late', to: `/lead/jobs/${job}`, at: '2027-04-05' })
+    expect(lineWith(lines, `${jobCode} projected late`)!.text).toContain('due 2027-04-01, last demould on the board 2027-04-05')
+    const lotCode = async (id: number) => (await fx.k('plaster_lots').where({ id }).first('lot_code')).lot_code as string
+    expect(lineWith(lines, `Lot ${await lotCode(stale)} is past its use-by`)).toMatchObject({ kind: 'lot', to: '/lead/lots' })
+    // one bag of 25 kg received, nothing used: under the two bags' worth Today warns at
+    expect(lineWith(lines, `Lot ${await lotCode(short)} is running short: 25 kg left`)).toMatchObject({ kind: 'lot' })
+    expect(lineWith(lines, `Lot ${await lotCode(healthy)}`)).toBeUndefined()
+    const mouldCodeOf = async (id: number) => (await fx.k('moulds').where({ id }).first('code')).code as string
+    expect(lineWith(lines, `Mould ${await mouldCodeOf(repair)} is waiting for repair`)).toMatchObject({ kind: 'mould', to: `/lead/moulds/${repair}` })
+    expect(lineWith(lines, `Mould ${await mouldCodeOf(worn)} is near the end of its life: 96 of 100 pulls`)).toMatchObject({ to: `/lead/moulds/${worn}` })
+    const sampleCode = (await fx.k('jobs').where({ id: sample }).first('code')).code as string
+    expect(lineWith(lines, `${sampleCode}: the client asked for changes`)).toMatchObject({ kind: 'sample', to: `/lead/jobs/${sample}` })
+
+    // cast on time: the missed-start line goes
+    await fx.k('pours').where({ id: missed.id }).update({ state: 'mixing' })
+    expect(lineWith((await today()).lines, `${jobCode} on ${mouldCode} missed its start`)).toBeUndefined()
+  })
+
+  it('shows nothing of another workshop, and only to the lead', async () => {
+    const other = await makeOtherWorkshop()
+    await fx.k('moulds').insert({ workshop_id: other.workshopId, code: 'OTHER-REPAIR', casts: 'x', material: 'silicone', cavity_litres: 1, state: 'repair' })
+    expect((await today()).lines.some(l => l.text.includes('OTHER-REPAIR'))).toBe(false)
+    const caster = await signIn(demo.caster1.email, DEMO_PASSWORD)
+    expect((await call('/api/overview', { cookie: caster })).status).toBe(403)
   })
 })

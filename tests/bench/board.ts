@@ -3,7 +3,13 @@
  * PostgreSQL (lib/app.ts) with a synthetic workshop of 60 moulds on 6 benches and 1,500 pours
  * over 14 days; the built server (run `npm test` or `npx nuxt build` first) answers GET
  * /api/board for the 14 days, timed beside the raw SQL that reads the same pour rows. Prints
- * p50/p95 and the ratio (target: within 2x of raw SQL, p95 under 30 ms); never asserts.
+ * p50/p95 and the ratio (target: within 1.5x of raw SQL at p95, p95 at most 30 ms). Then in
+ * Debian's chromium (tests/setup/browser.ts): the first pour bar drawn on /lead/board (week
+ * view of the seeded week) at 4x CPU slowdown (CDP Emulation.setCPUThrottlingRate), the time
+ * from navigation start read from the page's performance clock, median of 3 cold loads; and
+ * a live change reaching another open board: a PATCH moves one pour and the bar's position
+ * is watched in the page (MutationObserver), measured from just before the PATCH is sent to
+ * the bar moving, so it includes the request, the commit and the socket event. Never asserts.
  */
 import { performance } from 'node:perf_hooks'
 import { randomUUID } from 'node:crypto'
@@ -15,6 +21,7 @@ import { GRADE_PRESETS } from '#shared/utils/plaster'
 import { benchDatabase, signIn, startBenchServer, type BenchServer } from './lib/app'
 import { percentile } from './lib/stats'
 import { record } from './lib/results'
+import { openBrowser } from '../setup/browser'
 
 const RUNS = 40
 const FROM = '2027-03-01'
@@ -82,15 +89,73 @@ async function main() {
     await k.destroy()
     const [a50, a95, s50, s95] = [percentile(api, 50), percentile(api, 95), percentile(sql, 50), percentile(sql, 95)]
     console.log(`board data, 60 moulds x 14 days: ${pours} pours seeded, ${rows} returned; ${RUNS} timed requests after 5 warm-ups`)
-    console.log(`  GET /api/board  p50 ${a50.toFixed(1)} ms  p95 ${a95.toFixed(1)} ms   (target p95 < 30 ms)`)
+    console.log(`  GET /api/board  p50 ${a50.toFixed(1)} ms  p95 ${a95.toFixed(1)} ms   (target p95 ≤ 30 ms)`)
     console.log(`  raw SQL         p50 ${s50.toFixed(1)} ms  p95 ${s95.toFixed(1)} ms`)
-    console.log(`  ratio           p50 ${(a50 / s50).toFixed(2)}x   p95 ${(a95 / s95).toFixed(2)}x   (target within 2x)`)
-    record({ name: 'board data, 60 moulds × 14 days: p95', value: `${a95.toFixed(1)} ms`, target: '< 30 ms', met: a95 < 30, note: `p50 ${a50.toFixed(1)} ms` })
-    record({ name: 'board data vs raw SQL', value: `${(a50 / s50).toFixed(2)}× (p50), ${(a95 / s95).toFixed(2)}× (p95)`, target: '≤ 2×', met: a50 / s50 <= 2 && a95 / s95 <= 2, note: `raw SQL p50 ${s50.toFixed(1)} ms, p95 ${s95.toFixed(1)} ms` })
+    console.log(`  ratio           p50 ${(a50 / s50).toFixed(2)}x   p95 ${(a95 / s95).toFixed(2)}x   (target p95 within 1.5x)`)
+    record({ name: 'board data, 60 moulds × 14 days: p95', value: `${a95.toFixed(1)} ms`, target: '≤ 30 ms', met: a95 <= 30, note: `p50 ${a50.toFixed(1)} ms` })
+    record({ name: 'board data vs raw SQL', value: `${(a50 / s50).toFixed(2)}× (p50), ${(a95 / s95).toFixed(2)}× (p95)`, target: '≤ 1.5× at p95', met: a95 / s95 <= 1.5, note: `raw SQL p50 ${s50.toFixed(1)} ms, p95 ${s95.toFixed(1)} ms` })
+    await browserFigures(app.url, cookie, workshopId, db.url)
   }
   finally {
     await app?.stop()
     db.stop()
+  }
+}
+
+/** First bar at 4x CPU slowdown (median of 3) and the live patch from PATCH to bar moved. */
+async function browserFigures(base: string, cookie: string, workshopId: number, url: string) {
+  const browser = await openBrowser({ width: 1440, height: 900 })
+  try {
+    const [name, value] = cookie.split(';')[0]!.split('=') as [string, string]
+    await browser.context.addCookies([{ name, value, url: base }])
+    const firstBar: number[] = []
+    for (let i = 0; i < 3; i++) {
+      const page = await browser.context.newPage()
+      const cdp = await browser.context.newCDPSession(page)
+      await cdp.send('Network.setCacheDisabled', { cacheDisabled: true })
+      await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 })
+      await page.goto(`${base}/lead/board?view=week&date=${FROM}`)
+      await page.locator('[data-testid="pour-bar"]').first().waitFor({ timeout: 60_000 })
+      firstBar.push(await page.evaluate(() => performance.now()))
+      await page.close()
+    }
+    const med = [...firstBar].sort((a, b) => a - b)[1]!
+    console.log(`  first pour bar on /lead/board at 4x CPU slowdown: median ${(med / 1000).toFixed(2)} s of ${firstBar.map(x => (x / 1000).toFixed(2)).join(', ')} s   (target ≤ 1.5 s)`)
+    record({ name: 'first pour bar drawn, 4× CPU slowdown (median of 3)', value: `${(med / 1000).toFixed(2)} s`, target: '≤ 1.5 s', met: med <= 1500, note: `runs ${firstBar.map(x => (x / 1000).toFixed(2)).join(', ')} s` })
+
+    // the live patch: a second board open on the week, one pour moved by PATCH
+    const k = knex({ client: 'pg', connection: url, pool: { min: 1, max: 1 } })
+    const pour = await k('pours').where({ workshop_id: workshopId }).whereRaw('lower(slot) = ?::timestamptz', [`${FROM}T11:30:00Z`]).orderBy('id').first('id', 'version')
+    await k.destroy()
+    const page = await browser.context.newPage()
+    await page.goto(`${base}/lead/board?view=week&date=${FROM}`)
+    const bar = page.locator(`[data-testid="pour-bar"][data-pour-id="${pour.id}"]`)
+    await bar.waitFor()
+    await page.locator('[data-testid="live-status"][data-status="online"]').waitFor({ timeout: 10_000 })
+    await page.evaluate((id) => {
+      const harness = document.querySelector(`[data-pour-id="${id}"]`)!.closest('.fc-timeline-event-harness') as HTMLElement
+      const start = harness.style.left
+      const w = window as unknown as { movedAt?: number }
+      new MutationObserver(() => {
+        const now = document.querySelector(`[data-pour-id="${id}"]`)?.closest('.fc-timeline-event-harness') as HTMLElement | null
+        if (now && now.style.left !== start && !w.movedAt) w.movedAt = performance.timeOrigin + performance.now()
+      }).observe(document.querySelector('.setline-board')!, { subtree: true, attributes: true, childList: true })
+    }, pour.id)
+    const sentAt = performance.timeOrigin + performance.now()
+    const r = await fetch(`${base}/api/pours/${pour.id}`, {
+      method: 'PATCH', headers: { 'cookie': cookie, 'origin': base, 'content-type': 'application/json' },
+      body: JSON.stringify({ version: pour.version, slotStart: `${FROM}T13:30:00Z` }),
+    })
+    if (!r.ok) throw new Error(`the PATCH answered ${r.status}: ${await r.text()}`)
+    await page.waitForFunction(() => !!(window as unknown as { movedAt?: number }).movedAt, undefined, { timeout: 10_000 })
+    const movedAt = await page.evaluate(() => (window as unknown as { movedAt: number }).movedAt)
+    const patch = movedAt - sentAt
+    console.log(`  live pour change reaching another open board: ${patch.toFixed(0)} ms from PATCH sent to the bar moved (patched in place)`)
+    record({ name: 'live pour change → bar moved on another board', value: `${patch.toFixed(0)} ms`, note: 'from the PATCH being sent; includes the request, commit and socket event' })
+    await page.close()
+  }
+  finally {
+    await browser.close()
   }
 }
 

@@ -1,0 +1,37 @@
+// The board's lean wire form (GET /api/board) and its expansion into the PourDto every board
+// component reads. On the wire a pour carries ids only; names come once each from the lookup
+// tables (the moulds list; jobs, items, grades and people), and its five instants come once, as epoch
+// milliseconds in one array `t`: [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt].
+import type { BoardData, BoardPourRow, PourDto } from '../types/board'
+import { missedStartWarning, pourSituation } from './pour-status'
+
+const iso = (ms: number) => new Date(ms).toISOString()
+
+/** One lean row as the PourDto the routes that write pours answer with. */
+export function expandPour(data: Pick<BoardData, 'moulds' | 'lookups' | 'now' | 'workshop'>, p: BoardPourRow, names = boardNames(data)): PourDto {
+  // the one classification (pour-status.ts), as the write routes' pourDto applies it
+  const situation = pourSituation({ state: p.state, mixAt: iso(p.t[2]), demouldOpenAt: iso(p.t[3]), demouldCloseAt: iso(p.t[4]) }, data.now)
+  const item = p.jobItemId === null ? undefined : data.lookups.items[p.jobItemId]
+  const jobId = item?.jobId ?? null
+  return {
+    id: p.id, version: p.version, mouldId: p.mouldId, mouldCode: names.mould.get(p.mouldId) ?? '',
+    jobItemId: p.jobItemId, jobId, jobCode: jobId === null ? null : data.lookups.jobs[jobId] ?? null, itemDescription: item?.description ?? null,
+    casterId: p.casterId, casterName: p.casterId === null ? null : data.lookups.people[p.casterId] ?? null,
+    gradeId: p.gradeId, gradeName: data.lookups.grades[p.gradeId] ?? '', lotId: p.lotId,
+    state: p.state, isSample: p.isSample, consistency: p.consistency, setFactor: p.setFactor,
+    slotStart: iso(p.t[0]), slotEnd: iso(p.t[1]), mixAt: iso(p.t[2]), demouldOpenAt: iso(p.t[3]), demouldCloseAt: iso(p.t[4]),
+    plasterKg: p.plasterKg, waterKg: p.waterKg, warnings: situation === 'missed_start' ? [missedStartWarning(iso(p.t[2]), data.workshop.timezone), ...p.warnings] : p.warnings,
+    overdue: situation === 'overdue_demould', situation,
+  }
+}
+
+/** The name maps expandPour reads, built once per board. */
+export function boardNames(data: Pick<BoardData, 'moulds'>) {
+  return { mould: new Map(data.moulds.map(m => [m.id, m.code])) }
+}
+
+/** Every pour of the board as a PourDto. */
+export function expandBoardPours(data: BoardData): PourDto[] {
+  const names = boardNames(data)
+  return data.pours.map(p => expandPour(data, p, names))
+}
