@@ -208,3 +208,69 @@ export function calibrationFactor(
   if (ratios.length === 0) return { factor: 1, count: 0 }
   return { factor: median(ratios), count: ratios.length }
 }
+
+/**
+ * How long after the demould window opens a demould still counts as attended: half the
+ * predicted set time, at least 15 minutes (design choice). A caster at the bench tests the cast
+ * (a thumbnail scratch, the cast pulling from the mould) every few minutes once the window opens,
+ * so a demould inside that span is close to the moment the cast was ready; one taken later (a
+ * break, the end of a shift, overnight) says only that the cast was ready by then.
+ */
+export const CALIBRATION_ATTENDED = { minMinutes: 15, setShare: 0.5 } as const
+
+/** What the register knows of one demoulded pour, for calibration. Instants are Dates. */
+export interface CalibrationPour {
+  mixingAt: Date | null
+  demouldOpenAt: Date | null
+  demouldCloseAt: Date | null
+  demouldedAt: Date | null
+  /** the model's minutes from the start of mixing to demould-ready, at set factor 1 */
+  predictedMinutes: number | null
+  /** minutes of gauging before the set clock starts (POUR_MIX_MINUTES_DEFAULT on the floor) */
+  mixMinutes: number
+  /** the caster marked the demould as taken before the window (when the register records it) */
+  early?: boolean | null
+}
+
+/**
+ * One calibration sample from a demoulded pour, or null when it does not count. Both sides are
+ * the SET part only (from the end of mixing), since the factor scales the set and not the
+ * gauging minutes. It counts only when taken inside the attended window: not before the window
+ * opened (early: marked so, or derived from the times) and not later than the attended span
+ * after it (CALIBRATION_ATTENDED) nor after the window closed.
+ */
+export function calibrationSample(p: CalibrationPour): { predictedMinutes: number; actualMinutes: number } | null {
+  if (!p.mixingAt || !p.demouldOpenAt || !p.demouldedAt || p.predictedMinutes === null || p.early) return null
+  const predicted = p.predictedMinutes - p.mixMinutes
+  const actual = (p.demouldedAt.getTime() - p.mixingAt.getTime()) / 60_000 - p.mixMinutes
+  if (!Number.isFinite(predicted) || !Number.isFinite(actual) || predicted <= 0 || actual <= 0) return null
+  const afterOpen = (p.demouldedAt.getTime() - p.demouldOpenAt.getTime()) / 60_000
+  const span = Math.max(CALIBRATION_ATTENDED.minMinutes, CALIBRATION_ATTENDED.setShare * predicted)
+  if (afterOpen < 0 || afterOpen > span) return null
+  if (p.demouldCloseAt && p.demouldedAt.getTime() > p.demouldCloseAt.getTime()) return null
+  return { predictedMinutes: predicted, actualMinutes: actual }
+}
+
+/**
+ * The one calibration of a grade from its demoulded pours in register order (oldest first):
+ * the attended samples (calibrationSample) through calibrationFactor's median. `excluded` counts
+ * the pours left out (early, late or without times), so a screen can say what stands behind it.
+ */
+export function calibrationFromPours(pours: CalibrationPour[], options: { lastN?: number } = {}) {
+  const samples = pours.map(calibrationSample)
+  const kept = samples.filter(s => s !== null)
+  const { factor, count } = calibrationFactor(kept, options)
+  return { factor, count, excluded: samples.length - kept.length, samples: kept }
+}
+
+/** The set factor a grade's pours use: the factor a lead applied, else 1 (the bare model). */
+export function appliedSetFactor(calibration: { applied: boolean; appliedFactor: number | null } | null | undefined): number {
+  if (!calibration?.applied || !calibration.appliedFactor || !Number.isFinite(calibration.appliedFactor)) return 1
+  return calibration.appliedFactor
+}
+
+/** How a screen says where a set time comes from: "calibrated from N pours" or the bare model. */
+export function calibrationNote(calibration: { applied: boolean; appliedFactor: number | null; appliedCount: number } | null | undefined): string {
+  if (!calibration?.applied || !calibration.appliedFactor) return 'shop starting point, not calibrated'
+  return `calibrated from ${calibration.appliedCount} pour${calibration.appliedCount === 1 ? '' : 's'} (× ${calibration.appliedFactor.toFixed(2)})`
+}
