@@ -91,8 +91,8 @@ function windowWarnings(grade: PlasterGrade, c: number, t: number, setFactor: nu
     warnings.push(`Slurry at ${t.toFixed(1)} °C is above ${SLURRY_WARN_C.max} °C: gypsum sets slower again above about 40 °C and not at all near 100 °C.`)
   }
   const table = grade.temperatureFactors
-  if (t < table[0]![0] || t > table[table.length - 1]![0]) {
-    warnings.push(`Slurry at ${t.toFixed(1)} °C is outside the grade's temperature table; the nearest table value was used.`)
+  if (t < table[0]![0]) {
+    warnings.push(`Slurry at ${t.toFixed(1)} °C is below the grade's temperature table; the nearest table value was used.`)
   }
   if (c < grade.consistency.min || c > grade.consistency.max) {
     warnings.push(`Consistency ${c} is outside this grade's range ${grade.consistency.min}–${grade.consistency.max}.`)
@@ -107,7 +107,10 @@ function windowWarnings(grade: PlasterGrade, c: number, t: number, setFactor: nu
  * The demould window, minutes after end of mixing: opens at `demouldReadyMinutes`, closes
  * `maxDwellMinutes` later (a rubber mould can hold a cast for hours; a rigid or gelatine mould
  * cannot). Warns on slurry below 5 °C or above 40 °C, consistency outside the grade's range,
- * and a set factor outside 0.3–3.
+ * and a set factor outside 0.3–3; refuses slurry hotter than the table's last point. The
+ * opening is a shop starting point, shown as "about": 20–45 min for a beta casting plaster is
+ * common practice (ASTM C59's 10–50 min limits are for the powder's needle set, not for when a
+ * cast can leave its mould); the register's calibration is what makes it the shop's own.
  */
 export function demouldWindow(input: {
   grade: PlasterGrade
@@ -122,6 +125,12 @@ export function demouldWindow(input: {
   const t = assertPlasterNumber(i.slurryTempC, 'slurryTempC', PLASTER_LIMITS.slurryTempC)
   const setFactor = assertPlasterNumber(i.setFactor ?? 1, 'setFactor', PLASTER_LIMITS.setFactor)
   const dwell = assertPlasterNumber(i.maxDwellMinutes, 'maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
+  // Gypsum sets ever slower as it nears 100 °C (its solubility falls toward the hemihydrate's):
+  // no window is given past the table's hottest point rather than a flat extrapolation.
+  const hottest = grade.temperatureFactors[grade.temperatureFactors.length - 1]![0]
+  if (t > hottest) {
+    throw new PlasterInputError('slurryTempC', `The slurry would be at ${t.toFixed(1)} °C, above ${hottest} °C, the hottest point of this grade's temperature table: plaster sets slower and slower toward 100 °C and no demould time can be given. Use cooler water.`)
+  }
   const openMinutes = demouldReadyMinutes({ grade, consistency: c, slurryTempC: t, setFactor })
   return { openMinutes, closeMinutes: openMinutes + dwell, warnings: windowWarnings(grade, c, t, setFactor) }
 }
