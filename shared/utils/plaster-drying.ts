@@ -25,7 +25,11 @@ import { PLASTER_LIMITS, PlasterInputError, assertPlasterNumber, assertPlasterOb
  */
 export const PLASTER_DRYING_MAX_C = 49
 
-/** Within 0.5 % free water of its dry mass a cast counts as dry (common practice, no source). */
+/**
+ * Within 0.5 % free water of its computed dry mass (common practice, no source). Only a guide
+ * now: the computed dry mass is good to about 2 % (dryMassGuide), so the dry test is constant
+ * weight (constantWeight).
+ */
 export const PLASTER_DRY_FREE_WATER_PCT = 0.5
 
 /**
@@ -207,4 +211,65 @@ export function fallingRateFromWeighings(pieces: { estimatedHours: number; actua
   const median = ratios.length % 2 ? ratios[mid]! : (ratios[mid - 1]! + ratios[mid]!) / 2
   const { min, max } = PLASTER_LIMITS.fallingRateFactor
   return { factor: Math.min(max, Math.max(min, median)), count: ratios.length }
+}
+
+/**
+ * Dry by constant weight, the trade's own test (common practice; the figures are this model's
+ * choice): two weighings at least 24 hours apart that differ by no more than 0.1 % of the later
+ * one. Free water leaves a cast ever more slowly, so once a day in the drying room takes off no
+ * more than 0.1 % the cast is as dry as that room will make it. A gain beyond the tolerance
+ * (damp air) is not constant either. The computed dry mass is only a guide (dryMassGuide).
+ */
+export const PLASTER_CONSTANT_WEIGHT = { minHoursApart: 24, tolerancePct: 0.1 } as const
+
+/** Result of `constantWeight`: `changePct` is (earlier − later) ÷ later × 100 of the pair compared. */
+export interface PlasterConstantWeight {
+  isDry: boolean
+  changePct: number | null
+  hoursApart: number | null
+  message: string
+}
+
+/**
+ * Constant weight over a piece's weighings in one drying spell (any order): the latest weighing
+ * against the latest one at least `minHoursApart` before it.
+ */
+export function constantWeight(weighings: { kg: number; at: Date }[]): PlasterConstantWeight {
+  if (!Array.isArray(weighings)) throw new PlasterInputError('weighings', 'weighings must be an array')
+  const rows = weighings.map((w, n) => {
+    const o = assertPlasterObject(w, `weighings[${n}]`)
+    const kg = assertPlasterNumber(o.kg, `weighings[${n}].kg`, PLASTER_LIMITS.weighedKg)
+    if (!(o.at instanceof Date) || Number.isNaN(o.at.getTime())) throw new PlasterInputError(`weighings[${n}].at`, `weighings[${n}].at must be a time`)
+    return { kg, at: o.at.getTime() }
+  }).sort((a, b) => a.at - b.at)
+  const { minHoursApart, tolerancePct } = PLASTER_CONSTANT_WEIGHT
+  const last = rows.at(-1)
+  if (!last) return { isDry: false, changePct: null, hoursApart: null, message: 'Not weighed yet: weigh it, then again at least a day later.' }
+  const earlier = [...rows].reverse().find(r => last.at - r.at >= minHoursApart * 3_600_000)
+  if (!earlier) {
+    return { isDry: false, changePct: null, hoursApart: null, message: `Weigh it again at least ${minHoursApart} hours after an earlier weighing to show constant weight.` }
+  }
+  const changePct = ((earlier.kg - last.kg) / last.kg) * 100
+  const hoursApart = (last.at - earlier.at) / 3_600_000
+  const isDry = Math.abs(changePct) <= tolerancePct + 1e-12
+  const message = isDry
+    ? `Constant weight: ${changePct.toFixed(2)} % change over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
+    : `Still changing: ${changePct.toFixed(2)} % over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
+  return { isDry, changePct, hoursApart, message }
+}
+
+/**
+ * How far the computed dry mass can be trusted: ±2 %, the match of the model's dry densities to
+ * published ones; and it reads high when more plaster was gauged than the cast took (the batch
+ * less the usual waste is assumed to be in the cast). A guide beside the weighings, never the gate.
+ */
+export const PLASTER_DRY_MASS_UNCERTAINTY_PCT = 2
+
+export function dryMassGuide(dryMassKg: number): { kg: number; lowKg: number; highKg: number; label: string } {
+  const kg = assertPlasterNumber(dryMassKg, 'dryMassKg', PLASTER_LIMITS.dryMassKg)
+  const u = PLASTER_DRY_MASS_UNCERTAINTY_PCT / 100
+  return {
+    kg, lowKg: kg * (1 - u), highKg: kg * (1 + u),
+    label: `about ${kg.toFixed(2)} kg (± ${PLASTER_DRY_MASS_UNCERTAINTY_PCT} %, a guide only; weigh to constant weight)`,
+  }
 }

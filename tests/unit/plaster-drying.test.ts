@@ -3,6 +3,8 @@ import {
   PlasterInputError,
   dryingEstimate,
   dryingGuard,
+  constantWeight,
+  dryMassGuide,
   dryness,
   fallingRateFromWeighings,
   fToC,
@@ -134,6 +136,47 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
     expect(fieldOf(() => dryingEstimate({ ...ok, airSpeedMs: -0.1 }))).toBe('airSpeedMs')
     expect(fieldOf(() => dryingEstimate({ ...ok, airTempC: 60 }))).toBe('airTempC')
     expect(fieldOf(() => dryingEstimate({ ...ok, fallingRateFactor: 0.5 }))).toBe('fallingRateFactor')
+  })
+})
+
+describe('constantWeight (common practice: 0.1 % over at least 24 h, this model\'s choice)', () => {
+  const h = (hours: number) => new Date(Date.UTC(2027, 2, 1, 8) + hours * 3_600_000)
+
+  it('needs two weighings at least a day apart', () => {
+    expect(constantWeight([]).isDry).toBe(false)
+    expect(constantWeight([{ kg: 10, at: h(0) }]).isDry).toBe(false)
+    // the same weight 20 h apart is not yet proof
+    const soon = constantWeight([{ kg: 10, at: h(0) }, { kg: 10, at: h(20) }])
+    expect(soon).toMatchObject({ isDry: false, changePct: null })
+    expect(soon.message).toMatch(/24 hours/)
+  })
+
+  it('is dry within 0.1 % of the later weighing, not beyond, either way', () => {
+    // 10.009 → 10.000 kg over 24 h: 0.09 % (by hand)
+    expect(constantWeight([{ kg: 10.009, at: h(0) }, { kg: 10, at: h(24) }])).toMatchObject({ isDry: true, changePct: expect.closeTo(0.09, 9), hoursApart: 24 })
+    // 10.02 → 10.00 kg: 0.2 %, still drying
+    expect(constantWeight([{ kg: 10.02, at: h(0) }, { kg: 10, at: h(30) }]).isDry).toBe(false)
+    // took up 0.5 % in damp air: not constant
+    expect(constantWeight([{ kg: 9.95, at: h(0) }, { kg: 10, at: h(26) }]).isDry).toBe(false)
+  })
+
+  it('compares the latest weighing with the latest one a day before it, in any order', () => {
+    const w = [{ kg: 10, at: h(50) }, { kg: 10.5, at: h(0) }, { kg: 10.005, at: h(25) }, { kg: 10.2, at: h(20) }]
+    expect(constantWeight(w)).toMatchObject({ isDry: true, hoursApart: 25 }) // 10.005 at 25 h vs 10 at 50 h: 0.05 %
+  })
+
+  it('throws a named error on a bad weighing', () => {
+    expect(fieldOf(() => constantWeight([{ kg: -1, at: h(0) }]))).toBe('weighings[0].kg')
+    expect(fieldOf(() => constantWeight([{ kg: 1, at: new Date(Number.NaN) }]))).toBe('weighings[0].at')
+  })
+})
+
+describe('dryMassGuide', () => {
+  it('shows the computed dry mass with its 2 % uncertainty as a guide', () => {
+    const g = dryMassGuide(1.098) // the 1 L beta cast (derived in plaster-mix.test.ts)
+    expect(g.lowKg).toBeCloseTo(1.098 * 0.98, 12)
+    expect(g.highKg).toBeCloseTo(1.098 * 1.02, 12)
+    expect(g.label).toMatch(/about 1\.10 kg \(± 2 %, a guide only/)
   })
 })
 
