@@ -24,6 +24,10 @@ export interface GradeRow {
   calibration_factor: number | null
   calibration_count: number
   calibration_applied: boolean
+  calibration_applied_factor: number | null
+  calibration_applied_count: number
+  calibration_applied_at: Date | null
+  calibration_excluded: number
   notes: string | null
   archived_at: Date | null
   version: number
@@ -32,7 +36,8 @@ export interface GradeRow {
 
 export const GRADE_COLUMNS = ['id', 'name', 'preset_key', 'form', 'powder_density', 'consistency_min', 'consistency_max',
   'consistency_default', 'demould_minutes_ref', 'set_time_water_exponent', 'temperature_factors', 'hydration_heat',
-  'set_expansion_pct', 'purity', 'bag_kg', 'calibration_factor', 'calibration_count', 'calibration_applied', 'notes',
+  'set_expansion_pct', 'purity', 'bag_kg', 'calibration_factor', 'calibration_count', 'calibration_applied', 'calibration_applied_factor',
+  'calibration_applied_count', 'calibration_applied_at', 'calibration_excluded', 'notes',
   'archived_at', 'version', 'updated_at'] as const
 
 function gradeColumns(g: PlasterGrade) {
@@ -79,10 +84,21 @@ export const gradesRepo = {
   },
 }
 
-/** The grade's demould calibration, which each demoulded pour moves on (plaster-set.ts calibrationFactor). */
+/** The grade's demould calibration, which each demoulded pour moves on (plaster-set.ts calibrationFromPours). */
 export const gradeCalibrationRepo = {
-  async set(db: Knex, workshopId: number, gradeId: number, factor: number, count: number) {
+  async set(db: Knex, workshopId: number, gradeId: number, factor: number, count: number, excluded = 0) {
     await db('plaster_grades').where({ workshop_id: workshopId, id: gradeId })
-      .update({ calibration_factor: factor, calibration_count: count, updated_at: db.fn.now() })
+      .update({ calibration_factor: count ? factor : null, calibration_count: count, calibration_excluded: excluded, updated_at: db.fn.now() })
+  },
+  /**
+   * A lead applies the live factor (or withdraws it): the applied factor and its count are
+   * copied so later demoulds do not move what the board plans with until the lead applies again.
+   * Versioned like any edit of the grade.
+   */
+  apply(db: Knex, workshopId: number, id: number, version: number, apply: boolean): Promise<GradeRow> {
+    const patch = apply
+      ? { calibration_applied: true, calibration_applied_factor: db.ref('calibration_factor'), calibration_applied_count: db.ref('calibration_count'), calibration_applied_at: db.fn.now() }
+      : { calibration_applied: false, calibration_applied_factor: null, calibration_applied_count: 0, calibration_applied_at: null }
+    return updateVersioned<GradeRow>(db, 'plaster_grades', { workshopId, id, version }, patch, GRADE_COLUMNS, 'Plaster grade')
   },
 }

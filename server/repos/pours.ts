@@ -3,6 +3,7 @@
 import type { Knex } from 'knex'
 import type { PourState } from '#shared/types/board'
 import { recordEvent } from './events'
+import type { CalibrationPour } from '#shared/utils/plaster-set'
 
 export interface PourDtoRow {
   id: number
@@ -222,14 +223,15 @@ export const poursRepo = {
       .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() })
     return n === 1
   },
-  /** The grade's (predicted, actual) demould pairs in register order, oldest first. */
-  async calibrationPairs(db: Knex, workshopId: number, gradeId: number) {
-    const rows = await db('pours').select('predicted_demould_minutes', 'actual_demould_minutes')
-      .where({ workshop_id: workshopId, grade_id: gradeId }).whereNotNull('actual_demould_minutes').whereNotNull('predicted_demould_minutes')
-      // an early or late-attended demould does not measure the set time: only in-window ones calibrate
-      .where('demould_timing', 'in_window')
+  /** The grade's demoulded pours with the times calibration reads, in register order, oldest first. */
+  async calibrationPours(db: Knex, workshopId: number, gradeId: number): Promise<Omit<CalibrationPour, 'mixMinutes'>[]> {
+    const rows = await db('pours').select('mixing_at', 'demould_open_at', 'demould_close_at', 'demoulded_at', 'predicted_demould_minutes')
+      .where({ workshop_id: workshopId, grade_id: gradeId }).whereNotNull('demoulded_at').whereNotNull('predicted_demould_minutes')
       .orderBy([{ column: 'demoulded_at' }, { column: 'id' }])
-    return rows.map(r => ({ predictedMinutes: Number(r.predicted_demould_minutes), actualMinutes: Number(r.actual_demould_minutes) }))
+    return rows.map(r => ({
+      mixingAt: r.mixing_at, demouldOpenAt: r.demould_open_at, demouldCloseAt: r.demould_close_at, demouldedAt: r.demoulded_at,
+      predictedMinutes: Number(r.predicted_demould_minutes),
+    }))
   },
 }
 

@@ -5,6 +5,7 @@ import { gradesRepo } from '../repos/plaster-grades'
 import { mouldsRepo } from '../repos/moulds'
 import { workshopsRepo } from '../repos/workshops'
 import type { PlasterGrade } from '#shared/utils/plaster-core'
+import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import type { MixOptions } from '#shared/types/mix'
 
 export async function mixOptions(workshopId: number): Promise<MixOptions> {
@@ -17,7 +18,7 @@ export async function mixOptions(workshopId: number): Promise<MixOptions> {
     // the grades list puts archived ones last, by name: those in use keep their name order
     grades: grades.filter(g => !g.archived_at).map(g => ({
       id: g.id, name: g.name, bagKg: g.bag_kg, grade: plasterGradeFromRow(g),
-      calibration: g.calibration_factor ? { factor: g.calibration_factor, count: g.calibration_count, applied: g.calibration_applied } : null,
+      calibration: gradeCalibrationFromRow(g),
     })),
     moulds: moulds.filter(m => m.state !== 'retired')
       .map(m => ({ id: m.id, code: m.code, casts: m.casts, cavityLitres: m.cavity_litres, maxDwellMinutes: m.max_dwell_minutes, state: m.state })),

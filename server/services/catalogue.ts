@@ -7,7 +7,8 @@ import { workshopsRepo } from '../repos/workshops'
 import { mouldsRepo, type MouldEventRow, type MouldInput, type MouldListRow, type MouldPourRow } from '../repos/moulds'
 import { recordEvent } from '../repos/events'
 import { benchesRepo, type BenchInput, type BenchRow } from '../repos/benches'
-import { gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
+import { gradeCalibrationRepo, gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
+import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour } from '#shared/types/catalogue'
 
 /** A timestamp as the wire sends it (what JSON.stringify made of the Date before). */
@@ -28,7 +29,7 @@ export async function createBench(workshopId: number, input: BenchInput): Promis
 export function toGrade(r: GradeRow): Grade {
   return {
     id: r.id, name: r.name, presetKey: r.preset_key, plaster: plasterGradeFromRow(r), bagKg: r.bag_kg,
-    calibration: { factor: r.calibration_factor, count: r.calibration_count, applied: r.calibration_applied },
+    calibration: gradeCalibrationFromRow(r),
     notes: r.notes, archivedAt: isoOrNull(r.archived_at), version: r.version,
   }
 }
@@ -43,6 +44,20 @@ export async function createGrade(workshopId: number, input: GradeInput): Promis
 
 export async function updateGrade(workshopId: number, id: number, version: number, input: GradeInput): Promise<Grade> {
   return toGrade(await gradesRepo.update(useDb(), workshopId, id, version, input))
+}
+
+/**
+ * A lead applies a grade's live calibration (copied, so later demoulds do not move the board
+ * until applied again) or withdraws it. Nothing to apply without an attended demould: 422.
+ */
+export async function applyGradeCalibration(workshopId: number, id: number, version: number, apply: boolean): Promise<Grade> {
+  const db = useDb()
+  const row = await gradesRepo.byId(db, workshopId, id)
+  if (!row) notFound('Plaster grade')
+  if (apply && (!row.calibration_count || row.calibration_factor === null)) {
+    unprocessable([{ field: 'apply', message: 'Apply: this grade has no demoulds taken inside the attended window yet, so there is nothing to apply' }])
+  }
+  return toGrade(await gradeCalibrationRepo.apply(db, workshopId, id, version, apply))
 }
 
 export async function updateBench(workshopId: number, id: number, version: number, input: BenchInput): Promise<Bench> {

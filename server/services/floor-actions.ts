@@ -11,8 +11,8 @@ import { recordEvent } from '../repos/events'
 import { gradeCalibrationRepo } from '../repos/plaster-grades'
 import { shopDaysRepo } from '../repos/shop-days'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
-import { calibrationFactor } from '#shared/utils/plaster-set'
-import { pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
+import { calibrationFromPours } from '#shared/utils/plaster-set'
+import { POUR_MIX_MINUTES_DEFAULT, pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
 import { demouldTiming } from '#shared/utils/pour-status'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
 import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
@@ -127,8 +127,10 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'piece', entityId: piece.id, type: 'piece.created', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { pourId: c.row.id, mark, state: piece.state } })
   await mouldFloorRepo.moveState(c.trx, c.actor.workshopId, mould.id, 'cleaning', c.actor.id, true)
   await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'mould', entityId: mould.id, type: 'mould.state_changed', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { from: mould.state, to: 'cleaning', pull: mould.pulls + 1, pourId: c.row.id } })
-  const cal = calibrationFactor(await poursRepo.calibrationPairs(c.trx, c.actor.workshopId, c.row.grade_id))
-  await gradeCalibrationRepo.set(c.trx, c.actor.workshopId, c.row.grade_id, cal.factor, cal.count)
+  // every pour here was gauged with the floor's default mixing minutes (pourTiming)
+  const pours = await poursRepo.calibrationPours(c.trx, c.actor.workshopId, c.row.grade_id)
+  const cal = calibrationFromPours(pours.map(p => ({ ...p, mixMinutes: POUR_MIX_MINUTES_DEFAULT })))
+  await gradeCalibrationRepo.set(c.trx, c.actor.workshopId, c.row.grade_id, cal.factor, cal.count, cal.excluded)
   return { id: piece.id, mark }
 }
 

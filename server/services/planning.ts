@@ -10,6 +10,8 @@ import { planPourRow, withOverlapAnswer } from './pours'
 import { loadWorkshop, workshopCalendar } from './workshop'
 import { boardDayStart } from '#shared/utils/board-rules'
 import { planPours } from '#shared/utils/planner'
+import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
+import { appliedSetFactor } from '#shared/utils/plaster-set'
 import type { PlanPoursInput, PlannerItem } from '#shared/types/planner'
 
 const DAY_MS = 86_400_000
@@ -36,6 +38,8 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
       sampleReleased: !r.sample_required || r.sample_state === 'approved', piecesRemaining: remaining,
       mouldIds: r.mould_id ? [String(r.mould_id)] : [], grade: model,
       consistency: r.consistency ? Number(r.consistency) : model.consistency.default,
+      // the grade's applied calibration (1 until a lead applies one)
+      setFactor: appliedSetFactor(gradeCalibrationFromRow(grade)),
     })
   }
   const input: PlanPoursInput = {

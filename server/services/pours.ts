@@ -1,5 +1,7 @@
 // Planning, moving and voiding pours on the board: each use case in one transaction, the
 // server the judge of every rule (pour-schemas.ts validates the shape, this the meaning).
+import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
+import { appliedSetFactor } from '#shared/utils/plaster-set'
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { PourMoveInput } from '#shared/utils/pour-schemas'
@@ -89,7 +91,8 @@ async function timingAndBatch(trx: Knex, ws: WorkshopRow, named: Named, p: PourP
   const { mould, item, grade } = named
   const gradeModel = plasterGradeFromRow(grade)
   const consistency = p.consistency ?? (item?.consistency ? Number(item.consistency) : gradeModel.consistency.default)
-  const setFactor = p.setFactor ?? 1
+  // a lead's applied calibration is the grade's starting set factor; the board may scale it per pour
+  const setFactor = p.setFactor ?? appliedSetFactor(gradeCalibrationFromRow(grade))
   const day = boardLocalDay(p.slotStart, ws.timezone)
   const slurryTempC = (await shopDaysRepo.tempOn(trx, ws.id, day)) ?? Number(ws.default_shop_temp_c)
   const t = pourTimingFromSlotStart({

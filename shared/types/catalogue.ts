@@ -10,10 +10,24 @@ export interface Grade {
   presetKey: string | null
   plaster: PlasterGrade
   bagKg: number
-  calibration: { factor: number | null; count: number; applied: boolean }
+  calibration: GradeCalibration
   notes: string | null
   archivedAt: string | null
   version: number
+}
+
+/**
+ * A grade's demould calibration: the live factor over the attended demoulds (`count`, with
+ * `excluded` early or late ones left out) and the factor a lead applied (`appliedFactor` from
+ * `appliedCount` pours), which is the one the board, planner and mix card use.
+ */
+export interface GradeCalibration {
+  factor: number | null
+  count: number
+  excluded: number
+  applied: boolean
+  appliedFactor: number | null
+  appliedCount: number
 }
 
 /** A lot as POST / PATCH /api/lots answer. */

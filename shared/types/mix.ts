@@ -1,8 +1,9 @@
 import type { PlasterGrade } from '../utils/plaster-core'
 import type { UnitSystem } from '../utils/units-display'
+import type { GradeCalibration } from './catalogue'
 
 /** A grade the mix card offers: the workshop's own (numeric id) or a preset (its key). */
-export interface MixGradeOption { id: number | string; name: string; bagKg: number; grade: PlasterGrade }
+export interface MixGradeOption { id: number | string; name: string; bagKg: number; grade: PlasterGrade; calibration?: GradeCalibration }
 /** A mould the mix card offers. */
 export interface MixMouldOption { id: number; code: string; casts: string; cavityLitres: number; maxDwellMinutes: number }
 
@@ -10,6 +11,6 @@ export interface MixMouldOption { id: number; code: string; casts: string; cavit
 export interface MixOptions {
   units: UnitSystem
   defaultShopTempC: number
-  grades: (MixGradeOption & { id: number; calibration: { factor: number; count: number; applied: boolean } | null })[]
+  grades: (MixGradeOption & { id: number; calibration: GradeCalibration })[]
   moulds: (MixMouldOption & { state: string })[]
 }

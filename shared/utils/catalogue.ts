@@ -123,6 +123,29 @@ export function plasterGradeFromRow(r: GradeRowLike): PlasterGrade {
   }
 }
 
+/** The calibration columns of a plaster_grades row. */
+export interface GradeCalibrationRowLike {
+  calibration_factor: number | string | null
+  calibration_count: number
+  calibration_applied: boolean
+  calibration_applied_factor?: number | string | null
+  calibration_applied_count?: number
+  calibration_excluded?: number
+}
+
+/** A grade row's calibration: the live factor from the register and the one a lead applied (plaster-set.ts). */
+export function gradeCalibrationFromRow(r: GradeCalibrationRowLike) {
+  const applied = r.calibration_applied && r.calibration_applied_factor !== null && r.calibration_applied_factor !== undefined
+  return {
+    factor: r.calibration_factor === null ? null : Number(r.calibration_factor),
+    count: r.calibration_count,
+    excluded: r.calibration_excluded ?? 0,
+    applied,
+    appliedFactor: applied ? Number(r.calibration_applied_factor) : null,
+    appliedCount: applied ? r.calibration_applied_count ?? 0 : 0,
+  }
+}
+
 export interface RunInput {
   walls: { lengthM: number }[]
   castLengthM: number

@@ -1,6 +1,16 @@
 /**
  * Drying: saturation vapour pressure, wet-bulb temperature, the constant-rate drying estimate,
  * the over-temperature guard and dryness by weight. Re-exported from `plaster.ts`. Pure.
+ *
+ * Sources: evaporation from a wet surface per the equation of the ASHRAE Handbook—HVAC
+ * Applications, natatorium (indoor swimming pool) section: w = A (p_w − p_a)(0.089 + 0.0782 V) / Y × F_a,
+ * with the activity factor F_a = 0.5 the chapter gives for still, unoccupied water (a residential
+ * pool at rest); a wet cast on a rack is still water with no one splashing it. Saturation vapour
+ * pressure: Buck's equation with the constants of his 1996 revision (A. L. Buck, hygrometer
+ * user's manual, 1996, appendix 1; the 1981 paper, J. Appl. Meteor. 20: 1527, gave the earlier
+ * constants). Wet bulb: Stull 2011. Constant weight as the dry test: common practice (below).
+ * Caution: drying rooms run warm and heavy wet casts are handled on racks; follow local codes
+ * and competent practice for heaters, ventilation and lifting.
  */
 import { PLASTER_LIMITS, PlasterInputError, assertPlasterNumber, assertPlasterObject } from './plaster-core'
 
@@ -15,18 +25,36 @@ import { PLASTER_LIMITS, PlasterInputError, assertPlasterNumber, assertPlasterOb
  */
 export const PLASTER_DRYING_MAX_C = 49
 
-/** Within 0.5 % free water of its dry mass a cast counts as dry (common practice, no source). */
+/**
+ * Within 0.5 % free water of its computed dry mass (common practice, no source). Only a guide
+ * now: the computed dry mass is good to about 2 % (dryMassGuide), so the dry test is constant
+ * weight (constantWeight).
+ */
 export const PLASTER_DRY_FREE_WATER_PCT = 0.5
 
-/** Default multiplier for the slow, falling-rate end of drying: 2 (a shop value, common practice). */
-export const PLASTER_FALLING_RATE_FACTOR = 2
+/**
+ * Default multiplier for the slow, falling-rate end of drying: 1, i.e. no allowance, until the
+ * shop's own weighings give one (fallingRateFromWeighings). The model once used an unsourced 2,
+ * which happened to cancel the missing activity factor; the factor now comes from the shop.
+ */
+export const PLASTER_FALLING_RATE_FACTOR = 1
+
+/** Activity factor of still, unoccupied water: 0.5 (ASHRAE Handbook—HVAC Applications, natatorium section). */
+export const PLASTER_EVAPORATION_ACTIVITY = 0.5
+
+/** At or above this relative humidity the estimate says the cast will not dry (the vapour gap is within the formulas' error). */
+export const PLASTER_NO_DRYING_RH = 99.9
+
+/** Below about 5 °C a wet cast can freeze overnight near cold walls and floors (common practice). */
+export const PLASTER_FREEZE_WARN_C = 5
 
 /** Stull 2011 is fitted for 5–99 % RH; outside it the wet bulb is taken at the nearest edge. */
 const STULL_RH = { min: 5, max: 99 }
 
 /**
- * Saturation vapour pressure over liquid water, kPa, at `tempC` (−40 to 100 °C):
- * Buck (J. Appl. Meteor. 20, 1981), as revised 1996:
+ * Saturation vapour pressure over liquid water, kPa, at `tempC` (−40 to 100 °C): Buck's
+ * equation with his 1996 constants (Buck 1996 user's manual, appendix 1; the 1981 paper had
+ * 18.729, 227.3 and 257.87 in their place, recalled from memory):
  * e = 0.61121 exp((18.678 − T/234.5) × T / (257.14 + T)). Within 0.04 % of the IAPWS-95 values
  * tabulated in the CRC Handbook from 0 to 50 °C, and 101.31 kPa at 100 °C. Below 0 °C it is the
  * value over supercooled water, not ice.
@@ -92,10 +120,12 @@ export interface PlasterDryingEstimate {
 /**
  * Drying time, hours. In the constant-rate period the wet surface sits at the air's wet-bulb
  * temperature (Stull 2011) and evaporates per Carrier's equation as given in the ASHRAE Handbook
- * (HVAC Applications, natatoriums): kg/s = A × (p_s − p_a) × (0.089 + 0.0782 V) / Y, with A in m²,
- * p_s the saturation pressure at the surface and p_a the air's vapour pressure in kPa (Buck),
- * V air speed m/s and Y = 2501 − 2.361 T kJ/kg the latent heat at the surface temperature T.
- * hours = freeWater / rate × fallingRateFactor (default 2, the slow end of drying; a shop value).
+ * (HVAC Applications, natatoriums): kg/s = A × (p_s − p_a) × (0.089 + 0.0782 V) / Y × F_a, with A
+ * in m², p_s the saturation pressure at the surface and p_a the air's vapour pressure in kPa
+ * (Buck), V air speed m/s, Y = 2501 − 2.361 T kJ/kg the latent heat at the surface temperature T
+ * and F_a = 0.5 the activity factor for still, unoccupied water (same chapter).
+ * hours = freeWater / rate × fallingRateFactor (default 1; the shop's from its weighings,
+ * fallingRateFromWeighings). At 99.9 % RH and above: Infinity, "will not dry in these conditions".
  */
 export function dryingEstimate(input: {
   freeWaterKg: number
@@ -116,14 +146,18 @@ export function dryingEstimate(input: {
   const surfaceC = wetBulbC(airT, rh)
   const dp = saturationVapourPressureKPa(surfaceC) - (rh / 100) * saturationVapourPressureKPa(airT)
   const latent = 2501 - 2.361 * surfaceC
-  const kgPerHour = Math.max(0, (area * dp * (0.089 + 0.0782 * v)) / latent) * 3600
+  const saturated = rh >= PLASTER_NO_DRYING_RH
+  const kgPerHour = saturated ? 0 : Math.max(0, (area * dp * (0.089 + 0.0782 * v) * PLASTER_EVAPORATION_ACTIVITY) / latent) * 3600
   const warnings: string[] = []
   if (rh < STULL_RH.min || rh > STULL_RH.max) {
     warnings.push(`Relative humidity ${rh} % is outside 5–99 %, the range of the wet-bulb formula; the estimate is rougher.`)
   }
   const guard = dryingGuard(airT)
   if (guard) warnings.push(guard)
-  if (kgPerHour === 0 && water > 0) warnings.push('The air is saturated: the cast will not dry until the air is drier or warmer.')
+  if (airT < PLASTER_FREEZE_WARN_C && water > 0) {
+    warnings.push(`At ${airT} °C a wet cast can freeze, and ice in it spoils the surface and can crack it: keep wet casts above ${PLASTER_FREEZE_WARN_C} °C.`)
+  }
+  if (kgPerHour === 0 && water > 0) warnings.push('The air is saturated: the cast will not dry in these conditions; it needs drier or warmer air.')
   const hours = water === 0 ? 0 : kgPerHour === 0 ? Infinity : (water / kgPerHour) * falling
   return { constantRateKgPerHour: kgPerHour, hours, wetBulbC: surfaceC, warnings }
 }
@@ -160,4 +194,82 @@ export function dryness(input: { weighedKg: number; dryMassKg: number }): {
     ? ['The piece weighs less than its computed dry mass: check the dry mass, or the piece may have been over-dried and lost combined water.']
     : []
   return { freeWaterKg, freeWaterPct, isDry: freeWaterPct <= PLASTER_DRY_FREE_WATER_PCT, warnings }
+}
+
+/**
+ * The shop's falling-rate factor from its own weighings: per piece that reached constant weight,
+ * the hours it actually took ÷ the constant-rate estimate for it (dryingEstimate with factor 1),
+ * and their median (robust to a piece forgotten on the rack). Never below 1 (drying does not
+ * outrun the constant rate) nor above the limit; 1 with no usable piece.
+ */
+export function fallingRateFromWeighings(pieces: { estimatedHours: number; actualHours: number }[]): { factor: number; count: number } {
+  if (!Array.isArray(pieces)) throw new PlasterInputError('pieces', 'pieces must be an array')
+  const ratios = pieces.filter(p => typeof p === 'object' && p !== null && Number.isFinite(p.estimatedHours) && Number.isFinite(p.actualHours)
+    && p.estimatedHours > 0 && p.actualHours > 0).map(p => p.actualHours / p.estimatedHours).sort((a, b) => a - b)
+  if (!ratios.length) return { factor: PLASTER_FALLING_RATE_FACTOR, count: 0 }
+  const mid = ratios.length >> 1
+  const median = ratios.length % 2 ? ratios[mid]! : (ratios[mid - 1]! + ratios[mid]!) / 2
+  const { min, max } = PLASTER_LIMITS.fallingRateFactor
+  return { factor: Math.min(max, Math.max(min, median)), count: ratios.length }
+}
+
+/**
+ * Dry by constant weight, the trade's own test (common practice; the figures are this model's
+ * choice): two weighings at least 24 hours apart that differ by no more than 0.1 % of the later
+ * one. Free water leaves a cast ever more slowly, so once a day in the drying room takes off no
+ * more than 0.1 % the cast is as dry as that room will make it. A gain beyond the tolerance
+ * (damp air) is not constant either. The computed dry mass is only a guide (dryMassGuide).
+ */
+export const PLASTER_CONSTANT_WEIGHT = { minHoursApart: 24, tolerancePct: 0.1 } as const
+
+/** Result of `constantWeight`: `changePct` is (earlier − later) ÷ later × 100 of the pair compared. */
+export interface PlasterConstantWeight {
+  isDry: boolean
+  changePct: number | null
+  hoursApart: number | null
+  message: string
+}
+
+/**
+ * Constant weight over a piece's weighings in one drying spell (any order): the latest weighing
+ * against the latest one at least `minHoursApart` before it.
+ */
+export function constantWeight(weighings: { kg: number; at: Date }[]): PlasterConstantWeight {
+  if (!Array.isArray(weighings)) throw new PlasterInputError('weighings', 'weighings must be an array')
+  const rows = weighings.map((w, n) => {
+    const o = assertPlasterObject(w, `weighings[${n}]`)
+    const kg = assertPlasterNumber(o.kg, `weighings[${n}].kg`, PLASTER_LIMITS.weighedKg)
+    if (!(o.at instanceof Date) || Number.isNaN(o.at.getTime())) throw new PlasterInputError(`weighings[${n}].at`, `weighings[${n}].at must be a time`)
+    return { kg, at: o.at.getTime() }
+  }).sort((a, b) => a.at - b.at)
+  const { minHoursApart, tolerancePct } = PLASTER_CONSTANT_WEIGHT
+  const last = rows.at(-1)
+  if (!last) return { isDry: false, changePct: null, hoursApart: null, message: 'Not weighed yet: weigh it, then again at least a day later.' }
+  const earlier = [...rows].reverse().find(r => last.at - r.at >= minHoursApart * 3_600_000)
+  if (!earlier) {
+    return { isDry: false, changePct: null, hoursApart: null, message: `Weigh it again at least ${minHoursApart} hours after an earlier weighing to show constant weight.` }
+  }
+  const changePct = ((earlier.kg - last.kg) / last.kg) * 100
+  const hoursApart = (last.at - earlier.at) / 3_600_000
+  const isDry = Math.abs(changePct) <= tolerancePct + 1e-12
+  const message = isDry
+    ? `Constant weight: ${changePct.toFixed(2)} % change over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
+    : `Still changing: ${changePct.toFixed(2)} % over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
+  return { isDry, changePct, hoursApart, message }
+}
+
+/**
+ * How far the computed dry mass can be trusted: ±2 %, the match of the model's dry densities to
+ * published ones; and it reads high when more plaster was gauged than the cast took (the batch
+ * less the usual waste is assumed to be in the cast). A guide beside the weighings, never the gate.
+ */
+export const PLASTER_DRY_MASS_UNCERTAINTY_PCT = 2
+
+export function dryMassGuide(dryMassKg: number): { kg: number; lowKg: number; highKg: number; label: string } {
+  const kg = assertPlasterNumber(dryMassKg, 'dryMassKg', PLASTER_LIMITS.dryMassKg)
+  const u = PLASTER_DRY_MASS_UNCERTAINTY_PCT / 100
+  return {
+    kg, lowKg: kg * (1 - u), highKg: kg * (1 + u),
+    label: `about ${kg.toFixed(2)} kg (± ${PLASTER_DRY_MASS_UNCERTAINTY_PCT} %, a guide only; weigh to constant weight)`,
+  }
 }

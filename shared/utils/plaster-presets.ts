@@ -121,7 +121,7 @@ const BETA_PROVENANCE = {
 export const GRADE_PRESET_PROVENANCE: Readonly<Record<PlasterGradePresetKey, Record<keyof PlasterGrade, PlasterFieldProvenance>>> = deepFreeze({
   'beta-casting': {
     ...BETA_PROVENANCE,
-    demouldMinutesRef: { status: COMMON, source: 'a beta casting plaster at 70 and 20 °C demoulds in 20–45 min; ASTM C59 sets 10–50 min for the set itself' },
+    demouldMinutesRef: { status: COMMON, source: 'a beta casting plaster at 70 and 20 °C demoulds in about 20–45 min (common practice); ASTM C59\'s 10–50 min limits apply to the powder\'s needle set, not to demoulding' },
   },
   'beta-fibrous': {
     ...BETA_PROVENANCE,

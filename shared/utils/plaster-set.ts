@@ -91,8 +91,8 @@ function windowWarnings(grade: PlasterGrade, c: number, t: number, setFactor: nu
     warnings.push(`Slurry at ${t.toFixed(1)} °C is above ${SLURRY_WARN_C.max} °C: gypsum sets slower again above about 40 °C and not at all near 100 °C.`)
   }
   const table = grade.temperatureFactors
-  if (t < table[0]![0] || t > table[table.length - 1]![0]) {
-    warnings.push(`Slurry at ${t.toFixed(1)} °C is outside the grade's temperature table; the nearest table value was used.`)
+  if (t < table[0]![0]) {
+    warnings.push(`Slurry at ${t.toFixed(1)} °C is below the grade's temperature table; the nearest table value was used.`)
   }
   if (c < grade.consistency.min || c > grade.consistency.max) {
     warnings.push(`Consistency ${c} is outside this grade's range ${grade.consistency.min}–${grade.consistency.max}.`)
@@ -107,7 +107,10 @@ function windowWarnings(grade: PlasterGrade, c: number, t: number, setFactor: nu
  * The demould window, minutes after end of mixing: opens at `demouldReadyMinutes`, closes
  * `maxDwellMinutes` later (a rubber mould can hold a cast for hours; a rigid or gelatine mould
  * cannot). Warns on slurry below 5 °C or above 40 °C, consistency outside the grade's range,
- * and a set factor outside 0.3–3.
+ * and a set factor outside 0.3–3; refuses slurry hotter than the table's last point. The
+ * opening is a shop starting point, shown as "about": 20–45 min for a beta casting plaster is
+ * common practice (ASTM C59's 10–50 min limits are for the powder's needle set, not for when a
+ * cast can leave its mould); the register's calibration is what makes it the shop's own.
  */
 export function demouldWindow(input: {
   grade: PlasterGrade
@@ -122,6 +125,12 @@ export function demouldWindow(input: {
   const t = assertPlasterNumber(i.slurryTempC, 'slurryTempC', PLASTER_LIMITS.slurryTempC)
   const setFactor = assertPlasterNumber(i.setFactor ?? 1, 'setFactor', PLASTER_LIMITS.setFactor)
   const dwell = assertPlasterNumber(i.maxDwellMinutes, 'maxDwellMinutes', PLASTER_LIMITS.maxDwellMinutes)
+  // Gypsum sets ever slower as it nears 100 °C (its solubility falls toward the hemihydrate's):
+  // no window is given past the table's hottest point rather than a flat extrapolation.
+  const hottest = grade.temperatureFactors[grade.temperatureFactors.length - 1]![0]
+  if (t > hottest) {
+    throw new PlasterInputError('slurryTempC', `The slurry would be at ${t.toFixed(1)} °C, above ${hottest} °C, the hottest point of this grade's temperature table: plaster sets slower and slower toward 100 °C and no demould time can be given. Use cooler water.`)
+  }
   const openMinutes = demouldReadyMinutes({ grade, consistency: c, slurryTempC: t, setFactor })
   return { openMinutes, closeMinutes: openMinutes + dwell, warnings: windowWarnings(grade, c, t, setFactor) }
 }
@@ -207,4 +216,70 @@ export function calibrationFactor(
   const ratios = valid.slice(-lastN).map(s => s.actualMinutes / s.predictedMinutes).sort((a, b) => a - b)
   if (ratios.length === 0) return { factor: 1, count: 0 }
   return { factor: median(ratios), count: ratios.length }
+}
+
+/**
+ * How long after the demould window opens a demould still counts as attended: half the
+ * predicted set time, at least 15 minutes (design choice). A caster at the bench tests the cast
+ * (a thumbnail scratch, the cast pulling from the mould) every few minutes once the window opens,
+ * so a demould inside that span is close to the moment the cast was ready; one taken later (a
+ * break, the end of a shift, overnight) says only that the cast was ready by then.
+ */
+export const CALIBRATION_ATTENDED = { minMinutes: 15, setShare: 0.5 } as const
+
+/** What the register knows of one demoulded pour, for calibration. Instants are Dates. */
+export interface CalibrationPour {
+  mixingAt: Date | null
+  demouldOpenAt: Date | null
+  demouldCloseAt: Date | null
+  demouldedAt: Date | null
+  /** the model's minutes from the start of mixing to demould-ready, at set factor 1 */
+  predictedMinutes: number | null
+  /** minutes of gauging before the set clock starts (POUR_MIX_MINUTES_DEFAULT on the floor) */
+  mixMinutes: number
+  /** the caster marked the demould as taken before the window (when the register records it) */
+  early?: boolean | null
+}
+
+/**
+ * One calibration sample from a demoulded pour, or null when it does not count. Both sides are
+ * the SET part only (from the end of mixing), since the factor scales the set and not the
+ * gauging minutes. It counts only when taken inside the attended window: not before the window
+ * opened (early: marked so, or derived from the times) and not later than the attended span
+ * after it (CALIBRATION_ATTENDED) nor after the window closed.
+ */
+export function calibrationSample(p: CalibrationPour): { predictedMinutes: number; actualMinutes: number } | null {
+  if (!p.mixingAt || !p.demouldOpenAt || !p.demouldedAt || p.predictedMinutes === null || p.early) return null
+  const predicted = p.predictedMinutes - p.mixMinutes
+  const actual = (p.demouldedAt.getTime() - p.mixingAt.getTime()) / 60_000 - p.mixMinutes
+  if (!Number.isFinite(predicted) || !Number.isFinite(actual) || predicted <= 0 || actual <= 0) return null
+  const afterOpen = (p.demouldedAt.getTime() - p.demouldOpenAt.getTime()) / 60_000
+  const span = Math.max(CALIBRATION_ATTENDED.minMinutes, CALIBRATION_ATTENDED.setShare * predicted)
+  if (afterOpen < 0 || afterOpen > span) return null
+  if (p.demouldCloseAt && p.demouldedAt.getTime() > p.demouldCloseAt.getTime()) return null
+  return { predictedMinutes: predicted, actualMinutes: actual }
+}
+
+/**
+ * The one calibration of a grade from its demoulded pours in register order (oldest first):
+ * the attended samples (calibrationSample) through calibrationFactor's median. `excluded` counts
+ * the pours left out (early, late or without times), so a screen can say what stands behind it.
+ */
+export function calibrationFromPours(pours: CalibrationPour[], options: { lastN?: number } = {}) {
+  const samples = pours.map(calibrationSample)
+  const kept = samples.filter(s => s !== null)
+  const { factor, count } = calibrationFactor(kept, options)
+  return { factor, count, excluded: samples.length - kept.length, samples: kept }
+}
+
+/** The set factor a grade's pours use: the factor a lead applied, else 1 (the bare model). */
+export function appliedSetFactor(calibration: { applied: boolean; appliedFactor: number | null } | null | undefined): number {
+  if (!calibration?.applied || !calibration.appliedFactor || !Number.isFinite(calibration.appliedFactor)) return 1
+  return calibration.appliedFactor
+}
+
+/** How a screen says where a set time comes from: "calibrated from N pours" or the bare model. */
+export function calibrationNote(calibration: { applied: boolean; appliedFactor: number | null; appliedCount: number } | null | undefined): string {
+  if (!calibration?.applied || !calibration.appliedFactor) return 'shop starting point, not calibrated'
+  return `calibrated from ${calibration.appliedCount} pour${calibration.appliedCount === 1 ? '' : 's'} (× ${calibration.appliedFactor.toFixed(2)})`
 }

@@ -51,6 +51,9 @@ export const WET_TO_DRY_STRENGTH_RATIO = 0.5
  */
 export const BURN_CAUTION = { peakC: 45, slurryKg: 5 } as const
 
+/** Water boils at 100 °C at sea level: the peak-temperature bound is capped there (definition of the Celsius scale's old fixed point). */
+export const PLASTER_BOILING_C = 100
+
 /** What `batchForCavity` returns. slurryDensity in kg/L. */
 export interface PlasterBatch {
   plasterKg: number
@@ -143,7 +146,12 @@ export function slurryTemperature(input: {
   const tp = assertPlasterNumber(i.powderTempC, 'powderTempC', PLASTER_LIMITS.powderTempC)
   const cw = water * WATER_SPECIFIC_HEAT
   const cp = plaster * HEMIHYDRATE_SPECIFIC_HEAT
-  return (cw * tw + cp * tp) / (cw + cp)
+  const t = (cw * tw + cp * tp) / (cw + cp)
+  // the slurry is never a field anyone typed: name the ones they did
+  if (t < PLASTER_LIMITS.slurryTempC.min) {
+    throw new PlasterInputError('powderTempC', `With water at ${tw} °C and powder at ${tp} °C the mix would be at ${t.toFixed(1)} °C and freeze: warm the water or bring the powder indoors.`)
+  }
+  return t
 }
 
 /**
@@ -188,6 +196,8 @@ export interface PlasterMixSummary {
   cast: PlasterCast
   /** strength relative to the grade at its default consistency */
   relativeStrength: number
+  /** the consistency is outside the grade's range: the strength figure is an extrapolation */
+  strengthExtrapolated: boolean
   adiabaticRiseC: number
   /** slurry temperature + adiabatic rise: an upper bound of the set's peak, °C */
   peakTempUpperBoundC: number
@@ -195,6 +205,17 @@ export interface PlasterMixSummary {
   setCurve: PlasterSetPoint[]
   /** the window's warnings plus shop and burn notes */
   warnings: string[]
+}
+
+/** The mix card's user typed the water temperature, not the slurry's: a too-hot slurry names the water. */
+function namingWaterTemp<T>(fn: () => T): T {
+  try {
+    return fn()
+  }
+  catch (e) {
+    if (e instanceof PlasterInputError && e.field === 'slurryTempC') throw new PlasterInputError('waterTempC', e.message)
+    throw e
+  }
 }
 
 /** Curve span: 1.5 × the demould-ready time, where hydration is past 0.99, in about 120 steps. */
@@ -217,23 +238,30 @@ export function mixSummary(input: PlasterMixInput): PlasterMixSummary {
   const batch = batchForCavity({ cavityLitres: input.cavityLitres, consistency, grade, wastePct: input.wastePct })
   const slurryTempC = slurryTemperature({ ...batch, waterTempC: input.waterTempC, powderTempC: input.powderTempC })
   const setFactor = input.setFactor
-  const window = demouldWindow({ grade, consistency, slurryTempC, setFactor, maxDwellMinutes: input.maxDwellMinutes })
+  const window = namingWaterTemp(() => demouldWindow({ grade, consistency, slurryTempC, setFactor, maxDwellMinutes: input.maxDwellMinutes }))
   const share = 1 / (1 + (input.wastePct ?? 0) / 100)
   const cast = castFromBatch({ plasterKg: batch.plasterKg * share, waterKg: batch.waterKg * share, grade })
   const rise = adiabaticRiseC({ grade, consistency })
-  const peak = slurryTempC + rise
+  // water boils at 100 °C (sea level): the bound never claims more, whatever the sum
+  const peak = Math.min(PLASTER_BOILING_C, slurryTempC + rise)
   const burnCaution = peak >= BURN_CAUTION.peakC && batch.slurryKg >= BURN_CAUTION.slurryKg
   const warnings = [...window.warnings]
   if (shopC < 5) warnings.push(`Shop at ${shopC} °C: keep casts well above freezing through the set; a cold mould slows it further.`)
   if (burnCaution) {
     warnings.push(`Setting plaster can reach about ${Math.round(peak)} °C: never embed hands or skin in the mix.`)
   }
+  const strength = relativeStrength({ grade, consistency })
+  const strengthExtrapolated = consistency < grade.consistency.min || consistency > grade.consistency.max
+  if (strengthExtrapolated) {
+    warnings.push(`Strength × ${strength.toFixed(2)} is an extrapolation: consistency ${consistency} is outside this grade's range ${grade.consistency.min}–${grade.consistency.max}, where the porosity law holds; test a cube before relying on it.`)
+  }
   return {
     batch,
     slurryTempC,
     window,
     cast,
-    relativeStrength: relativeStrength({ grade, consistency }),
+    relativeStrength: strength,
+    strengthExtrapolated,
     adiabaticRiseC: rise,
     peakTempUpperBoundC: peak,
     burnCaution,

@@ -1,8 +1,8 @@
 // The lead's quality figures from the register: defect rate by mould, grade, caster
 // and shop-temperature band, and predicted against actual demould time per grade. Pure: the
 // route reads the demoulded pours of a period and hands them here.
-import { calibrationFactor } from './plaster-set'
-import { demouldTiming } from './pour-status'
+import { calibrationFromPours } from './plaster-set'
+import { POUR_MIX_MINUTES_DEFAULT } from './pour-timing'
 
 export interface QualityPour {
   mould: string
@@ -12,15 +12,17 @@ export interface QualityPour {
   result: 'sound' | 'defect'
   /** when mixing started (actual) */
   mixingAt: Date | null
-  /** the plan's demould window opening */
+  /** the plan's demould window opening and closing */
   demouldOpenAt: Date
-  /** the window's close; a demould after it was late-attended */
-  demouldCloseAt: Date
+  demouldCloseAt: Date | null
   demouldedAt: Date | null
+  /** the model's minutes from the start of mixing to demould-ready at set factor 1, stored at pouring */
+  predictedMinutes: number | null
 }
 
 export interface DefectRate { key: string; pours: number; defects: number; rate: number }
-export interface GradeCalibration { grade: string; count: number; factor: number; predictedMinutes: number | null; actualMinutes: number | null }
+/** Per grade over the period: `count` attended demoulds behind `factor`, `excluded` early or late ones left out; minutes are the set part. */
+export interface QualityGradeCalibration { grade: string; count: number; excluded: number; factor: number; predictedMinutes: number | null; actualMinutes: number | null }
 export interface QualityFigures {
   pours: number
   defects: number
@@ -28,12 +30,14 @@ export interface QualityFigures {
   byGrade: DefectRate[]
   byCaster: DefectRate[]
   byTemperature: DefectRate[]
-  calibration: GradeCalibration[]
+  calibration: QualityGradeCalibration[]
 }
 
 /**
- * Shop-temperature bands in °C, lower bound inclusive. Five-degree steps around the usual
- * 15–25 °C workshop range, where set time changes noticeably per step (common practice).
+ * Shop-temperature bands in °C, lower bound inclusive: five-degree steps around the usual
+ * 15–25 °C workshop range (common practice), to group defect rates by the conditions casters
+ * worked in. They make no claim about set time: the model's own tables (plaster-presets.ts)
+ * are flat from 20 to 40 °C and slow the set only below 20 °C.
  */
 export const TEMPERATURE_BANDS: { key: string; below: number }[] = [
   { key: '< 10 °C', below: 10 },
@@ -70,26 +74,17 @@ function medianOf(values: number[]): number | null {
 }
 
 /**
- * Per grade: predicted = plan's demould opening − mixing start, actual = demoulded − mixing
- * start, the same samples the register's calibration uses: demoulds inside the window only (an
- * early one was taken out before the set said so, a late one when someone came by; neither
- * measures the set time). The factor is calibrationFactor's median ratio over
- * every sample of the period (lastN 10000), so it agrees with the grade page's factor.
+ * Per grade over the period, through the register's own rule (calibrationFromPours: attended
+ * demoulds only, the set part of the model's stored prediction against the set part of the
+ * actual time), over every pour of the period (lastN 10000) rather than the grade's last 20.
  */
-function calibrationByGrade(pours: QualityPour[]): GradeCalibration[] {
-  const byGrade = new Map<string, { predictedMinutes: number; actualMinutes: number }[]>()
-  for (const p of pours) {
-    if (!p.mixingAt || !p.demouldedAt || demouldTiming(p, p.demouldedAt) !== 'in_window') continue
-    const sample = {
-      predictedMinutes: (p.demouldOpenAt.getTime() - p.mixingAt.getTime()) / 60_000,
-      actualMinutes: (p.demouldedAt.getTime() - p.mixingAt.getTime()) / 60_000,
-    }
-    byGrade.set(p.grade, [...(byGrade.get(p.grade) ?? []), sample])
-  }
+function calibrationByGrade(pours: QualityPour[]): QualityGradeCalibration[] {
+  const byGrade = new Map<string, QualityPour[]>()
+  for (const p of pours) byGrade.set(p.grade, [...(byGrade.get(p.grade) ?? []), p])
   return [...byGrade.keys()].sort((a, b) => a.localeCompare(b)).map((grade) => {
-    const samples = byGrade.get(grade)!.filter(s => s.predictedMinutes > 0 && s.actualMinutes > 0)
-    const { factor, count } = calibrationFactor(samples, { lastN: 10000 })
-    return { grade, count, factor, predictedMinutes: medianOf(samples.map(s => s.predictedMinutes)), actualMinutes: medianOf(samples.map(s => s.actualMinutes)) }
+    const ordered = byGrade.get(grade)!.sort((a, b) => (a.demouldedAt?.getTime() ?? 0) - (b.demouldedAt?.getTime() ?? 0))
+    const { factor, count, excluded, samples } = calibrationFromPours(ordered.map(p => ({ ...p, mixMinutes: POUR_MIX_MINUTES_DEFAULT })), { lastN: 10000 })
+    return { grade, count, excluded, factor, predictedMinutes: medianOf(samples.map(s => s.predictedMinutes)), actualMinutes: medianOf(samples.map(s => s.actualMinutes)) }
   })
 }
 

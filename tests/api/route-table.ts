@@ -131,6 +131,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'GET /api/grades', roles: STAFF },
   { route: 'POST /api/grades', roles: LEAD, body: () => ({ name: `Matrix grade ${rnd()}`, bagKg: 25, grade: GRADE }) },
   { route: 'PATCH /api/grades/[id]', roles: LEAD, ids: { id: 'grade' }, body: async s => ({ notes: 'matrix', version: await s.version('grade') }) },
+  { route: 'POST /api/grades/[id]/calibration', roles: LEAD, ids: { id: 'grade' }, body: async s => ({ apply: false, version: await s.version('grade') }) },
   { route: 'GET /api/lots', roles: STAFF },
   { route: 'POST /api/lots', roles: LEAD, body: async s => ({ gradeId: await s.id('grade'), lotCode: `MX-${rnd()}`, bagsReceived: 2, bagKg: 25, receivedOn: '2026-12-01' }) },
   { route: 'PATCH /api/lots/[id]', roles: LEAD, ids: { id: 'lot' }, body: async s => ({ notes: 'matrix', version: await s.version('lot') }) },

@@ -70,6 +70,61 @@ describe('runCutList', () => {
     expect(runCutList({ walls: [{ lengthM: 30 }], castLengthM: 3, minPieceM: 0, sparesPct: 10 }).spareLengths).toBe(1)
   })
 
+  it('reuses an offcut before starting a new length: walls 5.0 and 3.1 m take 3 lengths, not 4', () => {
+    // Worked example (issue 16, checked by hand): 3 m lengths, shortest piece 0.3 m, no spares.
+    // Wall 1: 3.0 from length 0, 2.0 from length 1 (1.0 left); wall 2: the 1.0 offcut + 2.1 from
+    // length 2. 3 lengths = ceil(8.1 / 3), the lower bound; splitting walls on their own needs 4.
+    const r = runCutList({ walls: [{ lengthM: 5 }, { lengthM: 3.1 }], castLengthM: 3, minPieceM: 0.3, sparesPct: 0 })
+    expect(r.usedLengths).toBe(3)
+    expect(r.offcutM).toBeCloseTo(9 - 8.1, 9)
+    expect(r.cuts.map(c => [c.wall, c.fromLength, c.lengthM])).toEqual([
+      [0, 0, 3], [0, 1, 2], [1, 1, expect.closeTo(1, 9)], [1, 2, expect.closeTo(2.1, 9)],
+    ])
+  })
+
+  it('adds the projection at each external mitre and return, and cuts the return piece', () => {
+    // Derived by hand: a chimney breast 0.35 m deep between two internal corners, 0.12 m projection.
+    // The breast's face (1.2 m) has two external corners: 1.2 + 2 × 0.12 = 1.44 m; each side
+    // return (0.35 m) meets one internal and one external corner: 0.35 + 0.12 = 0.47 m.
+    const walls = [
+      { lengthM: 0.35, start: 'internal', end: 'external' },
+      { lengthM: 1.2, start: 'external', end: 'external' },
+      { lengthM: 0.35, start: 'external', end: 'internal' },
+    ] as const
+    const r = runCutList({ walls: [...walls], castLengthM: 3, minPieceM: 0.3, sparesPct: 0, projectionM: 0.12 })
+    expect(r.runM.map(m => Math.round(m * 1000) / 1000)).toEqual([0.47, 1.44, 0.47])
+    expect(r.usedLengths).toBe(1) // 2.38 m from one 3 m length
+    // A run stopping on a free end returns to the wall: +0.12 m on the wall, a 0.12 m return piece
+    const free = runCutList({ walls: [{ lengthM: 2, end: 'return' }], castLengthM: 3, minPieceM: 0.3, sparesPct: 0, projectionM: 0.12 })
+    expect(free.cuts).toEqual([
+      { wall: 0, fromLength: 0, lengthM: expect.closeTo(2.12, 9), kind: 'wall' },
+      { wall: 0, fromLength: 0, lengthM: expect.closeTo(0.12, 9), kind: 'return' },
+    ])
+  })
+
+  it('stops short of corner blocks at internal corners and counts the blocks', () => {
+    // Derived: a 4 × 3 m room, four internal corners, blocks with 0.15 m legs: each wall loses
+    // 2 × 0.15 m; 8 internal ends = 4 corners = 4 blocks; run 14 − 8 × 0.15 = 12.8 m.
+    const walls = [4, 3, 4, 3].map(lengthM => ({ lengthM, start: 'internal' as const, end: 'internal' as const }))
+    const r = runCutList({ walls, castLengthM: 3, minPieceM: 0.3, sparesPct: 0, cornerBlockLegM: 0.15 })
+    expect(r.cornerBlocks).toBe(4)
+    expect(r.runM.reduce((a, b) => a + b, 0)).toBeCloseTo(12.8, 9)
+    expect(runCutList({ walls, castLengthM: 3, minPieceM: 0.3, sparesPct: 0 }).cornerBlocks).toBe(0) // mitred
+  })
+
+  it('loses a saw cut from the length at every cut that leaves an offcut', () => {
+    // Two 1.5 m pieces fill a 3 m length without kerf; with a 3 mm kerf the first cut leaves
+    // 1.497 m, too short for the second piece, so a second length is started.
+    const walls = [{ lengthM: 1.5 }, { lengthM: 1.5 }]
+    expect(runCutList({ walls, castLengthM: 3, minPieceM: 0.3, sparesPct: 0 }).usedLengths).toBe(1)
+    const r = runCutList({ walls, castLengthM: 3, minPieceM: 0.3, sparesPct: 0, sawCutM: 0.003 })
+    expect(r.usedLengths).toBe(2)
+    expect(r.sawCuts).toBe(2)
+    expect(r.offcutM).toBeCloseTo(2 * (3 - 1.5 - 0.003), 9)
+    // a piece that takes the rest of a length needs no cut: 3 m walls from 3 m lengths
+    expect(runCutList({ walls: [{ lengthM: 3 }], castLengthM: 3, minPieceM: 0.3, sparesPct: 0, sawCutM: 0.003 }).sawCuts).toBe(0)
+  })
+
   it('throws a named error on bad input', () => {
     const ok = { walls: room, castLengthM: 3, minPieceM: 0.3, sparesPct: 10 }
     expect(fieldOf(() => runCutList({ ...ok, castLengthM: 0 }))).toBe('castLengthM')
@@ -82,6 +137,10 @@ describe('runCutList', () => {
     // 3.5 m cannot be cut into pieces of 2–3 m: one is too short, two too long
     expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 3.5 }], minPieceM: 2 }))).toBe('walls[0].lengthM')
     expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 1000 }], castLengthM: 0.1, minPieceM: 0 }))).toBe('walls')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 2, end: 'external' }] }))).toBe('projectionM')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 2, end: 'bent' as 'external' }], projectionM: 0.1 }))).toBe('walls[0].end')
+    expect(fieldOf(() => runCutList({ ...ok, sawCutM: 0.5 }))).toBe('sawCutM')
+    expect(fieldOf(() => runCutList({ ...ok, walls: [{ lengthM: 0.2, start: 'internal', end: 'internal' }], cornerBlockLegM: 0.1 }))).toBe('walls[0].lengthM')
   })
 })
 

@@ -3,7 +3,10 @@ import {
   PlasterInputError,
   dryingEstimate,
   dryingGuard,
+  constantWeight,
+  dryMassGuide,
   dryness,
+  fallingRateFromWeighings,
   fToC,
   saturationVapourPressureKPa,
   wetBulbC,
@@ -24,7 +27,7 @@ function fieldOf(fn: () => unknown): string | undefined {
   return undefined
 }
 
-describe('saturationVapourPressureKPa (Buck 1981/1996)', () => {
+describe('saturationVapourPressureKPa (Buck 1996)', () => {
   it('matches the IAPWS-95 table values within 0.1 %', () => {
     // IAPWS-95 as tabulated in the CRC Handbook, recalled from memory (editions differ by < 0.02 %)
     expectNear(saturationVapourPressureKPa(0), 0.61121, 0.001)
@@ -36,7 +39,7 @@ describe('saturationVapourPressureKPa (Buck 1981/1996)', () => {
   })
 
   it('gives Buck\'s own constant at 0 °C', () => {
-    expect(saturationVapourPressureKPa(0)).toBe(0.61121) // Buck 1981: e(0 °C) = 6.1121 hPa
+    expect(saturationVapourPressureKPa(0)).toBe(0.61121) // Buck 1996 manual (and 1981 paper): e(0 °C) = 6.1121 hPa
   })
 
   it('throws a named error outside −40–100 °C', () => {
@@ -76,12 +79,13 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
     //   p_s = Buck(13.70) = 0.61121 × exp((18.678 − 0.05842) × 13.70 / 270.84) = 1.5675 kPa
     //   p_a = 0.5 × Buck(20) = 0.5 × 2.3383 = 1.1692 kPa; Δp = 0.3983 kPa
     //   Y = 2501 − 2.361 × 13.70 = 2468.7 kJ/kg
-    //   rate = 1 × 0.3983 × (0.089 + 0.0782 × 0.5) / 2468.7 = 0.3983 × 0.1281 / 2468.7
-    //        = 2.067e-5 kg/s = 0.0744 kg/h
-    //   hours = 0.4757 kg (the 1 L beta cast's free water) / 0.0744 × 2 = 12.79 h
+    //   rate = 1 × 0.3983 × (0.089 + 0.0782 × 0.5) / 2468.7 × 0.5 (activity factor, still unoccupied
+    //          water, ASHRAE Handbook—HVAC Applications) = 0.3983 × 0.1281 / 2468.7 × 0.5
+    //        = 1.0335e-5 kg/s = 0.0372 kg/h
+    //   hours = 0.4757 kg (the 1 L beta cast's free water) / 0.0372 × 1 = 12.79 h
     const d = dryingEstimate({ freeWaterKg: 0.4757, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 50, airSpeedMs: 0.5 })
     expect(d.wetBulbC).toBeCloseTo(13.7, 1)
-    expect(d.constantRateKgPerHour).toBeCloseTo(0.0744, 4)
+    expect(d.constantRateKgPerHour).toBeCloseTo(0.0372, 4)
     expect(d.hours).toBeCloseTo(12.79, 1)
     expect(d.warnings).toEqual([])
   })
@@ -90,7 +94,7 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
     const base = { freeWaterKg: 1, exposedAreaM2: 1, airTempC: 25, relHumidityPct: 40, airSpeedMs: 1 }
     const one = dryingEstimate(base)
     expect(dryingEstimate({ ...base, exposedAreaM2: 2 }).hours).toBeCloseTo(one.hours / 2, 10)
-    expect(dryingEstimate({ ...base, fallingRateFactor: 4 }).hours).toBeCloseTo(one.hours * 2, 10)
+    expect(dryingEstimate({ ...base, fallingRateFactor: 4 }).hours).toBeCloseTo(one.hours * 4, 10)
     expect(dryingEstimate({ ...base, airSpeedMs: 3 }).hours).toBeLessThan(one.hours)
     expect(dryingEstimate({ ...base, relHumidityPct: 70 }).hours).toBeGreaterThan(one.hours)
     expect(dryingEstimate({ ...base, freeWaterKg: 0 }).hours).toBe(0)
@@ -100,7 +104,21 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
     const d = dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 100, airSpeedMs: 1 })
     expect(d.constantRateKgPerHour).toBe(0)
     expect(d.hours).toBe(Infinity)
-    expect(d.warnings.join(' ')).toMatch(/saturated/)
+    expect(d.warnings.join(' ')).toMatch(/will not dry in these conditions/)
+  })
+
+  it('at 99.9 % RH says the cast will not dry instead of giving a date years away', () => {
+    const d = dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 99.9, airSpeedMs: 1 })
+    expect(d.hours).toBe(Infinity)
+    expect(d.warnings.join(' ')).toMatch(/will not dry in these conditions/)
+    expect(Number.isFinite(dryingEstimate({ freeWaterKg: 1, exposedAreaM2: 1, airTempC: 20, relHumidityPct: 99.8, airSpeedMs: 1 }).hours)).toBe(true)
+  })
+
+  it('warns below about 5 °C that a wet cast can freeze', () => {
+    const cold = { freeWaterKg: 1, exposedAreaM2: 1, relHumidityPct: 60, airSpeedMs: 1 }
+    expect(dryingEstimate({ ...cold, airTempC: 4 }).warnings.join(' ')).toMatch(/can freeze/)
+    expect(dryingEstimate({ ...cold, airTempC: 6 }).warnings.join(' ')).not.toMatch(/can freeze/)
+    expect(dryingEstimate({ ...cold, airTempC: 4, freeWaterKg: 0 }).warnings).toEqual([]) // a dry cast does not
   })
 
   it('warns outside Stull\'s RH range and above the 49 °C guard', () => {
@@ -118,6 +136,58 @@ describe('dryingEstimate (Carrier\'s equation, ASHRAE Handbook)', () => {
     expect(fieldOf(() => dryingEstimate({ ...ok, airSpeedMs: -0.1 }))).toBe('airSpeedMs')
     expect(fieldOf(() => dryingEstimate({ ...ok, airTempC: 60 }))).toBe('airTempC')
     expect(fieldOf(() => dryingEstimate({ ...ok, fallingRateFactor: 0.5 }))).toBe('fallingRateFactor')
+  })
+})
+
+describe('constantWeight (common practice: 0.1 % over at least 24 h, this model\'s choice)', () => {
+  const h = (hours: number) => new Date(Date.UTC(2027, 2, 1, 8) + hours * 3_600_000)
+
+  it('needs two weighings at least a day apart', () => {
+    expect(constantWeight([]).isDry).toBe(false)
+    expect(constantWeight([{ kg: 10, at: h(0) }]).isDry).toBe(false)
+    // the same weight 20 h apart is not yet proof
+    const soon = constantWeight([{ kg: 10, at: h(0) }, { kg: 10, at: h(20) }])
+    expect(soon).toMatchObject({ isDry: false, changePct: null })
+    expect(soon.message).toMatch(/24 hours/)
+  })
+
+  it('is dry within 0.1 % of the later weighing, not beyond, either way', () => {
+    // 10.009 → 10.000 kg over 24 h: 0.09 % (by hand)
+    expect(constantWeight([{ kg: 10.009, at: h(0) }, { kg: 10, at: h(24) }])).toMatchObject({ isDry: true, changePct: expect.closeTo(0.09, 9), hoursApart: 24 })
+    // 10.02 → 10.00 kg: 0.2 %, still drying
+    expect(constantWeight([{ kg: 10.02, at: h(0) }, { kg: 10, at: h(30) }]).isDry).toBe(false)
+    // took up 0.5 % in damp air: not constant
+    expect(constantWeight([{ kg: 9.95, at: h(0) }, { kg: 10, at: h(26) }]).isDry).toBe(false)
+  })
+
+  it('compares the latest weighing with the latest one a day before it, in any order', () => {
+    const w = [{ kg: 10, at: h(50) }, { kg: 10.5, at: h(0) }, { kg: 10.005, at: h(25) }, { kg: 10.2, at: h(20) }]
+    expect(constantWeight(w)).toMatchObject({ isDry: true, hoursApart: 25 }) // 10.005 at 25 h vs 10 at 50 h: 0.05 %
+  })
+
+  it('throws a named error on a bad weighing', () => {
+    expect(fieldOf(() => constantWeight([{ kg: -1, at: h(0) }]))).toBe('weighings[0].kg')
+    expect(fieldOf(() => constantWeight([{ kg: 1, at: new Date(Number.NaN) }]))).toBe('weighings[0].at')
+  })
+})
+
+describe('dryMassGuide', () => {
+  it('shows the computed dry mass with its 2 % uncertainty as a guide', () => {
+    const g = dryMassGuide(1.098) // the 1 L beta cast (derived in plaster-mix.test.ts)
+    expect(g.lowKg).toBeCloseTo(1.098 * 0.98, 12)
+    expect(g.highKg).toBeCloseTo(1.098 * 1.02, 12)
+    expect(g.label).toMatch(/about 1\.10 kg \(± 2 %, a guide only/)
+  })
+})
+
+describe('fallingRateFromWeighings', () => {
+  it('is the median of actual ÷ estimated hours over the shop\'s pieces, at least 1', () => {
+    // invented shop: pieces took 1.8, 2.2 and 2.0 × the constant-rate estimate, one was left a week
+    const pieces = [[10, 18], [12, 26.4], [8, 16], [10, 168]].map(([e, a]) => ({ estimatedHours: e!, actualHours: a! }))
+    expect(fallingRateFromWeighings(pieces)).toEqual({ factor: expect.closeTo(2.1, 9), count: 4 }) // median of 1.8, 2.0, 2.2, 16.8
+    expect(fallingRateFromWeighings([{ estimatedHours: 10, actualHours: 5 }]).factor).toBe(1)
+    expect(fallingRateFromWeighings([])).toEqual({ factor: 1, count: 0 })
+    expect(fieldOf(() => fallingRateFromWeighings('x' as never))).toBe('pieces')
   })
 })
 

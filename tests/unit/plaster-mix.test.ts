@@ -340,6 +340,29 @@ describe('mixSummary', () => {
     expect(m.warnings.some(w => /skin/.test(w))).toBe(true)
   })
 
+  it('caps the burn caution\'s peak at 100 °C, where water boils', () => {
+    // hot water and a stiff mix: slurry + adiabatic rise passes 100 °C; the bound does not
+    const m = mixSummary({ ...base, cavityLitres: 5, consistency: 30, waterTempC: 60, powderTempC: 60 })
+    expect(m.slurryTempC + m.adiabaticRiseC).toBeGreaterThan(100)
+    expect(m.peakTempUpperBoundC).toBe(100) // boiling point of water at sea level (definition)
+    expect(m.warnings.join(' ')).toMatch(/about 100 °C/)
+  })
+
+  it('refuses a window hotter than the grade\'s table and names the field typed for a freezing mix', () => {
+    expectInputError(() => mixSummary({ ...base, waterTempC: 90, powderTempC: 20 }), 'waterTempC')
+    // water at 0 °C with powder at −20 °C: the slurry would be below 0 °C; the error names the powder
+    expectInputError(() => mixSummary({ ...base, waterTempC: 0, powderTempC: -20 }), 'powderTempC')
+    expect(() => mixSummary({ ...base, waterTempC: 0, powderTempC: -20 })).toThrow(/freeze/)
+  })
+
+  it('flags strength outside the grade\'s consistency range as an extrapolation', () => {
+    expect(mixSummary(base).strengthExtrapolated).toBe(false)
+    const stiff = mixSummary({ ...base, consistency: 18.6 })
+    expect(stiff.strengthExtrapolated).toBe(true)
+    expect(stiff.relativeStrength).toBeGreaterThan(5) // the porosity law far past the 60–80 range it was measured on
+    expect(stiff.warnings.join(' ')).toMatch(/extrapolation.*60–80/)
+  })
+
   it('throws a named error on bad input', () => {
     expectInputError(() => mixSummary({ ...base, shopTempC: 80 }), 'shopTempC')
     expectInputError(() => mixSummary({ ...base, setFactor: 0 }), 'setFactor')

@@ -17,6 +17,7 @@ import {
   usGallonsToLitres,
   wetBulbC,
   type PlasterGradePresetKey,
+  type PlasterRunEnd,
 } from '#shared/utils/plaster'
 
 const EPS = 1e-9
@@ -91,7 +92,74 @@ describe('runCutList properties', () => {
       expect(r.offcutM).toBeCloseTo(r.usedLengths * castLengthM - total, 6)
     }))
   })
+
+  const END = fc.constantFrom('square', 'internal', 'external', 'return') as fc.Arbitrary<PlasterRunEnd>
+  const cornered = fc.record({
+    castLengthM: num(0.5, 6),
+    minFraction: num(0, 0.5),
+    walls: fc.array(fc.record({ extra: num(0.01, 30), start: END, end: END }), { minLength: 1, maxLength: 12 }),
+    projectionM: num(0.02, 0.4),
+    sawCutM: fc.constantFrom(0, 0.002, 0.004),
+  })
+
+  it('with corners and kerf: every wall covered, no wall piece below the minimum, no length over-cut', () => {
+    fc.assert(fc.property(cornered, ({ castLengthM, minFraction, walls: w, projectionM, sawCutM }) => {
+      const minPieceM = castLengthM * minFraction
+      const walls = w.map(({ extra, start, end }) => ({ lengthM: minPieceM + extra, start, end }))
+      const r = runCutList({ walls, castLengthM, minPieceM, sparesPct: 0, projectionM: Math.min(projectionM, castLengthM), sawCutM })
+      const perWall = walls.map(() => 0)
+      const perLength = Array<number>(r.usedLengths).fill(0)
+      for (const cut of r.cuts) {
+        if (cut.kind === 'wall') {
+          expect(cut.lengthM).toBeGreaterThanOrEqual(minPieceM - EPS)
+          perWall[cut.wall]! += cut.lengthM
+        }
+        expect(cut.lengthM).toBeLessThanOrEqual(castLengthM + EPS)
+        perLength[cut.fromLength]! += cut.lengthM
+      }
+      walls.forEach((wall, i) => {
+        const mitres = [wall.start, wall.end].filter(e => e === 'external' || e === 'return').length
+        expect(r.runM[i]).toBeCloseTo(wall.lengthM + mitres * Math.min(projectionM, castLengthM), 9)
+        expect(Math.abs(perWall[i]! - r.runM[i]!)).toBeLessThan(1e-8)
+      })
+      // pieces plus the kerf of every cut fit in the lengths
+      const kerfTotal = r.sawCuts * sawCutM
+      expect(perLength.reduce((a, b) => a + b, 0) + kerfTotal).toBeLessThanOrEqual(r.usedLengths * castLengthM + 1e-8)
+      perLength.forEach(used => expect(used).toBeLessThanOrEqual(castLengthM + 1e-8))
+    }))
+  })
+
+  it('never needs more lengths than splitting each wall on its own', () => {
+    fc.assert(fc.property(job, ({ castLengthM, minFraction, extras }) => {
+      const minPieceM = castLengthM * minFraction
+      const walls = extras.map(e => ({ lengthM: minPieceM + e }))
+      const r = runCutList({ walls, castLengthM, minPieceM, sparesPct: 0 })
+      expect(r.usedLengths).toBeLessThanOrEqual(lengthsSplittingEachWall(walls.map(x => x.lengthM), castLengthM, minPieceM))
+    }))
+  })
 })
+
+/**
+ * The rule before offcut reuse, restated independently as the reference: each wall split on its
+ * own (full lengths, a short rest balanced with the last full one or an even split), then first-
+ * fit decreasing into cast lengths.
+ */
+function lengthsSplittingEachWall(walls: number[], cast: number, min: number): number {
+  const pieces = walls.flatMap((l) => {
+    const k = Math.max(1, Math.ceil(l / cast - 1e-9))
+    const rest = l - (k - 1) * cast
+    if (rest >= min - 1e-9) return [...Array<number>(k - 1).fill(cast), rest]
+    if ((cast + rest) / 2 >= min - 1e-9) return [...Array<number>(k - 2).fill(cast), (cast + rest) / 2, (cast + rest) / 2]
+    return Array<number>(k).fill(l / k)
+  }).sort((a, b) => b - a)
+  const left: number[] = []
+  for (const p of pieces) {
+    const i = left.findIndex(r => r >= p - 1e-9)
+    if (i < 0) left.push(cast - p)
+    else left[i]! -= p
+  }
+  return left.length
+}
 
 describe('other properties', () => {
   it('metric ↔ imperial round trips', () => {

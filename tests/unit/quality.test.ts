@@ -4,7 +4,11 @@ import { notifyPrefsOf, notifyPrefsPatchSchema } from '#shared/utils/notify-sche
 
 const at = (min: number) => new Date(Date.UTC(2027, 0, 4, 9) + min * 60_000)
 function pour(over: Partial<QualityPour> = {}): QualityPour {
-  return { mould: 'CR-1', grade: 'Beta', caster: 'Idris', shopTempC: 18, result: 'sound', mixingAt: at(0), demouldOpenAt: at(30), demouldCloseAt: at(120), demouldedAt: at(36), ...over }
+  // predicted 35 min from the start of mixing at set factor 1: 5 of mixing, 30 of set
+  return {
+    mould: 'CR-1', grade: 'Beta', caster: 'Idris', shopTempC: 18, result: 'sound', mixingAt: at(0), demouldOpenAt: at(35),
+    demouldCloseAt: at(275), demouldedAt: at(41), predictedMinutes: 35, ...over,
+  }
 }
 
 describe('temperatureBand', () => {
@@ -30,22 +34,19 @@ describe('qualityFigures', () => {
     expect(f.byTemperature.map(r => [r.key, r.pours])).toEqual([['< 10 °C', 1], ['15–20 °C', 2], ['≥ 25 °C', 1]])
   })
 
-  it('calibrates per grade with the median ratio of actual to predicted demould minutes', () => {
-    // predicted 30 min each; actual 36, 45 and 30 → ratios 1.2, 1.5, 1.0 → median 1.2
-    const f = qualityFigures([pour(), pour({ demouldedAt: at(45) }), pour({ demouldedAt: at(30) }), pour({ demouldedAt: null })])
-    expect(f.calibration).toEqual([{ grade: 'Beta', count: 3, factor: 1.2, predictedMinutes: 30, actualMinutes: 36 }])
+  it('calibrates per grade with the register\'s rule: set part only, attended demoulds only', () => {
+    // set part predicted 30 min each; demoulded 41, 50 and 35 min after mixing began → set 36, 45, 30
+    // → ratios 1.2, 1.5, 1.0 → median 1.2. Left out: no demould, early (34 < 35) and next morning.
+    const f = qualityFigures([
+      pour(), pour({ demouldedAt: at(50) }), pour({ demouldedAt: at(35) }), pour({ demouldedAt: null }),
+      pour({ demouldedAt: at(34) }), pour({ demouldedAt: at(16 * 60) }),
+    ])
+    expect(f.calibration).toEqual([{ grade: 'Beta', count: 3, excluded: 3, factor: 1.2, predictedMinutes: 30, actualMinutes: 36 }])
   })
 
-  it('leaves early and late-attended demoulds out of the calibration', () => {
-    // in window: 36 → 1.2; early (20 < 30) and late (130 > 120) would pull the median either way
-    const f = qualityFigures([pour(), pour({ demouldedAt: at(20) }), pour({ demouldedAt: at(130) }), pour({ demouldedAt: at(131) })])
-    expect(f.calibration).toEqual([{ grade: 'Beta', count: 1, factor: 1.2, predictedMinutes: 30, actualMinutes: 36 }])
-    expect(f.pours).toBe(4)
-  })
-
-  it('leaves out samples without a mixing time or with a non-positive time; no sample gives factor 1', () => {
-    const f = qualityFigures([pour({ mixingAt: null }), pour({ demouldOpenAt: at(-5) })])
-    expect(f.calibration).toEqual([{ grade: 'Beta', count: 0, factor: 1, predictedMinutes: null, actualMinutes: null }])
+  it('leaves out samples without a mixing time or a stored prediction; no sample gives factor 1', () => {
+    const f = qualityFigures([pour({ mixingAt: null }), pour({ predictedMinutes: null })])
+    expect(f.calibration).toEqual([{ grade: 'Beta', count: 0, excluded: 2, factor: 1, predictedMinutes: null, actualMinutes: null }])
     expect(qualityFigures([])).toMatchObject({ pours: 0, byMould: [], calibration: [] })
   })
 })
