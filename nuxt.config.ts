@@ -36,9 +36,20 @@ export default defineNuxtConfig({
       schedulerLicenseKey: 'GPL-My-Project-Is-Open-Source',
     },
   },
+  // Performance (issue "Fast on any network"; figures in tests/bench/lighthouse-results.md).
+  experimental: {
+    // NuxtLink fetches a linked page's code when the link is pointed at or focused, not as soon as
+    // it scrolls into view: a page full of links (the lead's menu has fifteen) otherwise downloads
+    // most of the app on a phone's mobile data before anyone taps anything.
+    defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } },
+  },
   compatibilityDate: '2026-11-01',
   nitro: {
     experimental: { websocket: true },
+    // every file in .output/public is also written as .br and .gz at the top levels; Nitro's
+    // static handler answers the one the browser accepts, with Content-Encoding and Vary.
+    // Pages and JSON are compressed per request by server/plugins/compression.ts.
+    compressPublicAssets: { gzip: true, brotli: true },
     // the services tests import server code directly: typed with its auto-imports, like server/
     typescript: { tsConfig: { include: ['../tests/services/**/*', '../tests/setup/services.ts'] } },
   },
@@ -47,6 +58,11 @@ export default defineNuxtConfig({
   typescript: { strict: true },
   telemetry: false,
   hooks: {
+    // No rel=prefetch hints for the chunks a page might import later: Chrome fetches them at idle,
+    // the same data-cost as NuxtLink's viewport prefetch; modulepreload of what the page runs stays.
+    'build:manifest'(manifest) {
+      for (const chunk of Object.values(manifest)) chunk.prefetch = false
+    },
     // nuxt-auth-utils adds, when Nitro's websockets are on, a plugin that reads the session on
     // every request; h3 starts (and sets the cookie of) a new session for a request without
     // one, so even /api/health answered with a session cookie. The live socket unseals the

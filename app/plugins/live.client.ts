@@ -1,9 +1,14 @@
-// Opens the live connection while someone is signed in.
+// Opens the live connection while someone is signed in, once the page is interactive
+// (onNuxtReady: after hydration, when the browser is idle), so the socket's client code and
+// its handshake never hold up the first paint; a page loaded signed in shows "Not connected",
+// then "Connecting…", until then. Pages that listen register before it opens.
 export default defineNuxtPlugin(() => {
   const { loggedIn } = useUserSession()
   const live = useLiveStore()
-  watch(loggedIn, (on) => {
-    if (on) live.connect()
-    else live.disconnect()
-  }, { immediate: true })
+  onNuxtReady(() => {
+    watch(loggedIn, (on) => {
+      if (on) void live.connect()
+      else live.disconnect()
+    }, { immediate: true })
+  })
 })

@@ -1,8 +1,11 @@
 // The live connection: one socket.io client per tab, its status for the header indicator,
 // and the listeners pages register. On reconnect every listener's catch-up runs, so a page
 // refetches what it shows after a Wi-Fi drop.
+// socket.io's client is imported when the first connection opens, so it rides in a chunk of its
+// own instead of the entry every page waits for (app/plugins/live.client.ts opens it once the
+// page is interactive).
 import { defineStore } from 'pinia'
-import { io, type Socket } from 'socket.io-client'
+import type { Socket } from 'socket.io-client'
 import type { LiveEvent } from '#shared/types/live'
 
 export type LiveStatus = 'off' | 'connecting' | 'online' | 'offline'
@@ -13,10 +16,28 @@ export const useLiveStore = defineStore('live', () => {
   const listeners = new Set<Listener>()
   let socket: Socket | undefined
   let everConnected = false
+  /** bumped by disconnect, so a connect still loading the client does not open a socket after it */
+  let generation = 0
+  let opening = false
 
-  function connect() {
-    if (socket) return
+  async function connect() {
+    if (socket || opening) return
+    opening = true
     status.value = 'connecting'
+    const mine = generation
+    let io: typeof import('socket.io-client').io
+    try {
+      ({ io } = await import('socket.io-client'))
+    }
+    catch {
+      // the chunk did not load (the network dropped): offline until the next sign-in or reload
+      if (mine === generation) status.value = 'offline'
+      return
+    }
+    finally {
+      opening = false
+    }
+    if (mine !== generation || socket) return
     socket = io({ path: '/socket.io/', transports: ['websocket', 'polling'], withCredentials: true })
     socket.on('connect', () => {
       status.value = 'online'
@@ -33,6 +54,7 @@ export const useLiveStore = defineStore('live', () => {
   }
 
   function disconnect() {
+    generation++
     socket?.disconnect()
     socket = undefined
     everConnected = false

@@ -12,12 +12,17 @@ declare module 'vitest' {
   export interface ProvidedContext { templateUrl: string }
 }
 
-/** Starts the built app; with `output`, what it prints is also collected there (a test reads its log). */
+/**
+ * Starts the built app; with `output`, what it prints is also collected there (a test reads its log).
+ * SETLINE_BUILD_DIR names another copy of a build to start instead of .output (a benchmark of an
+ * older build while the tree is rebuilt).
+ */
 export async function startAppServer(env: Record<string, string>, output?: string[]) {
   const root = resolve(import.meta.dirname, '../..')
-  if (!existsSync(resolve(root, '.output/server/index.mjs'))) throw new Error('No build in .output: run npm test (it builds first)')
+  const entry = resolve(root, process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')
+  if (!existsSync(entry)) throw new Error(`No build in ${entry}: run npm test (it builds first)`)
   const [port, smtpPort] = [await freePort(), await freePort()]
-  const proc = spawn(process.execPath, [resolve(root, '.output/server/index.mjs')], {
+  const proc = spawn(process.execPath, [entry], {
     cwd: root,
     env: {
       ...process.env, HOST: '127.0.0.1', PORT: String(port), APP_URL: `http://127.0.0.1:${port}`,
