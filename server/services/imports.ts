@@ -3,14 +3,16 @@
 // checked again and written in one transaction (any late refusal rolls the whole file back).
 // Nothing is written by a preview. The columns are those of the matching export (moulds:
 // server/api/moulds/export.get.ts), so an exported file imports as it is; templates are that
-// header with one invented example row. Kinds: IMPORT_KINDS.
+// header with one invented example row. Kinds: IMPORT_KINDS (moulds, plaster lots).
 import type { Knex } from 'knex'
 import type { ZodType } from 'zod'
 import type { ImportPreview, ImportProblem, ImportResult, ImportRowPreview } from '#shared/types/imports'
 import type { ImportKind } from '#shared/utils/import-schemas'
 import { mouldsRepo } from '../repos/moulds'
 import { benchesRepo } from '../repos/benches'
-import { decodeCsvFile, parseCsvText, readNumberCell } from '../utils/csv-read'
+import { lotsRepo } from '../repos/plaster-lots'
+import { gradesRepo } from '../repos/plaster-grades'
+import { decodeCsvFile, parseCsvText, readDayCell, readNumberCell } from '../utils/csv-read'
 
 interface Column { header: string; field?: string; number?: boolean; required?: boolean }
 
@@ -27,9 +29,10 @@ function schemaProblems(schema: ZodType, input: unknown, columns: Column[]): Imp
   const parsed = schema.safeParse(input)
   if (parsed.success) return []
   return parsed.error.issues.map((i) => {
-    const field = String(i.path[0] ?? '')
-    const col = columns.find(c => c.field === field)
-    return { column: col?.header ?? '', message: col ? i.message.replace(field, col.header) : i.message }
+    const col = columns.find(c => c.field === String(i.path[0] ?? ''))
+    // every field a message names (a refinement may name two) in the file's own words
+    const message = columns.reduce((m, c) => (c.field ? m.replaceAll(c.field, c.header) : m), i.message)
+    return { column: col?.header ?? '', message }
   })
 }
 
@@ -98,18 +101,69 @@ const moulds: KindSpec<MouldValue> = {
   write: (trx, workshopId, actorId, values) => mouldsRepo.insertMany(trx, workshopId, actorId, values),
 }
 
-// a further kind widens the value type to a union of each kind's own
-const KINDS: Record<ImportKind, KindSpec<MouldValue>> = { moulds }
+// lots: the columns of server/api/lots/export.get.ts; the grade by its name in this workshop
+const LOT_COLUMNS: Column[] = [
+  { header: 'lot code', field: 'lotCode', required: true }, { header: 'grade', field: 'gradeId', required: true },
+  { header: 'bags received', field: 'bagsReceived', number: true, required: true }, { header: 'bag kg', field: 'bagKg', number: true, required: true },
+  { header: 'received on', field: 'receivedOn', required: true }, { header: 'use by', field: 'useBy' },
+  { header: 'archived', field: 'archived' }, { header: 'notes', field: 'notes' },
+]
+type LotValue = LotCreateInput & { archived: boolean }
+
+const lots: KindSpec<LotValue> = {
+  columns: LOT_COLUMNS,
+  example: { 'lot code': 'L-2027-014', 'grade': 'Fibrous casting plaster', 'bags received': '40', 'bag kg': '25', 'received on': '2027-03-01', 'use by': '2027-09-01', 'archived': 'no', 'notes': '' },
+  async check(workshopId, rows) {
+    const db = useDb()
+    const [taken, grades] = await Promise.all([lotsRepo.codes(db, workshopId), gradesRepo.list(db, workshopId)])
+    const gradeByName = new Map(grades.map(g => [g.name.toLowerCase(), g.id]))
+    const firstLine = new Map<string, number>()
+    return rows.map(({ line, cells }) => {
+      const problems: ImportProblem[] = []
+      const n = numbers(LOT_COLUMNS, cells, problems)
+      const code = cells['lot code'] ?? ''
+      if (code && taken.has(code)) problems.push({ column: 'lot code', message: `lot code ${code} is already a lot in Setline` })
+      else if (code && firstLine.has(code)) problems.push({ column: 'lot code', message: `lot code ${code} appears twice in this file (also line ${firstLine.get(code)})` })
+      else if (code) firstLine.set(code, line)
+      const gradeId = gradeByName.get((cells.grade ?? '').toLowerCase())
+      if (cells.grade && !gradeId) problems.push({ column: 'grade', message: `grade "${cells.grade}" is not a plaster grade of this workshop: add it under Plasters first` })
+      const days: Record<string, string | null> = {}
+      for (const [header, field] of [['received on', 'receivedOn'], ['use by', 'useBy']] as const) {
+        const r = readDayCell(cells[header] ?? '', header)
+        if ('problem' in r) problems.push({ column: header, message: r.problem })
+        else days[field] = r.value
+      }
+      const archivedWord = (cells.archived ?? '').toLowerCase()
+      if (!['', 'yes', 'no'].includes(archivedWord)) problems.push({ column: 'archived', message: 'archived must be yes or no' })
+      const input = {
+        lotCode: code, gradeId: gradeId ?? 0, bagsReceived: n.bagsReceived ?? undefined, bagKg: n.bagKg ?? undefined,
+        receivedOn: days.receivedOn ?? undefined, useBy: days.useBy ?? null, notes: cells.notes ?? null,
+      }
+      const said = new Set(problems.map(p => p.column))
+      problems.push(...schemaProblems(lotCreateSchema, input, LOT_COLUMNS).filter(p => !said.has(p.column)))
+      if (problems.length) return { problems }
+      return { value: { ...lotCreateSchema.parse(input), archived: archivedWord === 'yes' }, problems }
+    })
+  },
+  write: (trx, workshopId, _actorId, values) => lotsRepo.insertMany(trx, workshopId, values),
+}
+
+interface Kinds { moulds: KindSpec<MouldValue>; lots: KindSpec<LotValue> }
+const KINDS: Kinds = { moulds, lots }
+function spec(kind: ImportKind) {
+  // each kind's rows are checked and written by that kind alone
+  return KINDS[kind] as unknown as KindSpec<unknown>
+}
 
 /** The template's columns and example row (GET /api/import/[kind]/template). */
 export function importTemplate(kind: ImportKind) {
-  const spec = KINDS[kind]
-  return { columns: spec.columns.map(c => ({ key: c.header, header: c.header, number: c.number })), example: spec.example }
+  const { columns, example } = spec(kind)
+  return { columns: columns.map(c => ({ key: c.header, header: c.header, number: c.number })), example }
 }
 
 async function checkFile(workshopId: number, kind: ImportKind, fileName: string, bytes: Buffer) {
-  const spec = KINDS[kind]
-  const columns = spec.columns.map(c => c.header)
+  const kindSpec = spec(kind)
+  const columns = kindSpec.columns.map(c => c.header)
   const preview: ImportPreview = { kind, fileName, columns, fileProblems: [], rows: [], rowCount: 0, problemRows: 0, ready: false }
   const decoded = decodeCsvFile(bytes)
   if ('problem' in decoded) return { preview: { ...preview, fileProblems: [decoded.problem] }, values: [] }
@@ -117,7 +171,7 @@ async function checkFile(workshopId: number, kind: ImportKind, fileName: string,
   if ('problem' in parsed) return { preview: { ...preview, fileProblems: [parsed.problem] }, values: [] }
   const known = new Map(columns.map(c => [c.toLowerCase(), c]))
   const unknown = parsed.header.filter(h => h && !known.has(h.toLowerCase()))
-  const missing = spec.columns.filter(c => c.required && !parsed.header.some(h => h.toLowerCase() === c.header.toLowerCase())).map(c => c.header)
+  const missing = kindSpec.columns.filter(c => c.required && !parsed.header.some(h => h.toLowerCase() === c.header.toLowerCase())).map(c => c.header)
   if (unknown.length) preview.fileProblems.push(`Column${unknown.length > 1 ? 's' : ''} ${unknown.map(u => `"${u}"`).join(', ')} ${unknown.length > 1 ? 'are' : 'is'} not one Setline knows for ${kind}: the columns are ${columns.join(', ')} (download the template)`)
   if (missing.length) preview.fileProblems.push(`Column${missing.length > 1 ? 's' : ''} ${missing.map(m => `"${m}"`).join(', ')} ${missing.length > 1 ? 'are' : 'is'} missing`)
   if (!parsed.records.length) preview.fileProblems.push('The file has a header but no rows')
@@ -128,7 +182,7 @@ async function checkFile(workshopId: number, kind: ImportKind, fileName: string,
     cells: Object.fromEntries(headerAt.flatMap((h, i) => (h ? [[h, r.cells[i] ?? '']] : []))) as Record<string, string>,
     extra: r.cells.length > parsed.header.length,
   }))
-  const checked = await spec.check(workshopId, rows)
+  const checked = await kindSpec.check(workshopId, rows)
   preview.rows = rows.map((r, i): ImportRowPreview => ({
     line: r.line, cells: r.cells,
     problems: [...(r.extra ? [{ column: '', message: `this row has more cells than the header has columns (${parsed.header.length})` }] : []), ...checked[i]!.problems],
@@ -152,10 +206,13 @@ export async function confirmImport(workshopId: number, actorId: number, kind: I
     throw createError({ statusCode: 422, message: `Nothing was imported: ${first ?? 'the file has problems'}`, data: { preview } })
   }
   try {
-    await useDb().transaction(trx => KINDS[kind].write(trx, workshopId, actorId, values))
+    await useDb().transaction(trx => spec(kind).write(trx, workshopId, actorId, values))
   }
   catch (err) {
-    rethrowDbError(err, { moulds_workshop_id_code_unique: 'A mould code in the file was added by someone else meanwhile: preview the file again' })
+    rethrowDbError(err, {
+      moulds_workshop_id_code_unique: 'A mould code in the file was added by someone else meanwhile: preview the file again',
+      plaster_lots_workshop_id_lot_code_unique: 'A lot code in the file was added by someone else meanwhile: preview the file again',
+    })
   }
   return { kind, imported: values.length }
 }
