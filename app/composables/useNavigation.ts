@@ -17,6 +17,7 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/lead/quality', label: 'Quality', icon: 'chart' },
     { to: '/mix', label: 'Mix card', icon: 'calculator' },
     { to: '/lead/people', label: 'People', icon: 'users' },
+    { to: '/lead/import', label: 'Import', icon: 'upload' },
     { to: '/lead/settings', label: 'Settings', icon: 'settings' },
     { to: '/lead/mails', label: 'Captured mail', icon: 'mail' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },

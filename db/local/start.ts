@@ -8,6 +8,8 @@ import { sessionSecret } from './session-secret'
 import { demoSignIns, waitForHttp } from './serve'
 
 const dev = process.argv.includes('--dev')
+// SETLINE_DEMO=0: no demo rows; an empty database gets the first-run set-up (/setup) instead
+const demo = !['0', 'false'].includes(process.env.SETLINE_DEMO ?? '1')
 const t0 = Date.now()
 
 async function main() {
@@ -20,7 +22,7 @@ async function main() {
   }
   const done = await migrate(databaseUrl)
   console.log(`setline: migrations ${done.length ? `applied: ${done.join(', ')}` : 'up to date'}`)
-  if (await seedIfEmpty(databaseUrl)) console.log('setline: demo workshop seeded')
+  if (demo && await seedIfEmpty(databaseUrl)) console.log('setline: demo workshop seeded')
 
   const host = process.env.HOST ?? '127.0.0.1'
   const port = process.env.PORT ?? '3000'
@@ -51,7 +53,7 @@ function printWelcome(url: string) {
     '',
     `Setline is running at ${url}  (ready in ${((Date.now() - t0) / 1000).toFixed(1)} s)`,
     '',
-    ...demoSignIns(),
+    ...(demo ? demoSignIns() : ['Without the demo: a new database is set up at /setup with the code printed above.']),
     '',
     'Shared tablet: sign in as the lead on the device, People → "Use this device as a shared tablet",',
     'then tap a name and type that person\'s tablet PIN.',

@@ -92,6 +92,18 @@ export const mouldsRepo = {
   byId(db: Knex, workshopId: number, id: number): Promise<MouldListRow | undefined> {
     return listQuery(db, workshopId).where('m.id', id).first()
   },
+  /** The codes this workshop already uses (a CSV import refuses them; the unique index compares them exactly). */
+  async codes(db: Knex, workshopId: number): Promise<Set<string>> {
+    const rows: { code: string }[] = await db('moulds').select('code').where({ workshop_id: workshopId })
+    return new Set(rows.map(r => r.code))
+  },
+  /** Many moulds at once (CSV import, inside its transaction), with their state; in batches of 500 rows. */
+  async insertMany(db: Knex, workshopId: number, actorId: number, rows: (MouldInput & { state: string; stateReason: string | null })[]) {
+    const cols = rows.map(({ state, stateReason, ...input }) => ({
+      workshop_id: workshopId, ...toColumns(input), state, state_reason: stateReason, state_changed_by: actorId, state_changed_at: db.fn.now(),
+    }))
+    for (let i = 0; i < cols.length; i += 500) await db('moulds').insert(cols.slice(i, i + 500))
+  },
   async insert(db: Knex, workshopId: number, actorId: number, input: MouldInput): Promise<MouldRow> {
     try {
       const [row] = await db('moulds').insert({ workshop_id: workshopId, ...toColumns(input), state_changed_by: actorId, state_changed_at: db.fn.now() })

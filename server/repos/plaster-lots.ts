@@ -61,6 +61,16 @@ export const lotsRepo = {
     }
     return byLot
   },
+  /** The lot codes this workshop already uses (a CSV import refuses them). */
+  async codes(db: Knex, workshopId: number): Promise<Set<string>> {
+    const rows: { lot_code: string }[] = await db('plaster_lots').select('lot_code').where({ workshop_id: workshopId })
+    return new Set(rows.map(r => r.lot_code))
+  },
+  /** Many lots at once (CSV import, inside its transaction); `archived` ones are archived as they land. */
+  async insertMany(db: Knex, workshopId: number, rows: (LotInput & { archived: boolean })[]) {
+    const cols = rows.map(({ archived, ...input }) => ({ workshop_id: workshopId, ...toColumns(input, db), archived_at: archived ? db.fn.now() : null }))
+    for (let i = 0; i < cols.length; i += 500) await db('plaster_lots').insert(cols.slice(i, i + 500))
+  },
   async insert(db: Knex, workshopId: number, input: LotInput): Promise<LotRow> {
     try {
       const [row] = await db('plaster_lots').insert({ workshop_id: workshopId, ...toColumns(input, db) }).returning(LOT_COLUMNS)

@@ -28,6 +28,15 @@ export const workshopsRepo = {
       .first(db.raw('to_char((now() AT TIME ZONE timezone)::date, \'YYYY-MM-DD\') AS today'))
     return r.today
   },
+  /** Whether any workshop exists: the first-run set-up is offered only while none does. */
+  async any(db: Knex): Promise<boolean> {
+    return Boolean(await db('workshops').first('id'))
+  },
+  /** A new workshop (first-run set-up). */
+  async insert(db: Knex, row: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow> {
+    const [created] = await db('workshops').insert(row).returning(COLUMNS)
+    return created
+  },
   /** Updates when the version matches; returns undefined when someone else changed it first. */
   async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
     const [row] = await db('workshops').where({ id, version })

@@ -20,7 +20,11 @@ const LARGE_JSON: { method: string; path: RegExp; max: number }[] = [
 /** Routes that take a file as multipart/form-data (RFC 7578), and nothing else does. */
 const MULTIPART: { method: string; path: RegExp }[] = [
   { method: 'POST', path: /^\/api\/jobs\/[^/]+\/photos$/ },
+  { method: 'POST', path: /^\/api\/import\/[a-z-]+\/(preview|confirm)$/ },
 ]
+
+/** A CSV import file (server/utils/csv-upload.ts): 5,000 moulds measure about 400 KB. */
+export const IMPORT_MAX_BYTES = 4 * 1024 * 1024
 
 /** Room for the multipart boundaries and text fields around the files of one upload. */
 export const FORM_OVERHEAD_BYTES = 256 * 1024

@@ -20,6 +20,8 @@ const envSchema = z.object({
   MAIL_WORKER_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(5000),
   MAIL_RETRY_BASE_SECONDS: z.coerce.number().int().min(1).max(3600).default(15),
   OVERDUE_CHECK_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(60_000),
+  // how long a first-run set-up code printed on the console works (server/services/setup.ts)
+  SETUP_CODE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(60),
   // Setline sits behind a reverse proxy that sets X-Forwarded-For / -Host / -Proto (README, "Behind a TLS proxy")
   TRUST_PROXY: flag.default(false),
   LOGIN_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),

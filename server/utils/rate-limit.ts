@@ -19,6 +19,9 @@ export const LIMITS = {
   // back by someone else's failures on the shop's shared address.
   resetConfirmAddress: { points: 10, durationS: 15 * 60, what: 'unusable reset links from this address' },
   inviteAcceptAddress: { points: 10, durationS: 15 * 60, what: 'unusable invitation links from this address' },
+  // The first-run set-up code has 60 random bits (12 of 31 symbols) and expires within the hour:
+  // wrong codes are counted per address like unusable links (same sources as above).
+  setupAddress: { points: 10, durationS: 15 * 60, what: 'wrong set-up codes from this address' },
   // A shared tablet's PIN is a few digits, so wrong guesses are counted per device (one
   // tablet cannot try many) and per person across the workshop's devices (several tablets
   // cannot share out the guessing at one person's PIN; the key is `workshop:person`, and only

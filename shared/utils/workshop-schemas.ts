@@ -15,8 +15,8 @@ function isTimezone(tz: string) {
   }
 }
 
-export const workshopSettingsSchema = z.object({
-  version: z.number({ error: 'version must be the version you loaded' }).int().positive().max(PG_INTEGER_MAX, { error: 'version must be the version you loaded' }),
+/** The settings a workshop is created with (first-run set-up) and later edited with. */
+export const workshopFields = {
   name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' }),
   units: z.enum(['metric', 'imperial'], { error: 'units must be metric or imperial' }),
   timezone: z.string().refine(isTimezone, { error: 'timezone must be an IANA zone such as Europe/London' }),
@@ -26,6 +26,11 @@ export const workshopSettingsSchema = z.object({
     .min(1, { error: 'workingDays must name at least one day' }).max(7),
   defaultShopTempC: z.number({ error: 'defaultShopTempC must be a number of °C' }).min(-10, { error: 'defaultShopTempC must be between -10 and 45 °C' }).max(45, { error: 'defaultShopTempC must be between -10 and 45 °C' }),
   defaultHumidityPct: z.number({ error: 'defaultHumidityPct must be a percentage' }).min(0, { error: 'defaultHumidityPct must be between 0 and 100' }).max(100, { error: 'defaultHumidityPct must be between 0 and 100' }),
+}
+
+export const workshopSettingsSchema = z.object({
+  version: z.number({ error: 'version must be the version you loaded' }).int().positive().max(PG_INTEGER_MAX, { error: 'version must be the version you loaded' }),
+  ...workshopFields,
 }).refine(v => v.shiftStart < v.shiftEnd, { path: ['shiftEnd'], error: 'shiftEnd must be after shiftStart' })
 
 export type WorkshopSettings = z.infer<typeof workshopSettingsSchema>
