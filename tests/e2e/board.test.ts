@@ -238,7 +238,7 @@ describe('pour board', () => {
     // one bar dressed as each state in turn (the page is closed afterwards)
     const looks = await page.locator('.fc-timeline-event.pour').evaluateAll(els => els.slice(0, 1).map((el) => {
       const edge = (cls: string) => {
-        el.className = `fc-timeline-event pour ${cls}`
+        el.setAttribute('class', `fc-timeline-event pour ${cls}`)
         const cs = getComputedStyle(el)
         return `${cs.borderTopStyle} ${cs.borderTopWidth} ${cs.backgroundColor}`
       }
