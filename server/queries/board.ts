@@ -14,6 +14,7 @@ interface BoardContextRow {
   working_days: number[]
   units: 'metric' | 'imperial'
   default_shop_temp_c: number
+  default_humidity_pct: number
   benches: { id: number; name: string; sort_order: number }[]
   moulds: { id: number; code: string; casts: string; bench_id: number | null; bench_name: string | null; state: string; pulls: number; expected_pulls: number | null }[]
   shop_days: { day: string; temp_c: number; humidity_pct: number }[]
@@ -29,7 +30,7 @@ const MS = (x: string) => `floor(extract(epoch FROM ${x}) * 1000)::bigint`
 
 const SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
   rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
-SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.units, w.default_shop_temp_c,
+SELECT w.timezone, w.shift_start, w.shift_end, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
      FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,
   (SELECT coalesce(json_agg(json_build_object('id', m.id, 'code', m.code, 'casts', m.casts, 'bench_id', m.bench_id, 'bench_name', b.name,
@@ -71,6 +72,7 @@ export async function boardData(workshopId: number, from: string, to: string): P
     workshop: {
       timezone: ctx.timezone, shiftStart: ctx.shift_start.slice(0, 5), shiftEnd: ctx.shift_end.slice(0, 5),
       workingDays: ctx.working_days.map(Number), units: ctx.units, defaultShopTempC: Number(ctx.default_shop_temp_c),
+      defaultHumidityPct: Number(ctx.default_humidity_pct),
     },
     benches: ctx.benches.map(b => ({ id: Number(b.id), name: b.name, sortOrder: b.sort_order })),
     moulds: ctx.moulds.map(m => ({

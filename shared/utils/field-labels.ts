@@ -75,7 +75,11 @@ const NAME = /walls(?:\[\d+\]|\.\d+)(?:\.lengthM)?|\b[a-z]+[A-Z][A-Za-z]*\b/g
  */
 export function inUserWords(field: string, message: string, value?: unknown, known = false): string {
   const label = fieldLabel(field)
-  if (known && (value === undefined || value === null || value === '') && label !== field) return `${label} is required`
+  // an empty field says it is required, unless its schema already asks in a sentence of its own
+  // ("choose a mould or name a profile"): only the generic shapes are replaced
+  const leaf = field.split('.').pop() ?? field
+  const generic = message.startsWith(leaf) || /^(invalid|expected|required)\b/i.test(message)
+  if (known && generic && (value === undefined || value === null || value === '') && label !== field) return `${label} is required`
   let out = message.replace(NAME, m => (m.startsWith('walls') || FIELD_LABELS[m] ? fieldLabel(m) : m))
   const lead = out.match(/^([a-z]+)\b/)?.[1]
   if (lead && FIELD_LABELS[lead]) out = FIELD_LABELS[lead] + out.slice(lead.length)

@@ -39,6 +39,8 @@ describe('GET /api/board', () => {
     expect(r.status).toBe(200)
     expect(r.data.workshop).toMatchObject({ timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5], units: 'metric' })
     expect(typeof r.data.workshop.defaultShopTempC).toBe('number')
+    // the board's humidity field starts from the workshop's usual, not a constant
+    expect(r.data.workshop.defaultHumidityPct).toBe(Number((await fx.k('workshops').where({ id: fx.workshopId }).first('default_humidity_pct')).default_humidity_pct))
     expect(r.data.benches).toContainEqual({ id: fx.benchId, name: expect.any(String), sortOrder: 90 })
     const mine = r.data.pours.filter((p: { mouldId: number }) => p.mouldId === mouldId)
     expect(mine.map((p: { id: number }) => p.id)).toEqual([inside.id])

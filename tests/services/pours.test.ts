@@ -37,9 +37,13 @@ describe('pours repo: the mould overlap', () => {
     expect(refused).toMatchObject({ code: '23P01', constraint: 'pours_no_overlap' })
     await expect(withOverlapAnswer(ws, () => null, () => poursRepo.insert(db, ws.id, lead.id, write)))
       .rejects.toMatchObject({ statusCode: 409, message: 'This mould is already taken at that time' })
-    // knowing the mould, the answer names the pour that holds it
-    await expect(withOverlapAnswer(ws, () => ({ id: mouldId, start: write.slotStart, end: write.slotEnd }), () => poursRepo.insert(db, ws.id, lead.id, write)))
-      .rejects.toMatchObject({ statusCode: 409, message: expect.stringContaining(`by pour ${first}`) })
+    // knowing the mould, the answer names the pour that holds it as the lead sees it (its mould
+    // code and mixing time), and carries its id for the page, never in the words
+    const code = (await fx.k('moulds').where({ id: mouldId }).first('code')).code as string
+    const answer = await withOverlapAnswer(ws, () => ({ id: mouldId, start: write.slotStart, end: write.slotEnd }), () => poursRepo.insert(db, ws.id, lead.id, write)).catch((e: unknown) => e)
+    expect(answer).toMatchObject({ statusCode: 409, message: expect.stringContaining(`pour on ${code} mixing at`) })
+    expect((answer as Error).message).not.toContain(`pour ${first}`)
+    expect((answer as { data?: { pourId?: number } }).data).toMatchObject({ pourId: first })
     expect(await poursOn(mouldId)).toBe(1)
   })
 })
