@@ -22,6 +22,10 @@ function skip(event: H3Event) {
   const status = event.node.res.statusCode
   return event.handled || event.method === 'HEAD' || status === 204 || status === 304 || status < 200
     || event.path.startsWith('/socket.io/')
+    // the error page is rendered by an internal request whose headers the error handler copies
+    // onto the real answer while reading the body decoded: compressing it would send a gzip
+    // header over plain bytes. The outer answer is small HTML; it goes uncompressed.
+    || event.path.startsWith('/__nuxt_error')
     || !!getResponseHeader(event, 'content-encoding')
     || /no-transform/i.test(String(getResponseHeader(event, 'cache-control') ?? ''))
 }

@@ -28,7 +28,7 @@ export async function mixOptions(workshopId: number): Promise<MixOptions> {
 /** The grade a mix request names by id, as the plaster model wants it (422 when not the workshop's). */
 export async function mixGrade(db: Knex, workshopId: number, id: number): Promise<PlasterGrade> {
   const row = await gradesRepo.byId(db, workshopId, id)
-  if (!row) unprocessable([{ field: 'gradeId', message: 'is not a plaster grade of this workshop' }])
+  if (!row) unprocessable([{ field: 'gradeId', message: 'is not one of this workshop\'s grades' }])
   return plasterGradeFromRow(row)
 }
 

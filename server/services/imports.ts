@@ -50,9 +50,9 @@ function numbers(columns: Column[], cells: Record<string, string>, problems: Imp
 const MOULD_COLUMNS: Column[] = [
   { header: 'code', field: 'code', required: true }, { header: 'casts', field: 'casts', required: true },
   { header: 'material', field: 'material', required: true }, { header: 'bench', field: 'benchId' },
-  { header: 'cavity L', field: 'cavityLitres', number: true, required: true }, { header: 'cast length m', field: 'castLengthM', number: true },
-  { header: 'prep min', field: 'prepMinutes', number: true }, { header: 'clean min', field: 'cleanMinutes', number: true },
-  { header: 'max dwell min', field: 'maxDwellMinutes', number: true }, { header: 'pulls', field: 'pulls', number: true },
+  { header: 'cavity (L)', field: 'cavityLitres', number: true, required: true }, { header: 'cast length (m)', field: 'castLengthM', number: true },
+  { header: 'prep (min)', field: 'prepMinutes', number: true }, { header: 'clean-out (min)', field: 'cleanMinutes', number: true },
+  { header: 'maximum dwell (min)', field: 'maxDwellMinutes', number: true }, { header: 'pulls', field: 'pulls', number: true },
   { header: 'expected pulls', field: 'expectedPulls', number: true }, { header: 'state', field: 'state' }, { header: 'state reason', field: 'stateReason' },
 ]
 type MouldValue = MouldCreateInput & { state: string; stateReason: string | null }
@@ -63,7 +63,7 @@ const materialByWord = new Map<string, string>([
 
 const moulds: KindSpec<MouldValue> = {
   columns: MOULD_COLUMNS,
-  example: { 'code': 'CR-101', 'casts': 'Egg-and-dart cornice, 150 mm', 'material': 'silicone', 'bench': '', 'cavity L': '4.2', 'cast length m': '1.2', 'prep min': '10', 'clean min': '10', 'max dwell min': '120', 'pulls': '0', 'expected pulls': '150', 'state': 'ready', 'state reason': '' },
+  example: { 'code': 'CR-101', 'casts': 'Egg-and-dart cornice, 150 mm', 'material': 'silicone', 'bench': '', 'cavity (L)': '4.2', 'cast length (m)': '1.2', 'prep (min)': '10', 'clean-out (min)': '10', 'maximum dwell (min)': '120', 'pulls': '0', 'expected pulls': '150', 'state': 'ready', 'state reason': '' },
   async check(workshopId, rows) {
     const db = useDb()
     const [taken, benches] = await Promise.all([mouldsRepo.codes(db, workshopId), benchesRepo.list(db, workshopId)])

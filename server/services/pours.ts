@@ -57,7 +57,7 @@ async function loadNamed(trx: Knex, ws: number, p: PourPlanInput) {
   const caster = p.casterId ? await pourFactsRepo.caster(trx, ws, p.casterId) : null
   if (p.casterId && !caster) field422('casterId', 'is not an active caster or lead of this workshop')
   const grade = await pourFactsRepo.grade(trx, ws, p.gradeId ?? item?.grade_id)
-  if (!grade) field422('gradeId', p.gradeId ? 'is not a plaster grade of this workshop' : 'the workshop has no plaster grade yet')
+  if (!grade) field422('gradeId', p.gradeId ? 'is not one of this workshop\'s grades' : 'the workshop has no plaster grade yet')
   const lot = p.lotId ? await pourFactsRepo.lot(trx, ws, p.lotId) : null
   if (p.lotId && !lot) field422('lotId', 'is not a plaster lot of this workshop')
   if (lot && lot.grade_id !== grade.id) field422('lotId', `is a lot of another grade than ${grade.name}`)

@@ -63,7 +63,7 @@ describe('POST /api/calc/mix', () => {
     const grade = await testDb()('plaster_grades').where({ preset_key: 'beta-casting' }).first('id')
     const r = await call('/api/calc/mix', { method: 'POST', cookie: otherLead, body: { ...mix, gradeId: Number(grade.id), cavityLitres: 1 } })
     expect(r.status).toBe(422)
-    expect(r.data.data.problems[0]).toEqual({ field: 'gradeId', message: 'is not a plaster grade of this workshop' })
+    expect(r.data.data.problems[0]).toEqual({ field: 'gradeId', message: 'Plaster grade is not one of this workshop\'s grades' })
   })
 })
 

@@ -15,11 +15,11 @@ const t = { job: 0, mouldA: 0, mouldB: 0, lot: 0 }
 async function pours(n: number, mould: number, item: number, start: string, extra: { result?: string; caster?: number | null; shopTemp?: number } = {}) {
   await fx.k.raw(`INSERT INTO pours (workshop_id, job_item_id, mould_id, caster_id, grade_id, lot_id, consistency, slot, mix_at,
       demould_open_at, demould_close_at, state, plaster_kg_planned, water_kg_planned, plaster_kg_actual, water_kg_actual,
-      shop_temp_c, water_temp_c, mixing_at, poured_at, demoulded_at, result, defect)
+      shop_temp_c, water_temp_c, mixing_at, poured_at, demoulded_at, result, defect, predicted_demould_minutes)
     SELECT :ws, :item, :mould, :caster, :grade, :lot, 70, tstzrange(t, t + interval '50 minutes'), t + interval '5 minutes',
       t + interval '30 minutes', t + interval '45 minutes', 'demoulded', 2, 1.4, 2, 1.4, :temp, 18,
       t + interval '5 minutes', t + interval '8 minutes', t + interval '40 minutes', :result,
-      CASE WHEN :result = 'defect' THEN 'air holes' END
+      CASE WHEN :result = 'defect' THEN 'air holes' END, 25
     FROM generate_series(0, :n - 1) AS s(i), LATERAL (SELECT CAST(:start AS timestamptz) + s.i * interval '1 hour' AS t) x`,
   { ws: fx.workshopId, item, mould, caster: extra.caster ?? fx.casterId, grade: fx.gradeId, lot: t.lot, temp: extra.shopTemp ?? 18, result: extra.result ?? 'sound', n, start })
 }
@@ -89,10 +89,11 @@ describe('quality figures', () => {
       { key: codes[0], pours: 4, defects: 0, rate: 0 }, { key: codes[1], pours: 2, defects: 2, rate: 1 },
     ])
     expect(r.data.byTemperature).toEqual(expect.arrayContaining([{ key: '< 10 °C', pours: 2, defects: 2, rate: 1 }, { key: '20–25 °C', pours: 4, defects: 0, rate: 0 }]))
-    // planned opening 25 min after mixing started, demoulded after 35: ratio 1.4
+    // predicted 25 min from the start of mixing (5 of them mixing), demoulded 35 min after it,
+    // 10 min into the window (attended): set part 20 predicted, 30 actual, ratio 1.5
     const cal = r.data.calibration.find((c: { grade: string }) => c.grade === fx.grade.name)
-    expect(cal).toMatchObject({ count: 6, predictedMinutes: 25, actualMinutes: 35 })
-    expect(cal.factor).toBeCloseTo(1.4, 9)
+    expect(cal).toMatchObject({ count: 6, predictedMinutes: 20, actualMinutes: 30 })
+    expect(cal.factor).toBeCloseTo(1.5, 9)
     const bad = await call('/api/quality?from=2029-02-01&to=2031-02-28', { cookie: lead })
     expect(bad.status).toBe(422)
     expect(bad.data.data.problems[0].field).toBe('query.to')

@@ -76,7 +76,7 @@ async function settings() {
 /** A one-mould CSV import with a fresh code. */
 function mouldCsv() {
   const f = new FormData()
-  f.append('file', new Blob([`code,casts,material,cavity L\nMX-${rnd()},Matrix,silicone,1.5\n`], { type: 'text/csv' }), 'moulds.csv')
+  f.append('file', new Blob([`code,casts,material,cavity (L)\nMX-${rnd()},Matrix,silicone,1.5\n`], { type: 'text/csv' }), 'moulds.csv')
   return f
 }
 const photo = async () => photoForm([{ name: 'matrix.jpg', data: await jpegWithGps(64, 48) }])

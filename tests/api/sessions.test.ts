@@ -47,7 +47,7 @@ function dropped(s: Socket, timeoutMs = 5000): Promise<string> {
   })
 }
 
-function nextLive(s: Socket, match: (e: { type: string; row?: { job_id?: number } }) => boolean, timeoutMs = 5000): Promise<unknown> {
+function nextLive(s: Socket, match: (e: { type: string; row?: { jobId?: number } }) => boolean, timeoutMs = 5000): Promise<unknown> {
   return new Promise((resolve, reject) => {
     const t = setTimeout(() => reject(new Error(`no matching live event within ${timeoutMs} ms`)), timeoutMs)
     s.on('live', (e) => {
@@ -182,22 +182,22 @@ describe('live sockets lose their rights at once', () => {
     ])
     const socket = await connect(client.cookie)
     const stillMember = await connect(other.cookie)
-    const heard: { type: string; row?: { job_id?: number } }[] = []
+    const heard: { type: string; row?: { jobId?: number } }[] = []
     socket.on('live', e => heard.push(e))
     expect((await call(`/api/jobs/${left}/members/${client.id}`, { method: 'DELETE', cookie: lead })).status).toBe(204)
 
     const jpeg = await jpegWithGps(64, 48)
     const share = (jobId: number) => call(`/api/jobs/${jobId}/photos`, { method: 'POST', cookie: lead, form: photoForm([{ name: 'cornice.jpg', data: jpeg }], { shared: 'true' }) })
-    const otherHears = nextLive(stillMember, e => e.type === 'photo.created' && e.row?.job_id === left)
+    const otherHears = nextLive(stillMember, e => e.type === 'photo.created' && e.row?.jobId === left)
     expect((await share(left)).status).toBe(201)
     await otherHears
     // one socket gets its events in order: the kept job's photo arriving after the left job's
     // shows the left job's event was never sent to it
-    const keptHeard = nextLive(socket, e => e.type === 'photo.created' && e.row?.job_id === kept)
+    const keptHeard = nextLive(socket, e => e.type === 'photo.created' && e.row?.jobId === kept)
     expect((await share(kept)).status).toBe(201)
     await keptHeard
     expect(socket.connected).toBe(true)
-    expect(heard.filter(e => e.row?.job_id === left)).toEqual([])
+    expect(heard.filter(e => e.row?.jobId === left)).toEqual([])
   })
 })
 

@@ -15,7 +15,7 @@ const RUNS = 3
 const GOAL_S = 3
 
 function csv() {
-  const lines = ['code,casts,material,bench,cavity L,cast length m,prep min,clean min,max dwell min,pulls,expected pulls,state,state reason']
+  const lines = ['code,casts,material,bench,cavity (L),cast length (m),prep (min),clean-out (min),maximum dwell (min),pulls,expected pulls,state,state reason']
   const materials = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine']
   for (let i = 0; i < MOULDS; i++) {
     lines.push(`BM-${String(i).padStart(5, '0')},Bench cornice ${i},${materials[i % 5]},,${(1 + (i % 40) / 10).toFixed(1)},${i % 3 ? '' : '1.2'},10,10,120,${i % 50},200,ready,`)

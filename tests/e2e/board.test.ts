@@ -8,6 +8,7 @@ import type { Locator, Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
+import { formatDay } from '../../shared/utils/workshop-format'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -186,7 +187,7 @@ describe('pour board', () => {
 
     // the day sheet of that day lists the pours and what plaster to fetch
     await page.locator(`a[href="/day-sheet?day=${day}"]`).click()
-    await page.getByRole('heading', { level: 1, name: new RegExp(`Day sheet ${day}`) }).waitFor()
+    await page.getByRole('heading', { level: 1, name: `Day sheet ${formatDay(day, 'UTC')}` }).waitFor()
     await expect(page.getByTestId('requisition').textContent()).resolves.toMatch(/\d+ × 25 kg/)
     await screenshot(page, 'day-sheet')
     await page.close()

@@ -70,7 +70,7 @@ describe('lead sets up a mould and a job', () => {
     // 6.2 m → 1.5 ×3 + 0.85 + 0.85 (a 0.2 m end is under the 0.3 m shortest piece); 4.4 m → 1.5 ×2 + 1.4;
     // first-fit packs them into 8 lengths; 10 % spares → 1
     await expect(preview.textContent()).resolves.toMatch(/9 cast lengths \(8 used \+ 1 spare\)/)
-    await expect(preview.textContent()).resolves.toMatch(/Plaster for the run: [\d.]+ kg ≈ \d+ bags of 25 kg/)
+    await expect(preview.textContent()).resolves.toMatch(/Plaster for the run: [\d.]+ kg ≈ \d+ × 25 kg/)
     await screenshot(page, 'catalogue-run-calculator')
     await page.getByRole('button', { name: 'Add item' }).click()
     await page.getByRole('status').getByText('Item added.').waitFor()

@@ -9,6 +9,7 @@ import { boardFixture } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
 import { call, signIn } from '../setup/http'
 import { seriousAxeViolations } from '../setup/axe'
+import { formatDay } from '../../shared/utils/workshop-format'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -60,7 +61,7 @@ describe('client completion', () => {
     const readyBy = new Date(progress.completion.readyBy)
     // drying days after the last demould, never the demould itself
     expect(readyBy.getTime() - Date.parse(last.demouldOpenAt)).toBeGreaterThan(24 * 3_600_000)
-    const day = readyBy.toLocaleDateString('en-GB', { dateStyle: 'long', timeZone: progress.completion.timezone })
+    const day = formatDay(readyBy, progress.completion.timezone)
     await expect.poll(() => expected.textContent()).toBe(day)
     expect(await page.getByText('Ready to dispatch by:').count()).toBe(1)
     await screenshot(page, 'client-fully-planned')

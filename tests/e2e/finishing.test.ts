@@ -51,7 +51,7 @@ describe('finishing', () => {
     await screenshot(page, 'finishing-fettle-form')
     await card(page, p.id).getByTestId('finishing-submit').click()
     await onTab(page, 'drying', p.id, 'drying')
-    await expect(card(page, p.id).getByTestId('piece-dry-by').textContent()).resolves.toMatch(/Dry by\s*\w{3} \d+ \w{3} \d\d:\d\d/)
+    await expect(card(page, p.id).getByTestId('piece-dry-by').textContent()).resolves.toMatch(/Dry by\s*\w{3} \d+ \w{3} \d{4} \d\d:\d\d/)
 
     // weighed: the free water left shows as the number is typed, and on the card after
     await card(page, p.id).getByTestId('piece-next').click()

@@ -97,6 +97,7 @@ describe('outbox on a shared tablet', () => {
     await page.locator('html[data-hydrated]').waitFor()
     await page.getByLabel('Name for this device').fill('Outbox owners tablet')
     await page.getByRole('button', { name: 'Use this device as a shared tablet' }).click()
+    await page.getByRole('dialog', { name: 'Make this device a shared tablet?' }).getByRole('button', { name: 'Make it a shared tablet' }).click()
     await switchIn(page, ada)
     await card(page, pourA).waitFor()
 

@@ -71,7 +71,7 @@ describe('photos from the shop to the client', () => {
     await signIn(phone, demo.client1.email, '/client')
     await phone.goto(`${base}/client/jobs/${jobId}`)
     await phone.getByRole('heading', { name: 'Photos' }).waitFor()
-    await phone.getByText('not yet planned').waitFor()
+    await phone.getByText('not planned yet', { exact: false }).first().waitFor()
     await expect(phone.locator('[data-stage="planned"]').first().textContent()).resolves.toBe('0 / 3')
     const thumbs = phone.getByRole('button', { name: /Open photo: Ceiling rose out of the mould/ })
     await expect(thumbs.count()).resolves.toBe(2)
