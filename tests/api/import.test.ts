@@ -50,7 +50,7 @@ describe('mould import', () => {
     expect(byLine[3].problems).toEqual([{ column: 'cavity (L)', message: 'cavity (L): write 3,5 with a decimal point (3.5)' }])
     expect(byLine[4].problems[0]).toEqual({ column: 'code', message: `code IM-${t}-1 appears twice in this file (also line 2)` })
     expect(byLine[5].problems[0]).toEqual({ column: 'code', message: `code ${existing} is already a mould in Setline` })
-    expect(byLine[6].problems[0].message).toMatch(/^cavity (L): write the figure alone \(12\); the unit belongs in the column name/)
+    expect(byLine[6].problems[0].message).toMatch(/^cavity \(L\): write the figure alone \(12\); the unit belongs in the column name/)
     expect(byLine[7].problems[0].message).toMatch(/bench "Bench Nowhere" is not a bench of this workshop/)
     expect(byLine[8].problems[0]).toEqual({ column: 'state reason', message: 'state reason is required for a mould in repair or retired' })
     expect(byLine[9].problems[0].column).toBe('material')
@@ -65,7 +65,7 @@ describe('mould import', () => {
   it('names file-level problems: wrong column, workbook, UTF-16, another encoding', async () => {
     const wrong = await post('preview', upload('code,casts,material,cavity,colour\nA,b,silicone,1,red\n'))
     expect(wrong.data.fileProblems.join(' ')).toMatch(/Columns "cavity", "colour" are not one Setline knows for moulds/)
-    expect(wrong.data.fileProblems.join(' ')).toMatch(/Column "cavity (L)" is missing/)
+    expect(wrong.data.fileProblems.join(' ')).toMatch(/Column "cavity \(L\)" is missing/)
     const xlsx = await post('preview', upload(new Uint8Array([0x50, 0x4B, 0x03, 0x04, 0x14, 0, 6, 0]), 'moulds.xlsx'))
     expect(xlsx.data.fileProblems[0]).toMatch(/spreadsheet workbook \(such as \.xlsx or \.ods\), not CSV/)
     const utf16 = new Uint8Array([0xFF, 0xFE, ...[...'code,casts'].flatMap(c => [c.charCodeAt(0), 0])])

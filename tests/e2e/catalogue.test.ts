@@ -75,7 +75,7 @@ describe('lead sets up a mould and a job', () => {
     await page.getByRole('button', { name: 'Add item' }).click()
     await page.getByRole('status').getByText('Item added.').waitFor()
     const row = page.getByRole('row', { name: /Library cornice run/ })
-    await expect(row.textContent()).resolves.toMatch(/10\.6 m run, 2 walls, 10 % spares/)
+    await expect(row.textContent()).resolves.toMatch(/10\.60? m run, 2 walls, 10 % spares/)
     await screenshot(page, 'catalogue-job-detail')
     await page.close()
   })

@@ -78,7 +78,7 @@ describe('client completion', () => {
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.locator('html[data-hydrated]').waitFor()
     const menu = page.getByTestId('nav-menu')
-    expect(await menu.isVisible()).toBe(true)
+    await menu.waitFor({ state: 'visible' })
     expect((await menu.boundingBox())!.height).toBeGreaterThanOrEqual(48)
     await menu.click()
     const nav = page.locator('#phone-nav')
