@@ -16,7 +16,11 @@ describe('fieldLabel', () => {
 describe('inUserWords', () => {
   it('says an empty required field is required', () => {
     expect(inUserWords('waterTempC', plasterRangeMessage('waterTempC', PLASTER_LIMITS.waterTempC), undefined, true)).toBe('Water temperature is required')
-    expect(inUserWords('consistency', 'anything', '', true)).toBe('Consistency is required')
+    expect(inUserWords('consistency', 'consistency must be between 18.6 and 200', '', true)).toBe('Consistency is required')
+    expect(inUserWords('consistency', 'Invalid input: expected number, received string', '', true)).toBe('Consistency is required')
+  })
+  it('keeps a schema\'s own sentence for an empty field: it already says what to do', () => {
+    expect(inUserWords('mouldId', 'choose a mould or name a profile', null, true)).toBe('choose a mould or name a profile')
   })
   it('puts labels for code names in a message, a plain name only where it leads', () => {
     expect(inUserWords('consistency', plasterRangeMessage('consistency', PLASTER_LIMITS.consistency), 5, true)).toMatch(/^Consistency must be between 18.6 and 200/)
