@@ -5,7 +5,7 @@ import type { Knex } from 'knex'
 import { DateTime } from 'luxon'
 import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
-import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
+import { scryptOptions } from '../../server/utils/password-policy'
 import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '#shared/utils/plaster'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { DEMO_PASSWORD, DEMO_USERS } from './demo-people'
@@ -24,7 +24,7 @@ async function insertId(k: Knex, table: string, row: Record<string, unknown>) {
 }
 
 async function seedPeople(k: Knex, workshopId: number) {
-  const hasher = new Hash(new Scrypt(SCRYPT_OPTIONS))
+  const hasher = new Hash(new Scrypt(scryptOptions()))
   const hash = await hasher.make(DEMO_PASSWORD)
   const orgs: Ids = {}
   const users: Ids = {}

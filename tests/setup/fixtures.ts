@@ -3,7 +3,7 @@ import knex, { type Knex } from 'knex'
 import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { randomUUID } from 'node:crypto'
-import { SCRYPT_OPTIONS } from '../../server/utils/password-policy'
+import { scryptOptions } from '../../server/utils/password-policy'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testDatabaseUrl } from './context'
 
@@ -23,7 +23,7 @@ export async function closeTestDb() {
 let demoHash: Promise<string> | undefined
 /** The hash of DEMO_PASSWORD, computed once per file (scrypt at N = 2^17 is slow on purpose). */
 export function passwordHash() {
-  demoHash ??= new Hash(new Scrypt(SCRYPT_OPTIONS)).make(DEMO_PASSWORD)
+  demoHash ??= new Hash(new Scrypt(scryptOptions())).make(DEMO_PASSWORD)
   return demoHash
 }
 
@@ -57,6 +57,6 @@ export async function makeOtherWorkshop() {
 const pinHashes = new Map<string, Promise<string>>()
 /** Sets a user's tablet PIN straight in the database (hashed as the server hashes it, once per PIN and file). */
 export async function setPinDirect(userId: number, pin: string) {
-  if (!pinHashes.has(pin)) pinHashes.set(pin, new Hash(new Scrypt(SCRYPT_OPTIONS)).make(pin))
+  if (!pinHashes.has(pin)) pinHashes.set(pin, new Hash(new Scrypt(scryptOptions())).make(pin))
   await testDb()('users').where({ id: userId }).update({ pin_hash: await pinHashes.get(pin)! })
 }

@@ -13,6 +13,11 @@ import { root } from '../../db/local/config'
 import { seedIfEmpty } from '../../db/local/cluster'
 import { startThrowawayDb } from './throwaway-db'
 
+// Every password and PIN hash of the run (the seed, the fixtures, each test server) at scrypt
+// cost 2^14 instead of 2^17: hundreds of sign-ins at 128 MiB each would otherwise take most of
+// the run's time, and no test is about the cost itself (server/utils/password-policy.ts).
+process.env.NUXT_HASH_SCRYPT_COST ??= String(2 ** 14)
+
 interface StepResult { name: string; ok: boolean; seconds: number; passed: number; failed: number; skipped: number }
 const results: StepResult[] = []
 const running = new Set<ReturnType<typeof spawn>>()
