@@ -25,6 +25,10 @@ export async function cloneFileDatabase(templateUrl: string) {
   const databaseUrl = Object.assign(new URL(templateUrl), { pathname: `/${name}` }).toString()
   return {
     databaseUrl,
-    drop: () => admin(templateUrl, c => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`)),
+    // clean-up only: a backend PostgreSQL will not let this role end (seen once: a server's
+    // connection still closing) leaves the database to the throwaway cluster's own removal
+    drop: () => admin(templateUrl, c => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`)).catch((e: unknown) => {
+      console.warn(`setline test: database ${name} left for the cluster's removal (${(e as Error).message})`)
+    }),
   }
 }
