@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
-import { expandBoardPours } from '../../shared/utils/board-lean'
+import { expandBoardPours } from '#shared/utils/board-lean'
 
 // April 2027 is BST (UTC+1): local 09:00 is 08:00Z. Days far from the demo's and other files'.
 const local = (day: string, hhmm: string) => `${day}T${hhmm}:00+01:00`

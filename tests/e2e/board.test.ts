@@ -8,7 +8,7 @@ import type { Locator, Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
-import { formatDay } from '../../shared/utils/workshop-format'
+import { formatDay } from '#shared/utils/workshop-format'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>

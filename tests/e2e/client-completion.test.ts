@@ -9,7 +9,7 @@ import { boardFixture } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
 import { call, signIn } from '../setup/http'
 import { seriousAxeViolations } from '../setup/axe'
-import { formatDay } from '../../shared/utils/workshop-format'
+import { formatDay } from '#shared/utils/workshop-format'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>

@@ -2,9 +2,9 @@
 // hand from the instants given here (pour-timing.ts defines the cycle: prep until mixAt, 5
 // minutes of mixing, setting until the window opens, clean-out until the slot ends).
 import { describe, expect, it } from 'vitest'
-import { phaseAt, pourPhases, pourStateWord } from '../../shared/utils/board-phases'
-import { expandBoardPours } from '../../shared/utils/board-lean'
-import type { BoardData } from '../../shared/types/board'
+import { phaseAt, pourPhases, pourStateWord } from '#shared/utils/board-phases'
+import { expandBoardPours } from '#shared/utils/board-lean'
+import type { BoardData } from '#shared/types/board'
 
 // a 100-minute slot: prep 10, mixing 5, setting 65, clean-out 20; window 80..120 (past the slot)
 const at = (min: number) => new Date(Date.UTC(2027, 2, 1, 8, 0) + min * 60_000).toISOString()
