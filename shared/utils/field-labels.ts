@@ -46,6 +46,27 @@ export const FIELD_LABELS: Record<string, string> = {
   dryingHumidityPct: 'Room humidity',
   expectedPulls: 'Expected pulls',
   dueOn: 'Due on',
+  // rates and quotes (shared/utils/quote-schemas.ts)
+  currency: 'Currency',
+  plasterPerBag: 'Plaster per bag',
+  mouldPerProfile: 'New mould',
+  castPerLength: 'Casting per length',
+  castPerPiece: 'Casting per piece',
+  fettlePerPiece: 'Fettling per piece',
+  fixPerMetre: 'Fixing per metre',
+  deliveryPerTrip: 'Delivery per trip',
+  marginPct: 'Margin',
+  taxPct: 'Tax',
+  depositPct: 'Deposit',
+  plasterKgPerLength: 'Plaster per length',
+  plasterKgEach: 'Plaster per piece',
+  projectionM: 'Projection',
+  sawCutM: 'Saw cut',
+  cornerBlockLegM: 'Corner block leg',
+  newMould: 'New mould needed',
+  clientOrgId: 'Client',
+  deliveries: 'Deliveries',
+  title: 'Title',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

@@ -69,6 +69,16 @@ const NO_TOKEN = 'matrix-token-that-was-never-issued-00000'
 const GRADE = (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous'))
 const MIX = { consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
 /** The demo workshop's settings as the settings page sends them back. */
+const RATES = {
+  currency: 'GBP', plasterPerBag: 1850, mouldPerProfile: 42000, castPerLength: 3500, castPerPiece: 2800,
+  fettlePerPiece: 900, fixPerMetre: 1250, deliveryPerTrip: 6000, marginPct: 15, taxPct: 20, depositPct: 30,
+}
+const TAKE_OFF = { rooms: [{ name: 'Hall', runs: [], ornaments: [{ name: 'Corbel', count: 4, plasterKgEach: 3.5, newMould: true }] }], bagKg: 25, deliveries: 1, fixing: false }
+/** The demo workshop's rates version (1 until the first save writes its row). */
+async function ratesVersion() {
+  const row = await testDb()('workshop_rates').where({ workshop_id: await demoWorkshopId() }).first('version')
+  return row ? Number(row.version) : 1
+}
 async function settings() {
   const w = await testDb()('workshops').where({ id: await demoWorkshopId() }).first()
   return { version: w.version, name: w.name, units: w.units, timezone: w.timezone, shiftStart: w.shift_start.slice(0, 5), shiftEnd: w.shift_end.slice(0, 5), workingDays: w.working_days.map(Number), defaultShopTempC: Number(w.default_shop_temp_c), defaultHumidityPct: Number(w.default_humidity_pct) }
@@ -141,6 +151,15 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/grades', roles: LEAD, body: () => ({ name: `Matrix grade ${rnd()}`, bagKg: 25, grade: GRADE }) },
   { route: 'PATCH /api/grades/[id]', roles: LEAD, ids: { id: 'grade' }, body: async s => ({ notes: 'matrix', version: await s.version('grade') }) },
   { route: 'POST /api/grades/[id]/calibration', roles: LEAD, ids: { id: 'grade' }, body: async s => ({ apply: false, version: await s.version('grade') }) },
+  // rates and quotes: the office's, lead only
+  { route: 'GET /api/rates', roles: LEAD },
+  { route: 'PUT /api/rates', roles: LEAD, body: async () => ({ ...RATES, version: await ratesVersion() }) },
+  { route: 'GET /api/quotes', roles: LEAD },
+  { route: 'POST /api/quotes', roles: LEAD, body: () => ({ title: `Matrix quote ${rnd()}`, takeOff: TAKE_OFF }) },
+  { route: 'GET /api/quotes/[id]', roles: LEAD, ids: { id: 'quote' } },
+  { route: 'PATCH /api/quotes/[id]', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ takeOff: TAKE_OFF, version: await s.version('newQuote') }) },
+  { route: 'POST /api/quotes/[id]/send', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ version: await s.version('newQuote') }) },
+  { route: 'POST /api/quotes/[id]/revise', roles: LEAD, ids: { id: 'newSentQuote' }, body: async s => ({ version: await s.version('newSentQuote') }) },
   { route: 'GET /api/lots', roles: STAFF },
   { route: 'POST /api/lots', roles: LEAD, body: async s => ({ gradeId: await s.id('grade'), lotCode: `MX-${rnd()}`, bagsReceived: 2, bagKg: 25, receivedOn: '2026-12-01' }) },
   { route: 'PATCH /api/lots/[id]', roles: LEAD, ids: { id: 'lot' }, body: async s => ({ notes: 'matrix', version: await s.version('lot') }) },

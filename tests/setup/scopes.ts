@@ -24,6 +24,7 @@ export const KINDS = {
   piece: 'pieces', packedPiece: 'pieces', dispatch: 'dispatches', tablet: 'tablet_devices',
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
+  quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -112,6 +113,14 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   const pieceRow = async (workshopId: number, tag: string, itemId: number, state: string, pourId?: number) => insert('pieces', {
     workshop_id: workshopId, pour_id: pourId ?? await pourRow(), job_item_id: itemId, mark: `${tag}-P${++n}`, state, dry_mass_kg: 1.2, wet_mass_kg: 1.8,
   })
+  /** A quote with one revision in `status`, straight in the database (a one-room take-off priced at nothing). */
+  const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent') => {
+    const org = await insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag} ${++n}` })
+    const id = await insert('quotes', { workshop_id: workshopId, number: 9000 + n, title: `Quote ${tag}`, client_org_id: org })
+    const takeOff = { rooms: [{ name: `Room ${tag}`, runs: [], ornaments: [{ name: 'Patera', count: 1, plasterKgEach: 1, newMould: false }] }], bagKg: 25, deliveries: 0, fixing: false }
+    await k('quote_versions').insert({ workshop_id: workshopId, quote_id: id, revision: 1, status, take_off: JSON.stringify(takeOff), lines: '[]', currency: 'GBP', net: 0, tax: 0, total: 0, estimate: 0, deposit: 0 })
+    return id
+  }
   const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
   const job = await jobRow(ws, tags.own, {}, client1)
   const ownItem = await itemRow(ws, job, grade)
@@ -125,6 +134,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     sampleJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_cast' }),
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
+    quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
   }
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
@@ -161,6 +171,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     item: 0, member: oClient, tablet: await tabletRow(ow, tags.other),
     dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
     piece: 0, packedPiece: 0,
+    quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
   }
   otherRows.item = await itemRow(ow, oJob, oGrade)
   otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
@@ -177,6 +188,8 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'to_fettle'),
     newPackedPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'packed'),
     newTablet: s => tabletRow(ws, tags[s]),
+    newQuote: s => quoteRow(ws, tags[s], 'draft'),
+    newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 

@@ -1,0 +1,117 @@
+// The office side of a job: the workshop's rates, and quotes priced from a take-off with every
+// revision kept. Figures are our own worked example (tests/unit/quote-pricing.test.ts, priced by
+// hand there); here they show the route prices with the stored rates and freezes a sent revision.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { call, signIn } from '../setup/http'
+import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
+
+let lead = ''
+let finisher = ''
+let clientOrgId = 0
+
+const rates = {
+  currency: 'GBP', plasterPerBag: 1850, mouldPerProfile: 42000, castPerLength: 3500, castPerPiece: 2800,
+  fettlePerPiece: 900, fixPerMetre: 1250, deliveryPerTrip: 6000, marginPct: 15, taxPct: 20, depositPct: 30,
+}
+const takeOff = {
+  rooms: [
+    {
+      name: 'Drawing room',
+      runs: [{ profile: 'Egg-and-dart 150', walls: [{ lengthM: 5.0 }, { lengthM: 3.1 }], castLengthM: 3, minPieceM: 0.3, sparesPct: 0, plasterKgPerLength: 9, newMould: true }],
+      ornaments: [{ name: 'Ceiling centre 600', count: 1, plasterKgEach: 14, newMould: false }],
+    },
+    { name: 'Hall', runs: [], ornaments: [{ name: 'Corbel', count: 4, plasterKgEach: 3.5, newMould: true }] },
+  ],
+  bagKg: 25,
+  deliveries: 1,
+  fixing: true,
+}
+
+beforeAll(async () => {
+  lead = await signIn(demo.lead.email, DEMO_PASSWORD)
+  finisher = await signIn(demo.finisher.email, DEMO_PASSWORD)
+  const ws = await demoWorkshopId()
+  clientOrgId = Number((await testDb()('client_orgs').where({ workshop_id: ws }).first('id')).id)
+  const current = await call('/api/rates', { cookie: lead })
+  const put = await call('/api/rates', { method: 'PUT', cookie: lead, body: { ...rates, version: current.data.version } })
+  expect(put.status).toBe(200)
+})
+afterAll(closeTestDb)
+
+describe('rates', () => {
+  it('are the lead\'s: a finisher gets 403 and a bad figure is named in the user\'s words', async () => {
+    expect((await call('/api/rates', { cookie: finisher })).status).toBe(403)
+    const v = (await call('/api/rates', { cookie: lead })).data.version
+    const bad = await call('/api/rates', { method: 'PUT', cookie: lead, body: { ...rates, castPerLength: 35.5, marginPct: 12.345, currency: 'POUNDS', version: v } })
+    expect(bad.status).toBe(422)
+    const text = JSON.stringify(bad.data)
+    expect(text).toMatch(/Casting per length/)
+    expect(text).toMatch(/Margin/)
+    expect(text).toMatch(/Currency/)
+    expect((await call('/api/rates', { cookie: lead })).data).toMatchObject(rates)
+  })
+})
+
+describe('quotes', () => {
+  it('prices a take-off at the stored rates, numbers it, and keeps the shop\'s estimate', async () => {
+    const r = await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'Drawing room and hall', clientOrgId, takeOff } })
+    expect(r.status).toBe(201)
+    expect(r.data.number).toMatch(/^Q-\d{4}$/)
+    const rev = r.data.revisions[0]
+    expect(rev).toMatchObject({ revision: 1, status: 'draft', currency: 'GBP', net: 157987, tax: 31597, total: 189584, estimate: 137375, deposit: 56875 })
+    expect(rev.lines).toHaveLength(9)
+    const list = (await call('/api/quotes', { cookie: lead })).data as { id: number; total: number; status: string }[]
+    expect(list.find(q => q.id === r.data.id)).toMatchObject({ total: 189584, status: 'draft' })
+  })
+
+  it('reprices a draft when edited, freezes it once sent, and makes a new revision for a change', async () => {
+    const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'Hall only', clientOrgId, takeOff } })).data
+    const fewer = { ...takeOff, deliveries: 0, fixing: false }
+    const edited = await call(`/api/quotes/${made.id}`, { method: 'PATCH', cookie: lead, body: { takeOff: fewer, version: made.version } })
+    expect(edited.status).toBe(200)
+    expect(edited.data.revisions[0].net).toBe(157987 - 11648 - 6900)
+
+    const sent = await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: edited.data.version } })
+    expect(sent.status).toBe(200)
+    expect(sent.data.revisions[0].status).toBe('sent')
+    expect(sent.data.revisions[0].sentAt).not.toBeNull()
+
+    // a sent revision is never edited
+    const refused = await call(`/api/quotes/${made.id}`, { method: 'PATCH', cookie: lead, body: { takeOff, version: sent.data.version } })
+    expect(refused.status).toBe(409)
+    expect(refused.data.message).toMatch(/never edited/)
+    const after = (await call(`/api/quotes/${made.id}`, { cookie: lead })).data
+    expect(after.revisions[0].net).toBe(157987 - 11648 - 6900)
+
+    const revised = await call(`/api/quotes/${made.id}/revise`, { method: 'POST', cookie: lead, body: { version: after.version } })
+    expect(revised.status).toBe(200)
+    expect(revised.data.revisions.map((r: { revision: number; status: string }) => [r.revision, r.status])).toEqual([[1, 'superseded'], [2, 'draft']])
+    const v2 = await call(`/api/quotes/${made.id}`, { method: 'PATCH', cookie: lead, body: { takeOff, version: revised.data.version } })
+    expect(v2.data.revisions[1].net).toBe(157987)
+    expect(v2.data.revisions[0].net).toBe(157987 - 11648 - 6900)
+  })
+
+  it('will not send a quote without a client, and a stale version is a conflict', async () => {
+    const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'No client yet', takeOff } })).data
+    const r = await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: made.version } })
+    expect(r.status).toBe(422)
+    expect(JSON.stringify(r.data)).toMatch(/Choose the client/)
+    const named = await call(`/api/quotes/${made.id}`, { method: 'PATCH', cookie: lead, body: { clientOrgId, version: made.version } })
+    expect(named.status).toBe(200)
+    expect((await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: made.version } })).status).toBe(409)
+  })
+
+  it('refuses another workshop\'s client and names the bad take-off field', async () => {
+    const k = testDb()
+    const [ws] = await k('workshops').insert({ name: 'Elsewhere quotes' }).returning('id')
+    const [org] = await k('client_orgs').insert({ workshop_id: ws.id, name: 'Not ours' }).returning('id')
+    const r = await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'x', clientOrgId: Number(org.id), takeOff } })
+    expect(r.status).toBe(422)
+    expect(JSON.stringify(r.data)).toMatch(/Client/)
+    const bad = structuredClone(takeOff)
+    bad.rooms[1]!.ornaments[0]!.count = 0
+    const b = await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'x', takeOff: bad } })
+    expect(b.status).toBe(422)
+    expect(JSON.stringify(b.data)).toMatch(/count/i)
+  })
+})
