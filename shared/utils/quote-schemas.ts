@@ -93,3 +93,7 @@ export const quotePatchSchema = z.object({
 })
 /** Send or revise: the body names the quote's version the lead saw. */
 export const quoteVersionedSchema = z.object({ version: versionField })
+/** ?revision=N on the PDF route: a revision number, or the latest when left out. */
+export const quotePdfQuerySchema = z.object({
+  revision: z.coerce.number({ error: 'revision must be a number' }).int('revision must be a whole number').positive('revision must be positive').max(10000, 'revision is not one this quote has').optional(),
+})

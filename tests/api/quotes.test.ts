@@ -2,8 +2,9 @@
 // revision kept. Figures are our own worked example (tests/unit/quote-pricing.test.ts, priced by
 // hand there); here they show the route prices with the stored rates and freezes a sent revision.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { call, signIn, baseUrl } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
+import { pdfText } from '../setup/pdf-text'
 
 let lead = ''
 let finisher = ''
@@ -62,6 +63,23 @@ describe('quotes', () => {
     expect(rev.lines).toHaveLength(9)
     const list = (await call('/api/quotes', { cookie: lead })).data as { id: number; total: number; status: string }[]
     expect(list.find(q => q.id === r.data.id)).toMatchObject({ total: 189584, status: 'draft' })
+  })
+
+  it('makes the revision a PDF with the client\'s lines and totals, never the shop\'s estimate', async () => {
+    const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'Drawing room and hall', clientOrgId, takeOff } })).data
+    const res = await fetch(`${baseUrl()}/api/quotes/${made.id}/pdf`, { headers: { cookie: lead } })
+    expect(res.status).toBe(200)
+    expect(res.headers.get('content-type')).toBe('application/pdf')
+    const text = (await pdfText(await res.arrayBuffer())).join(' ')
+    expect(text).toContain(`Quote ${made.number}, revision 1`)
+    expect(text).toContain('Egg-and-dart 150, Drawing room')
+    expect(text).toContain('£1,895.84') // the worked example's total
+    expect(text).toContain('£568.75') // its deposit, 30 %
+    expect(text).toContain('DRAFT')
+    expect(text).toMatch(/competent people/) // fixing on site: the usual caution
+    expect(text).not.toContain('£1,373.75') // the estimate stays in the shop
+    expect((await fetch(`${baseUrl()}/api/quotes/${made.id}/pdf?revision=7`, { headers: { cookie: lead } })).status).toBe(404)
+    expect((await fetch(`${baseUrl()}/api/quotes/${made.id}/pdf`, { headers: { cookie: finisher } })).status).toBe(403)
   })
 
   it('reprices a draft when edited, freezes it once sent, and makes a new revision for a change', async () => {

@@ -157,6 +157,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'GET /api/quotes', roles: LEAD },
   { route: 'POST /api/quotes', roles: LEAD, body: () => ({ title: `Matrix quote ${rnd()}`, takeOff: TAKE_OFF }) },
   { route: 'GET /api/quotes/[id]', roles: LEAD, ids: { id: 'quote' } },
+  { route: 'GET /api/quotes/[id]/pdf', roles: LEAD, ids: { id: 'quote' } },
   { route: 'PATCH /api/quotes/[id]', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ takeOff: TAKE_OFF, version: await s.version('newQuote') }) },
   { route: 'POST /api/quotes/[id]/send', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ version: await s.version('newQuote') }) },
   { route: 'POST /api/quotes/[id]/revise', roles: LEAD, ids: { id: 'newSentQuote' }, body: async s => ({ version: await s.version('newSentQuote') }) },
