@@ -56,6 +56,13 @@ export const quotesRepo = {
       .select([...QUOTE_COLUMNS, 'v.revision', 'v.status', 'v.currency', 'v.total'])
       .where({ 'q.workshop_id': workshopId }).orderBy('q.number', 'desc')
   },
+  /** The quotes of a client organisation with their latest revision that is not a draft. */
+  sentToOrg(db: Knex, workshopId: number, clientOrgId: number): Promise<{ id: number; number: number; title: string; revision: number; status: QuoteStatus; currency: string; total: number }[]> {
+    return db('quotes as q').join('quote_versions as v', function () {
+      this.on('v.quote_id', 'q.id').andOn('v.revision', db.raw('(SELECT max(revision) FROM quote_versions WHERE quote_id = q.id AND status <> \'draft\')'))
+    }).select('q.id', 'q.number', 'q.title', 'v.revision', 'v.status', 'v.currency', 'v.total')
+      .where({ 'q.workshop_id': workshopId, 'q.client_org_id': clientOrgId }).orderBy('q.number', 'desc')
+  },
   revisions(db: Knex, workshopId: number, quoteId: number): Promise<QuoteVersionRow[]> {
     return db('quote_versions').select(VERSION_COLUMNS).where({ workshop_id: workshopId, quote_id: quoteId }).orderBy('revision')
   },

@@ -43,6 +43,16 @@ export const usersRepo = {
     }).where({ 'm.workshop_id': workshopId, 'm.job_id': jobId }).whereNull('u.disabled_at')
       .select(RECIPIENT_COLUMNS).orderBy('u.id')
   },
+  /** The enabled client users of a client organisation, by id. */
+  orgRecipients(db: Knex, workshopId: number, clientOrgId: number): Promise<RecipientRow[]> {
+    return db('users as u').where({ 'u.workshop_id': workshopId, 'u.role': 'client', 'u.client_org_id': clientOrgId }).whereNull('u.disabled_at')
+      .select(RECIPIENT_COLUMNS).orderBy('u.id')
+  },
+  /** The client organisation a client user belongs to, or null. */
+  async clientOrgOf(db: Knex, workshopId: number, userId: number): Promise<number | null> {
+    const row = await db('users').where({ workshop_id: workshopId, id: userId, role: 'client' }).first('client_org_id')
+    return row?.client_org_id ?? null
+  },
   /** The workshop's enabled leads, by id. */
   leadRecipients(db: Knex, workshopId: number): Promise<RecipientRow[]> {
     return db('users as u').where({ 'u.workshop_id': workshopId, 'u.role': 'lead' }).whereNull('u.disabled_at')

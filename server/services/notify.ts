@@ -82,6 +82,27 @@ export async function notifySampleDecision(trx: Knex, workshopId: number, input:
   }))
 }
 
+/** To the client organisation's people: a quote revision waits for their decision. */
+export async function notifyQuoteSent(trx: Knex, workshopId: number, q: { id: number; number: string; title: string; revision: number; total: string; clientOrgId: number }) {
+  return send(trx, workshopId, 'quote_sent', await usersRepo.orgRecipients(trx, workshopId, q.clientOrgId), r => ({
+    subject: `Quote ${q.number}: ${q.title}`,
+    lines: [`Our quote ${q.number} (${q.title}), revision ${q.revision}, comes to ${q.total} with tax.`,
+      'Read it, download the PDF, and accept it or ask for changes here:', link(`/client/quotes/${q.id}`)],
+    dedupeKey: `quote-sent:${q.id}:${q.revision}:${r.id}`,
+  }))
+}
+
+/** To the leads: a client accepted a quote revision or asked for changes. */
+export async function notifyQuoteDecision(trx: Knex, workshopId: number, q: { id: number; number: string; revision: number; clientName: string; accepted: boolean; comment: string | null }) {
+  const verdict = q.accepted ? 'accepted' : 'asked for changes to'
+  return send(trx, workshopId, 'quote_decision', await usersRepo.leadRecipients(trx, workshopId), r => ({
+    subject: `${q.number}: ${q.clientName} ${verdict} revision ${q.revision}`,
+    lines: [`${q.clientName} ${verdict} quote ${q.number}, revision ${q.revision}.`,
+      q.comment ? `Their comment: ${q.comment}` : 'They left no comment.', '', link(`/lead/quotes/${q.id}`)],
+    dedupeKey: `quote-decision:${q.id}:${q.revision}:${r.id}`,
+  }))
+}
+
 /**
  * Only windows that closed in the last two days: a pour forgotten for longer is old news (the
  * board shows it), and the bound keeps a first run on an old database from mailing its history

@@ -7,10 +7,14 @@ import { ratesRepo, type RatesColumns, type RatesRow } from '../repos/rates'
 import { quotesRepo, type QuoteFigures, type QuoteRow, type QuoteVersionRow } from '../repos/quotes'
 import { clientOrgsRepo } from '../repos/client-orgs'
 import { isoOrNull } from './catalogue'
-import { percentToBasisPoints } from '#shared/utils/money'
+import { usersRepo } from '../repos/users'
+import { recordEvent } from '../repos/events'
+import type { Actor } from '../utils/auth'
+import { notifyQuoteDecision, notifyQuoteSent } from './notify'
+import { formatMoney, percentToBasisPoints } from '#shared/utils/money'
 import { depositFor, priceQuote, takeOff, type QuoteLine, type WorkshopRates } from '#shared/utils/quote-pricing'
 import type { TakeOffInput } from '#shared/utils/quote-schemas'
-import type { Quote, QuoteRevision, QuoteSummary, Rates } from '#shared/types/quotes'
+import type { ClientQuote, ClientQuoteSummary, Quote, QuoteRevision, QuoteSummary, Rates } from '#shared/types/quotes'
 
 const pct = (bp: number) => bp / 100
 
@@ -124,8 +128,8 @@ export async function updateQuote(workshopId: number, id: number, version: numbe
 }
 
 /** Sends the draft revision: from now on it is frozen. */
-export async function sendQuote(workshopId: number, id: number, version: number): Promise<Quote> {
-  return useDb().transaction(async (trx) => {
+export async function sendQuote(workshopId: number, id: number, version: number, actorId: number): Promise<Quote> {
+  const quote = await useDb().transaction(async (trx) => {
     const latest = await latestOf(trx, workshopId, id)
     const q = await quotesRepo.byId(trx, workshopId, id)
     if (!q?.client_org_id) unprocessable([{ field: 'clientOrgId', message: 'Choose the client before sending the quote' }])
@@ -133,8 +137,12 @@ export async function sendQuote(workshopId: number, id: number, version: number)
     if (!(await quotesRepo.setStatus(trx, workshopId, latest.id, ['draft'], 'sent', { sent: true }))) {
       conflict(`Revision ${latest.revision} has already been sent`)
     }
+    await recordEvent(trx, { workshopId, entity: 'quote', entityId: id, type: 'quote.sent', actorId, data: { revision: latest.revision, total: latest.total } })
+    await notifyQuoteSent(trx, workshopId, { id, number: quoteNumber(q.number), title: q.title, revision: latest.revision, total: formatMoney(latest.total, latest.currency), clientOrgId: q.client_org_id })
     return readQuote(trx, workshopId, id)
   })
+  void deliverDueMail().catch(() => undefined)
+  return quote
 }
 
 /** A new draft revision from the latest one, repriced at today's rates; a sent one is superseded. */
@@ -149,4 +157,60 @@ export async function reviseQuote(workshopId: number, id: number, version: numbe
     await quotesRepo.insertRevision(trx, workshopId, id, latest.revision + 1, figures)
     return readQuote(trx, workshopId, id)
   })
+}
+
+// The client's side: people of the quote's client organisation read its sent revisions (never
+// a draft, never the shop's estimate) and decide on the latest one.
+
+async function clientQuoteRow(db: Knex, actor: Actor, id: number) {
+  const org = await usersRepo.clientOrgOf(db, actor.workshopId, actor.id)
+  const q = await quotesRepo.byId(db, actor.workshopId, id)
+  // another organisation's quote, or one never sent, is not there for this client
+  const shown = q && org !== null && q.client_org_id === org ? (await quotesRepo.revisions(db, actor.workshopId, id)).filter(r => r.status !== 'draft') : []
+  if (!q || !shown.length) notFound('Quote')
+  return { q, shown }
+}
+
+function toClientQuote(q: QuoteRow, revisions: QuoteVersionRow[]): ClientQuote {
+  const latest = revisions.at(-1)!
+  return {
+    id: q.id, number: quoteNumber(q.number), title: q.title, revision: latest.revision, status: latest.status,
+    currency: latest.currency,
+    lines: (latest.lines as QuoteLine[]).map(({ estimate: _estimate, ...line }) => line),
+    net: latest.net, tax: latest.tax, total: latest.total, deposit: latest.deposit,
+    sentAt: isoOrNull(latest.sent_at), decidedAt: isoOrNull(latest.decided_at), decisionComment: latest.decision_comment,
+    earlier: revisions.slice(0, -1).map(r => ({ revision: r.revision, status: r.status, total: r.total, sentAt: isoOrNull(r.sent_at) })),
+  }
+}
+
+export async function clientQuotes(actor: Actor): Promise<ClientQuoteSummary[]> {
+  const db = useDb()
+  const org = await usersRepo.clientOrgOf(db, actor.workshopId, actor.id)
+  if (org === null) return []
+  return (await quotesRepo.sentToOrg(db, actor.workshopId, org)).map(r => ({
+    id: r.id, number: quoteNumber(r.number), title: r.title, revision: r.revision, status: r.status, currency: r.currency, total: r.total,
+  }))
+}
+
+export async function clientQuote(actor: Actor, id: number): Promise<ClientQuote> {
+  const { q, shown } = await clientQuoteRow(useDb(), actor, id)
+  return toClientQuote(q, shown)
+}
+
+/** The client accepts the revision they read, or asks for changes with a comment; the leads are told. */
+export async function decideQuote(actor: Actor, id: number, input: { revision: number; decision: 'accept' | 'changes'; comment?: string | null }): Promise<ClientQuote> {
+  const result = await useDb().transaction(async (trx) => {
+    const { q, shown } = await clientQuoteRow(trx, actor, id)
+    const latest = shown.at(-1)!
+    if (latest.revision !== input.revision) conflict(`Revision ${input.revision} is no longer the latest; read revision ${latest.revision} first`)
+    const status = input.decision === 'accept' ? 'accepted' : 'changes_requested'
+    if (!(await quotesRepo.setStatus(trx, actor.workshopId, latest.id, ['sent'], status, { decided: true, comment: input.comment ?? null }))) {
+      conflict(`Revision ${latest.revision} has already been decided`)
+    }
+    await recordEvent(trx, { workshopId: actor.workshopId, entity: 'quote', entityId: id, type: `quote.${status}`, actorId: actor.id, data: { revision: latest.revision, comment: input.comment ?? null } })
+    await notifyQuoteDecision(trx, actor.workshopId, { id, number: quoteNumber(q.number), revision: latest.revision, clientName: actor.name, accepted: status === 'accepted', comment: input.comment ?? null })
+    return toClientQuote(q, await quotesRepo.revisions(trx, actor.workshopId, id).then(all => all.filter(r => r.status !== 'draft')))
+  })
+  void deliverDueMail().catch(() => undefined)
+  return result
 }

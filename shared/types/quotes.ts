@@ -64,3 +64,32 @@ export interface QuoteSummary {
   total: number
   updatedAt: string
 }
+
+/** A quote as its client reads it: the latest sent revision's lines (no shop estimate), and the earlier ones in brief. */
+export interface ClientQuote {
+  id: number
+  number: string
+  title: string
+  revision: number
+  status: QuoteStatus
+  currency: string
+  lines: Omit<QuoteLine, 'estimate'>[]
+  net: number
+  tax: number
+  total: number
+  deposit: number
+  sentAt: string | null
+  decidedAt: string | null
+  decisionComment: string | null
+  earlier: { revision: number; status: QuoteStatus; total: number; sentAt: string | null }[]
+}
+
+export interface ClientQuoteSummary {
+  id: number
+  number: string
+  title: string
+  revision: number
+  status: QuoteStatus
+  currency: string
+  total: number
+}

@@ -3,15 +3,17 @@
 import { z } from 'zod'
 import type { Role } from '#shared/types/auth'
 
-export const NOTIFY_KINDS = ['sample_ready', 'photos_shared', 'job_ready', 'sample_decision', 'demould_overdue'] as const
+export const NOTIFY_KINDS = ['sample_ready', 'photos_shared', 'job_ready', 'quote_sent', 'sample_decision', 'demould_overdue', 'quote_decision'] as const
 export type NotifyKind = (typeof NOTIFY_KINDS)[number]
 
-/** What each kind is about and who receives it (clients get the first three, leads the last two). */
+/** What each kind is about and who receives it (clients the first four, leads the last three). */
 export const NOTIFY_KIND_INFO: Record<NotifyKind, { label: string; roles: Role[] }> = {
   sample_ready: { label: 'A sample cast is ready for my approval', roles: ['client'] },
   photos_shared: { label: 'New photos of my job (at most one mail per job a day)', roles: ['client'] },
   job_ready: { label: 'My job is ready for dispatch', roles: ['client'] },
+  quote_sent: { label: 'A quote is waiting for my decision', roles: ['client'] },
   sample_decision: { label: 'A client approves a sample or asks for changes', roles: ['lead'] },
+  quote_decision: { label: 'A client accepts a quote or asks for changes', roles: ['lead'] },
   demould_overdue: { label: 'An overdue demould (a cast past its window) or a missed start (a pour never mixed)', roles: ['lead'] },
 }
 

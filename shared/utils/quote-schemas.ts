@@ -97,3 +97,10 @@ export const quoteVersionedSchema = z.object({ version: versionField })
 export const quotePdfQuerySchema = z.object({
   revision: z.coerce.number({ error: 'revision must be a number' }).int('revision must be a whole number').positive('revision must be positive').max(10000, 'revision is not one this quote has').optional(),
 })
+
+/** The client's decision on the revision they read; asking for changes needs a comment. */
+export const quoteDecisionSchema = z.object({
+  revision: z.number({ error: 'revision is required (the revision you read)' }).int('revision must be a whole number').positive('revision must be positive').max(10000, 'revision is not one this quote has'),
+  decision: z.enum(['accept', 'changes'], { error: 'decision must be accept or changes' }),
+  comment: optionalText('comment', 2000),
+}).refine(v => v.decision !== 'changes' || !!v.comment, { path: ['comment'], message: 'Say what you would like changed' })

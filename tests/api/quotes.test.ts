@@ -3,12 +3,14 @@
 // hand there); here they show the route prices with the stored rates and freezes a sent revision.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn, baseUrl } from '../setup/http'
-import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
+import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { pdfText } from '../setup/pdf-text'
 
 let lead = ''
 let finisher = ''
 let clientOrgId = 0
+let ada = ''
+let ravi = ''
 
 const rates = {
   currency: 'GBP', plasterPerBag: 1850, mouldPerProfile: 42000, castPerLength: 3500, castPerPiece: 2800,
@@ -31,8 +33,10 @@ const takeOff = {
 beforeAll(async () => {
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
   finisher = await signIn(demo.finisher.email, DEMO_PASSWORD)
-  const ws = await demoWorkshopId()
-  clientOrgId = Number((await testDb()('client_orgs').where({ workshop_id: ws }).first('id')).id)
+  ada = await signIn(demo.client1.email, DEMO_PASSWORD)
+  ravi = await signIn(demo.client2.email, DEMO_PASSWORD)
+  // ada's organisation: the quotes below are sent to her people, never to ravi's
+  clientOrgId = Number((await testDb()('users').whereRaw('lower(email) = lower(?)', [demo.client1.email]).first('client_org_id')).client_org_id)
   const current = await call('/api/rates', { cookie: lead })
   const put = await call('/api/rates', { method: 'PUT', cookie: lead, body: { ...rates, version: current.data.version } })
   expect(put.status).toBe(200)
@@ -131,5 +135,67 @@ describe('quotes', () => {
     const b = await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'x', takeOff: bad } })
     expect(b.status).toBe(422)
     expect(JSON.stringify(b.data)).toMatch(/count/i)
+  })
+})
+
+describe('the client\'s side of a quote', () => {
+  it('shows a sent revision to its organisation only, without the estimate, and mails its people', async () => {
+    const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'Client side', clientOrgId, takeOff } })).data
+    // a draft is not the client's to see
+    expect((await call(`/api/client/quotes/${made.id}`, { cookie: ada })).status).toBe(404)
+    const sent = await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: made.version } })
+    expect(sent.status).toBe(200)
+    const mine = await call(`/api/client/quotes/${made.id}`, { cookie: ada })
+    expect(mine.status).toBe(200)
+    expect(mine.data).toMatchObject({ number: made.number, revision: 1, status: 'sent', total: 189584, deposit: 56875 })
+    expect(JSON.stringify(mine.data)).not.toMatch(/estimate/)
+    expect((await call('/api/client/quotes', { cookie: ada })).data.map((q: { id: number }) => q.id)).toContain(made.id)
+    // another organisation's client sees nothing of it
+    expect((await call(`/api/client/quotes/${made.id}`, { cookie: ravi })).status).toBe(404)
+    expect((await call('/api/client/quotes', { cookie: ravi })).data.map((q: { id: number }) => q.id)).not.toContain(made.id)
+    const pdf = await fetch(`${baseUrl()}/api/client/quotes/${made.id}/pdf`, { headers: { cookie: ada } })
+    expect(pdf.status).toBe(200)
+    const text = (await pdfText(await pdf.arrayBuffer())).join(' ')
+    expect(text).toContain('£1,895.84')
+    expect(text).not.toContain('DRAFT')
+    const mails = await testDb()('mail_outbox').where({ kind: 'quote_sent' }).andWhere('dedupe_key', 'like', `quote-sent:${made.id}:1:%`).select('to_email')
+    expect(mails.map(m => m.to_email.toLowerCase())).toContain(demo.client1.email.toLowerCase())
+    expect(mails.map(m => m.to_email.toLowerCase())).not.toContain(demo.client2.email.toLowerCase())
+  })
+
+  it('takes changes with a comment, then accepts exactly the revision read', async () => {
+    const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'Decide', clientOrgId, takeOff } })).data
+    const sent = (await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: made.version } })).data
+    const decide = (cookie: string, body: unknown) => call(`/api/client/quotes/${made.id}/decision`, { method: 'POST', cookie, body })
+
+    const silent = await decide(ada, { revision: 1, decision: 'changes' })
+    expect(silent.status).toBe(422)
+    expect(JSON.stringify(silent.data)).toMatch(/Say what you would like changed/)
+    expect((await decide(ravi, { revision: 1, decision: 'accept' })).status).toBe(404)
+    expect((await decide(lead, { revision: 1, decision: 'accept' })).status).toBe(403)
+
+    const changes = await decide(ada, { revision: 1, decision: 'changes', comment: 'Leave out the fixing, our builder fixes.' })
+    expect(changes.status).toBe(200)
+    expect(changes.data).toMatchObject({ status: 'changes_requested', decisionComment: 'Leave out the fixing, our builder fixes.' })
+    const told = await testDb()('mail_outbox').where({ kind: 'quote_decision' }).andWhere('dedupe_key', 'like', `quote-decision:${made.id}:1:%`).first('subject')
+    expect(told.subject).toMatch(/asked for changes to revision 1/)
+
+    // the lead makes revision 2 without fixing and sends it
+    const revised = (await call(`/api/quotes/${made.id}/revise`, { method: 'POST', cookie: lead, body: { version: sent.version } })).data
+    const edited = (await call(`/api/quotes/${made.id}`, { method: 'PATCH', cookie: lead, body: { takeOff: { ...takeOff, fixing: false }, version: revised.version } })).data
+    expect((await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: edited.version } })).status).toBe(200)
+
+    // accepting the revision read before is refused: the client must read revision 2
+    const stale = await decide(ada, { revision: 1, decision: 'accept' })
+    expect(stale.status).toBe(409)
+    expect(stale.data.message).toMatch(/read revision 2/)
+    const accepted = await decide(ada, { revision: 2, decision: 'accept' })
+    expect(accepted.status).toBe(200)
+    expect(accepted.data).toMatchObject({ revision: 2, status: 'accepted' })
+    expect(accepted.data.earlier).toEqual([expect.objectContaining({ revision: 1, status: 'changes_requested' })])
+    expect((await decide(ada, { revision: 2, decision: 'accept' })).status).toBe(409)
+    // an accepted quote is not revised
+    const lead2 = (await call(`/api/quotes/${made.id}`, { cookie: lead })).data
+    expect((await call(`/api/quotes/${made.id}/revise`, { method: 'POST', cookie: lead, body: { version: lead2.version } })).status).toBe(409)
   })
 })

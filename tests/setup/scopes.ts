@@ -114,9 +114,11 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     workshop_id: workshopId, pour_id: pourId ?? await pourRow(), job_item_id: itemId, mark: `${tag}-P${++n}`, state, dry_mass_kg: 1.2, wet_mass_kg: 1.8,
   })
   /** A quote with one revision in `status`, straight in the database (a one-room take-off priced at nothing). */
+  // in the demo workshop the quotes are for ada's organisation (the matrix's client), elsewhere for one of their own
+  const adaOrg = Number((await k('users').where({ id: client1 }).first('client_org_id')).client_org_id)
   const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent') => {
-    const org = await insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag} ${++n}` })
-    const id = await insert('quotes', { workshop_id: workshopId, number: 9000 + n, title: `Quote ${tag}`, client_org_id: org })
+    const org = workshopId === ws ? adaOrg : await insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag} ${++n}` })
+    const id = await insert('quotes', { workshop_id: workshopId, number: 9000 + ++n, title: `Quote ${tag}`, client_org_id: org })
     const takeOff = { rooms: [{ name: `Room ${tag}`, runs: [], ornaments: [{ name: 'Patera', count: 1, plasterKgEach: 1, newMould: false }] }], bagKg: 25, deliveries: 0, fixing: false }
     await k('quote_versions').insert({ workshop_id: workshopId, quote_id: id, revision: 1, status, take_off: JSON.stringify(takeOff), lines: '[]', currency: 'GBP', net: 0, tax: 0, total: 0, estimate: 0, deposit: 0 })
     return id

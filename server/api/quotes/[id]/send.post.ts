@@ -4,5 +4,5 @@ export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'lead')
   const { id } = validParams(event, idParamSchema)
   const { version } = await validBody(event, quoteVersionedSchema)
-  return sendQuote(actor.workshopId, id, version)
+  return sendQuote(actor.workshopId, id, version, actor.id)
 })
