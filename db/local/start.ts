@@ -32,6 +32,7 @@ async function main() {
     DATABASE_URL: databaseUrl,
     NUXT_SESSION_PASSWORD: sessionSecret(),
     MAIL_FAKE: process.env.MAIL_FAKE ?? (process.env.SMTP_HOST ? '0' : '1'),
+    PAYMENTS_FAKE: process.env.PAYMENTS_FAKE ?? (process.env.PAYMENTS_SECRET_KEY ? '0' : '1'),
     HOST: host,
     PORT: port,
     APP_URL: process.env.APP_URL ?? `http://${host}:${port}`,

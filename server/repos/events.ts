@@ -6,7 +6,7 @@ export interface EventEntry {
   entity: string
   entityId: number
   type: string
-  actorId: number
+  actorId: number | null
   data?: Record<string, unknown>
   /** When it happened; now when left out (a tablet's step names its own, maybe back-dated). */
   at?: Date

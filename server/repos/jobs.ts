@@ -112,4 +112,12 @@ export const jobsRepo = {
         version: db.raw('version + 1'), updated_at: db.fn.now(),
       }).returning(JOB_COLUMNS)
   },
+  /** The deposit a job asks before its moulds start, in minor units (0: none), or undefined for no such job. */
+  async deposit(db: Knex, workshopId: number, id: number): Promise<number | undefined> {
+    const row = await db('jobs').first('deposit_minor').where({ workshop_id: workshopId, id })
+    return row ? Number(row.deposit_minor) : undefined
+  },
+  async setDeposit(db: Knex, workshopId: number, id: number, minor: number): Promise<boolean> {
+    return (await db('jobs').where({ workshop_id: workshopId, id }).update({ deposit_minor: minor, updated_at: db.fn.now() })) > 0
+  },
 }

@@ -35,6 +35,11 @@ const envSchema = z.object({
   S3_ACCESS_KEY_ID: z.string().min(1).optional(),
   S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
   S3_REGION: z.string().min(1).default('auto'),
+  // card payments through the hosted payment service (server/utils/payments.ts); the fake for the demo and tests
+  PAYMENTS_FAKE: flag.default(false),
+  PAYMENTS_FAKE_PORT: z.coerce.number().int().min(0).max(65535).default(0),
+  PAYMENTS_SECRET_KEY: z.string().min(1).optional(),
+  PAYMENTS_WEBHOOK_SECRET: z.string().min(1).optional(),
 })
 
 export type AppEnv = z.infer<typeof envSchema>

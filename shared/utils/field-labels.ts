@@ -67,6 +67,10 @@ export const FIELD_LABELS: Record<string, string> = {
   clientOrgId: 'Client',
   deliveries: 'Deliveries',
   title: 'Title',
+  depositMinor: 'Deposit',
+  amount: 'Amount',
+  method: 'Paid by',
+  paidOn: 'Paid on',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

@@ -25,11 +25,12 @@ export const KINDS = {
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
   quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
+  depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
 } as const
 export type Kind = keyof typeof KINDS
 
 /** Kinds that are the other client's in the otherClient scope; every other kind is the own row there. */
-const CLIENT_KINDS = new Set<Kind>(['job', 'decisionJob', 'item', 'member', 'photo', 'newItem', 'newMember', 'newPhoto'])
+const CLIENT_KINDS = new Set<Kind>(['job', 'decisionJob', 'depositJob', 'item', 'member', 'photo', 'newItem', 'newMember', 'newPhoto'])
 
 type Id = number | string
 type Standing = Record<Exclude<Kind, `new${string}`>, Id>
@@ -123,6 +124,8 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     await k('quote_versions').insert({ workshop_id: workshopId, quote_id: id, revision: 1, status, take_off: JSON.stringify(takeOff), lines: '[]', currency: 'GBP', net: 0, tax: 0, total: 0, estimate: 0, deposit: 0 })
     return id
   }
+  /** A paid bank transfer on the job, straight in the database. */
+  const paymentRow = (workshopId: number, jobId: number) => insert('payments', { workshop_id: workshopId, job_id: jobId, amount: 1000, currency: 'GBP', method: 'bank_transfer', status: 'paid', paid_at: new Date() })
   const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
   const job = await jobRow(ws, tags.own, {}, client1)
   const ownItem = await itemRow(ws, job, grade)
@@ -137,6 +140,8 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
     quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
+    // asks a deposit, so ada has something to pay by card
+    depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
   }
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
@@ -146,6 +151,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   const otherClient: Standing = {
     ...own, job: job2, decisionJob: decision2, item: item2, member: await memberRow(ws, job2, tags.otherClient),
     photo: await photoRow(job2, true), packedPiece: await pieceRow(ws, tags.otherClient, item2, 'packed'),
+    depositJob: await jobRow(ws, tags.otherClient, { deposit_minor: 5000 }, client2),
   }
 
   // other: a second workshop, whose client is on its job; its pour and photo are rows only.
@@ -174,10 +180,12 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
     piece: 0, packedPiece: 0,
     quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
+    depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
   }
   otherRows.item = await itemRow(ow, oJob, oGrade)
   otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
   otherRows.packedPiece = otherRows.piece
+  otherRows.payment = await paymentRow(ow, oJob)
   const standing: Record<ScopeName, Standing> = { own, other: otherRows, otherClient }
   const emails = { own: await email(await person(ws, 'client', tags.own)), other: await email(oClient) }
 
@@ -192,6 +200,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newTablet: s => tabletRow(ws, tags[s]),
     newQuote: s => quoteRow(ws, tags[s], 'draft'),
     newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
+    newPayment: s => paymentRow(ws, standing[s].job as number),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 
