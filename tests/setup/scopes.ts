@@ -24,6 +24,7 @@ export const KINDS = {
   piece: 'pieces', packedPiece: 'pieces', dispatch: 'dispatches', tablet: 'tablet_devices',
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
+  clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -113,6 +114,10 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     workshop_id: workshopId, pour_id: pourId ?? await pourRow(), job_item_id: itemId, mark: `${tag}-P${++n}`, state, dry_mass_kg: 1.2, wet_mass_kg: 1.8,
   })
   const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
+  const orgRow = (workshopId: number, tag: string) => insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag}` })
+  const contactRow = (workshopId: number, orgId: number, tag: string) => insert('client_contacts', { workshop_id: workshopId, client_org_id: orgId, name: `Contact ${tag}`, email: `${tag}-${++n}@contact.example.test` })
+  const siteRow = (workshopId: number, orgId: number, tag: string) => insert('client_sites', { workshop_id: workshopId, client_org_id: orgId, name: `Site ${tag}`, address: `1 ${tag} Street` })
+  const ownOrg = await orgRow(ws, tags.own)
   const job = await jobRow(ws, tags.own, {}, client1)
   const ownItem = await itemRow(ws, job, grade)
   const own: Standing = {
@@ -125,6 +130,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     sampleJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_cast' }),
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
+    clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own),
   }
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
@@ -160,8 +166,11 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     bench: await insert('benches', { workshop_id: ow, name: `Bench ${tags.other}` }),
     item: 0, member: oClient, tablet: await tabletRow(ow, tags.other),
     dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
-    piece: 0, packedPiece: 0,
+    piece: 0, packedPiece: 0, clientOrg: 0, contact: 0, site: 0,
   }
+  otherRows.clientOrg = await orgRow(ow, tags.other)
+  otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)
+  otherRows.site = await siteRow(ow, otherRows.clientOrg as number, tags.other)
   otherRows.item = await itemRow(ow, oJob, oGrade)
   otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
   otherRows.packedPiece = otherRows.piece
@@ -177,6 +186,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'to_fettle'),
     newPackedPiece: s => pieceRow(ws, tags[s], standing[s].item as number, 'packed'),
     newTablet: s => tabletRow(ws, tags[s]),
+    newContact: s => contactRow(ws, ownOrg, tags[s]),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 
