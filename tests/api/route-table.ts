@@ -155,6 +155,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/moulds/[id]/state', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ state: 'cleaning', version: await s.version('mould') }) },
   { route: 'GET /api/moulds/export', roles: LEAD },
   { route: 'GET /api/import/[kind]/template', roles: LEAD, params: { kind: 'moulds' } },
+  { route: 'GET /api/import/[kind]/export', roles: LEAD, params: { kind: 'clients' } },
   { route: 'POST /api/import/[kind]/preview', roles: LEAD, params: { kind: 'moulds' }, form: () => mouldCsv() },
   { route: 'POST /api/import/[kind]/confirm', roles: LEAD, params: { kind: 'moulds' }, form: () => mouldCsv() },
   { route: 'GET /api/clients', roles: LEAD },
