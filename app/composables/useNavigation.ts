@@ -10,6 +10,8 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/day-sheet', label: 'Day sheet', icon: 'sheet' },
     { to: '/finishing', label: 'Finishing', icon: 'hammer' },
     { to: '/lead/jobs', label: 'Jobs', icon: 'clipboard' },
+    { to: '/lead/clients', label: 'Clients', icon: 'building' },
+    { to: '/lead/quotes', label: 'Quotes', icon: 'receipt' },
     { to: '/lead/moulds', label: 'Moulds', icon: 'shapes' },
     { to: '/lead/plasters', label: 'Plasters', icon: 'layers' },
     { to: '/lead/lots', label: 'Lots', icon: 'package' },

@@ -36,6 +36,8 @@ async function seedPeople(k: Knex, workshopId: number) {
       client_org_id: org ? orgs[org] : null, password_hash: hash,
       pin_hash: 'pin' in u ? await hasher.make(u.pin) : null,
     })
+    // a client user is a contact of their organisation, with every job mail on
+    if (org) await k('client_contacts').insert({ workshop_id: workshopId, client_org_id: orgs[org], name: u.name, email: u.email, role: 'Project contact' })
   }
   return { orgs, users }
 }
@@ -93,9 +95,15 @@ interface Ctx { grades: Ids; lots: Ids; benches: Ids; moulds: Ids; orgs: Ids; us
 
 async function seedJobs(k: Knex, workshopId: number, c: Ctx) {
   const job = (row: Record<string, unknown>) => insertId(k, 'jobs', { workshop_id: workshopId, ...row })
-  const fernhill = await job({ code: 'J-2601', title: 'Drawing-room cornice', site: 'Fernhill House, east wing', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(21), sample_required: true, sample_state: 'approved', sample_comment: 'Crisp enrichment, go ahead.', sample_decided_by: c.users.client1, sample_decided_at: localDay(-6, 10) })
-  const alder = await job({ code: 'J-2602', title: 'Ceiling centres for six flats', site: 'Alder Street', client_org_id: c.orgs['Quayside Interiors'], due_on: isoDay(35), sample_required: true, sample_state: 'awaiting_approval' })
-  const mill = await job({ code: 'J-2603', title: 'Stair corbels', site: 'Mill Lane stair hall', client_org_id: c.orgs['Hollin Row Architects'], due_on: isoDay(42), notes: 'Client to confirm paint finish.' })
+  const site = (org: string, row: Record<string, unknown>) => insertId(k, 'client_sites', { workshop_id: workshopId, client_org_id: c.orgs[org], ...row })
+  const sites = {
+    fernhill: await site('Hollin Row Architects', { name: 'Fernhill House, east wing', address: '1 Fernhill Lane, Example Town', postcode: 'EX1 2AB', opening_hours: 'Mon–Fri 08:00–16:00', parking: 'Gravel drive by the east door', lifting: 'No lift: two people to carry up one flight' }),
+    alder: await site('Quayside Interiors', { name: 'Alder Street', address: '14 Alder Street, Example Town', postcode: 'EX2 7CD', opening_hours: 'Mon–Sat 08:00–17:00', parking: 'Loading bay, 30 minutes', lifting: 'Goods lift to every floor' }),
+    mill: await site('Hollin Row Architects', { name: 'Mill Lane stair hall', address: '3 Mill Lane, Example Town', postcode: 'EX3 4EF', opening_hours: null, parking: 'Street parking only', lifting: null }),
+  }
+  const fernhill = await job({ code: 'J-2601', title: 'Drawing-room cornice', site: 'Fernhill House, east wing', client_org_id: c.orgs['Hollin Row Architects'], site_id: sites.fernhill, due_on: isoDay(21), sample_required: true, sample_state: 'approved', sample_comment: 'Crisp enrichment, go ahead.', sample_decided_by: c.users.client1, sample_decided_at: localDay(-6, 10) })
+  const alder = await job({ code: 'J-2602', title: 'Ceiling centres for six flats', site: 'Alder Street', client_org_id: c.orgs['Quayside Interiors'], site_id: sites.alder, due_on: isoDay(35), sample_required: true, sample_state: 'awaiting_approval' })
+  const mill = await job({ code: 'J-2603', title: 'Stair corbels', site: 'Mill Lane stair hall', client_org_id: c.orgs['Hollin Row Architects'], site_id: sites.mill, due_on: isoDay(42), notes: 'Client to confirm paint finish.' })
   await k('job_members').insert([
     { workshop_id: workshopId, job_id: fernhill, user_id: c.users.client1 },
     { workshop_id: workshopId, job_id: mill, user_id: c.users.client1 },

@@ -44,6 +44,10 @@ export const benchesRepo = {
       rethrowDbError(err, UNIQUE_LABELS)
     }
   },
+  /** Many benches at once (an import). */
+  async insertMany(db: Knex, workshopId: number, rows: BenchInput[]) {
+    for (let i = 0; i < rows.length; i += 500) await db('benches').insert(rows.slice(i, i + 500).map(r => ({ workshop_id: workshopId, ...toColumns(r, db) })))
+  },
   update(db: Knex, workshopId: number, id: number, version: number, input: BenchInput): Promise<BenchRow> {
     return updateVersioned<BenchRow>(db, 'benches', { workshopId, id, version }, toColumns(input, db), BENCH_COLUMNS, 'Bench')
   },

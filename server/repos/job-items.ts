@@ -49,6 +49,10 @@ export const jobItemsRepo = {
     const [row] = await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols }).returning(ITEM_COLUMNS)
     return row
   },
+  /** Many items at once (an import), each naming its job. */
+  async insertMany(db: Knex, workshopId: number, rows: (ItemColumns & { job_id: number })[]) {
+    for (let i = 0; i < rows.length; i += 500) await db('job_items').insert(rows.slice(i, i + 500).map(r => ({ workshop_id: workshopId, ...r })))
+  },
   async update(db: Knex, workshopId: number, jobId: number, id: number, version: number, cols: ItemColumns): Promise<ItemRow | undefined> {
     const [row] = await db('job_items').where({ workshop_id: workshopId, job_id: jobId, id, version })
       .update({ ...cols, version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(ITEM_COLUMNS)

@@ -18,6 +18,8 @@ export interface JobRow {
   sample_decided_at: Date | null
   version: number
   created_at: Date
+  client_org_id: number | null
+  site_id: number | null
 }
 export type JobListRow = JobRow & { item_count: number; member_count: number }
 export interface ClientJobRow {
@@ -33,13 +35,23 @@ export interface ClientJobRow {
 export interface JobMemberRow { id: number; name: string; email: string }
 
 export const JOB_COLUMNS = ['id', 'code', 'title', 'site', 'due_on', 'notes', 'state', 'sample_required', 'sample_state',
-  'sample_comment', 'sample_decided_by', 'sample_decided_at', 'version', 'created_at'] as const
+  'sample_comment', 'sample_decided_by', 'sample_decided_at', 'version', 'created_at', 'client_org_id', 'site_id'] as const
 
-export interface JobInput { code?: string; title?: string; site?: string | null; dueOn?: string | null; notes?: string | null; state?: string; sampleRequired?: boolean }
+export interface JobInput {
+  code?: string
+  title?: string
+  site?: string | null
+  dueOn?: string | null
+  notes?: string | null
+  state?: string
+  sampleRequired?: boolean
+  clientOrgId?: number | null
+  siteId?: number | null
+}
 
 function toColumns(i: JobInput) {
   const map: [keyof JobInput, string][] = [['code', 'code'], ['title', 'title'], ['site', 'site'], ['dueOn', 'due_on'],
-    ['notes', 'notes'], ['state', 'state'], ['sampleRequired', 'sample_required']]
+    ['notes', 'notes'], ['state', 'state'], ['sampleRequired', 'sample_required'], ['clientOrgId', 'client_org_id'], ['siteId', 'site_id']]
   return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
 }
 
@@ -63,6 +75,17 @@ export const jobsRepo = {
       .select(db.raw(`(${itemCount}) AS item_count`))
       .select(db.raw('(SELECT count(*)::int FROM job_members m WHERE m.job_id = j.id AND m.workshop_id = j.workshop_id) AS member_count'))
       .orderByRaw('j.due_on NULLS LAST, j.code')
+  },
+  /** The jobs of an organisation with their site's name (the client's page). */
+  forOrg(db: Knex, workshopId: number, orgId: number): Promise<{ id: number; code: string; title: string; state: string; site_name: string | null }[]> {
+    return db('jobs as j').leftJoin('client_sites as s', function () {
+      this.on('s.id', 'j.site_id').andOn('s.workshop_id', 'j.workshop_id')
+    }).where({ 'j.workshop_id': workshopId, 'j.client_org_id': orgId })
+      .select('j.id', 'j.code', 'j.title', 'j.state', 's.name as site_name').orderBy('j.code')
+  },
+  async clientOrgId(db: Knex, workshopId: number, id: number): Promise<number | null> {
+    const row = await db('jobs').first('client_org_id').where({ workshop_id: workshopId, id })
+    return row?.client_org_id ? Number(row.client_org_id) : null
   },
   byId(db: Knex, workshopId: number, id: number): Promise<JobRow | undefined> {
     return db('jobs').first(JOB_COLUMNS).where({ workshop_id: workshopId, id })
@@ -98,6 +121,21 @@ export const jobsRepo = {
     catch (err) {
       rethrowDbError(err, UNIQUE_LABELS)
     }
+  },
+  /** The job codes this workshop already uses (an import refuses them). */
+  async codes(db: Knex, workshopId: number): Promise<Set<string>> {
+    return new Set(await db('jobs').where({ workshop_id: workshopId }).pluck('code'))
+  },
+  /** Many jobs at once (an import); their ids by code. */
+  async insertMany(db: Knex, workshopId: number, rows: JobInput[]): Promise<Map<string, number>> {
+    const out = new Map<string, number>()
+    for (let i = 0; i < rows.length; i += 500) {
+      const got: { id: number; code: string }[] = await db('jobs').insert(rows.slice(i, i + 500).map(r => ({
+        workshop_id: workshopId, ...toColumns(r), sample_state: r.sampleRequired ? 'awaiting_cast' : 'not_required',
+      }))).returning(['id', 'code'])
+      for (const g of got) out.set(g.code, Number(g.id))
+    }
+    return out
   },
   update(db: Knex, workshopId: number, id: number, version: number, input: JobInput & { sampleState?: string }): Promise<JobRow> {
     const cols: Record<string, unknown> = toColumns(input)

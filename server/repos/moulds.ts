@@ -97,6 +97,11 @@ export const mouldsRepo = {
     const rows: { code: string }[] = await db('moulds').select('code').where({ workshop_id: workshopId })
     return new Set(rows.map(r => r.code))
   },
+  /** Every mould's id and cast length by code (an import names moulds by code). */
+  async byCode(db: Knex, workshopId: number): Promise<Map<string, { id: number; cast_length_m: number | null }>> {
+    const rows: { id: number; code: string; cast_length_m: number | null }[] = await db('moulds').select('id', 'code', 'cast_length_m').where({ workshop_id: workshopId })
+    return new Map(rows.map(r => [r.code, { id: Number(r.id), cast_length_m: r.cast_length_m === null ? null : Number(r.cast_length_m) }]))
+  },
   /** Many moulds at once (CSV import, inside its transaction), with their state; in batches of 500 rows. */
   async insertMany(db: Knex, workshopId: number, actorId: number, rows: (MouldInput & { state: string; stateReason: string | null })[]) {
     const cols = rows.map(({ state, stateReason, ...input }) => ({

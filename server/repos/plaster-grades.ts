@@ -67,6 +67,10 @@ export const gradesRepo = {
     return db('plaster_grades').select(GRADE_COLUMNS).where({ workshop_id: workshopId })
       .orderByRaw('archived_at IS NOT NULL, name')
   },
+  /** Many grades at once (an import). */
+  async insertMany(db: Knex, workshopId: number, rows: GradeInput[]) {
+    for (let i = 0; i < rows.length; i += 500) await db('plaster_grades').insert(rows.slice(i, i + 500).map(r => ({ workshop_id: workshopId, ...toColumns(r, db) })))
+  },
   byId(db: Knex, workshopId: number, id: number): Promise<GradeRow | undefined> {
     return db('plaster_grades').first(GRADE_COLUMNS).where({ workshop_id: workshopId, id })
   },

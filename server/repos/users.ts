@@ -53,6 +53,11 @@ export const usersRepo = {
     const row = await db('users').where({ workshop_id: workshopId, id: userId, role: 'client' }).first('client_org_id')
     return row?.client_org_id ?? null
   },
+  /** The client users of an organisation (its portal members), by name. */
+  orgMembers(db: Knex, workshopId: number, orgId: number): Promise<{ id: number; name: string; email: string; disabled_at: Date | null }[]> {
+    return db('users').where({ workshop_id: workshopId, client_org_id: orgId, role: 'client' })
+      .select('id', 'name', 'email', 'disabled_at').orderBy(['name', 'id'])
+  },
   /** The workshop's enabled leads, by id. */
   leadRecipients(db: Knex, workshopId: number): Promise<RecipientRow[]> {
     return db('users as u').where({ 'u.workshop_id': workshopId, 'u.role': 'lead' }).whereNull('u.disabled_at')

@@ -24,4 +24,7 @@ export const UNIQUE_LABELS: Record<string, string> = {
   benches_workshop_id_name_unique: 'A bench with this name already exists',
   moulds_workshop_id_code_unique: 'A mould with this code already exists',
   jobs_workshop_id_code_unique: 'A job with this code already exists',
+  client_orgs_workshop_id_name_unique: 'A client with this name already exists',
+  client_contacts_org_email_unique: 'This client already has a contact with this e-mail',
+  client_sites_workshop_id_client_org_id_name_unique: 'This client already has a site with this name',
 }

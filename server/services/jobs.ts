@@ -7,6 +7,9 @@ import { jobItemsRepo, type ItemColumns, type ItemListRow, type ItemRow } from '
 import { gradesRepo, type GradeRow } from '../repos/plaster-grades'
 import { mouldsRepo } from '../repos/moulds'
 import { usersRepo } from '../repos/users'
+import { clientOrgsRepo } from '../repos/client-orgs'
+import { clientSitesRepo } from '../repos/client-sites'
+import { clientContactsRepo } from '../repos/client-contacts'
 import { inviteUser } from './accounts'
 import { PlasterInputError } from '#shared/utils/plaster-core'
 import type { JobItemCreateInput } from '#shared/utils/job-schemas'
@@ -19,6 +22,7 @@ export function toJob(r: JobRow): Job {
     id: r.id, code: r.code, title: r.title, site: r.site, dueOn: r.due_on, notes: r.notes, state: r.state,
     sampleRequired: r.sample_required, sampleState: r.sample_state, sampleComment: r.sample_comment,
     sampleDecidedBy: r.sample_decided_by, sampleDecidedAt: isoOrNull(r.sample_decided_at), version: r.version,
+    clientOrgId: r.client_org_id, siteId: r.site_id,
   }
 }
 
@@ -36,8 +40,32 @@ export async function listJobs(workshopId: number): Promise<JobListEntry[]> {
   return (await jobsRepo.list(useDb(), workshopId)).map(toJobListEntry)
 }
 
+/**
+ * The job's client and site must be this workshop's, and the site that client's. A site alone
+ * brings its client; a new client without a site clears a site of the old client. A site chosen
+ * without site text names the job's site text after it (the client's pages show that text).
+ */
+async function clientAndSite(db: Knex, workshopId: number, input: JobInput, current?: JobRow): Promise<JobInput> {
+  const out = { ...input }
+  if (out.clientOrgId && !(await clientOrgsRepo.exists(db, workshopId, out.clientOrgId))) unprocessable([{ field: 'clientOrgId', message: 'clientOrgId is not a client of this workshop' }])
+  if (out.siteId) {
+    const site = await clientSitesRepo.byId(db, workshopId, out.siteId)
+    if (!site) unprocessable([{ field: 'siteId', message: 'siteId is not a site of this workshop' }])
+    const orgId = out.clientOrgId !== undefined ? out.clientOrgId : current?.client_org_id
+    if (orgId && orgId !== site.client_org_id) unprocessable([{ field: 'siteId', message: 'siteId is not a site of this client' }])
+    out.clientOrgId = site.client_org_id
+    if (out.site === undefined && !current?.site) out.site = site.name
+  }
+  else if (out.siteId === undefined && out.clientOrgId !== undefined && current?.site_id) {
+    const site = await clientSitesRepo.byId(db, workshopId, current.site_id)
+    if (site && site.client_org_id !== out.clientOrgId) out.siteId = null
+  }
+  return out
+}
+
 export async function createJob(workshopId: number, input: JobInput): Promise<Job> {
-  return toJob(await jobsRepo.insert(useDb(), workshopId, input))
+  const db = useDb()
+  return toJob(await jobsRepo.insert(db, workshopId, await clientAndSite(db, workshopId, input)))
 }
 
 /** Turning the sample requirement on or off moves the sample state to "to be cast" or "not required" unless the client has decided. */
@@ -48,7 +76,7 @@ export async function updateJob(workshopId: number, id: number, version: number,
   let sampleState: string | undefined
   if (input.sampleRequired === true && job.sample_state === 'not_required') sampleState = 'awaiting_cast'
   if (input.sampleRequired === false && job.sample_state !== 'approved') sampleState = 'not_required'
-  return toJob(await jobsRepo.update(db, workshopId, id, version, { ...input, sampleState }))
+  return toJob(await jobsRepo.update(db, workshopId, id, version, { ...(await clientAndSite(db, workshopId, input, job)), sampleState }))
 }
 
 /** The client's own jobs (member of), with item counts; nothing internal. */
@@ -165,13 +193,18 @@ export async function removeItem(actor: Actor, jobId: number, id: number) {
 /** Adds an existing client of the workshop to the job, or invites a new one by e-mail into it. */
 export async function addClientMember(actor: Actor, jobId: number, input: { email: string; name?: string | null }): Promise<JobMemberResult> {
   const db = useDb()
-  if (!(await jobsRepo.byId(db, actor.workshopId, jobId))) notFound('Job')
+  const job = await jobsRepo.byId(db, actor.workshopId, jobId)
+  if (!job) notFound('Job')
   const existing = await usersRepo.byEmail(db, input.email)
+  const orgId = job.client_org_id
   if (existing) {
     if (existing.workshop_id !== actor.workshopId || existing.role !== 'client') conflict('This e-mail belongs to someone who is not a client of this workshop')
     await jobsRepo.addMember(db, actor.workshopId, jobId, existing.id)
+    // a member of the job's client gets its job mail like the client's other contacts
+    if (orgId && existing.client_org_id === orgId) await clientContactsRepo.ensure(db, actor.workshopId, orgId, { name: existing.name, email: existing.email })
     return { status: 'added', email: input.email }
   }
-  await inviteUser(actor, { email: input.email, role: 'client', name: input.name ?? undefined, jobId })
+  await inviteUser(actor, { email: input.email, role: 'client', name: input.name ?? undefined, jobId, clientOrgId: orgId ?? undefined })
+  if (orgId) await clientContactsRepo.ensure(db, actor.workshopId, orgId, { name: input.name ?? input.email, email: input.email })
   return { status: 'invited', email: input.email }
 }

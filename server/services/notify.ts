@@ -5,6 +5,11 @@
 // and a workshop several leads: the mail_outbox.dedupe_key column is unique across all rows.
 // Call these inside the transaction that causes the mail, never queueMail directly. A new kind
 // goes into NOTIFY_KINDS / NOTIFY_KIND_INFO (shared/utils/notify-schemas.ts); /account lists it.
+// A job's client mail (samples, progress photos, ready for dispatch) goes to the contacts of the
+// job's client organisation who have that mail on (client_contacts: the lead's choice per
+// contact); a contact who is also a user of the workshop keeps their own settings from /account
+// on top, and a disabled user's contact gets nothing. A job without a client organisation mails
+// its client members, as before clients had contacts. Contact keys end with c<contactId>.
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'
@@ -12,10 +17,12 @@ import { usersRepo, type RecipientRow } from '../repos/users'
 import { jobsRepo, type JobRow } from '../repos/jobs'
 import { workshopsRepo } from '../repos/workshops'
 import { mailOutboxRepo } from '../repos/mail-outbox'
+import { clientContactsRepo, type ContactMail } from '../repos/client-contacts'
 import { formatDateTime } from '#shared/utils/workshop-format'
 import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
-type Recipient = RecipientRow
+/** A user, or a client contact (key c<contactId>; userId when the contact is also a user). */
+type Recipient = RecipientRow & { key?: string; userId?: number | null }
 type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
 
 const link = (path: string) => `${appEnv().APP_URL}${path}`
@@ -26,20 +33,31 @@ async function send(trx: Knex, workshopId: number, kind: NotifyKind, to: Recipie
   for (const r of to) {
     if (!notifyPrefsOf(r.notify_prefs)[kind]) continue
     const m = mail(r)
-    await queueMail(trx, { workshopId, userId: r.id, to: r.email, kind, subject: m.subject, text: [`Hello ${r.name},`, '', ...m.lines].join('\n'), dedupeKey: m.dedupeKey })
+    await queueMail(trx, { workshopId, userId: r.key ? (r.userId ?? null) : r.id, to: r.email, kind, subject: m.subject, text: [`Hello ${r.name},`, '', ...m.lines].join('\n'), dedupeKey: m.dedupeKey })
     queued++
   }
   return queued
 }
 
-/** To the job's client members: the sample is ready for approval. `round` is the job version. */
+const CONTACT_MAIL: Partial<Record<NotifyKind, ContactMail>> = { sample_ready: 'mail_samples', photos_shared: 'mail_progress', job_ready: 'mail_dispatch' }
+
+/** Who gets a job's client mail of `kind`: its client's contacts with that mail on, or its members when it has no client. */
+async function jobClientRecipients(trx: Knex, workshopId: number, jobId: number, kind: NotifyKind): Promise<Recipient[]> {
+  const orgId = await jobsRepo.clientOrgId(trx, workshopId, jobId)
+  if (!orgId) return usersRepo.jobMemberRecipients(trx, workshopId, jobId)
+  const contacts = await clientContactsRepo.recipients(trx, workshopId, orgId, CONTACT_MAIL[kind]!)
+  return contacts.map(c => ({ id: c.id, name: c.name, email: c.email, notify_prefs: c.notify_prefs ?? {}, key: `c${c.id}`, userId: c.user_id }))
+}
+const rid = (r: Recipient) => r.key ?? String(r.id)
+
+/** To the job's client contacts: the sample is ready for approval. `round` is the job version. */
 export function notifySampleReady(trx: Knex, workshopId: number, job: JobRef & { version: number }) {
-  return usersRepo.jobMemberRecipients(trx, workshopId, job.id).then(to => send(trx, workshopId, 'sample_ready', to, r => ({
+  return jobClientRecipients(trx, workshopId, job.id, 'sample_ready').then(to => send(trx, workshopId, 'sample_ready', to, r => ({
     subject: `Sample ready for your approval: ${job.code} ${job.title}`,
     lines: [`The sample cast for ${job.code} (${job.title}) is ready for your approval.`,
       'Approve it, or ask for changes with a comment, here:', link(`/client/jobs/${job.id}`), '',
       'The rest of the job goes on the casting board once you approve the sample.'],
-    dedupeKey: `sample-ready:${job.id}:${job.version}:${r.id}`,
+    dedupeKey: `sample-ready:${job.id}:${job.version}:${rid(r)}`,
   })))
 }
 
@@ -52,21 +70,21 @@ export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: n
   if (!job) return 0
   const ws = await workshopsRepo.get(trx, workshopId)
   const day = boardLocalDay(new Date(), ws?.timezone ?? 'UTC')
-  return send(trx, workshopId, 'photos_shared', await usersRepo.jobMemberRecipients(trx, workshopId, jobId), r => ({
+  return send(trx, workshopId, 'photos_shared', await jobClientRecipients(trx, workshopId, jobId, 'photos_shared'), r => ({
     subject: `New photos of ${job.code} ${job.title}`,
     lines: [`The workshop has shared new photos of ${job.code} (${job.title}).`, 'See them on your job page:', link(`/client/jobs/${job.id}`)],
-    dedupeKey: `photos:${job.id}:${day}:${r.id}`,
+    dedupeKey: `photos:${job.id}:${day}:${rid(r)}`,
   }))
 }
 
-/** To the job's client members: the job is ready for dispatch (called when the last needed piece is ready). */
+/** To the job's client contacts: the job is ready for dispatch (called when the last needed piece is ready). */
 export async function notifyJobReady(trx: Knex, workshopId: number, jobId: number) {
   const job = await jobsRepo.byId(trx, workshopId, jobId)
   if (!job) return 0
-  return send(trx, workshopId, 'job_ready', await usersRepo.jobMemberRecipients(trx, workshopId, jobId), r => ({
+  return send(trx, workshopId, 'job_ready', await jobClientRecipients(trx, workshopId, jobId, 'job_ready'), r => ({
     subject: `Ready for dispatch: ${job.code} ${job.title}`,
     lines: [`Every piece of ${job.code} (${job.title}) is ready for dispatch.`, 'The workshop will be in touch about delivery. Your job page:', link(`/client/jobs/${job.id}`)],
-    dedupeKey: `job-ready:${job.id}:${r.id}`,
+    dedupeKey: `job-ready:${job.id}:${rid(r)}`,
   }))
 }
 

@@ -17,6 +17,9 @@ export interface Job {
   sampleDecidedBy: number | null
   sampleDecidedAt: string | null
   version: number
+  /** the client organisation and its site the job is for */
+  clientOrgId: number | null
+  siteId: number | null
 }
 
 /** GET /api/jobs: every job of the workshop with its counts. */

@@ -71,6 +71,18 @@ export const FIELD_LABELS: Record<string, string> = {
   amount: 'Amount',
   method: 'Paid by',
   paidOn: 'Paid on',
+  siteId: 'Site',
+  name: 'Name',
+  role: 'Role',
+  address: 'Address',
+  postcode: 'Postcode',
+  openingHours: 'Opening hours',
+  parking: 'Parking',
+  lifting: 'Lifting',
+  phone: 'Phone',
+  mailProgress: 'Progress mail',
+  mailSamples: 'Sample mail',
+  mailDispatch: 'Dispatch mail',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

@@ -26,6 +26,8 @@ export const jobFields = z.object({
   notes: optionalText('notes', 4000),
   state: z.enum(JOB_STATES, { error: 'state must be open, on_hold, done or cancelled' }).optional(),
   sampleRequired: z.boolean({ error: 'sampleRequired must be true or false' }).optional(),
+  clientOrgId: z.number({ error: 'clientOrgId must be a client' }).int().positive().max(Number.MAX_SAFE_INTEGER).nullable().optional(),
+  siteId: z.number({ error: 'siteId must be a site' }).int().positive().max(Number.MAX_SAFE_INTEGER).nullable().optional(),
 })
 export const jobCreateSchema = jobFields
 export const jobPatchSchema = jobFields.partial().extend({ version: versionField })

@@ -26,6 +26,7 @@ export const KINDS = {
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
   quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
+  clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -127,6 +128,10 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   /** A paid bank transfer on the job, straight in the database. */
   const paymentRow = (workshopId: number, jobId: number) => insert('payments', { workshop_id: workshopId, job_id: jobId, amount: 1000, currency: 'GBP', method: 'bank_transfer', status: 'paid', paid_at: new Date() })
   const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
+  const orgRow = (workshopId: number, tag: string) => insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag}` })
+  const contactRow = (workshopId: number, orgId: number, tag: string) => insert('client_contacts', { workshop_id: workshopId, client_org_id: orgId, name: `Contact ${tag}`, email: `${tag}-${++n}@contact.example.test` })
+  const siteRow = (workshopId: number, orgId: number, tag: string) => insert('client_sites', { workshop_id: workshopId, client_org_id: orgId, name: `Site ${tag}`, address: `1 ${tag} Street` })
+  const ownOrg = await orgRow(ws, tags.own)
   const job = await jobRow(ws, tags.own, {}, client1)
   const ownItem = await itemRow(ws, job, grade)
   const own: Standing = {
@@ -142,6 +147,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
     // asks a deposit, so ada has something to pay by card
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
+    clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own),
   }
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
@@ -181,7 +187,11 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     piece: 0, packedPiece: 0,
     quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
+    clientOrg: 0, contact: 0, site: 0,
   }
+  otherRows.clientOrg = await orgRow(ow, tags.other)
+  otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)
+  otherRows.site = await siteRow(ow, otherRows.clientOrg as number, tags.other)
   otherRows.item = await itemRow(ow, oJob, oGrade)
   otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
   otherRows.packedPiece = otherRows.piece
@@ -201,6 +211,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newQuote: s => quoteRow(ws, tags[s], 'draft'),
     newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
     newPayment: s => paymentRow(ws, standing[s].job as number),
+    newContact: s => contactRow(ws, ownOrg, tags[s]),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 
