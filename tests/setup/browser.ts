@@ -1,7 +1,7 @@
 // Debian's chromium driven by playwright-core, with the flags this closed machine needs. Inside
 // the e2e project every file connects to the run's one chromium (tests/setup/chromium-server.ts)
 // and opens contexts in it; elsewhere (the benchmarks) openBrowser launches a chromium of its own.
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core'
+import { chromium, type Browser, type BrowserContext, type Download, type Page } from 'playwright-core'
 import { mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 
@@ -66,6 +66,13 @@ export async function openBrowser(viewport = VIEWPORTS.desktop) {
       if (cspViolations.length) throw new Error(`Content Security Policy violations:\n${cspViolations.join('\n')}`)
     },
   }
+}
+
+/** A download's text: read through the connection, since the run's shared chromium keeps the file on its side. */
+export async function downloadText(download: Download): Promise<string> {
+  const chunks: Buffer[] = []
+  for await (const chunk of await download.createReadStream()) chunks.push(chunk as Buffer)
+  return Buffer.concat(chunks).toString('utf8')
 }
 
 export async function screenshot(page: Page, name: string) {
