@@ -87,7 +87,7 @@ export default defineConfig({
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
-          globalSetup: ['tests/setup/server.ts'],
+          globalSetup: ['tests/setup/server.ts', 'tests/setup/chromium-server.ts'],
           setupFiles: ['tests/setup/per-file.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,

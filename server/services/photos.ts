@@ -113,12 +113,18 @@ export function toPhotoDto(r: PhotoRow): PhotoDto {
 export const toClientPhotoDto = (r: PhotoRow): ClientPhotoDto =>
   ({ id: r.id, caption: r.caption, width: r.width, height: r.height, createdAt: r.created_at.toISOString() })
 
-/** A job's photos: all of them for staff, the shared ones in the client's shape for a client member. */
-export async function listPhotos(actor: Actor, jobId: number): Promise<PhotoDto[] | ClientPhotoDto[]> {
+/** A job's photos for staff: every one, newest first. */
+export async function listPhotos(actor: Actor, jobId: number): Promise<PhotoDto[]> {
   const db = useDb()
   await jobVisibleTo(db, actor, jobId)
-  const rows = await photosRepo.forJob(db, actor.workshopId, jobId, actor.role === 'client')
-  return actor.role === 'client' ? rows.map(toClientPhotoDto) : rows.map(toPhotoDto)
+  return (await photosRepo.forJob(db, actor.workshopId, jobId, false)).map(toPhotoDto)
+}
+
+/** A client member's view of their job's photos: the shared ones, in the client's shape. */
+export async function listClientPhotos(actor: Actor, jobId: number): Promise<ClientPhotoDto[]> {
+  const db = useDb()
+  await jobVisibleTo(db, actor, jobId)
+  return (await photosRepo.forJob(db, actor.workshopId, jobId, true)).map(toClientPhotoDto)
 }
 
 export async function updatePhoto(actor: Actor, id: string, input: PhotoPatch): Promise<PhotoDto> {

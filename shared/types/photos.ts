@@ -15,7 +15,7 @@ export interface PhotoDto {
   createdAt: string
 }
 
-/** What a client sees of a shared photo: never who took it, nor which pour or piece it shows. */
+/** GET /api/client/jobs/:id/photos: what a client sees of a shared photo, never who took it, nor which pour or piece it shows. */
 export interface ClientPhotoDto { id: string; caption: string | null; width: number; height: number; createdAt: string }
 
 export interface ItemProgressDto {

@@ -213,7 +213,8 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/jobs/[id]/sample', roles: LEAD, ids: { id: 'sampleJob' }, body: async s => ({ state: 'awaiting_approval', version: await s.version('sampleJob') }) },
   { route: 'POST /api/jobs/[id]/sample-decision', roles: ['client'], ids: { id: 'decisionJob' }, body: () => ({ decision: 'approved' }) },
   { route: 'GET /api/jobs/[id]/export', roles: LEAD, ids: { id: 'job' } },
-  { route: 'GET /api/jobs/[id]/photos', roles: EVERYONE, ids: { id: 'job' } },
+  { route: 'GET /api/jobs/[id]/photos', roles: STAFF, ids: { id: 'job' } },
+  { route: 'GET /api/client/jobs/[id]/photos', roles: ['client'], ids: { id: 'job' } },
   { route: 'POST /api/jobs/[id]/photos', roles: STAFF, ids: { id: 'job' }, form: photo },
   { route: 'PATCH /api/photos/[id]', roles: STAFF, ids: { id: 'photo' }, body: () => ({ caption: 'Matrix caption' }) },
   // the uploader or a lead: the photo is the lead's, so other staff pass requireRole and are refused after

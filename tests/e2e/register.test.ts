@@ -1,9 +1,8 @@
 // The lead's casting register and quality figures in the browser: a job with two pours cast
 // through the floor API (one sound, one cracked), filtered in the register, exported as
 // CSV with the same filter, and counted on the quality page with its charts drawn.
-import { readFileSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { downloadText, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
 import { testContext } from '../setup/context'
@@ -52,7 +51,7 @@ describe('casting register and quality', () => {
     await screenshot(page, 'register-filtered')
 
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('register-export').click()])
-    const csv = readFileSync((await download.path())!, 'utf8').trim().split(/\r?\n/)
+    const csv = (await downloadText(download)).trim().split(/\r?\n/)
     expect(csv).toHaveLength(2) // the header and the one defect: the export keeps the filter
     expect(csv[1]).toContain(cracked.mouldCode)
     expect(csv[1]).toContain('crack')

@@ -1,8 +1,13 @@
-// Debian's chromium driven by playwright-core, with the flags this closed machine needs.
-import { chromium, type BrowserContext, type Page } from 'playwright-core'
-import { mkdtempSync, mkdirSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
+// Debian's chromium driven by playwright-core, with the flags this closed machine needs. Inside
+// the e2e project every file connects to the run's one chromium (tests/setup/chromium-server.ts)
+// and opens contexts in it; elsewhere (the benchmarks) openBrowser launches a chromium of its own.
+import { chromium, type Browser, type BrowserContext, type Download, type Page } from 'playwright-core'
+import { mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
+
+declare module 'vitest' {
+  export interface ProvidedContext { chromiumEndpoint: string }
+}
 
 export const SCREENSHOTS = resolve(import.meta.dirname, '../../test-output/screenshots')
 
@@ -20,15 +25,32 @@ export const VIEWPORTS = {
  */
 const REPORT_CSP = `document.addEventListener('securitypolicyviolation', e => console.error('CSP violation: ' + e.violatedDirective + ' blocked ' + (e.blockedURI || 'inline') + ' at ' + e.sourceFile + ':' + e.lineNumber))`
 
+const LAUNCH = {
+  executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+  headless: true,
+  args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+    '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+}
+
+/** The run's shared chromium (the e2e project's globalSetup), reached over its WebSocket endpoint. */
+export const launchChromiumServer = () => chromium.launchServer(LAUNCH)
+
+/** The endpoint of the run's chromium when this file runs in the e2e project, else undefined. */
+async function sharedEndpoint(): Promise<string | undefined> {
+  if (!process.env.VITEST) return undefined
+  const { inject } = await import('vitest')
+  return inject('chromiumEndpoint') as string | undefined
+}
+
+/**
+ * A fresh browser context (its own cookies, storage, offline switch) with `viewport`: in the
+ * run's shared chromium when there is one, else in a chromium launched for it. `close()` ends
+ * the context and this file's connection (or its own chromium), never the shared one.
+ */
 export async function openBrowser(viewport = VIEWPORTS.desktop) {
-  const dir = mkdtempSync(join(tmpdir(), 'setline-chromium-'))
-  const context: BrowserContext = await chromium.launchPersistentContext(dir, {
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    headless: true,
-    viewport,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
-  })
+  const endpoint = await sharedEndpoint()
+  const browser: Browser = endpoint ? await chromium.connect(endpoint) : await chromium.launch(LAUNCH)
+  const context: BrowserContext = await browser.newContext({ viewport })
   const cspViolations: string[] = []
   await context.addInitScript(REPORT_CSP)
   context.on('console', (msg) => {
@@ -40,10 +62,17 @@ export async function openBrowser(viewport = VIEWPORTS.desktop) {
     cspViolations,
     async close() {
       await context.close()
-      rmSync(dir, { recursive: true, force: true })
+      await browser.close()
       if (cspViolations.length) throw new Error(`Content Security Policy violations:\n${cspViolations.join('\n')}`)
     },
   }
+}
+
+/** A download's text: read through the connection, since the run's shared chromium keeps the file on its side. */
+export async function downloadText(download: Download): Promise<string> {
+  const chunks: Buffer[] = []
+  for await (const chunk of await download.createReadStream()) chunks.push(chunk as Buffer)
+  return Buffer.concat(chunks).toString('utf8')
 }
 
 export async function screenshot(page: Page, name: string) {

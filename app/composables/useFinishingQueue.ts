@@ -1,0 +1,103 @@
+// The finisher's queue (the finishing page): pieces by where they are, read from
+// GET /api/finishing and kept on the tablet (the outbox's cache) for when the Wi-Fi is down.
+// Every action goes through the outbox (app/stores/outbox.ts), so a Wi-Fi drop loses nothing:
+// the card moves at once ("sending…") and the server's answer replaces it. Live piece and
+// dispatch events read the queue again.
+import { FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from '#shared/utils/finishing-schemas'
+import { dryness } from '#shared/utils/plaster-drying'
+import type { ApiAnswer } from '~/utils/api-answer'
+
+const readQueue = () => $fetch('/api/finishing')
+export type FinishingQueueData = Awaited<ReturnType<typeof readQueue>>
+export type FinishingPiece = FinishingQueueData['toFettle'][number]
+/** What a piece action answers (POST /api/pieces/:id/actions), as the outbox hands it back. */
+type FinishingActionAnswer = ApiAnswer<'/api/pieces/:id/actions', 'post'>
+
+const CACHE_KEY = 'finishing'
+const LABEL: Record<FinishingActionKind, string> = {
+  fettled: 'Fettled', weighed: 'Weighed', ready: 'Ready', repair: 'To repair', repaired: 'Repaired', rejected: 'Rejected', packed: 'Packed',
+}
+
+export function useFinishingQueue() {
+  const w = useWorkshopFormat()
+  const outbox = useOutboxStore()
+  const queue = ref<FinishingQueueData | null>(null)
+  const offlineCopy = ref(false)
+  /** What the last answered weighing said, for the status line. */
+  const lastAnswer = ref('')
+
+  async function load() {
+    try {
+      const r = await readQueue()
+      queue.value = r
+      offlineCopy.value = false
+      await outbox.cachePut(CACHE_KEY, r)
+    }
+    catch {
+      queue.value ??= (await outbox.cacheGet<FinishingQueueData>(CACHE_KEY)) ?? null
+      offlineCopy.value = true
+    }
+  }
+
+  /** Every piece the queue holds, in the server's order (to fettle first, most urgent job first). */
+  const all = computed<FinishingPiece[]>(() => {
+    const q = queue.value
+    return q ? [...q.toFettle, ...q.repair, ...q.drying, ...q.ready, ...q.packed] : []
+  })
+  const pendingFor = (pieceId: number) => outbox.pending.filter(e => e.pieceId === pieceId)
+  /** The state a card shows: the server's, moved on by this tablet's actions not yet answered. */
+  function stateOf(p: FinishingPiece): FinishingPieceState {
+    const last = pendingFor(p.id).at(-1)
+    return last ? FINISHING_STEPS[last.kind as FinishingActionKind].to : p.state
+  }
+  /**
+   * The card's piece: the server's, with a weighing still in the outbox shown as its last one
+   * (worked out here with the same `dryness`), so a finisher offline can weigh and then mark ready.
+   */
+  function shownPiece(p: FinishingPiece): FinishingPiece {
+    const w = pendingFor(p.id).filter(e => e.kind === 'weighed').at(-1)
+    const kg = Number(w?.body.weighedKg)
+    if (!w || !(kg > 0)) return p
+    const d = dryness({ weighedKg: kg, dryMassKg: p.dryMassKg })
+    return { ...p, lastWeighing: { kg, at: w.tappedAt, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry } }
+  }
+  /** The pieces a tab shows, as this tablet knows them. */
+  const inState = (s: FinishingPieceState) => all.value.filter(p => stateOf(p) === s).map(shownPiece)
+  const count = (s: FinishingPieceState) => all.value.filter(p => stateOf(p) === s).length
+
+  async function act(p: FinishingPiece, kind: FinishingActionKind, body: Record<string, unknown>) {
+    // each step moves the version on by one: a queued chain names the versions it will meet
+    const version = p.version + pendingFor(p.id).length
+    await outbox.enqueue({ url: `/api/pieces/${p.id}/actions`, pieceId: p.id, kind, label: `${p.mark} · ${LABEL[kind]}`, body: { ...body, version } })
+  }
+
+  function replace(piece: FinishingPiece) {
+    const q = queue.value
+    if (!q) return
+    const lists = [q.toFettle, q.repair, q.drying, q.ready, q.packed]
+    const i = lists.findIndex(l => l.some(x => x.id === piece.id))
+    if (i < 0) return
+    const old = lists[i]!.find(x => x.id === piece.id)!
+    if (piece.version < old.version) return
+    lists[i]!.splice(lists[i]!.indexOf(old), 1, piece)
+  }
+
+  const lastRefusal = computed(() => outbox.recentRefusal(e => e.pieceId !== undefined))
+
+  const { now } = useTabletPage({
+    load,
+    tickMs: 30_000,
+    events: ['piece.created', 'piece.updated', 'dispatch.created'],
+    settled(e) {
+      if (!e.pieceId) return
+      const r = e.result as FinishingActionAnswer | undefined
+      if (r?.piece) replace(r.piece)
+      if (r?.dryness) {
+        lastAnswer.value = `${r.piece.mark}: ${w.mass(r.dryness.freeWaterKg, 3)} free water left (${r.dryness.freeWaterPct.toFixed(1)} %), ${r.dryness.isDry ? 'dry: it can be marked ready' : 'not dry yet'}.`
+      }
+      if (r?.jobReady && r.piece.job) lastAnswer.value = `${r.piece.job.code} is ready for dispatch: every piece it needs is ready.`
+    },
+  })
+
+  return { queue, offlineCopy, lastAnswer, lastRefusal, now, pendingFor, stateOf, inState, count, act }
+}
