@@ -108,7 +108,7 @@ export interface ProposedPourView {
   demouldOpenAt: string
   demouldCloseAt: string
   jobCode: string
-  itemDescription?: string
+  itemDescription?: string | null
 }
 
 /**
