@@ -46,6 +46,7 @@ export const FIELD_LABELS: Record<string, string> = {
   dryingHumidityPct: 'Room humidity',
   expectedPulls: 'Expected pulls',
   dueOn: 'Due on',
+  shiftBreaks: 'Breaks',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)
