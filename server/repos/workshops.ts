@@ -1,6 +1,6 @@
 // The workshop row (settings). The caller's own workshop only.
 import type { Knex } from 'knex'
-import type { WorkshopSettings } from '#shared/utils/workshop-schemas'
+import type { ShiftBreak, WorkshopSettings } from '#shared/utils/workshop-schemas'
 
 export interface WorkshopRow {
   id: number
@@ -9,13 +9,18 @@ export interface WorkshopRow {
   timezone: string
   shift_start: string
   shift_end: string
+  /** jsonb: the day's breaks, local 'HH:MM' pairs (the driver parses it) */
+  shift_breaks: ShiftBreak[]
   working_days: number[]
   default_shop_temp_c: number
   default_humidity_pct: number
   version: number
 }
 
-const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'version']
+const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'shift_breaks', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'version']
+
+// the driver writes a JS array as a PostgreSQL array: the jsonb column gets its JSON text
+const asColumns = <T extends { shift_breaks: ShiftBreak[] }>(row: T) => ({ ...row, shift_breaks: JSON.stringify(row.shift_breaks) })
 
 export const workshopsRepo = {
   async get(db: Knex, id: number): Promise<WorkshopRow | undefined> {
@@ -34,13 +39,13 @@ export const workshopsRepo = {
   },
   /** A new workshop (first-run set-up). */
   async insert(db: Knex, row: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow> {
-    const [created] = await db('workshops').insert(row).returning(COLUMNS)
+    const [created] = await db('workshops').insert(asColumns(row)).returning(COLUMNS)
     return created
   },
   /** Updates when the version matches; returns undefined when someone else changed it first. */
   async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
     const [row] = await db('workshops').where({ id, version })
-      .update({ ...patch, version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(COLUMNS)
+      .update({ ...asColumns(patch), version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(COLUMNS)
     return row
   },
 }
@@ -53,6 +58,7 @@ export function workshopDto(row: WorkshopRow): WorkshopSettings {
     timezone: row.timezone,
     shiftStart: row.shift_start.slice(0, 5),
     shiftEnd: row.shift_end.slice(0, 5),
+    shiftBreaks: row.shift_breaks,
     workingDays: row.working_days,
     defaultShopTempC: row.default_shop_temp_c,
     defaultHumidityPct: row.default_humidity_pct,

@@ -72,7 +72,7 @@ export async function setUpWorkshop(event: H3Event, input: SetupInput) {
     if (!(await setupCodesRepo.lockLive(trx, codeHash))) unprocessable([{ field: 'code', message: CODE_GONE }])
     if (await usersRepo.byEmail(trx, input.leadEmail)) conflict('An account with this e-mail already exists')
     const ws = await workshopsRepo.insert(trx, {
-      name: input.name, units: input.units, timezone, shift_start: input.shiftStart, shift_end: input.shiftEnd,
+      name: input.name, units: input.units, timezone, shift_start: input.shiftStart, shift_end: input.shiftEnd, shift_breaks: input.shiftBreaks,
       working_days: [...new Set(input.workingDays)].sort(), default_shop_temp_c: input.defaultShopTempC, default_humidity_pct: input.defaultHumidityPct,
     })
     const lead = await usersRepo.insert(trx, { workshop_id: ws.id, email: input.leadEmail, name: input.leadName, role: 'lead', password_hash: passwordHash })

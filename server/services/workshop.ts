@@ -11,5 +11,5 @@ export async function loadWorkshop(db: Knex, workshopId: number): Promise<Worksh
 }
 
 export function workshopCalendar(ws: WorkshopRow): WorkshopShiftCalendar {
-  return { timezone: ws.timezone, shiftStart: ws.shift_start, shiftEnd: ws.shift_end, workingDays: ws.working_days.map(Number) }
+  return { timezone: ws.timezone, shiftStart: ws.shift_start, shiftEnd: ws.shift_end, workingDays: ws.working_days.map(Number), breaks: ws.shift_breaks }
 }

@@ -78,7 +78,7 @@ export interface BoardPourRow {
 export interface BoardData {
   /** the server's clock when the board was read (ms): where each pour stands is judged against it */
   now: number
-  workshop: { timezone: string; shiftStart: string; shiftEnd: string; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number; defaultHumidityPct: number }
+  workshop: { timezone: string; shiftStart: string; shiftEnd: string; shiftBreaks: { start: string; end: string }[]; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number; defaultHumidityPct: number }
   benches: { id: number; name: string; sortOrder: number }[]
   moulds: BoardMould[]
   pours: BoardPourRow[]
@@ -108,7 +108,7 @@ export interface ProposedPourView {
   demouldOpenAt: string
   demouldCloseAt: string
   jobCode: string
-  itemDescription?: string
+  itemDescription?: string | null
 }
 
 /**

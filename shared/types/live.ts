@@ -21,6 +21,8 @@ export interface LiveWorkshop {
   timezone: string
   shiftStart: string
   shiftEnd: string
+  /** breaks in every working day's shift, local 'HH:MM' pairs (the set-up form may leave them out) */
+  shiftBreaks?: { start: string; end: string }[]
   workingDays: number[]
   defaultShopTempC: number
   defaultHumidityPct: number

@@ -83,6 +83,7 @@ export const FIELD_LABELS: Record<string, string> = {
   mailProgress: 'Progress mail',
   mailSamples: 'Sample mail',
   mailDispatch: 'Dispatch mail',
+  shiftBreaks: 'Breaks',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

@@ -16,6 +16,9 @@
  *   shift starts (dwellWarning); such an overnight pour ends its slot at the next shift start +
  *   clean, since the cast comes out only then. Among an item's moulds a placement without that
  *   overnight note wins over one with it on the same shift day;
+ * - no mix is gauged into a break of the shift (the workshop's shift breaks): a gauged mix
+ *   cannot wait for the caster to come back (common practice), so a mix that would start in a
+ *   break or run into one starts at the break's end instead;
  * - with `casters` given, a caster gauges one mix at a time;
  * - each piece goes on the item's mould where it can start earliest (same day: no overnight
  *   note first; then earliest prep start, earliest slot end, the item's mould order).
@@ -59,6 +62,14 @@ interface Win {
   day: string
   start: number
   end: number
+  /** the day's breaks as [start, end) instants in ms, in time order */
+  breaks: [number, number][]
+}
+
+/** The end of the first break of the shift that the gauging [mixAt, mixEnd) would touch, or −1. */
+function breakDuring(w: Win, mixAt: number, mixEnd: number): number {
+  for (const [bs, be] of w.breaks) if (mixAt < be && bs < mixEnd) return be
+  return -1
 }
 
 interface Placement {
@@ -237,6 +248,12 @@ function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: numb
       d++
       continue
     }
+    const breakEnd = breakDuring(w, fit.mixAt, fit.mixAt + m.mixMinutes * MINUTE_MS)
+    if (breakEnd >= 0) {
+      // prep then runs on to the break's end (it always moves t forward: the mix was before it)
+      t = Math.max(t + MINUTE_MS, ceilMinute(breakEnd - m.prepMinutes * MINUTE_MS))
+      continue
+    }
     const busyEnd = laneConflictEnd(lane, fit.slotStart, fit.slotEnd)
     if (busyEnd >= 0) {
       t = ceilMinute(busyEnd)
@@ -404,7 +421,7 @@ function buildCtx(input: PlanPoursInput): Ctx {
   const to = input.to.getTime()
   const projectionDays = o.projectionDays ?? 365
   const wins = shiftWindows({ ...input.calendar, from: input.from, to: new Date(to + projectionDays * DAY_MS) })
-    .map((w: ShiftWindow): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
+    .map((w: ShiftWindow): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime(), breaks: w.breaks.map(b => [b.start.getTime(), b.end.getTime()]) }))
   const pourMinutes = o.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT
   const temps = input.shopTempByDay ?? {}
   const defaultTemp = input.defaultShopTempC ?? 20

@@ -27,13 +27,19 @@ export interface WorkshopShiftCalendar {
   shiftStart: string
   shiftEnd: string
   workingDays: number[]
+  /** Breaks inside every working day's shift, local 'HH:MM' pairs (none when left out). */
+  breaks?: { start: string; end: string }[]
 }
 
-/** One working day's shift: `day` is the local date 'YYYY-MM-DD'; start and end are instants. */
+/**
+ * One working day's shift: `day` is the local date 'YYYY-MM-DD'; start and end are instants,
+ * and the day's breaks as instants, in time order.
+ */
 export interface ShiftWindow {
   day: string
   start: Date
   end: Date
+  breaks: { start: Date; end: Date }[]
 }
 
 const DAY_MS = 86_400_000
@@ -80,6 +86,7 @@ interface CheckedCalendar {
   startMin: number
   endMin: number
   days: Set<number>
+  breaks: [number, number][]
 }
 
 function checkCalendar(cal: WorkshopShiftCalendar): CheckedCalendar {
@@ -91,7 +98,13 @@ function checkCalendar(cal: WorkshopShiftCalendar): CheckedCalendar {
   const ok = Array.isArray(cal.workingDays) && cal.workingDays.length > 0
     && cal.workingDays.every(d => Number.isInteger(d) && d >= 1 && d <= 7)
   if (!ok) throw new PlanningInputError('workingDays', 'workingDays must list ISO weekdays 1 (Mon) to 7 (Sun), at least one')
-  return { timezone, startMin, endMin, days: new Set(cal.workingDays) }
+  const breaks = (cal.breaks ?? []).map((b, i): [number, number] => {
+    const bs = parseShiftClock(b?.start, `shiftBreaks.${i}.start`)
+    const be = parseShiftClock(b?.end, `shiftBreaks.${i}.end`)
+    if (be <= bs || bs < startMin || be > endMin) throw new PlanningInputError(`shiftBreaks.${i}`, `Break ${i + 1} must end after it starts, inside the shift`)
+    return [bs, be]
+  }).sort((a, b) => a[0] - b[0])
+  return { timezone, startMin, endMin, days: new Set(cal.workingDays), breaks }
 }
 
 const pad = (n: number) => String(n).padStart(2, '0')
@@ -174,7 +187,10 @@ export function shiftWindows(input: WorkshopShiftCalendar & { from: Date; to: Da
     if (start.getTime() >= to) break
     const isoDay = u.getUTCDay() === 0 ? 7 : u.getUTCDay()
     const end = localInstant(offset, y, m, d, cal.endMin)
-    if (cal.days.has(isoDay) && end.getTime() > from) windows.push({ day: `${y}-${pad(m + 1)}-${pad(d)}`, start, end })
+    if (cal.days.has(isoDay) && end.getTime() > from) {
+      const breaks = cal.breaks.map(([bs, be]) => ({ start: localInstant(offset, y, m, d, bs), end: localInstant(offset, y, m, d, be) }))
+      windows.push({ day: `${y}-${pad(m + 1)}-${pad(d)}`, start, end, breaks })
+    }
     date += DAY_MS
   }
   return windows

@@ -1,5 +1,5 @@
-// The workshop's own settings (lead): display units, timezone, shift hours, working days,
-// and the usual shop conditions that drive demould windows when a day has none entered.
+// The workshop's own settings (lead): display units, timezone, shift hours and breaks, working
+// days, and the usual shop conditions that drive demould windows when a day has none entered.
 import { z } from 'zod'
 import { PG_INTEGER_MAX } from './input-fields'
 
@@ -15,6 +15,27 @@ function isTimezone(tz: string) {
   }
 }
 
+/**
+ * A break in every working day's shift (tea, lunch), local wall clock. The planner starts no
+ * mix that would run into one: a gauged mix cannot wait (common practice).
+ */
+export const shiftBreakSchema = z.object({
+  start: z.string({ error: 'Break start is required' }).regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: 'Break start must be a time as HH:MM' }),
+  end: z.string({ error: 'Break end is required' }).regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: 'Break end must be a time as HH:MM' }),
+})
+export type ShiftBreak = z.infer<typeof shiftBreakSchema>
+
+/** Each break inside the shift, ending after it starts, none overlapping another (by position: "Break 2"). */
+export function checkShiftBreaks(v: { shiftStart: string; shiftEnd: string; shiftBreaks?: ShiftBreak[] }, ctx: z.RefinementCtx) {
+  const breaks = v.shiftBreaks ?? []
+  breaks.forEach((b, i) => {
+    const name = `Break ${i + 1}`
+    if (b.end <= b.start) ctx.addIssue({ code: 'custom', path: ['shiftBreaks', i, 'end'], message: `${name} must end after it starts` })
+    else if (b.start <= v.shiftStart || b.end >= v.shiftEnd) ctx.addIssue({ code: 'custom', path: ['shiftBreaks', i, 'start'], message: `${name} must fall inside the shift, ${v.shiftStart}–${v.shiftEnd}` })
+    else if (breaks.some((o, j) => j !== i && o.start < b.end && b.start < o.end)) ctx.addIssue({ code: 'custom', path: ['shiftBreaks', i, 'start'], message: `${name} overlaps another break` })
+  })
+}
+
 /** The settings a workshop is created with (first-run set-up) and later edited with. */
 export const workshopFields = {
   name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' }),
@@ -25,6 +46,7 @@ export const workshopFields = {
   workingDays: z.array(z.number().int().min(1).max(7), { error: 'workingDays must list ISO weekdays 1 (Monday) to 7 (Sunday)' })
     .min(1, { error: 'workingDays must name at least one day' }).max(7),
   defaultShopTempC: z.number({ error: 'defaultShopTempC must be a number of °C' }).min(-10, { error: 'defaultShopTempC must be between -10 and 45 °C' }).max(45, { error: 'defaultShopTempC must be between -10 and 45 °C' }),
+  shiftBreaks: z.array(shiftBreakSchema, { error: 'Breaks must be a list of start and end times' }).max(6, { error: 'At most 6 breaks a shift' }).default([]),
   defaultHumidityPct: z.number({ error: 'defaultHumidityPct must be a percentage' }).min(0, { error: 'defaultHumidityPct must be between 0 and 100' }).max(100, { error: 'defaultHumidityPct must be between 0 and 100' }),
 }
 
@@ -32,5 +54,6 @@ export const workshopSettingsSchema = z.object({
   version: z.number({ error: 'version must be the version you loaded' }).int().positive().max(PG_INTEGER_MAX, { error: 'version must be the version you loaded' }),
   ...workshopFields,
 }).refine(v => v.shiftStart < v.shiftEnd, { path: ['shiftEnd'], error: 'shiftEnd must be after shiftStart' })
+  .superRefine(checkShiftBreaks)
 
 export type WorkshopSettings = z.infer<typeof workshopSettingsSchema>

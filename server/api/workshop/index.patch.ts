@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
   const timezone = await timezonesRepo.canonical(db, s.timezone)
   if (!timezone) unprocessable([{ field: 'timezone', message: `Timezone ${s.timezone} is not one the database knows: choose a zone such as Europe/London` }])
   const row = await workshopsRepo.update(db, actor.workshopId, s.version, {
-    name: s.name, units: s.units, timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd,
+    name: s.name, units: s.units, timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd, shift_breaks: s.shiftBreaks,
     working_days: [...new Set(s.workingDays)].sort(), default_shop_temp_c: s.defaultShopTempC, default_humidity_pct: s.defaultHumidityPct,
   })
   if (!row) conflict('The settings were changed by someone else; reload to see them')
