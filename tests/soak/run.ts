@@ -74,7 +74,7 @@ async function main() {
   const at = new Date()
   console.log(`soak: seed ${seed} (replay: npm run soak -- --seed ${seed} --days ${days}); load average ${load.toFixed(2)}`)
   const report = await runSoak({
-    seed, days, casters: Number(arg('casters') ?? 8), finishers: 2, piecesPerDay: Number(arg('pieces') ?? 40),
+    seed, days, casters: Number(arg('casters') ?? 8), finishers: Number(arg('finishers') ?? 3), piecesPerDay: Number(arg('pieces') ?? 40),
     maxMinutes: Number(arg('minutes') ?? 20), log: line => console.log(line),
   })
   const rows = figuresTable(report)

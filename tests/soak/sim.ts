@@ -203,6 +203,8 @@ interface Setup {
   clientId: number
   clientOrgId: number | null
   moulds: { id: number; code: string; pullsAtStart: number }[]
+  /** the register's last entry before the soak: the seed's own history stays out of the counts */
+  eventsBefore: number
   casters: { id: number; email: string }[]
   finishers: { id: number; email: string }[]
 }
@@ -232,7 +234,8 @@ async function setUpShop(k: Knex, o: SoakOptions): Promise<Setup> {
     }).returning('id')
     moulds.push({ id: Number(row.id), code, pullsAtStart: 0 })
   }
-  return { workshopId, gradeId: Number(grade.id), clientId: Number(client.id), clientOrgId: client.client_org_id, moulds, casters, finishers }
+  const last = await k('events').max<{ max: string | null }[]>('id as max')
+  return { eventsBefore: Number(last[0]?.max ?? 0), workshopId, gradeId: Number(grade.id), clientId: Number(client.id), clientOrgId: client.client_org_id, moulds, casters, finishers }
 }
 
 /** A day's orders arriving: small jobs of one or two items on the soak's moulds, the client on each. */
@@ -303,7 +306,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       // the fake keeps its latest 500: copy each new message out before it can roll off
       for (const m of fake!.messages) {
         if (m.id > seenMail) {
-          delivered.push({ to: m.to.join(','), subject: m.subject, text: m.text })
+          delivered.push({ to: m.to.join(','), subject: m.subject, text: m.text.replace(/\r\n/g, '\n').trim() })
           seenMail = m.id
         }
       }
@@ -383,33 +386,43 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       await refresh(t)
     }
 
+    /**
+     * The caster's next tap: the next step of the first pour that has one once its queued steps
+     * land. A pour leaves the list only when the database's answer says it is done, so a
+     * refused step (a pour re-timed under the tablet) is taken again from where it stands.
+     */
     const tap = (t: CasterTablet) => {
-      const pourId = t.work[0]
-      if (pourId === undefined) return false
-      const v = t.view.get(pourId)!
-      const queued = t.queue.filter(a => a.entityId === pourId)
-      const predicted = queued.length ? STEP_TO[queued.at(-1)!.kind]! : v.state
-      const kind = NEXT_STEP[predicted]
-      if (!kind) {
-        t.work.shift()
-        return true
+      t.work = t.work.filter(id => NEXT_STEP[t.view.get(id)!.state] || t.queue.some(a => a.entityId === id))
+      for (const pourId of t.work) {
+        const v = t.view.get(pourId)!
+        const queued = t.queue.filter(a => a.entityId === pourId)
+        const kind = NEXT_STEP[queued.length ? STEP_TO[queued.at(-1)!.kind]! : v.state]
+        if (kind) return tapStep(t, pourId, v, queued.length, kind)
       }
+      return false
+    }
+    const tapStep = (t: CasterTablet, pourId: number, v: PourView, queuedSteps: number, kind: string) => {
       const body: Record<string, unknown> = kind === 'start_mixing'
         ? { waterTempC: r.int(16, 22) }
         : kind === 'poured'
           ? { plasterKg: v.plasterKg, waterKg: v.waterKg, shopTempC: r.int(15, 22) }
           : r.chance(0.1) ? { result: 'defect', defect: 'air holes', notes: 'Soak: a few blow holes on the face' } : { result: 'sound' }
       t.queue.push({
-        id: randomUUID(), who: t.name, userId: t.userId, entity: 'pour', entityId: pourId, kind, version: v.version + queued.length,
+        id: randomUUID(), who: t.name, userId: t.userId, entity: 'pour', entityId: pourId, kind, version: v.version + queuedSteps,
         body, tappedAt: Date.now(), offline: !t.online, attempts: 0, replayed: false, day: currentDay,
       })
       return true
     }
 
+    // Every step carries its tap time. The real outbox sends it only with a step sent over a
+    // minute late and leaves a prompt one to the server's clock (app/stores/outbox.ts); in
+    // compressed time a pour's taps are milliseconds apart, so a prompt step's server time
+    // could fall after the next step's tap and refuse that step as dated before it (seen with
+    // seed 20261203). In the shop the steps are minutes apart and that cannot happen.
     const sendHead = async (t: CasterTablet) => {
       const a = t.queue[0]!
       const res = await sh.call(t.pref, t.cookie, 'POST', `/api/pours/${a.entityId}/actions`, {
-        ...a.body, actionId: a.id, kind: a.kind, version: a.version, ...(a.offline ? { at: new Date(a.tappedAt).toISOString() } : {}),
+        ...a.body, actionId: a.id, kind: a.kind, version: a.version, at: new Date(a.tappedAt).toISOString(),
       }, t.abort.signal)
       a.attempts++
       if (res.status === 0 || res.status === 503) {
@@ -445,8 +458,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
           await sendHead(t)
           continue
         }
-        if (t.queue.length < 4 && t.work.length) {
-          tap(t)
+        if (t.queue.length < 4 && t.work.length && tap(t)) {
           // taps come in quickly while offline, so a queue builds
           await sleep(t.online ? 0 : r.int(30, 120))
           continue
@@ -488,20 +500,23 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
           await sleep(200)
           continue
         }
-        const mine = (p: { id: number }) => p.id % s.finishers.length === i
-        const piece = [...q.data.toFettle, ...q.data.repair, ...q.data.drying, ...q.data.ready].filter(mine)[0]
-        if (!piece) {
+        // each finisher has their own pieces (by id), so two never reach for the same one
+        const mine = [...q.data.toFettle, ...q.data.repair, ...q.data.drying, ...q.data.ready].filter((p: { id: number }) => p.id % s.finishers.length === i)
+        if (!mine.length) {
           if (!finishingOpen) return
-          await sleep(150)
+          await sleep(400)
           continue
         }
         const who = `finisher tablet ${i + 1}`
-        const act = (kind: string, body: Record<string, unknown> = {}) => stepPiece(who, s.finishers[i]!.id, cookie, pref, 'piece', `/api/pieces/${piece.id}/actions`, kind, body, piece.id, piece.version)
-        if (piece.state === 'to_fettle') await act('fettled')
-        else if (piece.state === 'repair') await act('repaired', { notes: 'Soak: filled and rubbed down' })
-        else if (piece.state === 'drying' && !piece.lastWeighing?.isDry) await act('weighed', { weighedKg: Number((piece.dryMassKg * 1.002).toFixed(3)) })
-        else if (piece.state === 'drying') await act('ready')
-        else if (piece.state === 'ready') await act('packed')
+        // one step on each of their pieces per read of the queue, as a finisher works down a rack
+        for (const piece of mine.slice(0, 8)) {
+          const act = (kind: string, body: Record<string, unknown> = {}) => stepPiece(who, s.finishers[i]!.id, cookie, pref, 'piece', `/api/pieces/${piece.id}/actions`, kind, body, piece.id, piece.version)
+          if (piece.state === 'to_fettle') await act('fettled')
+          else if (piece.state === 'repair') await act('repaired', { notes: 'Soak: filled and rubbed down' })
+          else if (piece.state === 'drying' && !piece.lastWeighing?.isDry) await act('weighed', { weighedKg: Number((piece.dryMassKg * 1.002).toFixed(3)) })
+          else if (piece.state === 'drying') await act('ready')
+          else if (piece.state === 'ready') await act('packed')
+        }
       }
     }
     const runDispatch = async () => {
@@ -516,14 +531,14 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
           }
         }
         if (!finishingOpen && jobsAll.every(j => j.dispatched)) return
-        await sleep(250)
+        await sleep(600)
       }
     }
     const runClient = async () => {
       for (let n = 0; n < 100_000 && Date.now() < deadline && finishingOpen; n++) {
         const job = jobsAll.length ? r.pick(jobsAll) : undefined
         if (job) await sh.call('A', client, 'GET', `/api/client/jobs/${job.id}/progress`)
-        await sleep(200)
+        await sleep(500)
       }
     }
 
@@ -670,13 +685,17 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
         await runTablet(t)
       }
       actionsPerDay.push(settledToday)
+      log(`soak: day ${day + 1}: floor work done at ${((Date.now() - started) / 1000).toFixed(0)} s`)
     }
     // the finishers work the last pieces to dispatch, then the mail outbox drains
     for (let i = 0; i < 2400 && Date.now() < deadline; i++) {
       if (jobsAll.every(j => j.dispatched)) break
       await sleep(250)
     }
+    // the last day's finishing tail counts with it
+    if (actionsPerDay.length) actionsPerDay[actionsPerDay.length - 1] = settledToday
     finishingOpen = false
+    log(`soak: ${jobsAll.filter(j => j.dispatched).length} of ${jobsAll.length} orders dispatched at ${((Date.now() - started) / 1000).toFixed(0)} s`)
     await Promise.all([...finisherRuns, dispatchRun, clientRun])
     for (let i = 0; i < 600 && Date.now() < deadline; i++) {
       const left = await withDb(tgt.url, db => db('mail_outbox').whereNot({ status: 'sent' }).count<{ count: string }[]>('id as count'))
@@ -742,14 +761,14 @@ async function checkInvariants(
   // …and made exactly one register entry per landed step: no step doubled, none lost
   const ok = floor.filter(a => a.status === 200)
   const pourIds = [...new Set(floor.map(a => a.entityId))]
-  const events = await k('events').where({ workshop_id: s.workshopId, entity: 'pour' }).whereIn('entity_id', pourIds.map(String))
+  const events = await k('events').where({ workshop_id: s.workshopId, entity: 'pour' }).where('id', '>', s.eventsBefore).whereIn('entity_id', pourIds.map(String))
     .whereIn('type', Object.values(STEP_EVENT)).orderBy('id').select('id', 'entity_id', 'type', 'actor_id', 'at')
   const count = (xs: { key: string }[]) => xs.reduce((m, x) => m.set(x.key, (m.get(x.key) ?? 0) + 1), new Map<string, number>())
   const want = count(ok.map(a => ({ key: `${a.entityId}:${STEP_EVENT[a.kind]}` })))
   const got = count(events.map(e => ({ key: `${e.entity_id}:${e.type}` })))
   for (const key of new Set([...want.keys(), ...got.keys()])) if (want.get(key) !== got.get(key)) bad1.push(`pour step ${key}: ${want.get(key) ?? 0} taken, ${got.get(key) ?? 0} registered`)
   const pieceOk = others.filter(a => a.entity === 'piece' && a.status === 200)
-  const pieceEvents = await k('events').where({ workshop_id: s.workshopId, entity: 'piece' }).whereIn('entity_id', [...new Set(pieceOk.map(a => String(a.entityId)))])
+  const pieceEvents = await k('events').where({ workshop_id: s.workshopId, entity: 'piece' }).where('id', '>', s.eventsBefore).whereIn('entity_id', [...new Set(pieceOk.map(a => String(a.entityId)))])
     .whereNot({ type: 'piece.created' }).whereNot({ type: 'piece.dispatched' }).select('entity_id', 'type')
   const wantP = count(pieceOk.map(a => ({ key: `${a.entityId}:piece.${a.kind}` })))
   const gotP = count(pieceEvents.map(e => ({ key: `${e.entity_id}:${e.type}` })))
@@ -792,7 +811,7 @@ async function checkInvariants(
   // 5. each mail went out once per its key
   const rows = await k('mail_outbox').select('to_email', 'subject', 'text', 'status', 'dedupe_key')
   const bad5 = rows.filter(m => m.status !== 'sent').map(m => `${m.dedupe_key ?? m.subject}: ${m.status}`)
-  const sentBy = count(rows.filter(m => m.status === 'sent').map(m => ({ key: `${m.to_email}|${m.subject}|${m.text}` })))
+  const sentBy = count(rows.filter(m => m.status === 'sent').map(m => ({ key: `${m.to_email}|${m.subject}|${String(m.text).replace(/\r\n/g, '\n').trim()}` })))
   const gotBy = count(delivered.map(m => ({ key: `${m.to}|${m.subject}|${m.text}` })))
   for (const key of new Set([...sentBy.keys(), ...gotBy.keys()])) if (sentBy.get(key) !== gotBy.get(key)) bad5.push(`${key.split('|').slice(0, 2).join(' ')}: ${sentBy.get(key) ?? 0} in the outbox, ${gotBy.get(key) ?? 0} delivered`)
   const keys = count(rows.filter(m => m.dedupe_key).map(m => ({ key: m.dedupe_key as string })))
