@@ -19,6 +19,7 @@ import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { randomBytes, randomUUID } from 'node:crypto'
 import knex, { type Knex } from 'knex'
+import sharp from 'sharp'
 import { io, type Socket } from 'socket.io-client'
 import { downCluster, type DbTarget } from '../../db/local/cluster'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
@@ -57,6 +58,8 @@ export interface SoakReport {
   refusals: number
   longestWaitMs: number
   p95ActionMs: number
+  /** photos taken at demould: stored, uploads sent again after no answer, pours holding more than one */
+  photos: { uploaded: number; retried: number; poursWithMore: number }
   mailsSent: number
   statuses: Record<string, number>
   memory: { warmKb: number; endKb: number; peakKb: number }
@@ -181,7 +184,7 @@ interface TabletAction {
   day: number
 }
 
-interface PourView { state: string; version: number; plasterKg: number; waterKg: number }
+interface PourView { state: string; version: number; plasterKg: number; waterKg: number; jobId: number }
 
 class CasterTablet {
   online = true
@@ -329,6 +332,41 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     const leadActions: TabletAction[] = []
     const faults = Object.fromEntries(FAULT_KINDS.map(f => [f, 0])) as Record<FaultKind, number>
     const actionMs: number[] = []
+    // the caster's photo of each cast off the mould: a small picture, sent until answered
+    const picture = await sharp({ create: { width: 64, height: 48, channels: 3, background: { r: 200, g: 190, b: 170 } } }).jpeg().toBuffer()
+    const photoStats = { uploaded: 0, retried: 0 }
+    const photoRuns: Promise<void>[] = []
+    const uploadPhoto = async (t: CasterTablet, pourId: number, jobId: number) => {
+      for (let i = 0; i < 200 && Date.now() < deadline; i++) {
+        if (!t.online) {
+          await sleep(200)
+          continue
+        }
+        const form = new FormData()
+        form.append('files', new Blob([new Uint8Array(picture)], { type: 'image/jpeg' }), `pour-${pourId}.jpg`)
+        form.append('caption', 'Off the mould')
+        form.append('pourId', String(pourId))
+        const inst = sh.urlFor(t.pref)
+        let status = 0
+        try {
+          const res = await fetch(`${inst.url}/api/jobs/${jobId}/photos`, { method: 'POST', headers: { cookie: t.cookie }, body: form, signal: AbortSignal.timeout(15_000) })
+          status = res.status
+          const text = await res.text()
+          sh.statuses[status] = (sh.statuses[status] ?? 0) + 1
+          if (status >= 500 && status !== 503) sh.problems.push(`${t.name}: photo of pour ${pourId} answered ${status}: ${text.slice(0, 300)}`)
+          else if (status !== 201 && status !== 503) sh.problems.push(`${t.name}: photo of pour ${pourId} answered ${status}: ${text.slice(0, 300)}`)
+        }
+        catch {
+          sh.statuses['no answer'] = (sh.statuses['no answer'] ?? 0) + 1
+        }
+        if (status !== 0 && status !== 503) {
+          photoStats.uploaded += status === 201 ? 1 : 0
+          return
+        }
+        photoStats.retried++
+        await sleep(Math.min(1500, 100 * 2 ** Math.min(i, 4)))
+      }
+    }
     const actionsPerDay: number[] = []
     let currentDay = 0
     let settledToday = 0
@@ -441,6 +479,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
         actionMs.push(res.ms)
         const p = res.data.card.pour
         t.view.set(a.entityId, { ...v, state: p.state, version: p.version })
+        if (a.kind === 'demoulded') photoRuns.push(uploadPhoto(t, a.entityId, v.jobId))
       }
       else if (res.status === 409 && res.data?.data?.version) {
         // the refusal is kept (done, with its status) and the card shows where the pour stands
@@ -605,7 +644,8 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       await sh.steady('B', lead, 'PUT', `/api/shop-days/${date}`, { tempC: r.int(14, 22), humidityPct: r.int(45, 70) })
       const preview = await sh.steady('B', lead, 'POST', '/api/planner/preview', { from: date, to: date })
       const ours = new Set(jobs.map(j => j.id))
-      const items = await withDb(tgt.url, db => db('job_items').whereIn('job_id', [...ours]).select('id', 'mould_id', 'pieces_needed'))
+      const items = await withDb(tgt.url, db => db('job_items').whereIn('job_id', [...ours]).select('id', 'job_id', 'mould_id', 'pieces_needed'))
+      const jobOfItem = new Map(items.map(it => [Number(it.id), Number(it.job_id)]))
       const proposal = (preview.data?.pours ?? []).filter((p: { jobId: number }) => ours.has(p.jobId))
       if (proposal.length) {
         const acc = await sh.steady('B', lead, 'POST', '/api/planner/accept', { from: date, to: date, pours: proposal.map((p: { jobItemId: number; mouldId: number; slotStart: string }) => ({ jobItemId: p.jobItemId, mouldId: p.mouldId, slotStart: p.slotStart })) })
@@ -643,7 +683,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
         const t = tablets[i % tablets.length]!
         const moved = await sh.steady('B', lead, 'PATCH', `/api/pours/${p.id}`, { version: p.version, casterId: t.userId })
         const row = moved.status === 200 ? moved.data : p
-        byCaster.get(t.userId)!.view.set(p.id, { state: row.state, version: row.version, plasterKg: row.plasterKg, waterKg: row.waterKg })
+        byCaster.get(t.userId)!.view.set(p.id, { state: row.state, version: row.version, plasterKg: row.plasterKg, waterKg: row.waterKg, jobId: jobOfItem.get(p.jobItemId)! })
         t.work.push(p.id)
       }
       const expected = pours.length * 3
@@ -696,7 +736,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     if (actionsPerDay.length) actionsPerDay[actionsPerDay.length - 1] = settledToday
     finishingOpen = false
     log(`soak: ${jobsAll.filter(j => j.dispatched).length} of ${jobsAll.length} orders dispatched at ${((Date.now() - started) / 1000).toFixed(0)} s`)
-    await Promise.all([...finisherRuns, dispatchRun, clientRun])
+    await Promise.all([...finisherRuns, dispatchRun, clientRun, ...photoRuns])
     for (let i = 0; i < 600 && Date.now() < deadline; i++) {
       const left = await withDb(tgt.url, db => db('mail_outbox').whereNot({ status: 'sent' }).count<{ count: string }[]>('id as count'))
       if (Number(left[0]!.count) === 0) break
@@ -707,10 +747,18 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     // each tablet comes back once more and reads its cards: its view is then compared with the database
     for (const t of tablets) await refresh(t)
     const finished = Date.now() < deadline && jobsAll.every(j => j.dispatched)
+    const photoCounts = await withDb(tgt.url, db => db('photos').whereIn('pour_id', tablets.flatMap(t => [...t.view.keys()])).groupBy('pour_id').select('pour_id').count<{ pour_id: string; count: string }[]>('id as count'))
     const memEndKb = sh.instances.B.proc?.pid ? procKb(sh.instances.B.proc.pid, 'VmRSS') : 0
     clearInterval(memWatch)
 
     const invariants = await withDb(tgt.url, db => checkInvariants(db, s, tablets, [...finisherActions, ...leadActions], delivered, sh, { warmKb: memWarmKb, endKb: memEndKb }, finished))
+    const demouldedOnTablets = tablets.flatMap(t => [...t.view].filter(([, v]) => v.state === 'demoulded').map(([id]) => id))
+    const withPhoto = new Set(photoCounts.map(c => Number(c.pour_id)))
+    const noPhoto = demouldedOnTablets.filter(id => !withPhoto.has(id))
+    invariants.push({
+      name: 'every cast off the mould has its photo', held: noPhoto.length === 0,
+      detail: noPhoto.length ? `${noPhoto.length} without: pours ${noPhoto.slice(0, 5).join(', ')}` : `${demouldedOnTablets.length} pours, ${photoStats.uploaded} photos`,
+    })
     const all = [...tablets.flatMap(t => [...t.done, ...t.queue]), ...finisherActions, ...leadActions]
     const settled = all.filter(a => a.settledAt)
     return {
@@ -721,6 +769,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       refusals: settled.filter(a => a.status === 409 || a.status === 422).length,
       longestWaitMs: settled.reduce((m, a) => Math.max(m, a.settledAt! - a.tappedAt), 0),
       p95ActionMs: percentile(actionMs, 95),
+      photos: { ...photoStats, poursWithMore: photoCounts.filter(c => Number(c.count) > 1).length },
       mailsSent: delivered.length,
       statuses: sh.statuses,
       memory: { warmKb: memWarmKb, endKb: memEndKb, peakKb: memPeakKb },
