@@ -18,8 +18,12 @@ const SOCKET_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EHOSTU
  */
 const PG_CODES = new Set(['08000', '08001', '08003', '08004', '08006', '57P01', '57P02', '57P03', '53300'])
 
-/** What node-postgres and knex say when a connection ends or none can be had. */
-const MESSAGES = [/^Connection terminated/i, /connection error and is not queryable/i, /Timeout acquiring a connection/i]
+/**
+ * What node-postgres and knex say when a connection ends or none can be had. knex puts the
+ * query before pg's message ('select … - Connection terminated unexpectedly'), so the words
+ * may follow its ' - ' (the soak's seed 20261203 met it as a 500 while PostgreSQL stopped).
+ */
+const MESSAGES = [/(^|\s-\s)Connection terminated/i, /connection error and is not queryable/i, /Timeout acquiring a connection/i]
 
 interface ErrorLike { code?: unknown; name?: unknown; message?: unknown; cause?: unknown; errors?: unknown }
 

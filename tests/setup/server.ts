@@ -13,11 +13,12 @@ declare module 'vitest' {
 }
 
 /**
- * Starts the built app; with `output`, what it prints is also collected there (a test reads its log).
+ * Starts the built app; with `output`, what it prints is also collected there (a test reads its log),
+ * and echoed unless `echo` is false (the soak keeps its servers' thousands of lines out of the terminal).
  * SETLINE_BUILD_DIR names another copy of a build to start instead of .output (a benchmark of an
  * older build while the tree is rebuilt).
  */
-export async function startAppServer(env: Record<string, string>, output?: string[]) {
+export async function startAppServer(env: Record<string, string>, output?: string[], echo = true) {
   const root = resolve(import.meta.dirname, '../..')
   const entry = resolve(root, process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error(`No build in ${entry}: run npm test (it builds first)`)
@@ -34,11 +35,11 @@ export async function startAppServer(env: Record<string, string>, output?: strin
   if (output) {
     proc.stdout!.on('data', (d: Buffer) => {
       output.push(d.toString())
-      process.stdout.write(d)
+      if (echo) process.stdout.write(d)
     })
     proc.stderr!.on('data', (d: Buffer) => {
       output.push(d.toString())
-      process.stderr.write(d)
+      if (echo) process.stderr.write(d)
     })
   }
   const url = `http://127.0.0.1:${port}`
