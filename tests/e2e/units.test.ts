@@ -98,6 +98,23 @@ describe('a workshop on imperial', () => {
     expect(shown).toBeCloseTo(stored * 1.8 + 32, 1) // °F = 1.8 × °C + 32 (NIST SP 811)
     await page.goto(`${base}/mix`)
     await page.getByLabel('Cavity (US gal)').waitFor()
+
+    // the grade form's temperature factors: typed in °F, kept in °C
+    await page.goto(`${base}/lead/plasters`)
+    await page.locator('html[data-hydrated]').waitFor()
+    await page.getByRole('button', { name: 'Edit' }).first().click()
+    const form = page.getByRole('form', { name: 'Plaster grade' })
+    const name = (await form.getByRole('heading').innerText()).replace(/^Edit /, '')
+    const grade = await testDb()('plaster_grades').where({ name }).first('id')
+    const factors = form.getByLabel(/Temperature factors/)
+    // 20 °C, where every grade's factor is 1, is 68 °F (°F = 1.8 × °C + 32, NIST SP 811)
+    expect(await factors.inputValue()).toContain('68:1')
+    expect(await form.innerText()).not.toMatch(/°C/)
+    await factors.fill('50:1.6, 68:1, 86:0.7')
+    await form.getByRole('button', { name: 'Save grade' }).click()
+    // °C = (°F − 32) / 1.8 (NIST SP 811): 50 °F = 10 °C, 86 °F = 30 °C
+    await expect.poll(async () => (await testDb()('plaster_grades').where({ id: grade.id }).first('temperature_factors')).temperature_factors)
+      .toEqual([[10, 1.6], [20, 1], [30, 0.7]])
   }, 120_000)
 
   it('shows no metric unit on the caster\'s floor and the finisher\'s room', async () => {
