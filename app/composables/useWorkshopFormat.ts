@@ -2,11 +2,11 @@
 // (GET /api/auth/me, fetched once and shared under one key; settings refreshes it on save).
 // Pages format through this, never with toLocaleString or toISOString: the days and times are
 // the workshop's (shared/utils/workshop-format.ts), the numbers in its units
-// (shared/utils/units-display.ts), so one change of the workshop's settings reaches every screen.
+// (shared/utils/units-display.ts), the styles its locale's, so one change of the workshop's settings reaches every screen.
 import { UNIT_LABELS, displayNumber, formatUnits, inputValue, metricValue, type Quantity, type UnitSystem } from '#shared/utils/units-display'
-import { dayIn, formatDateTime, formatDay, formatTime, todayIn } from '#shared/utils/workshop-format'
+import { dayIn, formatDateTime, formatDay, formatNumber, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
 
-interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: string } | null }
+interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: string; locale?: WorkshopLocale } | null }
 
 export const WORKSHOP_ME_KEY = 'workshop-me'
 
@@ -16,11 +16,12 @@ export function useWorkshopFormat() {
   const units = computed<UnitSystem>(() => data.value?.workshop?.units ?? 'metric')
   const zone = computed(() => data.value?.workshop?.timezone ?? 'UTC')
   const name = computed(() => data.value?.workshop?.name ?? '')
+  const locale = computed(() => workshopLocale(data.value?.workshop?.locale))
   const label = computed(() => UNIT_LABELS[units.value])
   return {
     /** Await in a page's setup when a first render needs the zone or units (today, a default). */
     ready: Promise.resolve(fetched).then(() => undefined),
-    units, zone, name, label,
+    units, zone, name, label, locale,
     /** '6.32 kg' / '13.93 lb' and the like, in the workshop's units. */
     mass: (kg: number, digits?: number) => formatUnits.mass(kg, units.value, digits),
     volume: (l: number, digits?: number) => formatUnits.volume(l, units.value, digits),
@@ -32,9 +33,11 @@ export function useWorkshopFormat() {
     num: (q: Quantity, metric: number, digits = 2) => displayNumber(q, metric, units.value, digits),
     toInput: (q: Quantity, metric: number | null | undefined, digits = 2) => inputValue(q, metric, units.value, digits),
     toMetric: (q: Quantity, typed: number | '' | null | undefined) => metricValue(q, typed, units.value),
-    day: (at: Date | string | number) => formatDay(at, zone.value),
-    time: (at: Date | string | number) => formatTime(at, zone.value),
-    dateTime: (at: Date | string | number) => formatDateTime(at, zone.value),
+    day: (at: Date | string | number) => formatDay(at, zone.value, locale.value),
+    time: (at: Date | string | number) => formatTime(at, zone.value, locale.value),
+    dateTime: (at: Date | string | number) => formatDateTime(at, zone.value, locale.value),
+    /** A count or figure in the workshop's number style, e.g. '1,234'. */
+    count: (n: number, digits = 0) => formatNumber(n, digits, locale.value),
     today: () => todayIn(zone.value),
     dayOf: (at: Date | string | number) => dayIn(at, zone.value),
   }

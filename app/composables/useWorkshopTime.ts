@@ -3,17 +3,20 @@
 // one formatting module (shared/utils/workshop-format.ts, 24-hour clock); luxon does the
 // arithmetic of wall-clock entry.
 import { DateTime } from 'luxon'
-import { dayIn, formatDateTime, formatDay, formatTime, todayIn } from '#shared/utils/workshop-format'
+import { dayIn, formatDateTime, formatDay, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
 
 export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
   const z = () => toValue(zone)
+  // the locale rides on the signed-in person's workshop, fetched once by useWorkshopFormat
+  const me = useNuxtData<{ workshop?: { locale?: WorkshopLocale } | null }>(WORKSHOP_ME_KEY)
+  const l = () => workshopLocale(me.data.value?.workshop?.locale)
   return {
     /** 'HH:mm' of an instant in the workshop's zone, 24-hour clock. */
-    clock: (iso: string) => formatTime(iso, z()),
+    clock: (iso: string) => formatTime(iso, z(), l()),
     /** The day and time of an instant, e.g. 'Thu 3 Dec 2026 14:30'. */
-    when: (iso: string) => formatDateTime(iso, z()),
+    when: (iso: string) => formatDateTime(iso, z(), l()),
     /** The day of an instant (or a 'yyyy-MM-dd' day) for people, e.g. 'Thu 3 Dec 2026'. */
-    date: (iso: string) => formatDay(iso, z()),
+    date: (iso: string) => formatDay(iso, z(), l()),
     /** 'yyyy-MM-dd' of an instant in the workshop's zone. */
     day: (iso: string | Date) => dayIn(iso, z()),
     /** Today in the workshop's zone. */

@@ -19,12 +19,14 @@
 // - mail: mail that failed or is being retried → the captured mail page.
 import type { TodayLine, TodayOverview } from '#shared/types/board'
 import { MOULD_LIFE_FLAG_FRACTION } from '#shared/utils/board-rules'
+import { formatUnits, type UnitSystem } from '#shared/utils/units-display'
+import { dayIn, formatDateTime, formatDay, formatTime, workshopLocale } from '#shared/utils/workshop-format'
 
 const LOOKBACK_DAYS = 14
 const DUE_SOON_DAYS = 14
 const SHORT_BAGS = 2
 
-const SQL = `SELECT w.name, w.timezone, now() AS now,
+const SQL = `SELECT w.name, w.timezone, w.units, w.locale, now() AS now,
   (SELECT coalesce(json_agg(x ORDER BY x.start), '[]') FROM (
      SELECT p.id, lower(p.slot) AS start, m.code AS mould, j.code AS job, (lower(p.slot) AT TIME ZONE w.timezone)::date::text AS day
        FROM pours p JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = w.id
@@ -71,6 +73,8 @@ const SQL = `SELECT w.name, w.timezone, now() AS now,
 interface OverviewRow {
   name: string
   timezone: string
+  units: UnitSystem
+  locale: string
   now: Date
   missed: { id: number; start: string; mould: string; job: string | null; day: string }[]
   overdue: { id: number; close: string; mould: string; job: string | null; day: string }[]
@@ -85,13 +89,20 @@ interface OverviewRow {
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
 
-/** The Today lines, in the order above; clocks in the workshop's zone. */
+/**
+ * The Today lines, in the order above, written in the workshop's house style
+ * (shared/utils/workshop-format.ts: its zone and locale; a time alone when it falls today) and
+ * its units.
+ */
 export async function overviewToday(workshopId: number, db = useDb()): Promise<TodayOverview> {
   const r: OverviewRow | undefined = (await db.raw(SQL, {
     workshopId, lookback: LOOKBACK_DAYS, dueSoon: DUE_SOON_DAYS, shortBags: SHORT_BAGS, lifeFraction: MOULD_LIFE_FLAG_FRACTION,
   })).rows[0]
   if (!r) notFound('Workshop')
-  const when = (iso: string) => boardClock(new Date(iso), r.timezone)
+  const locale = workshopLocale(r.locale)
+  const today = dayIn(r.now, r.timezone)
+  const when = (iso: string) => dayIn(iso, r.timezone) === today ? formatTime(iso, r.timezone, locale) : formatDateTime(iso, r.timezone, locale)
+  const day = (d: string) => formatDay(d, r.timezone, locale)
   const board = (day: string) => `/lead/board?view=day&date=${day}`
   const lines: TodayLine[] = [
     ...r.missed.map(p => ({ kind: 'missed-start' as const, at: new Date(p.start).toISOString(), to: board(p.day),
@@ -100,12 +111,12 @@ export async function overviewToday(workshopId: number, db = useDb()): Promise<T
       text: `${p.job ?? 'A pour'} on ${p.mould}: demould overdue since ${when(p.close)}` })),
     ...r.late.map(j => ({ kind: 'job-late' as const, at: j.projected ?? j.due_on, to: `/lead/jobs/${j.id}`,
       text: j.projected && j.projected > j.due_on
-        ? `${j.code} projected late: due ${j.due_on}, last demould on the board ${j.projected}`
-        : `${j.code} due ${j.due_on}: ${plural(Number(j.unplanned), 'piece')} not on the board yet` })),
+        ? `${j.code} projected late: due ${day(j.due_on)}, last demould on the board ${day(j.projected)}`
+        : `${j.code} due ${day(j.due_on)}: ${plural(Number(j.unplanned), 'piece')} not on the board yet` })),
     ...r.lots.map(l => ({ kind: 'lot' as const, at: l.use_by, to: '/lead/lots',
-      text: l.use_by && l.use_by < boardLocalDay(r.now, r.timezone)
-        ? `Lot ${l.code} is past its use-by date (${l.use_by})`
-        : `Lot ${l.code} is running short: ${Math.max(0, Math.round(Number(l.left_kg)))} kg left` })),
+      text: l.use_by && l.use_by < today
+        ? `Lot ${l.code} is past its use-by date (${day(l.use_by)})`
+        : `Lot ${l.code} is running short: ${formatUnits.mass(Math.max(0, Number(l.left_kg)), r.units, 0)} left` })),
     ...r.moulds.map(m => ({ kind: 'mould' as const, at: null, to: `/lead/moulds/${m.id}`,
       text: m.state === 'repair' ? `Mould ${m.code} is waiting for repair` : `Mould ${m.code} is near the end of its life: ${m.pulls} of ${m.expected} pulls` })),
     ...([['to_fettle', 'to fettle'], ['repair', 'waiting for repair'], ['dry', 'past their dry-by time, to check and mark ready']] as const)

@@ -16,7 +16,7 @@ export interface OutboxInsert {
 export interface DueMailRow { id: number; workshop_id: number | null; to_email: string; subject: string; text: string; html: string | null; attempts: number }
 
 /** A pour the lead has not been mailed about yet (an overdue demould or a missed start), with what the mail names. */
-export interface LatePourRow { id: number; workshop_id: number; code: string; state: string; mix_at: Date; demould_close_at: Date; timezone: string; job_code: string | null }
+export interface LatePourRow { id: number; workshop_id: number; code: string; state: string; mix_at: Date; demould_close_at: Date; timezone: string; locale: string; job_code: string | null }
 
 export const mailOutboxRepo = {
   /** A second mail with the same dedupe key is absorbed. */
@@ -67,7 +67,7 @@ export const mailOutboxRepo = {
           .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'overdue:' || p.id || ':%'`)))
         .orWhere(d => d.where('p.state', 'planned').where('p.mix_at', '<', new Date(now.getTime() - graceMs)).where('p.mix_at', '>', since)
           .whereNotExists(db('mail_outbox as o').whereRaw(`o.dedupe_key LIKE 'missed:' || p.id || ':%'`))))
-      .select('p.id', 'p.workshop_id', 'm.code', 'p.state', 'p.mix_at', 'p.demould_close_at', 'w.timezone', 'j.code as job_code')
+      .select('p.id', 'p.workshop_id', 'm.code', 'p.state', 'p.mix_at', 'p.demould_close_at', 'w.timezone', 'w.locale', 'j.code as job_code')
       .orderBy('p.id').limit(limit)
   },
 }

@@ -1,6 +1,7 @@
 // The workshop row (settings). The caller's own workshop only.
 import type { Knex } from 'knex'
 import type { ShiftBreak, WorkshopSettings } from '#shared/utils/workshop-schemas'
+import type { WorkshopLocale } from '#shared/utils/workshop-format'
 
 export interface WorkshopRow {
   id: number
@@ -14,10 +15,14 @@ export interface WorkshopRow {
   working_days: number[]
   default_shop_temp_c: number
   default_humidity_pct: number
+  locale: WorkshopLocale
   version: number
 }
 
-const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'shift_breaks', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'version']
+/** What a set-up or a save writes; a save without a locale keeps the workshop's own. */
+type WorkshopWrite = Omit<WorkshopRow, 'id' | 'version' | 'locale'> & { locale?: WorkshopLocale }
+
+const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'shift_breaks', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'locale', 'version']
 
 // the driver writes a JS array as a PostgreSQL array: the jsonb column gets its JSON text
 const asColumns = <T extends { shift_breaks: ShiftBreak[] }>(row: T) => ({ ...row, shift_breaks: JSON.stringify(row.shift_breaks) })
@@ -38,12 +43,12 @@ export const workshopsRepo = {
     return Boolean(await db('workshops').first('id'))
   },
   /** A new workshop (first-run set-up). */
-  async insert(db: Knex, row: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow> {
+  async insert(db: Knex, row: WorkshopWrite): Promise<WorkshopRow> {
     const [created] = await db('workshops').insert(asColumns(row)).returning(COLUMNS)
     return created
   },
   /** Updates when the version matches; returns undefined when someone else changed it first. */
-  async update(db: Knex, id: number, version: number, patch: Omit<WorkshopRow, 'id' | 'version'>): Promise<WorkshopRow | undefined> {
+  async update(db: Knex, id: number, version: number, patch: WorkshopWrite): Promise<WorkshopRow | undefined> {
     const [row] = await db('workshops').where({ id, version })
       .update({ ...asColumns(patch), version: db.raw('version + 1'), updated_at: db.fn.now() }).returning(COLUMNS)
     return row
@@ -51,7 +56,7 @@ export const workshopsRepo = {
 }
 
 /** GET / PATCH /api/workshop: the settings as the settings form edits them (times as HH:MM). */
-export function workshopDto(row: WorkshopRow): WorkshopSettings {
+export function workshopDto(row: WorkshopRow): WorkshopSettings & { locale: WorkshopLocale } {
   return {
     name: row.name,
     units: row.units,
@@ -62,6 +67,7 @@ export function workshopDto(row: WorkshopRow): WorkshopSettings {
     workingDays: row.working_days,
     defaultShopTempC: row.default_shop_temp_c,
     defaultHumidityPct: row.default_humidity_pct,
+    locale: row.locale,
     version: row.version,
   }
 }

@@ -9,6 +9,7 @@ import { recordEvent } from '../repos/events'
 import { benchesRepo, type BenchInput, type BenchRow } from '../repos/benches'
 import { gradeCalibrationRepo, gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
+import { formatDay, workshopLocale } from '#shared/utils/workshop-format'
 import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour } from '#shared/types/catalogue'
 
 /** A timestamp as the wire sends it (what JSON.stringify made of the Date before). */
@@ -73,11 +74,13 @@ export function toLot(r: LotRow): Lot {
 
 export async function lotsWithStock(workshopId: number): Promise<LotWithStock[]> {
   const db = useDb()
-  const [lots, sums, today] = await Promise.all([lotsRepo.list(db, workshopId), lotsRepo.pourSums(db, workshopId), workshopsRepo.today(db, workshopId)])
+  const [lots, sums, today, ws] = await Promise.all([lotsRepo.list(db, workshopId), lotsRepo.pourSums(db, workshopId), workshopsRepo.today(db, workshopId), workshopsRepo.get(db, workshopId)])
+  // the warnings in the workshop's units and day style, as the Lots page and its CSV show them
+  const say = ws && { units: ws.units, day: (d: string) => formatDay(d, ws.timezone, workshopLocale(ws.locale)) }
   return lots.map(l => ({
     ...toLot(l),
     gradeName: l.grade_name,
-    stock: lotStock({ bagsReceived: l.bags_received, bagKg: l.bag_kg, useBy: l.use_by, today, pours: sums.get(l.id) ?? [] }),
+    stock: lotStock({ bagsReceived: l.bags_received, bagKg: l.bag_kg, useBy: l.use_by, today, pours: sums.get(l.id) ?? [], ...say }),
   }))
 }
 

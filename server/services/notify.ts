@@ -18,7 +18,7 @@ import { jobsRepo, type JobRow } from '../repos/jobs'
 import { workshopsRepo } from '../repos/workshops'
 import { mailOutboxRepo } from '../repos/mail-outbox'
 import { clientContactsRepo, type ContactMail } from '../repos/client-contacts'
-import { formatDateTime } from '#shared/utils/workshop-format'
+import { formatDateTime, workshopLocale } from '#shared/utils/workshop-format'
 import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
 /** A user, or a client contact (key c<contactId>; userId when the contact is also a user). */
@@ -146,13 +146,13 @@ export async function notifyOverdueDemoulds(db: Knex, now = new Date()) {
       queued += await send(trx, p.workshop_id, 'demould_overdue', await usersRepo.leadRecipients(trx, p.workshop_id), r => (missed
         ? {
             subject: `Missed start: mould ${p.code}${job}`,
-            lines: [`The pour on mould ${p.code}${forJob} was never mixed: it was due at ${formatDateTime(new Date(p.mix_at), p.timezone)}. Nothing is in the mould.`,
+            lines: [`The pour on mould ${p.code}${forJob} was never mixed: it was due at ${formatDateTime(new Date(p.mix_at), p.timezone, workshopLocale(p.locale))}. Nothing is in the mould.`,
               'Re-plan or void it on the pour board:', link('/lead/board')],
             dedupeKey: `missed:${p.id}:${r.id}`,
           }
         : {
             subject: `Overdue demould: mould ${p.code}${job}`,
-            lines: [`The cast on mould ${p.code}${forJob} is still in the mould, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone)}.`,
+            lines: [`The cast on mould ${p.code}${forJob} is still in the mould, and its demould window closed at ${formatDateTime(new Date(p.demould_close_at), p.timezone, workshopLocale(p.locale))}.`,
               'Check the cast on the pour board:', link('/lead/board')],
             dedupeKey: `overdue:${p.id}:${r.id}`,
           }))

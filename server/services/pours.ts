@@ -13,6 +13,7 @@ import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 import { missedStartWarning, pourSituation } from '#shared/utils/pour-status'
+import { inUnits } from '#shared/utils/units-display'
 import {
   POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
@@ -28,7 +29,7 @@ export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
     slotStart: r.slot_start.toISOString(), slotEnd: r.slot_end.toISOString(), mixAt: r.mix_at.toISOString(),
     demouldOpenAt: r.demould_open_at.toISOString(), demouldCloseAt: r.demould_close_at.toISOString(),
     plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned),
-    warnings: situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone), ...r.warnings] : r.warnings,
+    warnings: [...(situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone)] : []), ...r.warnings.map(w => inUnits(w, r.units))],
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
     situation,
   }

@@ -26,6 +26,8 @@ export interface LiveWorkshop {
   workingDays: number[]
   defaultShopTempC: number
   defaultHumidityPct: number
+  /** how days and numbers are written (shared/utils/workshop-format.ts) */
+  locale: 'en-GB' | 'en-US'
   version: number
 }
 

@@ -6,6 +6,7 @@
 import type { PlasterGrade } from './plaster-core'
 import { batchForCavity } from './plaster'
 import { bagsForKg, runCutList, type PlasterRunCutList } from './plaster-cutlist'
+import { formatUnits, type UnitSystem } from './units-display'
 
 /**
  * A lot is low when less than this many full bags are left: two bags cover a day's gauging on
@@ -57,9 +58,10 @@ export interface LotStock {
 /**
  * Stock on hand = bags received × bag mass − plaster used by the lot's pours (lotUsedKg),
  * never below zero. `today` and `useBy` are calendar days 'YYYY-MM-DD' in the workshop's zone.
- * Old plaster sets unpredictably (common practice), hence the use-by warning.
+ * Old plaster sets unpredictably (common practice), hence the use-by warning. The warnings are
+ * worded for people: masses in `units`, the day through `day` (the workshop's day style).
  */
-export function lotStock(input: { bagsReceived: number; bagKg: number; useBy: string | null; today: string; pours: LotPourSums[] }): LotStock {
+export function lotStock(input: { bagsReceived: number; bagKg: number; useBy: string | null; today: string; pours: LotPourSums[]; units?: UnitSystem; day?: (d: string) => string }): LotStock {
   const receivedKg = input.bagsReceived * input.bagKg
   const usedKg = lotUsedKg(input.pours)
   const onHandKg = Math.max(0, receivedKg - usedKg)
@@ -67,8 +69,8 @@ export function lotStock(input: { bagsReceived: number; bagKg: number; useBy: st
   const lowStock = onHandKg < LOW_STOCK_BAGS * input.bagKg - 1e-9
   const pastUseBy = input.useBy !== null && input.useBy < input.today
   const warnings: string[] = []
-  if (lowStock) warnings.push(`Low stock: under ${LOW_STOCK_BAGS} bags (${LOW_STOCK_BAGS * input.bagKg} kg) left`)
-  if (pastUseBy) warnings.push(`Past its use-by date (${input.useBy}): old plaster sets unpredictably; test a small batch first`)
+  if (lowStock) warnings.push(`Low stock: under ${LOW_STOCK_BAGS} bags (${formatUnits.mass(LOW_STOCK_BAGS * input.bagKg, input.units ?? 'metric', 0)}) left`)
+  if (pastUseBy) warnings.push(`Past its use-by date (${input.day ? input.day(input.useBy!) : input.useBy}): old plaster sets unpredictably; test a small batch first`)
   return { receivedKg, usedKg, onHandKg, onHandBags, lowStock, pastUseBy, warnings }
 }
 

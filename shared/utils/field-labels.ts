@@ -14,6 +14,7 @@ export const FIELD_LABELS: Record<string, string> = {
   slurryTempC: 'Slurry temperature',
   shopTempC: 'Shop temperature',
   defaultShopTempC: 'Usual shop temperature',
+  locale: 'Date style',
   consistency: 'Consistency',
   plasterKg: 'Plaster weight',
   waterKg: 'Water weight',

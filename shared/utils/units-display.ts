@@ -79,3 +79,20 @@ export function tempLabel(celsiusLabel: string, u: UnitSystem): string {
   if (u === 'metric' || !celsiusLabel.includes('°C')) return celsiusLabel
   return celsiusLabel.replace(/-?\d+(\.\d+)?/g, n => String(Math.round(toDisplay.temp(Number(n), u)))).replace(/°C/g, '°F')
 }
+
+const FIGURE_WITH_UNIT = /(-?\d+(?:\.\d+)?)\s?(kg|°C)(?![\w/])/g
+
+/**
+ * A sentence written in metric (a warning stored on a pour: "Lot L-7 will not cover the plaster
+ * planned from it: 12.3 kg short.", "Slurry at 12.0 °C is below 15 °C") with each figure in kg
+ * or °C written in the display system, to as many decimals as it was written with. Stored
+ * sentences stay metric, like every stored figure, so a change of units reaches old pours too.
+ */
+export function inUnits(sentence: string, u: UnitSystem): string {
+  if (u === 'metric') return sentence
+  return sentence.replace(FIGURE_WITH_UNIT, (_, figure: string, unit: 'kg' | '°C') => {
+    const digits = figure.split('.')[1]?.length ?? 0
+    const q = unit === 'kg' ? 'mass' : 'temp'
+    return `${toDisplay[q](Number(figure), u).toFixed(digits)} ${UNIT_LABELS[u][q]}`
+  })
+}

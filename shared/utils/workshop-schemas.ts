@@ -2,6 +2,7 @@
 // days, and the usual shop conditions that drive demould windows when a day has none entered.
 import { z } from 'zod'
 import { PG_INTEGER_MAX } from './input-fields'
+import type { WorkshopLocale } from './workshop-format'
 
 const hhmm = (field: string) => z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: `${field} must be a time as HH:MM` })
 
@@ -48,6 +49,8 @@ export const workshopFields = {
   defaultShopTempC: z.number({ error: 'defaultShopTempC must be a number of °C' }).min(-10, { error: 'defaultShopTempC must be between -10 and 45 °C' }).max(45, { error: 'defaultShopTempC must be between -10 and 45 °C' }),
   shiftBreaks: z.array(shiftBreakSchema, { error: 'Breaks must be a list of start and end times' }).max(6, { error: 'At most 6 breaks a shift' }).default([]),
   defaultHumidityPct: z.number({ error: 'defaultHumidityPct must be a percentage' }).min(0, { error: 'defaultHumidityPct must be between 0 and 100' }).max(100, { error: 'defaultHumidityPct must be between 0 and 100' }),
+  /** How days and numbers are written (shared/utils/workshop-format.ts); left out, a save keeps the workshop's own. */
+  locale: z.enum(['en-GB', 'en-US'] as const satisfies readonly WorkshopLocale[], { error: 'locale must be English (UK) or English (US)' }).optional(),
 }
 
 export const workshopSettingsSchema = z.object({

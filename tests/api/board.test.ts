@@ -240,7 +240,8 @@ describe('GET /api/overview (Today)', () => {
     expect(lines.find(l => l.kind === 'demould-overdue' && l.text.includes(`on ${settingCode}`)))
       .toMatchObject({ to: '/lead/board?view=day&date=2026-01-05' })
     expect(lineWith(lines, `${jobCode} projected late`)).toMatchObject({ kind: 'job-late', to: `/lead/jobs/${job}`, at: '2027-04-05' })
-    expect(lineWith(lines, `${jobCode} projected late`)!.text).toContain('due 2027-04-01, last demould on the board 2027-04-05')
+    // the house day style, en-GB (shared/utils/workshop-format.ts); 1 Apr 2027 is a Thursday (Gregorian calendar)
+    expect(lineWith(lines, `${jobCode} projected late`)!.text).toContain('due Thu 1 Apr 2027, last demould on the board Mon 5 Apr 2027')
     const lotCode = async (id: number) => (await fx.k('plaster_lots').where({ id }).first('lot_code')).lot_code as string
     expect(lineWith(lines, `Lot ${await lotCode(stale)} is past its use-by`)).toMatchObject({ kind: 'lot', to: '/lead/lots' })
     // one bag of 25 kg received, nothing used: under the two bags' worth Today warns at

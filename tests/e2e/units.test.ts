@@ -1,7 +1,8 @@
 // Imperial everywhere: with the workshop switched to lb / US gal / °F / in through the settings
 // API, every page each role reads shows no metric unit (kg, L, °C, mm, m) unless both scales are
-// written on purpose ("49 °C (120 °F)"). The board and the lead's Today page are left to their
-// own change (they take these helpers after it lands). Also: the day sheet opens on the
+// written on purpose ("49 °C (120 °F)"). The board is left to its own change (it takes these
+// helpers after it lands); the lead's Today is walked with lots and pours that put figures and
+// days on it. Also: the day sheet opens on the
 // workshop's own day and prints with its name and shop temperature.
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
@@ -66,12 +67,24 @@ describe('a workshop on imperial', () => {
     ownWords = (await k('moulds').select('casts')).map(m => m.casts as string).sort((a, b) => b.length - a.length)
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    const paths = ['/lead/jobs', `/lead/jobs/${job.id}`, `/lead/jobs/${job.id}/register`, '/lead/moulds', `/lead/moulds/${mould.id}`,
+    // a lot down to its last bag and one past its use-by: Today names their stock and date
+    const gradeId = (await k('plaster_grades').orderBy('id').first('id')).id
+    const workshopId = (await k('workshops').orderBy('id').first('id')).id
+    await k('plaster_lots').insert([
+      { workshop_id: workshopId, grade_id: gradeId, lot_code: 'UNITS-SHORT', bags_received: 1, bag_kg: 25, received_on: '2026-01-01' },
+      { workshop_id: workshopId, grade_id: gradeId, lot_code: 'UNITS-STALE', bags_received: 10, bag_kg: 25, received_on: '2026-01-01', use_by: '2026-01-02' },
+    ])
+    const paths = ['/lead', '/lead/jobs', `/lead/jobs/${job.id}`, `/lead/jobs/${job.id}/register`, '/lead/moulds', `/lead/moulds/${mould.id}`,
       '/lead/plasters', '/lead/lots', '/lead/quality', '/lead/settings', '/day-sheet?day=2027-04-21', '/day-sheet', '/mix', '/cautions', '/account',
       ...(dispatch ? [`/dispatches/${dispatch.id}`] : [])]
     const found = await walk(page, paths)
     await screenshot(page, 'units-imperial-last-lead-page')
     expect(found).toEqual({})
+    await page.goto(`${base}/lead`)
+    await page.locator('html[data-hydrated]').waitFor()
+    // 25 kg = 55 lb in whole pounds (NIST SP 811); 2 Jan 2026 is a Friday (Gregorian calendar)
+    await page.getByText('Lot UNITS-SHORT is running short: 55 lb left').waitFor()
+    await page.getByText('Lot UNITS-STALE is past its use-by date (Fri 2 Jan 2026)').waitFor()
   }, 240_000)
 
   it('takes the usual temperature in °F and labels the mix card\'s cavity in US gal', async () => {
@@ -85,6 +98,23 @@ describe('a workshop on imperial', () => {
     expect(shown).toBeCloseTo(stored * 1.8 + 32, 1) // °F = 1.8 × °C + 32 (NIST SP 811)
     await page.goto(`${base}/mix`)
     await page.getByLabel('Cavity (US gal)').waitFor()
+
+    // the grade form's temperature factors: typed in °F, kept in °C
+    await page.goto(`${base}/lead/plasters`)
+    await page.locator('html[data-hydrated]').waitFor()
+    await page.getByRole('button', { name: 'Edit' }).first().click()
+    const form = page.getByRole('form', { name: 'Plaster grade' })
+    const name = (await form.getByRole('heading').innerText()).replace(/^Edit /, '')
+    const grade = await testDb()('plaster_grades').where({ name }).first('id')
+    const factors = form.getByLabel(/Temperature factors/)
+    // 20 °C, where every grade's factor is 1, is 68 °F (°F = 1.8 × °C + 32, NIST SP 811)
+    expect(await factors.inputValue()).toContain('68:1')
+    expect(await form.innerText()).not.toMatch(/°C/)
+    await factors.fill('50:1.6, 68:1, 86:0.7')
+    await form.getByRole('button', { name: 'Save grade' }).click()
+    // °C = (°F − 32) / 1.8 (NIST SP 811): 50 °F = 10 °C, 86 °F = 30 °C
+    await expect.poll(async () => (await testDb()('plaster_grades').where({ id: grade.id }).first('temperature_factors')).temperature_factors)
+      .toEqual([[10, 1.6], [20, 1], [30, 0.7]])
   }, 120_000)
 
   it('shows no metric unit on the caster\'s floor and the finisher\'s room', async () => {

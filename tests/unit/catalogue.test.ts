@@ -40,6 +40,14 @@ describe('lotUsedKg and lotStock', () => {
     expect(s.warnings.join(' ')).toMatch(/sets unpredictably/)
     expect(lotStock({ bagsReceived: 9, bagKg: 25, useBy: '2026-12-02', today: '2026-12-02', pours: [] }).pastUseBy).toBe(false)
   })
+
+  it('words its warnings in the workshop\'s units and day style', () => {
+    const s = lotStock({ bagsReceived: 1, bagKg: 25, useBy: '2026-12-01', today: '2026-12-02', pours: [], units: 'imperial', day: d => `day ${d}` })
+    // two 25 kg bags = 50 kg = 110 lb in whole pounds (50 / 0.45359237 = 110.2, NIST SP 811)
+    expect(s.warnings[0]).toBe('Low stock: under 2 bags (110 lb) left')
+    expect(s.warnings[1]).toMatch(/^Past its use-by date \(day 2026-12-01\)/)
+    expect(lotStock({ bagsReceived: 1, bagKg: 25, useBy: null, today: '2026-12-02', pours: [] }).warnings[0]).toBe('Low stock: under 2 bags (50 kg) left')
+  })
 })
 
 describe('mouldLife', () => {

@@ -2,7 +2,7 @@
 // 1 US gal = 3.785411784 L, °F = 1.8 °C + 32) and round trips back to metric.
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { displayNumber, formatUnits, fromDisplay, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
+import { displayNumber, formatUnits, fromDisplay, inUnits, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
 
 describe('display units', () => {
   it('formats metric and imperial with their units', () => {
@@ -53,5 +53,21 @@ describe('temperature labels', () => {
     expect(tempLabel('10–15 °C', 'imperial')).toBe('50–59 °F') // 10 °C = 50 °F, 15 °C = 59 °F
     expect(tempLabel('< 10 °C', 'imperial')).toBe('< 50 °F')
     expect(tempLabel('10–15 °C', 'metric')).toBe('10–15 °C')
+  })
+})
+
+describe('stored sentences in the display units', () => {
+  it('rewrites each figure in kg or °C to as many decimals as it was written with', () => {
+    const short = 'Lot L-7 will not cover the plaster planned from it: 12.3 kg short.'
+    expect(inUnits(short, 'metric')).toBe(short)
+    // 12.3 / 0.45359237 = 27.12 lb (NIST SP 811)
+    expect(inUnits(short, 'imperial')).toBe('Lot L-7 will not cover the plaster planned from it: 27.1 lb short.')
+    // °F = 1.8 × °C + 32 (NIST SP 811): 12.0 °C = 53.6 °F, 15 °C = 59 °F, 40 °C = 104 °F
+    expect(inUnits('Slurry at 12.0 °C is below 15 °C: about 40 °C', 'imperial')).toBe('Slurry at 53.6 °F is below 59 °F: about 104 °F')
+  })
+
+  it('leaves other figures and units alone', () => {
+    const s = 'Mould M-1 reaches its expected life (96 pulls + 4 planned ≥ 100); 0.72 kg/L; 5–99 %; kgs'
+    expect(inUnits(s, 'imperial')).toBe(s)
   })
 })

@@ -2,7 +2,7 @@
 // Check values from the IANA tz database (Pacific/Auckland is UTC+13 in December, daylight
 // time; Pacific/Kiritimati is UTC+14 all year; America/Los_Angeles is UTC−8 in December).
 import { describe, expect, it } from 'vitest'
-import { addCalendarDays, dayIn, formatDateTime, formatDay, formatTime, todayIn } from '#shared/utils/workshop-format'
+import { addCalendarDays, dayIn, formatDateTime, formatDay, formatNumber, formatTime, todayIn, workshopLocale } from '#shared/utils/workshop-format'
 
 describe('workshop formatting', () => {
   it('takes today from the workshop zone, not from UTC', () => {
@@ -34,5 +34,25 @@ describe('workshop formatting', () => {
   it('adds calendar days across months and years', () => {
     expect(addCalendarDays('2026-12-31', 1)).toBe('2027-01-01')
     expect(addCalendarDays('2028-03-01', -1)).toBe('2028-02-29') // 2028 is a leap year (Gregorian rule)
+  })
+
+  it('writes the day in the workshop\'s locale and keeps the 24-hour clock in both', () => {
+    const at = '2026-12-03T19:05:00Z'
+    expect(formatDay(at, 'UTC', 'en-US')).toBe('Thu, Dec 3, 2026')
+    expect(formatDay('2027-04-01', 'Pacific/Kiritimati', 'en-US')).toBe('Thu, Apr 1, 2027') // a Thursday (Gregorian calendar)
+    expect(formatTime(at, 'America/Los_Angeles', 'en-US')).toBe('11:05')
+    expect(formatTime('2026-12-03T00:30:00Z', 'UTC', 'en-US')).toBe('00:30')
+    expect(formatDateTime(at, 'Pacific/Auckland', 'en-US')).toBe('Fri, Dec 4, 2026 08:05')
+    expect(formatDateTime(at, 'Pacific/Auckland', 'en-GB')).toBe('Fri 4 Dec 2026 08:05')
+  })
+
+  it('writes numbers with a decimal point and thousands commas, and takes an unknown locale as en-GB', () => {
+    expect(formatNumber(1234.5, 1, 'en-GB')).toBe('1,234.5')
+    expect(formatNumber(1234.5, 1, 'en-US')).toBe('1,234.5')
+    expect(formatNumber(7)).toBe('7')
+    expect(formatNumber(Number.NaN)).toBe('—')
+    expect(workshopLocale('en-US')).toBe('en-US')
+    expect(workshopLocale('de-DE')).toBe('en-GB')
+    expect(workshopLocale(null)).toBe('en-GB')
   })
 })

@@ -12,6 +12,7 @@ export default defineEventHandler(async (event) => {
   const row = await workshopsRepo.update(db, actor.workshopId, s.version, {
     name: s.name, units: s.units, timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd, shift_breaks: s.shiftBreaks,
     working_days: [...new Set(s.workingDays)].sort(), default_shop_temp_c: s.defaultShopTempC, default_humidity_pct: s.defaultHumidityPct,
+    ...(s.locale ? { locale: s.locale } : {}),
   })
   if (!row) conflict('The settings were changed by someone else; reload to see them')
   const dto = workshopDto(row)
