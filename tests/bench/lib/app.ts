@@ -41,7 +41,7 @@ export async function startBenchServer(databaseUrl: string, env: Record<string, 
   const photoDir = mkdtempSync(join(tmpdir(), 'setline-bench-photos-'))
   const { url, proc } = await startAppServer({
     DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: env.NUXT_SESSION_PASSWORD ?? randomBytes(24).toString('hex'),
-    MAIL_FAKE: '0', SMTP_PORT: '9', MAIL_WORKER_INTERVAL_MS: '5000', MAIL_RETRY_BASE_SECONDS: '15',
+    MAIL_FAKE: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', LOG_LEVEL: 'warn', MAIL_WORKER_INTERVAL_MS: '5000', MAIL_RETRY_BASE_SECONDS: '15',
     OVERDUE_CHECK_INTERVAL_MS: '60000', PHOTO_STORAGE_DIR: photoDir, ...env,
   })
   return {
