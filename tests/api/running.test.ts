@@ -42,6 +42,19 @@ describe('GET /api/ready', () => {
   })
 })
 
+describe('the installable app\'s files', () => {
+  it('serves the favicon, the icons and a web app manifest that names them', async () => {
+    const manifest = await fetch(`${testContext().baseUrl}/manifest.webmanifest`).then(r => r.json()) as { start_url: string; icons: { src: string; sizes: string }[] }
+    expect(manifest.start_url).toBe('/floor')
+    for (const src of ['/favicon.png', ...manifest.icons.map(i => i.src)]) {
+      const r = await fetch(`${testContext().baseUrl}${src}`)
+      expect([src, r.status, r.headers.get('content-type')?.split(';')[0]]).toEqual([src, 200, src.endsWith('.svg') ? 'image/svg+xml' : 'image/png'])
+    }
+    const page = await fetch(`${testContext().baseUrl}/`).then(r => r.text())
+    expect(page).toContain('rel="manifest" href="/manifest.webmanifest"')
+  })
+})
+
 describe('request logs', () => {
   it('give each request a line with its id, and never the password, the session cookie or a link token', async () => {
     const output: string[] = []
