@@ -8,6 +8,7 @@ import type { NitroErrorHandler } from 'nitropack'
 import { H3Error, setResponseHeader } from 'h3'
 import { DATABASE_DOWN_MESSAGE, DATABASE_RETRY_AFTER_SECONDS, isDatabaseUnavailable } from './utils/database-down'
 import { asHttpError } from './utils/errors'
+import { loggablePath, useLogger } from './utils/logger'
 
 /** The reason phrases of RFC 9110 §15 for the refusals Setline answers with. */
 const REASON_PHRASES: Record<number, string> = {
@@ -31,7 +32,7 @@ const handler: NitroErrorHandler = (error, event) => {
     return
   }
   if (!isDatabaseUnavailable(error)) return
-  console.warn(`[database] ${event.method} ${event.path}: ${error.cause instanceof Error ? error.cause.message : error.message}`)
+  useLogger().warn({ reqId: event.context.requestId, method: event.method, path: loggablePath(event.path), err: { message: error.cause instanceof Error ? error.cause.message : error.message } }, 'database not answering')
   error.statusCode = 503
   error.statusMessage = 'Service Unavailable'
   error.message = DATABASE_DOWN_MESSAGE

@@ -55,6 +55,18 @@ export async function migrate(url: string) {
   }
 }
 
+/** Migrations not applied yet (names), for a production start that refuses to run on an old schema. */
+export async function pendingMigrations(url: string): Promise<string[]> {
+  const k = knex({ client: 'pg', connection: url, pool: { min: 0, max: 1 } })
+  try {
+    const [, pending] = await k.migrate.list({ migrationSource, tableName: 'knex_migrations' }) as [unknown, unknown[]]
+    return pending.map(m => typeof m === 'string' ? m : String((m as { file?: string; name?: string }).file ?? (m as { name?: string }).name))
+  }
+  finally {
+    await k.destroy()
+  }
+}
+
 /** Seeds the invented demo workshop when the database has no workshop yet. */
 export async function seedIfEmpty(url: string) {
   const k = knex({ client: 'pg', connection: url, pool: { min: 0, max: 2 } })

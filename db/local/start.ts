@@ -31,7 +31,7 @@ async function main() {
     NUXT_TELEMETRY_DISABLED: '1',
     DATABASE_URL: databaseUrl,
     NUXT_SESSION_PASSWORD: sessionSecret(),
-    MAIL_FAKE: process.env.MAIL_FAKE ?? (process.env.SMTP_HOST ? '0' : '1'),
+    MAIL_FAKE: process.env.MAIL_FAKE ?? (process.env.SMTP_HOST || process.env.SMTP_URL ? '0' : '1'),
     PAYMENTS_FAKE: process.env.PAYMENTS_FAKE ?? (process.env.PAYMENTS_SECRET_KEY ? '0' : '1'),
     HOST: host,
     PORT: port,

@@ -42,7 +42,7 @@ async function main() {
   if (await seedIfEmpty(databaseUrl)) console.log('setline: demo workshop seeded')
   buildIfStale()
   const common = { NUXT_TELEMETRY_DISABLED: '1', DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionSecret() }
-  const useFake = !process.env.SMTP_HOST
+  const useFake = !process.env.SMTP_HOST && !process.env.SMTP_URL
   const a = instance('A', portA, { ...common, MAIL_FAKE: useFake ? '1' : '0', SMTP_PORT: smtpPort })
   const b = instance('B', portB, { ...common, MAIL_FAKE: '0', SMTP_HOST: process.env.SMTP_HOST ?? '127.0.0.1', SMTP_PORT: smtpPort })
   const children = [a, b]

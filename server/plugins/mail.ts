@@ -1,25 +1,46 @@
-// Starts the in-process SMTP fake when MAIL_FAKE=1, the outbox worker and the overdue-demould check.
+// Starts the in-process SMTP fake when MAIL_FAKE=1, and this instance's worker of the background
+// queue (server/utils/jobs.ts): mail sending and retries, the overdue-demould check and the
+// nightly clean-up, each run once across all instances.
 import { notifyOverdueDemoulds } from '../services/notify'
+import { cleanUpOldRows } from '../services/cleanup'
 
 export default defineNitroPlugin(async (nitro) => {
   const env = appEnv()
+  const log = useLogger()
   if (env.MAIL_FAKE) {
     const fake = await startSmtpFake(env.SMTP_PORT, env.SMTP_HOST)
     setCurrentSmtpFake(fake)
-    console.log(`setline: SMTP fake listening on ${env.SMTP_HOST}:${fake.port} (captured mail: /lead/mails)`)
+    log.info(`SMTP fake listening on ${env.SMTP_HOST}:${fake.port} (captured mail: /lead/mails)`)
   }
-  const timer = setInterval(() => {
-    deliverDueMail().catch(err => console.error('mail worker:', err instanceof Error ? err.message : err))
-  }, env.MAIL_WORKER_INTERVAL_MS)
-  timer.unref()
-  // the overdue-demould check has its own, slower clock: it scans pours, the outbox does not
-  const overdue = setInterval(() => {
-    notifyOverdueDemoulds(useDb()).catch(err => console.error('overdue check:', err instanceof Error ? err.message : err))
-  }, env.OVERDUE_CHECK_INTERVAL_MS)
-  overdue.unref()
+  let stopped = false
+  const handlers: JobHandlers = {
+    'mail-now': deliverDueMail,
+    'mail-sweep': deliverDueMail,
+    'overdue-check': async () => (await notifyOverdueDemoulds(useDb())) ?? 0,
+    'cleanup': async () => {
+      const r = await cleanUpOldRows()
+      return r.mail + r.actions + r.limits
+    },
+  }
+  // the database may be away at boot: pages answer 503 meanwhile, and the queue starts once it is back
+  const starting = (async () => {
+    for (let wait = 1000; !stopped; wait = Math.min(wait * 2, 30_000)) {
+      try {
+        const work = await startBackgroundWork(env.DATABASE_URL, handlers)
+        if (stopped) return await work.stop()
+        return setBackgroundWork(work)
+      }
+      catch (err) {
+        log.error({ err: { message: err instanceof Error ? err.message : String(err) } }, `background work did not start; trying again in ${wait / 1000} s`)
+        await new Promise(r => setTimeout(r, wait).unref())
+      }
+    }
+  })()
   nitro.hooks.hook('close', async () => {
-    clearInterval(timer)
-    clearInterval(overdue)
+    stopped = true
+    await starting
+    await currentBackgroundWork()?.stop()
+    setBackgroundWork(undefined)
     await currentSmtpFake()?.close()
     setCurrentSmtpFake(undefined)
     await closeDb()

@@ -4,5 +4,5 @@
 import { ensureSetupCode } from '../services/setup'
 
 export default defineNitroPlugin(() => {
-  ensureSetupCode().catch(err => console.error('setup code:', err instanceof Error ? err.message : err))
+  ensureSetupCode().catch(err => useLogger().error({ err: { message: err instanceof Error ? err.message : String(err) } }, 'setup code not printed'))
 })

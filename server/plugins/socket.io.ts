@@ -69,9 +69,9 @@ function adapterPool() {
   pool.on('acquire', client => checkedOut.add(client))
   pool.on('release', (_err, client) => checkedOut.delete(client))
   pool.on('remove', client => checkedOut.delete(client as pg.PoolClient))
-  pool.on('error', err => console.error('socket.io adapter: database connection lost:', err.message))
+  pool.on('error', err => useLogger().error({ err: { message: err.message } }, 'socket.io adapter: database connection lost'))
   pool.on('connect', client => client.on('error', (err) => {
-    console.error('socket.io adapter: database connection lost:', err.message)
+    useLogger().error({ err: { message: err.message } }, 'socket.io adapter: database connection lost')
     // after pool.query's own handlers ran: a client it holds is released by it (a second
     // release throws), so what is still checked out then is the adapter's
     const held = client as pg.PoolClient
@@ -94,7 +94,7 @@ export default defineNitroPlugin((nitroApp) => {
   })
   const io = new Server({ serveClient: false })
   const pool = adapterPool()
-  io.adapter(createAdapter(pool, { errorHandler: err => console.error('socket.io adapter:', err.message) }))
+  io.adapter(createAdapter(pool, { errorHandler: err => useLogger().error({ err: { message: err.message } }, 'socket.io adapter') }))
   io.bind(engine)
   io.use(async (socket, next) => {
     // a page of another site must not open a live connection with the user's cookie

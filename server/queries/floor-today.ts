@@ -2,7 +2,7 @@
 // caster needs at the bench: mould, batch weights, the demould window, lots in stock, cautions.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import { poursRepo, daySheetRepo, type PourStepRow } from '../repos/pours'
+import { poursRepo, daySheetRepo, type PourDtoRow, type PourStepRow } from '../repos/pours'
 import { BURN_CAUTION } from '#shared/utils/plaster'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import type { FloorCardDto, FloorCaution } from '#shared/types/floor'
@@ -86,10 +86,19 @@ export async function floorCards(db: Knex, workshopId: number, ids: number[]): P
   if (!ids.length) return []
   // one query for every card (a query per pour held one pooled connection each under load)
   const byId = new Map((await poursRepo.dtos(db, workshopId, ids)).map(r => [Number(r.id), r]))
-  const rows = ids.map(id => byId.get(id)).filter(r => !!r)
-  const actuals = new Map((await floorFacts.actuals(db, workshopId, ids)).map(a => [Number(a.id), a]))
+  return cardsOf(db, workshopId, ids.map(id => byId.get(id)).filter(r => !!r))
+}
+
+/** Cards for pours already read as DTO rows: their actuals and the lots of their grades, read side by side. */
+async function cardsOf(db: Knex, workshopId: number, rows: PourDtoRow[]): Promise<FloorCardDto[]> {
+  if (!rows.length) return []
   const gradeIds = [...new Set(rows.map(r => Number(r.grade_id)))]
-  const lots = await daySheetRepo.lots(db, workshopId, gradeIds)
+  const [facts, lots] = await Promise.all([
+    floorFacts.actuals(db, workshopId, rows.map(r => Number(r.id))),
+    daySheetRepo.lots(db, workshopId, gradeIds),
+  ])
+  const actuals = new Map(facts.map(a => [Number(a.id), a]))
+  const today = boardLocalDay(new Date(), rows[0]!.timezone)
   return rows.map((r) => {
     const a = actuals.get(Number(r.id))!
     const pour = pourDto(r)
@@ -98,7 +107,7 @@ export async function floorCards(db: Knex, workshopId: number, ids: number[]): P
       mould: { code: r.mould_code, casts: r.casts, cavityLitres: Number(a.cavity_litres), state: a.mould_state },
       bench: r.bench_id ? { id: Number(r.bench_id), name: r.bench_name! } : null,
       actual: actualOf(a),
-      lots: floorLots(lots.filter(l => Number(l.grade_id) === Number(r.grade_id)), Number(r.lot_id), boardLocalDay(new Date(), r.timezone)),
+      lots: floorLots(lots.filter(l => Number(l.grade_id) === Number(r.grade_id)), Number(r.lot_id), today),
       cautions: cautionsOf(pour),
     }
   })
@@ -108,15 +117,22 @@ export async function floorCards(db: Knex, workshopId: number, ids: number[]): P
  * Today's pours for the floor: a caster's own; a lead's all (or one caster's with casterId).
  * A pour whose prep starts today, plus any earlier pour still mixing or setting (a cast left
  * overnight must still be demoulded), in slot order.
+ *
+ * The busiest read of the app (every tablet refreshes it), so it reads little: today's pours
+ * come as DTO rows at once and only the overnight ones are read again, the two lists are read
+ * side by side, and another caster's pours are left out before their cards are built.
  */
 export async function floorToday(actor: Actor, casterId?: number) {
   const db = useDb()
   const ws = await loadWorkshop(db, actor.workshopId)
   const day = boardLocalDay(new Date(), ws.timezone)
-  const today = await poursRepo.startingOn(db, ws.id, day)
-  const open = await floorFacts.openBefore(db, ws.id, day)
+  const [today, open] = await Promise.all([poursRepo.startingOn(db, ws.id, day), floorFacts.openBefore(db, ws.id, day)])
   const who = actor.role === 'caster' ? actor.id : casterId
+  const todayById = new Map(today.map(r => [Number(r.id), r]))
+  const overnight = await poursRepo.dtos(db, ws.id, open.filter(id => !todayById.has(id)))
+  const overnightById = new Map(overnight.map(r => [Number(r.id), r]))
   const ids = [...open, ...today.map(r => Number(r.id))].filter((id, i, all) => all.indexOf(id) === i)
-  const cards = await floorCards(db, ws.id, ids)
-  return { day, timezone: ws.timezone, cards: cards.filter(c => who === undefined || c.pour.casterId === who) }
+  const rows = ids.map(id => todayById.get(id) ?? overnightById.get(id))
+    .filter(r => !!r && (who === undefined || r.caster_id === who)) as PourDtoRow[]
+  return { day, timezone: ws.timezone, cards: await cardsOf(db, ws.id, rows) }
 }

@@ -1,5 +1,5 @@
 // Every knex call for mail_outbox: queueing (deduplicated by dedupe_key, unique across all
-// rows), the worker's batch and its outcome per mail, and the overdue-demould check's
+// rows), the sender's claim and its outcome per mail, the readiness route's backlog, the clean-up, and the overdue-demould check's
 // "not mailed yet" read.
 import type { Knex } from 'knex'
 
@@ -23,23 +23,45 @@ export const mailOutboxRepo = {
   async insert(db: Knex, row: OutboxInsert) {
     await db('mail_outbox').insert(row).onConflict('dedupe_key').ignore()
   },
-  /** Up to `limit` queued mails that are due, locked and skipping rows another worker holds. */
-  due(trx: Knex, limit: number): Promise<DueMailRow[]> {
-    return trx('mail_outbox').select('id', 'workshop_id', 'to_email', 'subject', 'text', 'html', 'attempts')
-      .where('status', 'queued').where('next_attempt_at', '<=', trx.fn.now())
-      .orderBy('id').limit(limit).forUpdate().skipLocked()
+  /**
+   * Claims up to `limit` due mails in one statement that commits on its own: queued ones whose
+   * time has come, and claims another process let run out. Each comes back 'sending' with its
+   * attempt counted; rows another claimer holds are skipped, so no mail is claimed twice.
+   */
+  async claimDue(db: Knex, limit: number, claimSeconds: number): Promise<DueMailRow[]> {
+    const { rows } = await db.raw(`
+      UPDATE mail_outbox SET status = 'sending', attempts = attempts + 1, claimed_until = now() + make_interval(secs => ?)
+      WHERE id IN (
+        SELECT id FROM mail_outbox
+        WHERE (status = 'queued' AND next_attempt_at <= now()) OR (status = 'sending' AND claimed_until < now())
+        ORDER BY id LIMIT ? FOR UPDATE SKIP LOCKED)
+      RETURNING id, workshop_id, to_email, subject, text, html, attempts`, [claimSeconds, limit])
+    return (rows as DueMailRow[]).sort((a, b) => a.id - b.id)
   },
-  markSent(db: Knex, id: number, attempts: number) {
-    return db('mail_outbox').where({ id }).update({ status: 'sent', sent_at: db.fn.now(), attempts, last_error: null })
+  markSent(db: Knex, id: number) {
+    return db('mail_outbox').where({ id, status: 'sending' }).update({ status: 'sent', sent_at: db.fn.now(), claimed_until: null, last_error: null })
   },
   /** A failed attempt: queued again after `retrySeconds`, or failed for good when `final`. */
-  markFailed(db: Knex, id: number, attempts: number, final: boolean, error: string, retrySeconds: number) {
-    return db('mail_outbox').where({ id }).update({
-      attempts,
+  markFailed(db: Knex, id: number, final: boolean, error: string, retrySeconds: number) {
+    return db('mail_outbox').where({ id, status: 'sending' }).update({
+      claimed_until: null,
       status: final ? 'failed' : 'queued',
       last_error: error,
       next_attempt_at: db.raw(`now() + make_interval(secs => ?)`, [retrySeconds]),
     })
+  },
+  /** Mail not sent yet (queued or being sent): how many, and how old the oldest is, in seconds. */
+  async backlog(db: Knex): Promise<{ count: number; oldestSeconds: number | null }> {
+    const row = await db('mail_outbox').whereIn('status', ['queued', 'sending'])
+      .first(db.raw('count(*)::int AS count'), db.raw('extract(epoch from now() - min(created_at))::float8 AS oldest'))
+    return { count: Number(row?.count ?? 0), oldestSeconds: row?.oldest == null ? null : Math.round(Number(row.oldest)) }
+  },
+  /** Sent mail older than `days`, and mail failed for good as long ago: its use is over. */
+  deleteOld(db: Knex, days: number): Promise<number> {
+    return db('mail_outbox')
+      .where(q => q.where('status', 'sent').where('sent_at', '<', db.raw(`now() - make_interval(days => ?)`, [days])))
+      .orWhere(q => q.where('status', 'failed').where('created_at', '<', db.raw(`now() - make_interval(days => ?)`, [days])))
+      .delete()
   },
   /**
    * Non-void pours still planned, mixing or setting whose demould window closed between

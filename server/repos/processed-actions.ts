@@ -5,6 +5,10 @@ import type { Knex } from 'knex'
 export interface ProcessedAction { id: string; workshop_id: number; user_id: number | null; kind: string; entity_id: number | null; status: number; result: unknown }
 
 export const processedActionsRepo = {
+  /** Answers older than `days`: a tablet's outbox replays within hours, so their use is over. */
+  deleteOld(db: Knex, days: number): Promise<number> {
+    return db('processed_actions').where('created_at', '<', db.raw(`now() - make_interval(days => ?)`, [days])).delete()
+  },
   /**
    * Serialises requests that carry the same action id until the transaction ends (a
    * transaction-level advisory lock on the id's hash), so two copies of one action sent at

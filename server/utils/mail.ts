@@ -1,5 +1,6 @@
 // Mail goes through the mail_outbox table: a route queues in its own transaction, and the
-// worker (server/plugins/mail-worker.ts) sends with retries, so an SMTP outage loses nothing.
+// background queue (server/utils/jobs.ts) sends with retries, so an SMTP outage loses nothing.
+// A queued mail asks the queue to send as soon as its transaction commits.
 import nodemailer, { type Transporter } from 'nodemailer'
 import type { Knex } from 'knex'
 import { mailOutboxRepo } from '../repos/mail-outbox'
@@ -18,7 +19,9 @@ let transport: Transporter | undefined
 function mailer() {
   if (!transport) {
     const env = appEnv()
-    transport = nodemailer.createTransport({
+    // SMTP_URL carries the relay whole (user and password included); else the separate settings
+    if (env.SMTP_URL) transport = nodemailer.createTransport(env.SMTP_URL)
+    else transport = nodemailer.createTransport({
       host: env.SMTP_HOST,
       port: env.SMTP_PORT,
       secure: env.SMTP_SECURE,
@@ -40,6 +43,14 @@ export async function queueMail(db: Knex, mail: OutgoingMail) {
     text: mail.text,
     dedupe_key: mail.dedupeKey ?? null,
   })
+  afterCommit(db, kickMailDelivery)
+}
+
+/** Runs `fn` once `db`'s transaction has committed (at once outside one); nothing on rollback. */
+function afterCommit(db: Knex, fn: () => void) {
+  const trx = db as Knex & { isTransaction?: boolean; executionPromise?: Promise<unknown> }
+  if (trx.isTransaction && trx.executionPromise) trx.executionPromise.then(fn, () => {})
+  else fn()
 }
 
 const MAX_ATTEMPTS = 8
@@ -53,37 +64,47 @@ export function retryDelaySeconds(attempts: number, baseSeconds = appEnv().MAIL_
   return Math.min(3600, baseSeconds * attempts * attempts)
 }
 
+/**
+ * How long a claimed mail stays with the process that claimed it. Sending a batch takes
+ * seconds; a process that dies mid-send leaves its claims to run out, and the mail is claimed
+ * again (sent at least once: a relay that took it before the crash may see it twice).
+ */
+const CLAIM_SECONDS = 600
+const BATCH = 20
+
 let running: Promise<number> | undefined
 
-/** Sends what is due; one run at a time per process, rows locked so instances share the work. */
+/** Sends what is due; one run at a time per process (the queue runs it, server/utils/jobs.ts). */
 export function deliverDueMail(): Promise<number> {
-  running ??= sendBatch().finally(() => {
+  running ??= deliverMailBatch().finally(() => {
     running = undefined
   })
   return running
 }
 
-async function sendBatch(): Promise<number> {
-  const db = useDb()
+/**
+ * One batch: claim up to BATCH due mails in one short statement (committed before anything
+ * is sent, so no row lock is held while the relay is talked to), then send each and record
+ * its outcome. Two processes claiming at once get different mails (SKIP LOCKED), so each
+ * mail is sent once.
+ */
+export async function deliverMailBatch(db: Knex = useDb()): Promise<number> {
   let sent = 0
-  await db.transaction(async (trx) => {
-    const due = await mailOutboxRepo.due(trx, 20)
-    for (const m of due) {
-      try {
-        await mailer().sendMail({
-          from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined,
-          // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
-          headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
-        })
-        await mailOutboxRepo.markSent(trx, m.id, m.attempts + 1)
-        sent++
-      }
-      catch (err) {
-        const attempts = m.attempts + 1
-        await mailOutboxRepo.markFailed(trx, m.id, attempts, attempts >= MAX_ATTEMPTS,
-          String(err instanceof Error ? err.message : err).slice(0, 500), retryDelaySeconds(attempts))
-      }
+  const claimed = await mailOutboxRepo.claimDue(db, BATCH, CLAIM_SECONDS)
+  for (const m of claimed) {
+    try {
+      await mailer().sendMail({
+        from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined,
+        // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
+        headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
+      })
+      await mailOutboxRepo.markSent(db, m.id)
+      sent++
     }
-  })
+    catch (err) {
+      await mailOutboxRepo.markFailed(db, m.id, m.attempts >= MAX_ATTEMPTS,
+        String(err instanceof Error ? err.message : err).slice(0, 500), retryDelaySeconds(m.attempts))
+    }
+  }
   return sent
 }

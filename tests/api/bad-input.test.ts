@@ -176,8 +176,8 @@ afterAll(async () => {
   await closeTestDb()
 })
 
-// Tables the app writes in the background: the mail outbox (worker, overdue check) and socket.io's.
-const BACKGROUND = ['knex_migrations', 'knex_migrations_lock', 'mail_outbox', 'socket_io_attachments']
+// Tables the app writes in the background: the mail outbox (queue, overdue check), each job's last run, and socket.io's.
+const BACKGROUND = ['knex_migrations', 'knex_migrations_lock', 'mail_outbox', 'socket_io_attachments', 'background_runs']
 let tableNames: string[] = []
 async function tables() {
   if (!tableNames.length) {

@@ -93,6 +93,7 @@ const photo = async () => photoForm([{ name: 'matrix.jpg', data: await jpegWithG
 
 export const ROUTES: RouteRow[] = [
   { route: 'GET /api/health', roles: 'public' },
+  { route: 'GET /api/ready', roles: 'public' },
   // the first-run set-up is gone once a workshop exists (tests/api/setup.test.ts covers it open)
   { route: 'GET /api/setup', roles: 'public', public: 404 },
   { route: 'POST /api/setup', roles: 'public', body: () => ({ code: 'ABCD-EFGH-JKMN', name: 'Matrix', units: 'metric', timezone: 'Europe/London', shiftStart: '07:00', shiftEnd: '15:00', workingDays: [1, 2, 3], defaultShopTempC: 18, defaultHumidityPct: 50, leadName: 'Matrix', leadEmail: 'setup@matrix.example.test', leadPassword: 'matrix-password-1' }), public: 404 },

@@ -41,18 +41,20 @@ function get(agent: Agent, url: URL, cookie?: string): Promise<number> {
   })
 }
 
-async function load(base: string, path: string, cookie?: string) {
+async function load(base: string | string[], path: string, cookie?: string) {
   const agent = new Agent({ keepAlive: true, maxSockets: READERS })
-  const url = new URL(path, base)
+  // with several instances, reader i reads from instance i mod n: the spread a proxy's ip_hash gives many tablets
+  const urls = [base].flat().map(b => new URL(path, b))
+  const urlOf = (reader: number) => urls[reader % urls.length]!
   // one request per connection first, so the timed rounds measure reading, not connecting
-  await Promise.all(Array.from({ length: READERS }, () => get(agent, url, cookie)))
+  await Promise.all(Array.from({ length: READERS }, (_, r) => get(agent, urlOf(r), cookie)))
   const times: number[] = []
   let errors = 0
   const t0 = performance.now()
-  await Promise.all(Array.from({ length: READERS }, async () => {
+  await Promise.all(Array.from({ length: READERS }, async (_, r) => {
     for (let i = 0; i < ROUNDS; i++) {
       const t = performance.now()
-      const status = await get(agent, url, cookie)
+      const status = await get(agent, urlOf(r), cookie)
       times.push(performance.now() - t)
       if (status !== 200) errors++
     }
@@ -103,11 +105,25 @@ async function main() {
     const floorPaced = await paced(app.url, '/api/floor/today', caster)
     const progressPaced = await paced(app.url, progressPath, client)
     const peakKb = watch.stop()
+    // the same floor and health loads over two instances on the one database
+    const second = await startBenchServer(db.url, { NUXT_SESSION_PASSWORD: app.sessionPassword })
+    let twoHealth: Awaited<ReturnType<typeof load>>, twoFloor: Awaited<ReturnType<typeof load>>
+    try {
+      twoHealth = await load([app.url, second.url], '/api/health')
+      twoFloor = await load([app.url, second.url], '/api/floor/today', caster)
+    }
+    finally {
+      await second.stop()
+    }
+    const rate = (r: { requests: number; seconds: number }) => r.requests / r.seconds
+    const share = (f: typeof floor, h: typeof baseline) => `${(100 * rate(f) / rate(h)).toFixed(0)} %`
     console.log(`${READERS} concurrent keep-alive readers × ${ROUNDS} rounds per route; the caster's floor has ${cards.cards.length} cards today`)
     for (const r of [floor, progress, baseline]) {
       console.log(`  ${r.path.padEnd(34)} ${String(r.requests).padStart(5)} requests in ${r.seconds.toFixed(1)} s (${(r.requests / r.seconds).toFixed(0)}/s)  p50 ${r.p50.toFixed(0)} ms  p95 ${r.p95.toFixed(0)} ms  max ${r.max.toFixed(0)} ms  errors ${r.errors}`)
     }
     console.log(`  (target p95 < ${TARGET_P95_MS} ms, no errors)`)
+    console.log(`  floor throughput as a share of /api/health: one instance ${share(floor, baseline)} (${rate(floor).toFixed(0)} against ${rate(baseline).toFixed(0)}/s); `
+      + `two instances ${share(twoFloor, twoHealth)} (${rate(twoFloor).toFixed(0)} against ${rate(twoHealth).toFixed(0)}/s; floor p95 ${twoFloor.p95.toFixed(0)} ms, errors ${twoFloor.errors + twoHealth.errors})   (goal ≥ 60 %)`)
     console.log(`  paced, each reader once every ${PACE_MS / 1000} s (${floorPaced.rate} requests/s offered):`)
     for (const [path, r] of [['/api/floor/today', floorPaced], [progressPath, progressPaced]] as const) {
       console.log(`  ${path.padEnd(34)} ${String(READERS * PACED_ROUNDS).padStart(5)} requests  p50 ${r.p50.toFixed(0)} ms  p95 ${r.p95.toFixed(0)} ms  errors ${r.errors}`)
@@ -124,6 +140,13 @@ async function main() {
           + `paced at ${p.rate}/s: p50 ${p.p50.toFixed(0)} ms, p95 ${p.p95.toFixed(0)} ms, ${p.errors} errors`,
       })
     }
+    record({
+      name: 'floor throughput as a share of GET /api/health, one instance / two instances',
+      value: `${share(floor, baseline)} / ${share(twoFloor, twoHealth)}`,
+      target: '≥ 60 %',
+      met: rate(floor) / rate(baseline) >= 0.6,
+      note: `one: ${rate(floor).toFixed(0)} against ${rate(baseline).toFixed(0)} requests/s; two (readers spread over both, as the proxy does): ${rate(twoFloor).toFixed(0)} against ${rate(twoHealth).toFixed(0)} requests/s`,
+    })
     record({ name: `server peak RSS during the ${READERS}-reader run`, value: mb(peakKb), target: `< ${TARGET_RSS_MB} MB`, met: peakKb / 1024 < TARGET_RSS_MB, note: `${mb(idleKb)} idle before` })
   }
   finally {

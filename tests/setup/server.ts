@@ -27,7 +27,7 @@ export async function startAppServer(env: Record<string, string>, output?: strin
     cwd: root,
     env: {
       ...process.env, HOST: '127.0.0.1', PORT: String(port), APP_URL: `http://127.0.0.1:${port}`,
-      MAIL_FAKE: '1', SMTP_PORT: String(smtpPort), PAYMENTS_FAKE: '1',
+      MAIL_FAKE: '1', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort), LOG_LEVEL: 'warn', PAYMENTS_FAKE: '1',
       MAIL_WORKER_INTERVAL_MS: '500', MAIL_RETRY_BASE_SECONDS: '1', OVERDUE_CHECK_INTERVAL_MS: '1000', ...env,
     },
     stdio: ['ignore', output ? 'pipe' : 'inherit', output ? 'pipe' : 'inherit'],

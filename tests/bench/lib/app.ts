@@ -28,6 +28,8 @@ export async function benchDatabase(): Promise<{ url: string; stop: () => void }
 export interface BenchServer {
   url: string
   pid: number
+  /** the session secret, for a second instance that must accept this one's cookies */
+  sessionPassword: string
   stop: () => Promise<void>
 }
 
@@ -39,14 +41,16 @@ export interface BenchServer {
 export async function startBenchServer(databaseUrl: string, env: Record<string, string> = {}): Promise<BenchServer> {
   if (!existsSync(join(root, '.output/server/index.mjs'))) throw new Error('no build in .output: run `npx nuxt build` (or npm test) first')
   const photoDir = mkdtempSync(join(tmpdir(), 'setline-bench-photos-'))
+  const sessionPassword = env.NUXT_SESSION_PASSWORD ?? randomBytes(24).toString('hex')
   const { url, proc } = await startAppServer({
-    DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: env.NUXT_SESSION_PASSWORD ?? randomBytes(24).toString('hex'),
-    MAIL_FAKE: '0', SMTP_PORT: '9', MAIL_WORKER_INTERVAL_MS: '5000', MAIL_RETRY_BASE_SECONDS: '15',
+    DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword,
+    MAIL_FAKE: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', LOG_LEVEL: 'warn', MAIL_WORKER_INTERVAL_MS: '5000', MAIL_RETRY_BASE_SECONDS: '15',
     OVERDUE_CHECK_INTERVAL_MS: '60000', PHOTO_STORAGE_DIR: photoDir, ...env,
   })
   return {
     url,
     pid: proc.pid!,
+    sessionPassword,
     async stop() {
       if (proc.exitCode === null) {
         const exited = new Promise(r => proc.once('exit', r))

@@ -1,0 +1,107 @@
+// Background work in PostgreSQL, through pg-boss (its tables live in the database's `pgboss`
+// schema, which it creates on first start). Every app instance runs a worker; the queues make
+// each piece of work run once across all of them:
+// - mail-now: asked for when a transaction that queued mail commits (server/utils/mail.ts);
+// - mail-sweep, every MAIL_WORKER_INTERVAL_MS: retries that came due, and mail claimed by an
+//   instance that died;
+// - overdue-check, every OVERDUE_CHECK_INTERVAL_MS: pours past their demould window or missed start;
+// - cleanup, nightly at 03:40 server time: rows whose use is over (server/services/cleanup.ts).
+// The queues are "stately" (pg-boss: at most one job waiting and one running per queue), so a
+// burst of requests coalesces into one run. The repeating ones put their next run in the queue
+// as they start, with startAfter, rather than keeping a timer in every process; pg-boss's cron
+// has a one-minute grain, which the nightly clean-up uses. Each run is recorded in
+// background_runs for the readiness route (GET /api/ready).
+import PgBoss from 'pg-boss'
+import { backgroundRunsRepo } from '../repos/background-runs'
+
+export const JOB_NAMES = ['mail-now', 'mail-sweep', 'overdue-check', 'cleanup'] as const
+export type JobName = typeof JOB_NAMES[number]
+
+export type JobHandlers = Record<JobName, () => Promise<number>>
+
+export interface BackgroundWork {
+  boss: PgBoss
+  /** Puts a run of `name` in the queue (absorbed when one is already waiting). */
+  send(name: JobName, startAfter?: Date): Promise<string | null>
+  stop(): Promise<void>
+}
+
+/** Repeating jobs and how far apart their runs are. */
+function repeats(): Partial<Record<JobName, number>> {
+  const env = appEnv()
+  return { 'mail-sweep': env.MAIL_WORKER_INTERVAL_MS, 'overdue-check': env.OVERDUE_CHECK_INTERVAL_MS }
+}
+
+/**
+ * Starts a pg-boss worker on `connectionString` running `handlers`. Several may run against one
+ * database (one per app instance; tests start two in one process).
+ */
+export async function startBackgroundWork(connectionString: string, handlers: JobHandlers): Promise<BackgroundWork> {
+  const log = useLogger()
+  const boss = new PgBoss({
+    connectionString,
+    max: 3,
+    application_name: 'setline-jobs',
+    // finished jobs are kept a day for looking into, then pg-boss deletes them
+    deleteAfterDays: 1,
+  })
+  boss.on('error', err => log.error({ err: { message: err.message } }, 'job queue'))
+  await boss.start()
+  const every = repeats()
+  const send = (name: JobName, startAfter?: Date) =>
+    boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: 15 * 60 }).catch((err: Error) => {
+      log.error({ job: name, err: { message: err.message } }, 'job not queued')
+      return null
+    })
+  for (const name of JOB_NAMES) {
+    await boss.createQueue(name, { name, policy: 'stately' })
+    const pollingIntervalSeconds = name.startsWith('mail') ? 0.5 : 2
+    await boss.work(name, { pollingIntervalSeconds }, async () => {
+      const gap = every[name]
+      if (gap) await send(name, new Date(Date.now() + gap))
+      const db = useDb()
+      await backgroundRunsRepo.started(db, name)
+      try {
+        const items = await handlers[name]()
+        await backgroundRunsRepo.finished(db, name, true, items)
+        if (items) log.info({ job: name, items }, 'background run')
+      }
+      catch (err) {
+        await backgroundRunsRepo.finished(db, name, false, 0).catch(() => {})
+        log.error({ job: name, err: { message: err instanceof Error ? err.message : String(err) } }, 'background run failed')
+      }
+    })
+  }
+  // the first run of each repeating job; absorbed when an instance already queued one
+  for (const name of Object.keys(every) as JobName[]) await send(name)
+  await boss.schedule('cleanup', '40 3 * * *', {}, { tz: Intl.DateTimeFormat().resolvedOptions().timeZone })
+  return {
+    boss,
+    send,
+    async stop() {
+      await boss.stop({ graceful: true, timeout: 5000, wait: true })
+    },
+  }
+}
+
+let current: BackgroundWork | undefined
+let pendingKick = false
+
+/** This process's background work, once the plugin started it (server/plugins/jobs.ts). */
+export function setBackgroundWork(work: BackgroundWork | undefined) {
+  current = work
+  if (work && pendingKick) {
+    pendingKick = false
+    void work.send('mail-now')
+  }
+}
+
+export function currentBackgroundWork() {
+  return current
+}
+
+/** Asks the queue to send mail now (after the transaction that queued it committed). */
+export function kickMailDelivery() {
+  if (current) void current.send('mail-now')
+  else pendingKick = true
+}
