@@ -7,7 +7,7 @@ export default defineNitroPlugin(async (nitro) => {
   if (!env.PAYMENTS_FAKE) return
   const fake = await startPaymentsFake({ port: env.PAYMENTS_FAKE_PORT, webhookUrl: `${env.APP_URL}/api/payments/webhook`, webhookSecret: FAKE_WEBHOOK_SECRET })
   setCurrentPaymentsFake(fake)
-  console.log(`setline: payments fake listening on ${fake.baseUrl} (no real money)`)
+  useLogger().info({ url: fake.baseUrl }, 'payments fake listening (no real money)')
   nitro.hooks.hook('close', async () => {
     await currentPaymentsFake()?.close()
     setCurrentPaymentsFake(undefined)

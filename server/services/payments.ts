@@ -126,7 +126,7 @@ export type WebhookOutcome = 'paid' | 'refunded' | 'replay' | 'amount mismatch' 
 export async function handlePaymentWebhook(raw: string, signature: string | undefined): Promise<{ outcome: WebhookOutcome }> {
   const event = verifiedEvent(raw, signature)
   if (!event) {
-    console.warn('payments webhook: refused, bad or missing signature')
+    useLogger().warn({ webhook: 'payments' }, 'payments webhook refused: bad or missing signature')
     throw createError({ statusCode: 400, message: 'Signature does not match' })
   }
   const outcome = await useDb().transaction(async (trx): Promise<WebhookOutcome> => {
@@ -155,7 +155,7 @@ export async function handlePaymentWebhook(raw: string, signature: string | unde
     throw e
   })
   if (outcome === 'amount mismatch' || outcome === 'unknown payment' || outcome === 'replay') {
-    console.warn(`payments webhook: ${event.type} ${event.id} changed nothing (${outcome})`)
+    useLogger().warn({ webhook: 'payments', type: event.type, eventId: event.id, outcome }, 'payments webhook changed nothing')
   }
   return { outcome }
 }
