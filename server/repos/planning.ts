@@ -11,7 +11,7 @@ export const COUNTED_POUR = `p.state <> 'void' AND NOT EXISTS (SELECT 1 FROM pie
 
 export const planningRepo = {
   moulds(db: Knex, workshopId: number) {
-    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls')
+    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'profile_id')
       .where({ workshop_id: workshopId }).orderBy('code')
   },
   /**
@@ -22,7 +22,7 @@ export const planningRepo = {
     return db('job_items as i').join('jobs as j', function () {
       this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'i.workshop_id')
     })
-      .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed',
+      .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed', 'i.profile_id',
         'j.code as job_code', 'j.due_on', 'j.sample_required', 'j.sample_state')
       .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.workshop_id = i.workshop_id AND p.job_item_id = i.id AND ${COUNTED_POUR}) AS pours`))
       .where({ 'i.workshop_id': workshopId, 'j.state': 'open' })

@@ -36,7 +36,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     items.push({
       itemId: String(r.id), jobId: String(r.job_id), jobCode: r.job_code, dueOn: r.due_on,
       sampleReleased: !r.sample_required || r.sample_state === 'approved', piecesRemaining: remaining,
-      mouldIds: r.mould_id ? [String(r.mould_id)] : [], grade: model,
+      mouldIds: r.mould_id ? [String(r.mould_id)] : [], profileId: r.profile_id ? String(r.profile_id) : null, grade: model,
       consistency: r.consistency ? Number(r.consistency) : model.consistency.default,
       // the grade's applied calibration (1 until a lead applies one)
       setFactor: appliedSetFactor(gradeCalibrationFromRow(grade)),
@@ -47,6 +47,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     moulds: moulds.map(m => ({
       id: String(m.id), code: m.code, benchId: m.bench_id ? String(m.bench_id) : null, state: m.state, prepMinutes: m.prep_minutes,
       cleanMinutes: m.clean_minutes, maxDwellMinutes: m.max_dwell_minutes, pulls: m.pulls, expectedPulls: m.expected_pulls,
+      profileId: m.profile_id ? String(m.profile_id) : null,
     })),
     existingPours: pours.map(p => ({ mouldId: String(p.mould_id), slotStart: p.slot_start, slotEnd: p.slot_end, casterId: p.caster_id ? String(p.caster_id) : null, mixAt: p.mix_at })),
     shopTempByDay: Object.fromEntries(days.map(d => [d.day, Number(d.temp_c)])),

@@ -18,6 +18,8 @@ export interface PlannerMould {
   maxDwellMinutes: number
   pulls: number
   expectedPulls: number | null
+  /** the profile it casts: an item of that profile may use it (moulds of a profile are identical) */
+  profileId?: string | null
 }
 
 /** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
@@ -31,8 +33,8 @@ export interface PlannerExistingPour {
 
 /**
  * An open job item. `mouldIds`: the item's mould (job_items.mould_id); `alternativeMouldIds`:
- * other moulds that cast the same profile. Together, in that order, they are the candidates
- * (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
+ * other moulds that cast the same profile; then the moulds of `profileId`. Together, in that
+ * order, they are the candidates (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
  */
 export interface PlannerItem {
   itemId: string
@@ -43,6 +45,11 @@ export interface PlannerItem {
   piecesRemaining: number
   mouldIds: string[]
   alternativeMouldIds?: string[]
+  /**
+   * The item's profile: every mould of it is a candidate too, after the named ones, as is every
+   * mould sharing the profile of a named mould. An item naming only a profile is so planned.
+   */
+  profileId?: string | null
   grade: PlasterGrade
   consistency: number
   /** overrides options.setFactor for this item (e.g. a retarder in its mix) */

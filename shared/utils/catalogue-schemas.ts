@@ -98,9 +98,12 @@ export const mouldFields = z.object({
   maxDwellMinutes: numberIn('maxDwellMinutes', 0, 10080, 'min', { int: true }),
   pulls: numberIn('pulls', 0, 100000, 'pulls', { int: true }),
   expectedPulls: numberIn('expectedPulls', 1, 100000, 'pulls', { int: true }).nullable().optional(),
+  profile: optionalText('profile', 120),
 })
 export const mouldCreateSchema = mouldFields
 export const mouldPatchSchema = mouldFields.partial().extend({ version: versionField })
+
+export const profileCreateSchema = z.object({ name: requiredText('name', 120) })
 
 /** A state change needs a reason when the mould leaves service (repair, retired). */
 export const mouldStateSchema = z.object({

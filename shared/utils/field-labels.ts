@@ -31,6 +31,7 @@ export const FIELD_LABELS: Record<string, string> = {
   lotId: 'Plaster lot',
   gradeId: 'Plaster grade',
   mouldId: 'Mould',
+  profile: 'Profile',
   jobItemId: 'Job item',
   casterId: 'Caster',
   benchId: 'Bench',

@@ -36,6 +36,7 @@ function checkMould(m: PlannerMould, i: number): void {
   plannerNumber(m.maxDwellMinutes, `${f}.maxDwellMinutes`, 0, 10080)
   plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
   if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 0, 1e9, true)
+  if (m.profileId != null) plannerString(m.profileId, `${f}.profileId`)
 }
 
 function checkItem(it: PlannerItem, i: number): void {
@@ -52,6 +53,7 @@ function checkItem(it: PlannerItem, i: number): void {
   plannerArray<string>(it.alternativeMouldIds ?? [], `${f}.alternativeMouldIds`)
     .forEach((id, j) => plannerString(id, `${f}.alternativeMouldIds[${j}]`))
   if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
+  if (it.profileId != null) plannerString(it.profileId, `${f}.profileId`)
 }
 
 function checkExisting(p: PlannerExistingPour, i: number): void {

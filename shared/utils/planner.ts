@@ -17,6 +17,9 @@
  *   clean, since the cast comes out only then. Among an item's moulds a placement without that
  *   overnight note wins over one with it on the same shift day;
  * - with `casters` given, a caster gauges one mix at a time;
+ * - an item's candidate moulds are the ones it names, then every mould of its profile and of
+ *   the named moulds' profiles (identical moulds: common practice to cast a run from several);
+ *   an item that names only a profile is planned on that profile's moulds;
  * - each piece goes on the item's mould where it can start earliest (same day: no overnight
  *   note first; then earliest prep start, earliest slot end, the item's mould order).
  * The schedule runs on past `to` for `projectionDays` (default 365) to tell when late jobs
@@ -476,18 +479,33 @@ function summariseJobs(ctx: Ctx, runs: ItemRun[]): PlannerJobOutcome[] {
   })
 }
 
-function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>): ItemRun {
+/** The item's candidate mould ids: named first, then its profile's and its named moulds' profiles'. */
+function candidateIds(item: PlannerItem, byId: Map<string, PlannerMould>, byProfile: Map<string, string[]>): string[] {
+  const ids = [...item.mouldIds, ...(item.alternativeMouldIds ?? [])]
+  const profiles = new Set<string>()
+  if (item.profileId) profiles.add(item.profileId)
+  for (const id of ids) {
+    const p = byId.get(id)?.profileId
+    if (p) profiles.add(p)
+  }
+  for (const p of profiles) ids.push(...(byProfile.get(p) ?? []))
+  return [...new Set(ids)]
+}
+
+function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>, ids: string[]): ItemRun {
   const pieces = item.piecesRemaining
   if (pieces === 0) return { item, placed: [], unplaced: null }
   if (!item.sampleReleased) {
     const msg = 'The job waits for the client to approve its sample cast; the run is not released to the board.'
     return { item, placed: [], unplaced: unplacedOf(item, 'sample-awaiting-approval', pieces, msg) }
   }
-  const ids = [...new Set([...item.mouldIds, ...(item.alternativeMouldIds ?? [])])]
-  ids.forEach(id => named.add(id))
+  item.mouldIds.forEach(id => named.add(id))
+  item.alternativeMouldIds?.forEach(id => named.add(id))
   const candidates = ids.map(id => lanes.get(id)).filter((l): l is Lane => l !== undefined)
   if (candidates.length === 0) {
-    const msg = 'None of the item\'s moulds can be used: unknown, in repair or retired.'
+    const msg = item.mouldIds.length || item.alternativeMouldIds?.length
+      ? 'None of the item\'s moulds can be used: unknown, in repair or retired.'
+      : 'No mould of the item\'s profile can be used: none made yet, or all in repair or retired.'
     return { item, placed: [], unplaced: unplacedOf(item, 'no-usable-mould', pieces, msg) }
   }
   return placeItem(ctx, item, index, candidates)
@@ -506,8 +524,13 @@ export function planPours(input: PlanPoursInput): PlanPoursResult {
   const named = new Set<string>()
   const runs: ItemRun[] = []
   const pours: ProposedPour[] = []
+  const byId = new Map(input.moulds.map(m => [m.id, m]))
+  const byProfile = new Map<string, string[]>()
+  for (const m of input.moulds) {
+    if (m.profileId) byProfile.set(m.profileId, [...(byProfile.get(m.profileId) ?? []), m.id])
+  }
   for (const { item, index } of order) {
-    const run = runItem(ctx, lanes, item, index, named)
+    const run = runItem(ctx, lanes, item, index, named, candidateIds(item, byId, byProfile))
     runs.push(run)
     for (const p of run.placed) {
       if (p.slotStart < ctx.to) pours.push(toProposedPour(ctx, item, p))

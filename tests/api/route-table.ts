@@ -154,6 +154,8 @@ export const ROUTES: RouteRow[] = [
   { route: 'PATCH /api/moulds/[id]', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ casts: 'Matrix edit', version: await s.version('mould') }) },
   { route: 'POST /api/moulds/[id]/state', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ state: 'cleaning', version: await s.version('mould') }) },
   { route: 'GET /api/moulds/export', roles: LEAD },
+  { route: 'GET /api/profiles', roles: STAFF },
+  { route: 'POST /api/profiles', roles: LEAD, body: () => ({ name: `Profile ${rnd()}` }) },
   { route: 'GET /api/import/[kind]/template', roles: LEAD, params: { kind: 'moulds' } },
   { route: 'POST /api/import/[kind]/preview', roles: LEAD, params: { kind: 'moulds' }, form: () => mouldCsv() },
   { route: 'POST /api/import/[kind]/confirm', roles: LEAD, params: { kind: 'moulds' }, form: () => mouldCsv() },
