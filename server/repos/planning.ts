@@ -39,6 +39,10 @@ export const planningRepo = {
   shopDays(db: Knex, workshopId: number, fromDay: string) {
     return db('shop_days').select('day', 'temp_c').where({ workshop_id: workshopId }).where('day', '>=', fromDay)
   },
+  /** Benches with a limit on mixes gauged at once. */
+  benchLimits(db: Knex, workshopId: number): Promise<{ id: number; max_mixes: number }[]> {
+    return db('benches').select('id', 'max_mixes').where({ workshop_id: workshopId }).whereNotNull('max_mixes')
+  },
   casters(db: Knex, workshopId: number) {
     return db('users').select('id').where({ workshop_id: workshopId, role: 'caster' }).whereNull('disabled_at').orderBy('id')
   },

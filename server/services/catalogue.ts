@@ -16,7 +16,7 @@ import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, M
 export const isoOrNull = (d: Date | null): string | null => (d ? d.toISOString() : null)
 
 export function toBench(r: BenchRow): Bench {
-  return { id: r.id, name: r.name, kind: r.kind, lengthM: r.length_m, sortOrder: r.sort_order, archivedAt: isoOrNull(r.archived_at), version: r.version }
+  return { id: r.id, name: r.name, kind: r.kind, lengthM: r.length_m, sortOrder: r.sort_order, archivedAt: isoOrNull(r.archived_at), version: r.version, maxMixes: r.max_mixes }
 }
 
 export async function listBenches(workshopId: number): Promise<Bench[]> {

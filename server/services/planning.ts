@@ -8,6 +8,7 @@ import { planningRepo } from '../repos/planning'
 import { poursRepo } from '../repos/pours'
 import { planPourRow, withOverlapAnswer } from './pours'
 import { loadWorkshop, workshopCalendar } from './workshop'
+import { plannerCalendars } from './calendars'
 import { boardDayStart } from '#shared/utils/board-rules'
 import { planPours } from '#shared/utils/planner'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
@@ -20,9 +21,10 @@ const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_M
 async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string) {
   const start = boardDayStart(from, ws.timezone)
   const end = boardDayStart(nextDay(to), ws.timezone)
-  const [moulds, rows, grades, pours, days, casters] = await Promise.all([
+  const [moulds, rows, grades, pours, days, casters, calendars, benchLimits] = await Promise.all([
     planningRepo.moulds(db, ws.id), planningRepo.openItems(db, ws.id), planningRepo.grades(db, ws.id),
     planningRepo.pours(db, ws.id, start), planningRepo.shopDays(db, ws.id, from), planningRepo.casters(db, ws.id),
+    plannerCalendars(db, ws.id, from), planningRepo.benchLimits(db, ws.id),
   ])
   const gradeById = new Map(grades.map(g => [g.id, g]))
   const descriptions = new Map<string, string>()
@@ -43,7 +45,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     })
   }
   const input: PlanPoursInput = {
-    calendar: workshopCalendar(ws), from: start, to: end, items,
+    calendar: workshopCalendar(ws), from: start, to: end, items, closures: calendars.closures,
     moulds: moulds.map(m => ({
       id: String(m.id), code: m.code, benchId: m.bench_id ? String(m.bench_id) : null, state: m.state, prepMinutes: m.prep_minutes,
       cleanMinutes: m.clean_minutes, maxDwellMinutes: m.max_dwell_minutes, pulls: m.pulls, expectedPulls: m.expected_pulls,
@@ -53,7 +55,11 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     shopTempByDay: Object.fromEntries(days.map(d => [d.day, Number(d.temp_c)])),
     defaultShopTempC: Number(ws.default_shop_temp_c),
     // Never propose a pour in the past: the plan starts now when the range already began.
-    options: { startAt: new Date(Math.max(Date.now(), start.getTime())), casters: casters.map(c => String(c.id)) },
+    options: {
+      startAt: new Date(Math.max(Date.now(), start.getTime())), casters: casters.map(c => String(c.id)),
+      casterCalendars: calendars.casterCalendars,
+      benchMaxMixes: Object.fromEntries(benchLimits.map(b => [String(b.id), b.max_mixes])),
+    },
   }
   return { input, descriptions }
 }

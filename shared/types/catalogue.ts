@@ -55,6 +55,8 @@ export interface Bench {
   sortOrder: number
   archivedAt: string | null
   version: number
+  /** mixes gauged on the bench at once; null: no limit */
+  maxMixes: number | null
 }
 
 /** A mould as GET /api/moulds lists it and POST / PATCH /api/moulds and the state change answer,

@@ -56,13 +56,35 @@ export interface PlannerItem {
   setFactor?: number
 }
 
+/** A span of local days, both ends included ('YYYY-MM-DD'): a shop closure or an absence. */
+export interface PlannerDaySpan {
+  fromDay: string
+  toDay: string
+}
+
+/**
+ * A caster's own week: working days (ISO 1 = Mon … 7 = Sun), hours as local 'HH:MM', and
+ * absences; a field left out is the workshop's. maxMixes: mixes they gauge at once (default 1).
+ */
+export interface PlannerCasterCalendar {
+  workingDays?: number[]
+  shiftStart?: string
+  shiftEnd?: string
+  absences?: PlannerDaySpan[]
+  maxMixes?: number
+}
+
 /** Options; setFactor default 1, startAt default `from`, pourMinutes default POUR_MIX_MINUTES_DEFAULT. */
 export interface PlanPoursOptions {
   setFactor?: number
   startAt?: Date
   pourMinutes?: number
-  /** caster ids; when given, each pour gets a caster free for its whole gauging */
+  /** caster ids; when given, each pour gets a caster free and at work for its whole gauging */
   casters?: string[]
+  /** per caster id: their days, hours, absences and mixes at once (default: the workshop's shift, one mix) */
+  casterCalendars?: Record<string, PlannerCasterCalendar>
+  /** per bench id: how many mixes may be gauged on it at once (a bench not listed: no limit) */
+  benchMaxMixes?: Record<string, number>
   projectionDays?: number
 }
 
@@ -70,10 +92,12 @@ export interface PlanPoursOptions {
  * Input of planPours. shopTempByDay: °C per local date; days missing use defaultShopTempC
  * (default 20 °C, the plaster model's reference). The slurry is taken at the shop's
  * temperature (water and powder stored in the shop: common practice); a day below 0 °C gets
- * no pours (the gauging water would freeze).
+ * no pours (the gauging water would freeze), and a pour on a day from 0 to 5 °C carries a
+ * cold-day caution. closures: days the shop is shut (holidays), no pour is planned on them.
  */
 export interface PlanPoursInput {
   calendar: WorkshopShiftCalendar
+  closures?: PlannerDaySpan[]
   from: Date
   to: Date
   moulds: PlannerMould[]
@@ -126,7 +150,7 @@ export interface PlannerJobOutcome {
 }
 
 /** Why pieces of an item could not be placed at all (not even in the projection). */
-export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon'
+export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon' | 'no-caster'
 
 export interface PlannerUnplaced {
   itemId: string

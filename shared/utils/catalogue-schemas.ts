@@ -79,6 +79,8 @@ export const benchFields = z.object({
   kind: requiredText('kind', 60),
   lengthM: numberIn('lengthM', 0, 50, 'm', { exclusive: true }).nullable().optional(),
   sortOrder: numberIn('sortOrder', 0, 1000, '', { int: true }),
+  /** mixes gauged on the bench at once (the planner keeps to it); null: no limit */
+  maxMixes: numberIn('maxMixes', 1, 100, 'mixes', { int: true }).nullable().optional(),
 })
 export const benchCreateSchema = benchFields
 export const benchPatchSchema = benchFields.partial().extend({

@@ -47,6 +47,12 @@ export const FIELD_LABELS: Record<string, string> = {
   dryingHumidityPct: 'Room humidity',
   expectedPulls: 'Expected pulls',
   dueOn: 'Due on',
+  maxMixes: 'Mixes at once',
+  fromDay: 'From',
+  toDay: 'To',
+  workingDays: 'Working days',
+  shiftStart: 'Shift start',
+  shiftEnd: 'Shift end',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

@@ -16,7 +16,13 @@
  *   shift starts (dwellWarning); such an overnight pour ends its slot at the next shift start +
  *   clean, since the cast comes out only then. Among an item's moulds a placement without that
  *   overnight note wins over one with it on the same shift day;
- * - with `casters` given, a caster gauges one mix at a time;
+ * - shop closures (holidays) have no shift; a day below 0 °C gets no pour and a day from 0 to
+ *   5 °C a cold-day caution (a wet cast can freeze: common practice);
+ * - with `casters` given, every pour books a caster at work for its whole gauging: inside their
+ *   own days and hours (the workshop's unless set), never on an absence or a closure, and at
+ *   most `maxMixes` mixes at once (default 1); when no caster is at work again before the
+ *   horizon ends the pieces are reported as 'no-caster', in words;
+ * - a bench with a mix limit gauges at most that many mixes at once across its moulds;
  * - an item's candidate moulds are the ones it names, then every mould of its profile and of
  *   the named moulds' profiles (identical moulds: common practice to cast a run from several);
  *   an item that names only a profile is planned on that profile's moulds;
@@ -28,7 +34,7 @@
  * Ids are strings (PostgreSQL bigints arrive as strings). Pure: no I/O, no framework import.
  */
 import type {
-  PlanPoursInput, PlanPoursResult, PlannerExistingPour, PlannerItem, PlannerJobOutcome,
+  PlanPoursInput, PlanPoursResult, PlannerDaySpan, PlannerItem, PlannerJobOutcome,
   PlannerMould, PlannerMouldNote, PlannerUnplaced, PlannerUnplacedReason, ProposedPour,
 } from '../types/planner'
 import {
@@ -41,6 +47,7 @@ import {
   type PourTimingMinutes,
 } from './pour-timing'
 import { assertPlanPoursInput } from './planner-input'
+import { PLASTER_FREEZE_WARN_C } from './plaster-drying'
 import { PlanningInputError, shiftWindows, type ShiftWindow } from './workshop-calendar'
 
 const MINUTE_MS = 60_000
@@ -73,6 +80,8 @@ interface Placement {
   outDayIndex: number
   overnight: boolean
   casterId: string | null
+  casterLane: number | null
+  benchLane: number | null
   timing: PourTimingMinutes
   slurryTempC: number
 }
@@ -84,7 +93,10 @@ interface Ctx {
   to: number
   setFactor: number
   pourMinutes: number
-  casters: CasterBook | null
+  casters: Book | null
+  benches: Book | null
+  /** set when a search found mould time but no caster at work for the rest of the horizon */
+  casterShort: boolean
   tempOf: (day: string) => number
   /** per item × mould (itemIndex × mould count + mould order), then per slurry °C */
   timings: Map<number, Map<number, PourTimingMinutes>>
@@ -120,41 +132,131 @@ function mergeIntervals(list: [number, number][]): { starts: number[]; ends: num
   return { starts, ends }
 }
 
-/** Each caster's gauging intervals, so one caster never has two mixes at once. */
-class CasterBook {
-  private readonly lanes: { id: string; starts: number[]; ends: number[] }[]
+/** One lane of a Book: the busy intervals of one caster (or bench) copy, ascending and disjoint. */
+interface BookLane {
+  id: string
+  starts: number[]
+  ends: number[]
+}
 
-  constructor(ids: string[], existing: PlannerExistingPour[], mixMs: number) {
-    this.lanes = ids.map((id) => {
-      const mixes = existing.filter(p => p.casterId === id && p.mixAt)
-        .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
-      return { id, ...mergeIntervals(mixes) }
-    })
+/**
+ * Who or what gauges a mix: casters, or benches with a limit on mixes at once. Each id has as
+ * many lanes as mixes it can gauge at once; a lane is busy during its mixes and, for a caster,
+ * whenever they are not at work (off hours, days off, absences, closures), so "free for the
+ * whole mix" also means "at work for the whole mix".
+ */
+class Book {
+  private readonly lanes: BookLane[] = []
+  private readonly byId = new Map<string, number[]>()
+
+  /** Adds `copies` lanes for `id`: each blocked by `off`; each existing mix on the first lane it fits. */
+  add(id: string, copies: number, off: [number, number][], mixes: [number, number][]): void {
+    const first = this.lanes.length
+    const merged = mergeIntervals(off)
+    for (let c = 0; c < copies; c++) this.lanes.push({ id, starts: [...merged.starts], ends: [...merged.ends] })
+    const own = Array.from({ length: copies }, (_, c) => first + c)
+    this.byId.set(id, own)
+    for (const [s, e] of [...mixes].sort((a, b) => a[0] - b[0])) {
+      const free = own.find(l => this.freeAt(l, s, e - s) === s)
+      if (free !== undefined) this.book(free, s, e)
+      else {
+        // an existing mix that fits no lane (the board allows it): kept on the first lane
+        const lane = this.lanes[first]!
+        const m = mergeIntervals([...lane.starts.map((x, i): [number, number] => [x, lane.ends[i]!]), [s, e]])
+        lane.starts = m.starts
+        lane.ends = m.ends
+      }
+    }
+  }
+
+  has(id: string): boolean {
+    return this.byId.has(id)
+  }
+
+  /** The earliest start ≥ `start` at which the lane is free for `ms` (its intervals walked forward). */
+  private freeAt(l: number, start: number, ms: number): number {
+    const lane = this.lanes[l]!
+    let s = start
+    for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
+      s = Math.max(s, lane.ends[i]!)
+    }
+    return s
   }
 
   /**
-   * A caster free for the whole mix [start, start + ms), or the earliest later start at which
-   * some caster is (each caster's mixes are walked forward to the first gap long enough).
+   * A lane (of `id`, or of any id) free for the whole [start, start + ms), or the earliest later
+   * start at which one is (Infinity: none ever is, e.g. every caster absent to the horizon).
    */
-  pick(start: number, ms: number): { id: string } | { retryAt: number } {
+  pick(start: number, ms: number, id?: string): { lane: number } | { retryAt: number } {
     let retryAt = Infinity
-    for (const lane of this.lanes) {
-      let s = start
-      for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
-        s = Math.max(s, lane.ends[i]!)
-      }
-      if (s === start) return { id: lane.id }
+    const lanes = id === undefined ? this.lanes.map((_, i) => i) : (this.byId.get(id) ?? [])
+    for (const l of lanes) {
+      const s = this.freeAt(l, start, ms)
+      if (s === start) return { lane: l }
       retryAt = Math.min(retryAt, s)
     }
     return { retryAt }
   }
 
-  book(id: string, start: number, end: number): void {
-    const lane = this.lanes.find(l => l.id === id)!
+  idOf(lane: number): string {
+    return this.lanes[lane]!.id
+  }
+
+  book(l: number, start: number, end: number): void {
+    const lane = this.lanes[l]!
     const i = firstEndAfter(lane.ends, start)
     lane.starts.splice(i, 0, start)
     lane.ends.splice(i, 0, end)
   }
+}
+
+const dayIn = (day: string, spans: readonly PlannerDaySpan[]) => spans.some(s => day >= s.fromDay && day <= s.toDay)
+
+/**
+ * Each caster's lanes: off whenever they are not at work. Their windows are the workshop's
+ * calendar with their own days and hours, less their absences and the shop's closures.
+ */
+function casterBook(input: PlanPoursInput, casters: string[], shop: Win[], horizon: { from: Date; to: Date }, mixMs: number): Book {
+  const book = new Book()
+  const cals = input.options?.casterCalendars ?? {}
+  const closures = input.closures ?? []
+  for (const id of casters) {
+    const c = cals[id] ?? {}
+    // a caster on the shop's own days and hours shares its windows (already without closures)
+    const own = c.workingDays || c.shiftStart || c.shiftEnd
+      ? shiftWindows({
+          timezone: input.calendar.timezone, shiftStart: c.shiftStart ?? input.calendar.shiftStart, shiftEnd: c.shiftEnd ?? input.calendar.shiftEnd,
+          workingDays: c.workingDays ?? input.calendar.workingDays, ...horizon,
+        }).filter(w => !dayIn(w.day, closures)).map((w): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
+      : shop
+    const absences = c.absences ?? []
+    const off: [number, number][] = []
+    let last = -Infinity
+    for (const w of own) {
+      if (absences.length && dayIn(w.day, absences)) continue
+      off.push([last, w.start])
+      last = w.end
+    }
+    off.push([last, Infinity])
+    const mixes = input.existingPours.filter(p => p.casterId === id && p.mixAt)
+      .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
+    book.add(id, c.maxMixes ?? 1, off, mixes)
+  }
+  return book
+}
+
+/** Benches with a limit on mixes at once; the existing pours' mixes on their moulds taken first. */
+function benchBook(input: PlanPoursInput, mixMs: number): Book | null {
+  const limits = input.options?.benchMaxMixes ?? {}
+  if (Object.keys(limits).length === 0) return null
+  const benchOf = new Map(input.moulds.map(m => [m.id, m.benchId]))
+  const book = new Book()
+  for (const [id, n] of Object.entries(limits)) {
+    const mixes = input.existingPours.filter(p => p.mixAt && benchOf.get(p.mouldId) === id)
+      .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
+    book.add(id, n, [], mixes)
+  }
+  return book
 }
 
 /** End of the first existing pour on the lane that overlaps [start, end), or −1. */
@@ -245,12 +347,25 @@ function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: numb
       t = ceilMinute(busyEnd)
       continue
     }
-    const caster = ctx.casters?.pick(fit.mixAt, m.mixMinutes * MINUTE_MS) ?? { id: null }
+    const mixMs = m.mixMinutes * MINUTE_MS
+    const bench = lane.mould.benchId !== null && ctx.benches?.has(lane.mould.benchId)
+      ? ctx.benches.pick(fit.mixAt, mixMs, lane.mould.benchId)
+      : { lane: null }
+    if ('retryAt' in bench) {
+      t = ceilMinute(bench.retryAt - m.prepMinutes * MINUTE_MS)
+      continue
+    }
+    const caster = ctx.casters?.pick(fit.mixAt, mixMs) ?? { lane: null }
     if ('retryAt' in caster) {
+      if (caster.retryAt === Infinity) {
+        ctx.casterShort = true
+        return null
+      }
       t = ceilMinute(caster.retryAt - m.prepMinutes * MINUTE_MS)
       continue
     }
-    return { ...fit, lane, dayIndex: d, casterId: caster.id, timing: m, slurryTempC }
+    const casterId = caster.lane === null ? null : ctx.casters!.idOf(caster.lane)
+    return { ...fit, lane, dayIndex: d, casterId, casterLane: caster.lane, benchLane: bench.lane, timing: m, slurryTempC }
   }
   return null
 }
@@ -271,13 +386,19 @@ function commitPlacement(ctx: Ctx, p: Placement): void {
   lane.planned++
   const life = lane.mould.expectedPulls
   if (life !== null && lane.mould.pulls + lane.planned >= life) lane.worn = true
-  if (p.casterId !== null) ctx.casters!.book(p.casterId, p.mixAt, p.mixAt + p.timing.mixMinutes * MINUTE_MS)
+  const mixEnd = p.mixAt + p.timing.mixMinutes * MINUTE_MS
+  if (p.casterLane !== null) ctx.casters!.book(p.casterLane, p.mixAt, mixEnd)
+  if (p.benchLane !== null) ctx.benches!.book(p.benchLane, p.mixAt, mixEnd)
 }
 
 function toProposedPour(ctx: Ctx, item: PlannerItem, p: Placement): ProposedPour {
   const at = pourTimingAt(new Date(p.mixAt), p.timing)
   const m = p.lane.mould
   const warnings = [...at.warnings]
+  if (p.slurryTempC < PLASTER_FREEZE_WARN_C) {
+    warnings.push(`A cold day (${p.slurryTempC} °C in the shop): the set is slow and a wet cast can freeze. Warm the water and `
+      + 'the shop or move the pour; follow your shop\'s cold-weather practice.')
+  }
   if (p.overnight) {
     warnings.push(`The demould window opens after the shift ends; the cast stays in the mould until the shift of ${ctx.wins[p.outDayIndex]!.day} starts.`)
   }
@@ -316,20 +437,34 @@ function unplacedOf(item: PlannerItem, reason: PlannerUnplacedReason, pieces: nu
 
 /**
  * After a commit, drops the remembered placements it spoils: the committed mould's, and any
- * that counted on the same caster for an overlapping mix and finds no other caster free then
- * (one that does just changes caster). The rest stay the earliest on their mould, because a
- * commit only ever takes mould and caster time away.
+ * that counted on the same caster or bench lane for an overlapping mix and finds no other one
+ * free then (one that does just changes lane). The rest stay the earliest on their mould,
+ * because a commit only ever takes mould, caster and bench time away.
  */
 function forgetSpoiled(ctx: Ctx, known: Map<Lane, Placement | null>, done: Placement): void {
   known.delete(done.lane)
-  if (done.casterId === null) return
+  if (done.casterLane === null && done.benchLane === null) return
   const end = done.mixAt + done.timing.mixMinutes * MINUTE_MS
   for (const [lane, p] of known) {
-    const ms = p ? p.timing.mixMinutes * MINUTE_MS : 0
-    if (!p || p.casterId !== done.casterId || p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
-    const other = ctx.casters!.pick(p.mixAt, ms)
-    if ('id' in other) p.casterId = other.id
-    else known.delete(lane)
+    if (!p) continue
+    const ms = p.timing.mixMinutes * MINUTE_MS
+    if (p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
+    if (done.casterLane !== null && p.casterLane === done.casterLane) {
+      const other = ctx.casters!.pick(p.mixAt, ms)
+      if ('lane' in other) {
+        p.casterLane = other.lane
+        p.casterId = ctx.casters!.idOf(other.lane)
+      }
+      else {
+        known.delete(lane)
+        continue
+      }
+    }
+    if (done.benchLane !== null && p.benchLane === done.benchLane) {
+      const other = ctx.benches!.pick(p.mixAt, ms, p.lane.mould.benchId!)
+      if ('lane' in other) p.benchLane = other.lane
+      else known.delete(lane)
+    }
   }
 }
 
@@ -345,6 +480,7 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
     const left = item.piecesRemaining - n
     let best: Placement | null = null
     let usable = 0
+    ctx.casterShort = false
     for (const lane of lanes) {
       if (lane.worn) continue
       usable++
@@ -355,6 +491,11 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
     if (usable === 0) {
       const msg = `Every mould for this item has reached its expected life; ${left} piece(s) need a new or repaired mould.`
       return { item, placed, unplaced: unplacedOf(item, 'mould-life-reached', left, msg) }
+    }
+    if (!best && ctx.casterShort) {
+      const msg = `No caster is at work when ${left} piece(s) could be cast: every caster is off, absent or busy to the end of `
+        + 'the planning horizon. Check casters\' hours and absences, or add a caster.'
+      return { item, placed, unplaced: unplacedOf(item, 'no-caster', left, msg) }
     }
     if (!best) {
       const msg = `No free mould time inside shift hours within the planning horizon for ${left} piece(s).`
@@ -406,7 +547,11 @@ function buildCtx(input: PlanPoursInput): Ctx {
   const from = input.from.getTime()
   const to = input.to.getTime()
   const projectionDays = o.projectionDays ?? 365
-  const wins = shiftWindows({ ...input.calendar, from: input.from, to: new Date(to + projectionDays * DAY_MS) })
+  const horizon = { from: input.from, to: new Date(to + projectionDays * DAY_MS) }
+  const closures = input.closures ?? []
+  // a closed day (holiday) has no shift: a cast held overnight waits for the next open one
+  const wins = shiftWindows({ ...input.calendar, ...horizon })
+    .filter(w => !dayIn(w.day, closures))
     .map((w: ShiftWindow): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
   const pourMinutes = o.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT
   const temps = input.shopTempByDay ?? {}
@@ -418,7 +563,9 @@ function buildCtx(input: PlanPoursInput): Ctx {
     to,
     setFactor: o.setFactor ?? 1,
     pourMinutes,
-    casters: o.casters?.length ? new CasterBook(o.casters, input.existingPours, pourMinutes * MINUTE_MS) : null,
+    casters: o.casters?.length ? casterBook(input, o.casters, wins, horizon, pourMinutes * MINUTE_MS) : null,
+    benches: benchBook(input, pourMinutes * MINUTE_MS),
+    casterShort: false,
     tempOf: day => (Object.hasOwn(temps, day) ? temps[day]! : defaultTemp),
     timings: new Map(),
     setMinutes: new Map(),

@@ -6,7 +6,7 @@ import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import { planPours } from '#shared/utils/planner'
 import type { PlanPoursInput, PlannerItem, PlannerMould } from '#shared/types/planner'
-import { baseInput, expectInsideShifts, expectNoOverlaps, item, mould } from './planner-helpers'
+import { MIN, baseInput, expectInsideShifts, expectNoOverlaps, item, mould } from './planner-helpers'
 
 describe('profiles', () => {
   it('plans an item that names only a profile on the profile\'s moulds', () => {
@@ -89,6 +89,139 @@ describe('profiles: properties', () => {
         const refused = result.unplaced.some(u => u.itemId === it.itemId && u.reason === 'no-usable-mould')
         expect(refused, `item ${it.itemId}`).toBe(!usable)
       }
+    }))
+  })
+})
+
+describe('calendars and people', () => {
+  it('plans nothing on a shop closure: a holiday Monday moves the pour to Tuesday', () => {
+    const result = planPours(baseInput({ items: [item('i1')], closures: [{ fromDay: '2026-12-07', toDay: '2026-12-07' }] }))
+    expect(result.pours.map(p => p.day)).toEqual(['2026-12-08'])
+  })
+
+  it('books a caster only inside their own hours and never on an absence', () => {
+    const result = planPours(baseInput({
+      moulds: [mould('1'), mould('2')],
+      items: [item('i1', { piecesRemaining: 2, mouldIds: ['1', '2'] })],
+      options: {
+        casters: ['c1', 'c2'],
+        casterCalendars: {
+          // c1 is away Monday; c2 starts at 10:00 (GMT in December)
+          c1: { absences: [{ fromDay: '2026-12-07', toDay: '2026-12-07' }] },
+          c2: { shiftStart: '10:00' },
+        },
+      },
+    }))
+    expect(result.pours.map(p => [p.casterId, p.day])).toEqual([['c2', '2026-12-07'], ['c2', '2026-12-07']])
+    for (const p of result.pours) expect(p.mixAt.getTime()).toBeGreaterThanOrEqual(Date.parse('2026-12-07T10:00:00Z'))
+  })
+
+  it('lets a caster gauge two mixes at once only when they may', () => {
+    const input = (maxMixes: number) => baseInput({
+      moulds: [mould('1'), mould('2')],
+      items: [item('i1', { piecesRemaining: 2, mouldIds: ['1', '2'] })],
+      options: { casters: ['c1'], casterCalendars: { c1: { maxMixes } } },
+    })
+    const one = planPours(input(1)).pours.map(p => p.mixAt.getTime())
+    const two = planPours(input(2)).pours.map(p => p.mixAt.getTime())
+    // prep 10 min from 07:30; one caster, one mix at a time: the second mix waits the 5-minute gauging
+    expect(one[1]! - one[0]!).toBe(5 * MIN)
+    expect(two[1]).toBe(two[0])
+  })
+
+  it('keeps a bench to its mixes at once', () => {
+    const result = planPours(baseInput({
+      moulds: [mould('1', { benchId: 'b1' }), mould('2', { benchId: 'b1' })],
+      items: [item('i1', { piecesRemaining: 2, mouldIds: ['1', '2'] })],
+      options: { benchMaxMixes: { b1: 1 } },
+    }))
+    const [a, b] = result.pours.map(p => p.mixAt.getTime())
+    expect(b! - a!).toBe(5 * MIN)
+  })
+
+  it('says in words when no caster can cast the pieces', () => {
+    const result = planPours(baseInput({
+      items: [item('i1', { piecesRemaining: 2 })],
+      options: { casters: ['c1'], projectionDays: 3, casterCalendars: { c1: { absences: [{ fromDay: '2026-12-01', toDay: '2027-01-31' }] } } },
+    }))
+    expect(result.pours).toEqual([])
+    expect(result.unplaced).toMatchObject([{ itemId: 'i1', reason: 'no-caster', pieces: 2 }])
+    expect(result.unplaced[0]!.message).toMatch(/No caster is at work/)
+  })
+
+  it('skips a day below 0 °C and cautions on a day from 0 to 5 °C', () => {
+    const result = planPours(baseInput({
+      items: [item('i1', { piecesRemaining: 1 }), item('i2', { piecesRemaining: 1, jobId: 'j2', jobCode: 'J-002', mouldIds: ['2'] })],
+      moulds: [mould('1'), mould('2')],
+      shopTempByDay: { '2026-12-07': -1, '2026-12-08': 3 },
+    }))
+    expect(result.pours.map(p => p.day)).toEqual(['2026-12-08', '2026-12-08'])
+    for (const p of result.pours) expect(p.warnings.join(' ')).toMatch(/cold day \(3 °C/)
+  })
+})
+
+const absenceArb = fc.record({ from: fc.integer({ min: 0, max: 8 }), len: fc.integer({ min: 0, max: 3 }) })
+  .map(({ from, len }) => {
+    const d = (n: number) => new Date(Date.UTC(2026, 11, 7 + n)).toISOString().slice(0, 10)
+    return { fromDay: d(from), toDay: d(from + len) }
+  })
+
+const peopleShopArb = fc.record({
+  casters: fc.array(fc.record({
+    start: fc.integer({ min: 7 * 60 + 30, max: 12 * 60 }),
+    length: fc.integer({ min: 60, max: 8 * 60 }),
+    days: fc.uniqueArray(fc.integer({ min: 1, max: 7 }), { minLength: 1, maxLength: 7 }),
+    absences: fc.array(absenceArb, { maxLength: 2 }),
+    maxMixes: fc.integer({ min: 1, max: 2 }),
+  }), { minLength: 1, maxLength: 3 }),
+  closures: fc.array(absenceArb, { maxLength: 2 }),
+  pieces: fc.array(fc.integer({ min: 0, max: 8 }), { minLength: 1, maxLength: 4 }),
+  moulds: fc.integer({ min: 1, max: 4 }),
+}).map(({ casters, closures, pieces, moulds }) => {
+  const clock = (m: number) => `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`
+  const ids = Array.from({ length: moulds }, (_, i) => String(i + 1))
+  const casterCalendars = Object.fromEntries(casters.map((c, i) => [`c${i + 1}`, {
+    shiftStart: clock(c.start), shiftEnd: clock(Math.min(c.start + c.length, 23 * 60 + 59)), workingDays: c.days, absences: c.absences, maxMixes: c.maxMixes,
+  }]))
+  return baseInput({
+    moulds: ids.map(id => mould(id, { profileId: 'p' })),
+    items: pieces.map((n, i) => item(`i${i + 1}`, { piecesRemaining: n, mouldIds: [], profileId: 'p' })),
+    closures,
+    options: { casters: Object.keys(casterCalendars), casterCalendars, projectionDays: 6 },
+  })
+})
+
+describe('calendars and people: properties', () => {
+  it('every pour has a caster at work for its whole mix, on no absence or closure, within their mixes at once', () => {
+    fc.assert(fc.property(peopleShopArb, (input) => {
+      const result = planPours(input)
+      expectNoOverlaps(input, result)
+      expectInsideShifts(input, result)
+      const cals = input.options!.casterCalendars!
+      const mixes = new Map<string, number[]>()
+      for (const p of result.pours) {
+        expect(p.casterId).not.toBeNull()
+        const c = cals[p.casterId!]!
+        expect(c.absences!.some(a => p.day >= a.fromDay && p.day <= a.toDay), `${p.casterId} absent on ${p.day}`).toBe(false)
+        expect(input.closures!.some(a => p.day >= a.fromDay && p.day <= a.toDay), `closed on ${p.day}`).toBe(false)
+        const weekday = new Date(`${p.day}T12:00:00Z`).getUTCDay() || 7
+        expect(c.workingDays).toContain(weekday)
+        // London in December is GMT: the caster's local hours are UTC hours
+        const [sh, sm] = c.shiftStart!.split(':').map(Number)
+        const [eh, em] = c.shiftEnd!.split(':').map(Number)
+        const dayStart = Date.parse(`${p.day}T00:00:00Z`)
+        expect(p.mixAt.getTime()).toBeGreaterThanOrEqual(dayStart + (sh! * 60 + sm!) * MIN)
+        expect(p.mixAt.getTime() + 5 * MIN).toBeLessThanOrEqual(dayStart + (eh! * 60 + em!) * MIN)
+        mixes.set(p.casterId!, [...(mixes.get(p.casterId!) ?? []), p.mixAt.getTime()])
+      }
+      for (const [id, list] of mixes) {
+        for (const t of list) {
+          const atOnce = list.filter(u => u < t + 5 * MIN && t < u + 5 * MIN).length
+          expect(atOnce, `${id} mixes at once`).toBeLessThanOrEqual(cals[id]!.maxMixes!)
+        }
+      }
+      // pieces left out for want of a caster are said so in words
+      for (const u of result.unplaced) if (u.reason === 'no-caster') expect(u.message).toMatch(/caster/)
     }))
   })
 })
