@@ -11,7 +11,7 @@ export const COUNTED_POUR = `p.state <> 'void' AND NOT EXISTS (SELECT 1 FROM pie
 
 export const planningRepo = {
   moulds(db: Knex, workshopId: number) {
-    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'profile_id')
+    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'profile_id', 'cavity_litres')
       .where({ workshop_id: workshopId }).orderBy('code')
   },
   /**

@@ -20,6 +20,11 @@ export interface PlannerMould {
   expectedPulls: number | null
   /** the profile it casts: an item of that profile may use it (moulds of a profile are identical) */
   profileId?: string | null
+  /**
+   * Mould work (being made, or away for repair): no pour starts before this instant. A mould in
+   * repair with a return date is planned from it; one in repair without is not planned.
+   */
+  availableFrom?: Date | null
 }
 
 /** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
@@ -54,6 +59,11 @@ export interface PlannerItem {
   consistency: number
   /** overrides options.setFactor for this item (e.g. a retarder in its mix) */
   setFactor?: number
+  /**
+   * Hours from a cast's demould until it is ready to dispatch: fettling and drying in the
+   * drying room (default 0: the demould itself); null when the room would never dry it.
+   */
+  readyHours?: number | null
 }
 
 /** A span of local days, both ends included ('YYYY-MM-DD'): a shop closure or an absence. */
@@ -132,11 +142,13 @@ export interface ProposedPour {
 }
 
 /**
- * Per job. finishesOn: local date the job's last cast comes out of its mould (fettling and
- * drying follow and are not planned here), when every piece is placed before `to`;
- * projectedDate: the same date from the schedule continued past `to` (null when some piece
- * cannot be placed at all, e.g. a sample still awaiting approval). onTime: projectedDate ≤ dueOn
- * (any date when dueOn is null); a job with nothing left to cast is on time with no dates.
+ * Per job. readyAt: when its last piece is expected ready to dispatch (the last demould plus the
+ * item's readyHours: fettling and drying), from the schedule continued past `to`; null when
+ * some piece cannot be placed at all (e.g. a sample still awaiting approval) or would never dry.
+ * projectedDate: readyAt's local date; finishesOn: the same when every piece is cast before
+ * `to`. onTime: projectedDate ≤ dueOn (any date when dueOn is null); a job with nothing left to
+ * cast is on time with no dates. waitsFor: the mould work its last piece waits for, in words;
+ * note: why there is no date, in words.
  */
 export interface PlannerJobOutcome {
   jobId: string
@@ -147,6 +159,9 @@ export interface PlannerJobOutcome {
   finishesOn: string | null
   onTime: boolean
   projectedDate: string | null
+  readyAt: Date | null
+  waitsFor: string | null
+  note: string | null
 }
 
 /** Why pieces of an item could not be placed at all (not even in the projection). */

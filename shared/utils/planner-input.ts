@@ -37,6 +37,7 @@ function checkMould(m: PlannerMould, i: number): void {
   plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
   if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 0, 1e9, true)
   if (m.profileId != null) plannerString(m.profileId, `${f}.profileId`)
+  if (m.availableFrom != null) assertPlanningDate(m.availableFrom, `${f}.availableFrom`)
 }
 
 function checkItem(it: PlannerItem, i: number): void {
@@ -54,6 +55,7 @@ function checkItem(it: PlannerItem, i: number): void {
     .forEach((id, j) => plannerString(id, `${f}.alternativeMouldIds[${j}]`))
   if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
   if (it.profileId != null) plannerString(it.profileId, `${f}.profileId`)
+  if (it.readyHours != null) plannerNumber(it.readyHours, `${f}.readyHours`, 0, 24 * 365)
 }
 
 function checkExisting(p: PlannerExistingPour, i: number): void {

@@ -28,11 +28,16 @@
  *   an item that names only a profile is planned on that profile's moulds;
  * - each piece goes on the item's mould where it can start earliest (same day: no overnight
  *   note first; then earliest prep start, earliest slot end, the item's mould order).
+ * - a mould under mould work (being made, or away for repair with a return date) takes no pour
+ *   before its available-from instant; a job that casts in it on that day says it waits for it;
+ * - a job's date is when its last piece is ready to dispatch: the last demould plus the item's
+ *   readyHours (fettling and drying from the drying model, given by the caller), not the demould.
  * The schedule runs on past `to` for `projectionDays` (default 365) to tell when late jobs
  * would finish; only pours starting before `to` are returned.
  *
  * Ids are strings (PostgreSQL bigints arrive as strings). Pure: no I/O, no framework import.
  */
+import { DateTime } from 'luxon'
 import type {
   PlanPoursInput, PlanPoursResult, PlannerDaySpan, PlannerItem, PlannerJobOutcome,
   PlannerMould, PlannerMouldNote, PlannerUnplaced, PlannerUnplacedReason, ProposedPour,
@@ -52,6 +57,7 @@ import { PlanningInputError, shiftWindows, type ShiftWindow } from './workshop-c
 
 const MINUTE_MS = 60_000
 const DAY_MS = 86_400_000
+const HOUR_MS = 3_600_000
 const ceilMinute = (t: number) => Math.ceil(t / MINUTE_MS) * MINUTE_MS
 
 interface Lane {
@@ -63,6 +69,8 @@ interface Lane {
   busyPtr: number
   planned: number
   worn: boolean
+  /** no pour starts before this (mould work); -Infinity when the mould is free now */
+  availableFrom: number
 }
 
 interface Win {
@@ -326,7 +334,7 @@ function fitInShift(ctx: Ctx, d: number, t: number, m: PourTimingMinutes): Shift
 /** The earliest placement of one piece of `item` on `lane` at or after its cursor, or null within the horizon. */
 function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number): Placement | null {
   const wins = ctx.wins
-  let t = ceilMinute(Math.max(lane.cursor, ctx.earliest))
+  let t = ceilMinute(Math.max(lane.cursor, ctx.earliest, lane.availableFrom))
   let d = firstEndAfter(ctx.winEnds, t)
   while (d < wins.length) {
     const w = wins[d]!
@@ -534,10 +542,12 @@ function buildLanes(input: PlanPoursInput): Map<string, Lane> {
   }
   const lanes = new Map<string, Lane>()
   input.moulds.forEach((mould, order) => {
-    if (mould.state === 'repair' || mould.state === 'retired') return
+    // a mould away for repair comes back on its return date; without one it is not planned
+    if (mould.state === 'retired' || (mould.state === 'repair' && !mould.availableFrom)) return
     const { starts, ends } = mergeIntervals(busy.get(mould.id) ?? [])
     const worn = mould.expectedPulls !== null && mould.pulls >= mould.expectedPulls
-    lanes.set(mould.id, { mould, order, cursor: -Infinity, busyStart: starts, busyEnd: ends, busyPtr: 0, planned: 0, worn })
+    const availableFrom = mould.availableFrom ? mould.availableFrom.getTime() : -Infinity
+    lanes.set(mould.id, { mould, order, cursor: -Infinity, busyStart: starts, busyEnd: ends, busyPtr: 0, planned: 0, worn, availableFrom })
   })
   return lanes
 }
@@ -577,7 +587,7 @@ function mouldNotes(input: PlanPoursInput, lanes: Map<string, Lane>, named: Set<
   const notes: PlannerMouldNote[] = []
   for (const m of input.moulds) {
     if (!named.has(m.id)) continue
-    if (m.state === 'repair' || m.state === 'retired') {
+    if ((m.state === 'repair' && !m.availableFrom) || m.state === 'retired') {
       notes.push({ mouldId: m.id, code: m.code, reason: m.state, message: `Mould ${m.code} is ${m.state === 'repair' ? 'in repair' : 'retired'}: not planned.` })
     }
     const lane = lanes.get(m.id)
@@ -592,37 +602,60 @@ function mouldNotes(input: PlanPoursInput, lanes: Map<string, Lane>, named: Set<
 
 interface JobTally {
   out: PlannerJobOutcome
-  last: string | null
+  readyAt: number
+  waits: { at: number; code: string } | null
   complete: boolean
   inRange: boolean
+  neverDries: boolean
 }
 
-/** Per job, in planning order: pieces planned before `to`, and the day its last cast comes out. */
-function summariseJobs(ctx: Ctx, runs: ItemRun[]): PlannerJobOutcome[] {
+/** The local date of an instant in the workshop's zone. */
+const localDay = (t: number, zone: string) => DateTime.fromMillis(t, { zone }).toISODate()!
+
+/**
+ * Per job, in planning order: pieces planned before `to`, and when its last piece is ready to
+ * dispatch: each cast's demould (the window's opening, or the next shift start for a cast held
+ * overnight) plus its item's readyHours (fettling and drying, worked out by the caller from the
+ * drying model), the latest of them.
+ */
+function summariseJobs(ctx: Ctx, runs: ItemRun[], zone: string): PlannerJobOutcome[] {
   const jobs = new Map<string, JobTally>()
   for (const { item, placed, unplaced } of runs) {
     let j = jobs.get(item.jobId)
     if (!j) {
-      const out = { jobId: item.jobId, jobCode: item.jobCode, dueOn: item.dueOn, piecesPlanned: 0, piecesRemaining: 0, finishesOn: null, onTime: false, projectedDate: null }
-      j = { out, last: null, complete: true, inRange: true }
+      const out: PlannerJobOutcome = {
+        jobId: item.jobId, jobCode: item.jobCode, dueOn: item.dueOn, piecesPlanned: 0, piecesRemaining: 0, finishesOn: null, onTime: false,
+        projectedDate: null, readyAt: null, waitsFor: null, note: null,
+      }
+      j = { out, readyAt: -Infinity, waits: null, complete: true, inRange: true, neverDries: false }
       jobs.set(item.jobId, j)
     }
     j.out.piecesRemaining += item.piecesRemaining
     if (unplaced) j.complete = false
+    if (item.readyHours === null && placed.length) j.neverDries = true
     for (const p of placed) {
       if (p.slotStart < ctx.to) j.out.piecesPlanned++
       else j.inRange = false
-      const day = ctx.wins[p.outDayIndex]!.day
-      if (j.last === null || day > j.last) j.last = day
+      const demouldAt = p.slotEnd - p.timing.cleanMinutes * MINUTE_MS
+      const ready = demouldAt + (item.readyHours ?? 0) * HOUR_MS
+      if (ready > j.readyAt) j.readyAt = ready
+      // the job waits for mould work when a cast goes in on the day its mould becomes free
+      const free = p.lane.availableFrom
+      if (free > ctx.earliest && p.slotStart < free + DAY_MS && (!j.waits || free > j.waits.at)) j.waits = { at: free, code: p.lane.mould.code }
     }
   }
-  return [...jobs.values()].map(({ out, last, complete, inRange }) => {
-    // Nothing left to cast: on time, with no date to report.
+  return [...jobs.values()].map(({ out, readyAt, waits, complete, inRange, neverDries }) => {
+    // Nothing left to cast: on time, with no dates to report.
     if (out.piecesRemaining === 0) return { ...out, onTime: true }
-    const projectedDate = complete ? last : null
-    const finishesOn = complete && inRange ? last : null
+    const waitsFor = waits ? `Waits for mould ${waits.code}, available from ${localDay(waits.at, zone)}.` : null
+    if (neverDries) {
+      return { ...out, waitsFor, note: 'The casts will not dry in the drying room\'s conditions: no date until the room is drier or warmer.' }
+    }
+    const dated = complete && readyAt > -Infinity
+    const projectedDate = dated ? localDay(readyAt, zone) : null
+    const finishesOn = dated && inRange ? projectedDate : null
     const onTime = projectedDate !== null && (out.dueOn === null || projectedDate <= out.dueOn)
-    return { ...out, projectedDate, finishesOn, onTime }
+    return { ...out, projectedDate, finishesOn, onTime, readyAt: dated ? new Date(readyAt) : null, waitsFor }
   })
 }
 
@@ -685,5 +718,5 @@ export function planPours(input: PlanPoursInput): PlanPoursResult {
   }
   pours.sort((a, b) => a.slotStart.getTime() - b.slotStart.getTime() || compareIds(a.mouldId, b.mouldId))
   const unplaced = runs.flatMap(r => (r.unplaced ? [r.unplaced] : []))
-  return { pours, jobs: summariseJobs(ctx, runs), unplaced, moulds: mouldNotes(input, lanes, named) }
+  return { pours, jobs: summariseJobs(ctx, runs, input.calendar.timezone), unplaced, moulds: mouldNotes(input, lanes, named) }
 }

@@ -155,6 +155,8 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/moulds', roles: LEAD, body: async s => ({ code: `MX-${rnd()}`, casts: 'Matrix', material: 'silicone', benchId: await s.id('bench'), cavityLitres: 1, prepMinutes: 5, cleanMinutes: 5, maxDwellMinutes: 60, pulls: 0 }) },
   { route: 'GET /api/moulds/[id]', roles: STAFF, ids: { id: 'mould' } },
   { route: 'PATCH /api/moulds/[id]', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ casts: 'Matrix edit', version: await s.version('mould') }) },
+  { route: 'GET /api/moulds/[id]/work', roles: STAFF, ids: { id: 'mould' } },
+  { route: 'PUT /api/moulds/[id]/work', roles: LEAD, ids: { id: 'mould' }, body: () => ({ kind: 'repair', stages: [], startedOn: '2027-03-01', availableFrom: '2027-03-10' }) },
   { route: 'POST /api/moulds/[id]/state', roles: LEAD, ids: { id: 'mould' }, body: async s => ({ state: 'cleaning', version: await s.version('mould') }) },
   { route: 'GET /api/moulds/export', roles: LEAD },
   { route: 'GET /api/profiles', roles: STAFF },

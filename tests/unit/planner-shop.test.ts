@@ -225,3 +225,97 @@ describe('calendars and people: properties', () => {
     }))
   })
 })
+
+describe('mould work', () => {
+  it('never casts in a mould before its available-from date, and the job\'s date waits for it', () => {
+    const availableFrom = new Date('2026-12-10T00:00:00Z')
+    const result = planPours(baseInput({
+      moulds: [mould('1', { availableFrom })],
+      items: [item('i1', { piecesRemaining: 2 })],
+    }))
+    expect(result.pours.map(p => p.day)).toEqual(['2026-12-10', '2026-12-10'])
+    const job = result.jobs[0]!
+    expect(job.projectedDate).toBe('2026-12-10')
+    expect(job.waitsFor).toMatch(/mould M1, available from 2026-12-10/)
+  })
+
+  it('plans a mould in repair from its return date, and not at all without one', () => {
+    const back = planPours(baseInput({ moulds: [mould('1', { state: 'repair', availableFrom: new Date('2026-12-09T00:00:00Z') })], items: [item('i1')] }))
+    expect(back.pours.map(p => p.day)).toEqual(['2026-12-09'])
+    const away = planPours(baseInput({ moulds: [mould('1', { state: 'repair' })], items: [item('i1')] }))
+    expect(away.pours).toEqual([])
+  })
+
+  it('takes a ready mould of the profile rather than wait for a new one', () => {
+    const result = planPours(baseInput({
+      moulds: [mould('1', { profileId: 'p', availableFrom: new Date('2026-12-11T00:00:00Z') }), mould('2', { profileId: 'p' })],
+      items: [item('i1', { mouldIds: [], profileId: 'p', piecesRemaining: 2 })],
+    }))
+    expect(result.pours.every(p => p.mouldId === '2' && p.day === '2026-12-07')).toBe(true)
+    expect(result.jobs[0]!.waitsFor).toBeNull()
+  })
+})
+
+describe('honest finish dates', () => {
+  it('dates the job when its last piece is ready to dispatch, not when it leaves the mould', () => {
+    const input = (readyHours?: number | null) => baseInput({ items: [item('i1', { piecesRemaining: 1, ...(readyHours === undefined ? {} : { readyHours }) })] })
+    const bare = planPours(input())
+    // Monday 7 Dec: prep from 07:30 GMT; the demould is the same day
+    expect(bare.jobs[0]!.projectedDate).toBe('2026-12-07')
+    const demouldAt = bare.jobs[0]!.readyAt!.getTime()
+    // fettling 2 h + drying 70 h (a figure for the test): 72 h after the demould is Thursday 10 Dec
+    const dried = planPours(input(72))
+    expect(dried.jobs[0]!.readyAt!.getTime()).toBe(demouldAt + 72 * 3_600_000)
+    expect(dried.jobs[0]!.projectedDate).toBe('2026-12-10')
+    expect(dried.jobs[0]!.finishesOn).toBe('2026-12-10')
+    // a due date before the pieces are dry is late, even though the cast is out on Monday
+    const late = planPours(baseInput({ items: [item('i1', { dueOn: '2026-12-08', readyHours: 72 })] }))
+    expect(late.jobs[0]!.onTime).toBe(false)
+  })
+
+  it('gives no date when the drying room would never dry the casts, and says why', () => {
+    const result = planPours(baseInput({ items: [item('i1', { readyHours: null })] }))
+    expect(result.jobs[0]!.projectedDate).toBeNull()
+    expect(result.jobs[0]!.note).toMatch(/will not dry/)
+  })
+
+  it('reads the local day of the ready time in the workshop\'s zone', () => {
+    // New York, 07:30 EST = 12:30 UTC; ready 12 h after a demould late in the morning is past midnight UTC but the same local evening
+    const ny = { timezone: 'America/New_York', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
+    const result = planPours(baseInput({ calendar: ny, items: [item('i1', { readyHours: 12 })] }))
+    const readyAt = result.jobs[0]!.readyAt!
+    expect(readyAt.toISOString().slice(0, 10)).toBe('2026-12-08')
+    expect(result.jobs[0]!.projectedDate).toBe('2026-12-07')
+  })
+})
+
+describe('mould work and finish dates: properties', () => {
+  it('no pour before its mould\'s available-from date; every job ready no earlier than its last demould', () => {
+    fc.assert(fc.property(fc.record({
+      avail: fc.array(fc.option(fc.integer({ min: 0, max: 12 })), { minLength: 1, maxLength: 4 }),
+      repair: fc.array(fc.boolean(), { minLength: 4, maxLength: 4 }),
+      pieces: fc.array(fc.integer({ min: 0, max: 5 }), { minLength: 1, maxLength: 4 }),
+      readyHours: fc.integer({ min: 0, max: 200 }),
+    }), ({ avail, repair, pieces, readyHours }) => {
+      const moulds = avail.map((a, i) => mould(String(i + 1), {
+        profileId: 'p', state: repair[i] ? 'repair' : 'ready', availableFrom: a === null ? null : new Date(Date.UTC(2026, 11, 7 + a)),
+      }))
+      const input = baseInput({ moulds, items: pieces.map((n, i) => item(`i${i + 1}`, { jobId: `j${i}`, jobCode: `J-${i}`, mouldIds: [], profileId: 'p', piecesRemaining: n, readyHours })), options: { projectionDays: 20 } })
+      const result = planPours(input)
+      expectNoOverlaps(input, result)
+      const byId = new Map(moulds.map(m => [m.id, m]))
+      for (const p of result.pours) {
+        const m = byId.get(p.mouldId)!
+        if (m.availableFrom) expect(p.slotStart.getTime()).toBeGreaterThanOrEqual(m.availableFrom.getTime())
+        else expect(m.state).not.toBe('repair')
+      }
+      for (const j of result.jobs) {
+        const mine = result.pours.filter(p => p.jobId === j.jobId)
+        if (j.readyAt && mine.length) {
+          const lastOut = Math.max(...mine.map(p => p.demouldOpenAt.getTime()))
+          expect(j.readyAt.getTime()).toBeGreaterThanOrEqual(lastOut + readyHours * 3_600_000)
+        }
+      }
+    }))
+  })
+})
