@@ -22,8 +22,11 @@ export const planningRepo = {
     return db('job_items as i').join('jobs as j', function () {
       this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'i.workshop_id')
     })
-      .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed', 'i.profile_id',
+      .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed',
         'j.code as job_code', 'j.due_on', 'j.sample_required', 'j.sample_state')
+      // the item's profile, linked or named (a profile made after the item still matches by name)
+      .select(db.raw(`COALESCE(i.profile_id, (SELECT pr.id FROM profiles pr WHERE pr.workshop_id = i.workshop_id
+        AND lower(pr.name) = lower(btrim(i.profile)))) AS profile_id`))
       .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.workshop_id = i.workshop_id AND p.job_item_id = i.id AND ${COUNTED_POUR}) AS pours`))
       .where({ 'i.workshop_id': workshopId, 'j.state': 'open' })
       .orderBy(['i.id'])

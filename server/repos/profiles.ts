@@ -26,6 +26,11 @@ export const profilesRepo = {
     const row = await db('profiles').first('id').where({ workshop_id: workshopId }).whereRaw('lower(name) = lower(?)', [clean])
     return Number(row.id)
   },
+  /** The id of the profile of this name (any case), or null: nothing is created. */
+  async find(db: Knex, workshopId: number, name: string): Promise<number | null> {
+    const row = await db('profiles').first('id').where({ workshop_id: workshopId }).whereRaw('lower(name) = lower(?)', [name.trim()])
+    return row ? Number(row.id) : null
+  },
   byId(db: Knex, workshopId: number, id: number): Promise<{ id: number; name: string } | undefined> {
     return db('profiles').first('id', 'name').where({ workshop_id: workshopId, id })
   },

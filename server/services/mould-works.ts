@@ -6,7 +6,8 @@ import { usersRepo } from '../repos/users'
 import { calendarsRepo } from '../repos/calendars'
 import { mouldWorksRepo, type MouldWorkRow } from '../repos/mould-works'
 import { loadWorkshop } from './workshop'
-import { mouldWorkAvailableFrom, type MouldWorkPutInput } from '#shared/utils/mould-work'
+import { mouldWorkAvailableFrom } from '#shared/utils/mould-work'
+import type { MouldWorkPutInput } from '#shared/utils/mould-work-schemas'
 import type { MouldWork } from '#shared/types/mould-work'
 
 const toDto = (r: MouldWorkRow): MouldWork => ({

@@ -5,6 +5,7 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import { planPours } from '#shared/utils/planner'
+import { mouldWorkAvailableFrom } from '#shared/utils/mould-work'
 import type { PlanPoursInput, PlannerItem, PlannerMould } from '#shared/types/planner'
 import { MIN, baseInput, expectInsideShifts, expectNoOverlaps, item, mould } from './planner-helpers'
 
@@ -317,5 +318,21 @@ describe('mould work and finish dates: properties', () => {
         }
       }
     }))
+  })
+})
+
+describe('mould work: available-from day', () => {
+  const stages = [
+    { stage: 'model' as const, leadDays: 1, done: false },
+    { stage: 'running' as const, leadDays: 3, done: false },
+    { stage: 'case' as const, leadDays: 1, done: false },
+  ]
+  it('counts the stages\' lead days on working days and is ready the next working day', () => {
+    // Mon 7 Dec + 5 working days (Mon–Fri) → ready Monday 14 Dec, worked by hand
+    expect(mouldWorkAvailableFrom({ startedOn: '2026-12-07', stages, workingDays: [1, 2, 3, 4, 5] })).toBe('2026-12-14')
+    // a closure on Wednesday 9 pushes the count a day: the fifth working day is Mon 14, ready Tue 15
+    expect(mouldWorkAvailableFrom({ startedOn: '2026-12-07', stages, workingDays: [1, 2, 3, 4, 5], closedDays: ['2026-12-09'] })).toBe('2026-12-15')
+    // stages done no longer count: only the case (1 day) is left, ready Tuesday 8
+    expect(mouldWorkAvailableFrom({ startedOn: '2026-12-07', stages: stages.map((s, i) => ({ ...s, done: i < 2 })), workingDays: [1, 2, 3, 4, 5] })).toBe('2026-12-08')
   })
 })
