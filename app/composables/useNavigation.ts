@@ -21,6 +21,7 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/lead/people', label: 'People', icon: 'users' },
     { to: '/lead/import', label: 'Import', icon: 'upload' },
     { to: '/lead/settings', label: 'Settings', icon: 'settings' },
+    { to: '/lead/calendar', label: 'Shop calendar', icon: 'users' },
     { to: '/lead/mails', label: 'Captured mail', icon: 'mail' },
     { to: '/cautions', label: 'Cautions', icon: 'alert' },
   ],

@@ -2,7 +2,7 @@
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
-export const BENCH_COLUMNS = ['id', 'name', 'kind', 'length_m', 'sort_order', 'archived_at', 'version'] as const
+export const BENCH_COLUMNS = ['id', 'name', 'kind', 'length_m', 'sort_order', 'archived_at', 'version', 'max_mixes'] as const
 
 /** A benches row as BENCH_COLUMNS read it (NUMERIC comes back as a number, see server/utils/db.ts). */
 export interface BenchRow {
@@ -13,9 +13,10 @@ export interface BenchRow {
   sort_order: number
   archived_at: Date | null
   version: number
+  max_mixes: number | null
 }
 
-export interface BenchInput { name?: string; kind?: string; lengthM?: number | null; sortOrder?: number; archived?: boolean }
+export interface BenchInput { name?: string; kind?: string; lengthM?: number | null; sortOrder?: number; archived?: boolean; maxMixes?: number | null }
 
 function toColumns(input: BenchInput, db: Knex) {
   return {
@@ -23,6 +24,7 @@ function toColumns(input: BenchInput, db: Knex) {
     ...(input.kind !== undefined && { kind: input.kind }),
     ...(input.lengthM !== undefined && { length_m: input.lengthM }),
     ...(input.sortOrder !== undefined && { sort_order: input.sortOrder }),
+    ...(input.maxMixes !== undefined && { max_mixes: input.maxMixes }),
     ...(input.archived !== undefined && { archived_at: input.archived ? db.fn.now() : null }),
   }
 }

@@ -2,7 +2,7 @@
 import type { Knex } from 'knex'
 
 export const ITEM_COLUMNS = ['id', 'job_id', 'mould_id', 'profile', 'description', 'quantity', 'run_m', 'walls', 'min_piece_m',
-  'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version'] as const
+  'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version', 'profile_id'] as const
 
 /** A job_items row as ITEM_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
 export interface ItemRow {
@@ -21,6 +21,7 @@ export interface ItemRow {
   consistency: number | null
   sort_order: number
   version: number
+  profile_id: number | null
 }
 /** An item with its mould's code, cavity and cast length and its grade's name. */
 export type ItemListRow = ItemRow & { mould_code: string | null; cavity_litres: number | null; cast_length_m: number | null; grade_name: string | null }

@@ -4,7 +4,7 @@ import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
 export const MOULD_COLUMNS = ['id', 'bench_id', 'code', 'casts', 'material', 'cavity_litres', 'cast_length_m', 'prep_minutes',
   'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'state', 'state_changed_by', 'state_changed_at',
-  'state_reason', 'version'] as const
+  'state_reason', 'version', 'profile_id'] as const
 
 /** A moulds row as MOULD_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
 export interface MouldRow {
@@ -25,9 +25,10 @@ export interface MouldRow {
   state_changed_at: Date | null
   state_reason: string | null
   version: number
+  profile_id: number | null
 }
-/** A mould with its bench's name and the name of who last changed its state. */
-export type MouldListRow = MouldRow & { bench_name: string | null; state_changed_by_name: string | null }
+/** A mould with its bench's name, its profile's name and the name of who last changed its state. */
+export type MouldListRow = MouldRow & { bench_name: string | null; state_changed_by_name: string | null; profile_name: string | null }
 
 export interface MouldPourRow {
   id: number
@@ -64,12 +65,13 @@ export interface MouldInput {
   maxDwellMinutes?: number
   pulls?: number
   expectedPulls?: number | null
+  profileId?: number | null
 }
 
 function toColumns(i: MouldInput) {
   const map: [keyof MouldInput, string][] = [['code', 'code'], ['casts', 'casts'], ['material', 'material'], ['benchId', 'bench_id'],
     ['cavityLitres', 'cavity_litres'], ['castLengthM', 'cast_length_m'], ['prepMinutes', 'prep_minutes'], ['cleanMinutes', 'clean_minutes'],
-    ['maxDwellMinutes', 'max_dwell_minutes'], ['pulls', 'pulls'], ['expectedPulls', 'expected_pulls']]
+    ['maxDwellMinutes', 'max_dwell_minutes'], ['pulls', 'pulls'], ['expectedPulls', 'expected_pulls'], ['profileId', 'profile_id']]
   return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
 }
 
@@ -81,8 +83,11 @@ function listQuery(db: Knex, workshopId: number) {
     .leftJoin('users as u', function () {
       this.on('u.id', 'm.state_changed_by').andOn('u.workshop_id', 'm.workshop_id')
     })
+    .leftJoin('profiles as pr', function () {
+      this.on('pr.id', 'm.profile_id').andOn('pr.workshop_id', 'm.workshop_id')
+    })
     .where('m.workshop_id', workshopId)
-    .select(MOULD_COLUMNS.map(c => `m.${c}`)).select('b.name as bench_name', 'u.name as state_changed_by_name')
+    .select(MOULD_COLUMNS.map(c => `m.${c}`)).select('b.name as bench_name', 'u.name as state_changed_by_name', 'pr.name as profile_name')
 }
 
 export const mouldsRepo = {

@@ -11,7 +11,7 @@ export const COUNTED_POUR = `p.state <> 'void' AND NOT EXISTS (SELECT 1 FROM pie
 
 export const planningRepo = {
   moulds(db: Knex, workshopId: number) {
-    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls')
+    return db('moulds').select('id', 'code', 'bench_id', 'state', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'profile_id', 'cavity_litres')
       .where({ workshop_id: workshopId }).orderBy('code')
   },
   /**
@@ -24,6 +24,9 @@ export const planningRepo = {
     })
       .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed',
         'j.code as job_code', 'j.due_on', 'j.sample_required', 'j.sample_state')
+      // the item's profile, linked or named (a profile made after the item still matches by name)
+      .select(db.raw(`COALESCE(i.profile_id, (SELECT pr.id FROM profiles pr WHERE pr.workshop_id = i.workshop_id
+        AND lower(pr.name) = lower(btrim(i.profile)))) AS profile_id`))
       .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.workshop_id = i.workshop_id AND p.job_item_id = i.id AND ${COUNTED_POUR}) AS pours`))
       .where({ 'i.workshop_id': workshopId, 'j.state': 'open' })
       .orderBy(['i.id'])
@@ -38,6 +41,10 @@ export const planningRepo = {
   },
   shopDays(db: Knex, workshopId: number, fromDay: string) {
     return db('shop_days').select('day', 'temp_c').where({ workshop_id: workshopId }).where('day', '>=', fromDay)
+  },
+  /** Benches with a limit on mixes gauged at once. */
+  benchLimits(db: Knex, workshopId: number): Promise<{ id: number; max_mixes: number }[]> {
+    return db('benches').select('id', 'max_mixes').where({ workshop_id: workshopId }).whereNotNull('max_mixes')
   },
   casters(db: Knex, workshopId: number) {
     return db('users').select('id').where({ workshop_id: workshopId, role: 'caster' }).whereNull('disabled_at').orderBy('id')

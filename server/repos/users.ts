@@ -98,6 +98,12 @@ export const usersRepo = {
     return db('users').where({ workshop_id: workshopId, id })
       .update({ password_hash: passwordHash, session_version: db.raw('session_version + 1'), updated_at: db.fn.now() })
   },
+  /** A caster's own days, hours (null: the workshop's) and mixes at once; true when the row is a caster of the workshop. */
+  async setCasterHours(db: Knex, workshopId: number, id: number, h: { workingDays: number[] | null; shiftStart: string | null; shiftEnd: string | null; maxMixes: number }) {
+    const n = await db('users').where({ workshop_id: workshopId, id, role: 'caster' })
+      .update({ caster_days: h.workingDays, caster_start: h.shiftStart, caster_end: h.shiftEnd, max_mixes: h.maxMixes, updated_at: db.fn.now() })
+    return n > 0
+  },
   /** Disables or re-enables; both end the user's sessions. */
   async setDisabled(db: Knex, workshopId: number, id: number, disabled: boolean): Promise<PublicUserRow | undefined> {
     const [row] = await db('users').where({ workshop_id: workshopId, id })

@@ -4,19 +4,20 @@ import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import { lotsRepo, type LotInput, type LotRow } from '../repos/plaster-lots'
 import { workshopsRepo } from '../repos/workshops'
+import { profilesRepo } from '../repos/profiles'
 import { mouldsRepo, type MouldEventRow, type MouldInput, type MouldListRow, type MouldPourRow } from '../repos/moulds'
 import { recordEvent } from '../repos/events'
 import { benchesRepo, type BenchInput, type BenchRow } from '../repos/benches'
 import { gradeCalibrationRepo, gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import { formatDay, workshopLocale } from '#shared/utils/workshop-format'
-import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour } from '#shared/types/catalogue'
+import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour, Profile } from '#shared/types/catalogue'
 
 /** A timestamp as the wire sends it (what JSON.stringify made of the Date before). */
 export const isoOrNull = (d: Date | null): string | null => (d ? d.toISOString() : null)
 
 export function toBench(r: BenchRow): Bench {
-  return { id: r.id, name: r.name, kind: r.kind, lengthM: r.length_m, sortOrder: r.sort_order, archivedAt: isoOrNull(r.archived_at), version: r.version }
+  return { id: r.id, name: r.name, kind: r.kind, lengthM: r.length_m, sortOrder: r.sort_order, archivedAt: isoOrNull(r.archived_at), version: r.version, maxMixes: r.max_mixes }
 }
 
 export async function listBenches(workshopId: number): Promise<Bench[]> {
@@ -98,6 +99,7 @@ export function toMould(r: MouldListRow): Mould {
     maxDwellMinutes: r.max_dwell_minutes, pulls: r.pulls, expectedPulls: r.expected_pulls, state: r.state,
     stateChangedBy: r.state_changed_by, stateChangedByName: r.state_changed_by_name, stateChangedAt: isoOrNull(r.state_changed_at),
     stateReason: r.state_reason, version: r.version, life: mouldLife({ pulls: r.pulls, expectedPulls: r.expected_pulls }),
+    profile: r.profile_name,
   }
 }
 
@@ -129,12 +131,17 @@ export async function mouldDetail(workshopId: number, id: number): Promise<Mould
 }
 
 /** A new mould, or an edit of one's details; the bench must be one of the workshop's. */
-export async function saveMould(actor: Actor, target: { id: number; version: number } | null, input: MouldInput): Promise<Mould> {
+export async function saveMould(actor: Actor, target: { id: number; version: number } | null, input: MouldInput & { profile?: string | null }): Promise<Mould> {
   return useDb().transaction(async (trx) => {
     if (input.benchId && !(await benchesRepo.byId(trx, actor.workshopId, input.benchId))) unprocessable([{ field: 'benchId', message: 'benchId is not a bench of this workshop' }])
+    // the profile is named in words; a new name makes a new profile
+    const { profile, ...fields } = input
+    const columns: MouldInput = profile === undefined
+      ? fields
+      : { ...fields, profileId: profile === null ? null : await profilesRepo.ensure(trx, actor.workshopId, profile) }
     const row = target
-      ? await mouldsRepo.update(trx, actor.workshopId, target.id, target.version, input)
-      : await mouldsRepo.insert(trx, actor.workshopId, actor.id, input)
+      ? await mouldsRepo.update(trx, actor.workshopId, target.id, target.version, columns)
+      : await mouldsRepo.insert(trx, actor.workshopId, actor.id, columns)
     return mouldById(trx, actor.workshopId, row.id)
   })
 }
@@ -150,4 +157,16 @@ export async function setMouldState(actor: Actor, id: number, input: { state: st
     })
     return mouldById(trx, actor.workshopId, id)
   })
+}
+
+export async function listProfiles(workshopId: number): Promise<Profile[]> {
+  const rows = await profilesRepo.list(useDb(), workshopId)
+  return rows.map(r => ({ id: r.id, name: r.name, moulds: r.moulds, readyMoulds: r.ready_moulds }))
+}
+
+/** A new profile by name (lead); a name the workshop already has (any case) is that profile. */
+export async function createProfile(actor: Actor, name: string): Promise<Profile> {
+  const db = useDb()
+  const id = await profilesRepo.ensure(db, actor.workshopId, name)
+  return (await listProfiles(actor.workshopId)).find(p => p.id === id)!
 }

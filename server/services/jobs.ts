@@ -1,6 +1,7 @@
 // Jobs: the detail each role may see, items through the run calculator, client members and
 // the sample approval round (lead marks it ready, the client decides; both recorded and mailed).
 import type { Knex } from 'knex'
+import { profilesRepo } from '../repos/profiles'
 import type { Actor } from '../utils/auth'
 import { jobsRepo, type JobInput, type JobListRow, type JobRow } from '../repos/jobs'
 import { jobItemsRepo, type ItemColumns, type ItemListRow, type ItemRow } from '../repos/job-items'
@@ -162,6 +163,8 @@ async function itemColumns(db: Knex, workshopId: number, input: JobItemCreateInp
     : { quantity: input.quantity! }).pieces
   return {
     mould_id: input.mouldId ?? null, profile: input.profile ?? null, description: input.description,
+    // the item's profile in words, linked when the workshop has it (the planner also matches by name)
+    profile_id: input.profile ? await profilesRepo.find(db, workshopId, input.profile) : null,
     quantity: isRun ? null : input.quantity!, run_m: isRun ? input.walls!.reduce((m, w) => m + w.lengthM, 0) : null,
     walls: isRun ? JSON.stringify(input.walls) : null, min_piece_m: isRun ? minPieceM : null, spares_pct: isRun ? sparesPct : 0,
     pieces_needed: pieces, grade_id: input.gradeId ?? null,

@@ -8,8 +8,11 @@ import { planningRepo } from '../repos/planning'
 import { poursRepo } from '../repos/pours'
 import { planPourRow, withOverlapAnswer } from './pours'
 import { loadWorkshop, workshopCalendar } from './workshop'
+import { plannerCalendars } from './calendars'
 import { boardDayStart } from '#shared/utils/board-rules'
 import { planPours } from '#shared/utils/planner'
+import { plannedCastReadyHours } from '#shared/utils/client-completion'
+import { mouldWorksRepo } from '../repos/mould-works'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import { appliedSetFactor } from '#shared/utils/plaster-set'
 import type { PlanPoursInput, PlannerItem } from '#shared/types/planner'
@@ -20,10 +23,18 @@ const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_M
 async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string) {
   const start = boardDayStart(from, ws.timezone)
   const end = boardDayStart(nextDay(to), ws.timezone)
-  const [moulds, rows, grades, pours, days, casters] = await Promise.all([
+  const [moulds, rows, grades, pours, days, casters, calendars, benchLimits, works] = await Promise.all([
     planningRepo.moulds(db, ws.id), planningRepo.openItems(db, ws.id), planningRepo.grades(db, ws.id),
     planningRepo.pours(db, ws.id, start), planningRepo.shopDays(db, ws.id, from), planningRepo.casters(db, ws.id),
+    plannerCalendars(db, ws.id, from), planningRepo.benchLimits(db, ws.id), mouldWorksRepo.openAvailability(db, ws.id),
   ])
+  // open mould work: the mould takes no pour before the start of its available-from day
+  const availableFrom = new Map(works.map(w => [Number(w.mould_id), boardDayStart(w.available_from, ws.timezone)]))
+  // the drying room at the workshop's usual conditions, as the client's date takes it
+  const room = { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct) }
+  const mouldById = new Map(moulds.map(m => [Number(m.id), m]))
+  const profileMould = new Map<number, (typeof moulds)[number]>()
+  for (const m of moulds) if (m.profile_id && !profileMould.has(Number(m.profile_id))) profileMould.set(Number(m.profile_id), m)
   const gradeById = new Map(grades.map(g => [g.id, g]))
   const descriptions = new Map<string, string>()
   const items: PlannerItem[] = []
@@ -33,26 +44,35 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     if (!grade || remaining <= 0) continue
     const model = plasterGradeFromRow(grade)
     descriptions.set(String(r.id), r.description)
+    const consistency = r.consistency ? Number(r.consistency) : model.consistency.default
+    // the profile's moulds are identical, so the item's own mould or any of its profile gives the cavity
+    const castIn = (r.mould_id && mouldById.get(Number(r.mould_id))) || (r.profile_id && profileMould.get(Number(r.profile_id))) || null
     items.push({
       itemId: String(r.id), jobId: String(r.job_id), jobCode: r.job_code, dueOn: r.due_on,
       sampleReleased: !r.sample_required || r.sample_state === 'approved', piecesRemaining: remaining,
-      mouldIds: r.mould_id ? [String(r.mould_id)] : [], grade: model,
-      consistency: r.consistency ? Number(r.consistency) : model.consistency.default,
+      mouldIds: r.mould_id ? [String(r.mould_id)] : [], profileId: r.profile_id ? String(r.profile_id) : null, grade: model,
+      consistency,
+      readyHours: castIn ? plannedCastReadyHours({ cavityLitres: Number(castIn.cavity_litres), consistency, grade: model, room }) : 0,
       // the grade's applied calibration (1 until a lead applies one)
       setFactor: appliedSetFactor(gradeCalibrationFromRow(grade)),
     })
   }
   const input: PlanPoursInput = {
-    calendar: workshopCalendar(ws), from: start, to: end, items,
+    calendar: workshopCalendar(ws), from: start, to: end, items, closures: calendars.closures,
     moulds: moulds.map(m => ({
       id: String(m.id), code: m.code, benchId: m.bench_id ? String(m.bench_id) : null, state: m.state, prepMinutes: m.prep_minutes,
       cleanMinutes: m.clean_minutes, maxDwellMinutes: m.max_dwell_minutes, pulls: m.pulls, expectedPulls: m.expected_pulls,
+      profileId: m.profile_id ? String(m.profile_id) : null, availableFrom: availableFrom.get(Number(m.id)) ?? null,
     })),
     existingPours: pours.map(p => ({ mouldId: String(p.mould_id), slotStart: p.slot_start, slotEnd: p.slot_end, casterId: p.caster_id ? String(p.caster_id) : null, mixAt: p.mix_at })),
     shopTempByDay: Object.fromEntries(days.map(d => [d.day, Number(d.temp_c)])),
     defaultShopTempC: Number(ws.default_shop_temp_c),
     // Never propose a pour in the past: the plan starts now when the range already began.
-    options: { startAt: new Date(Math.max(Date.now(), start.getTime())), casters: casters.map(c => String(c.id)) },
+    options: {
+      startAt: new Date(Math.max(Date.now(), start.getTime())), casters: casters.map(c => String(c.id)),
+      casterCalendars: calendars.casterCalendars,
+      benchMaxMixes: Object.fromEntries(benchLimits.map(b => [String(b.id), b.max_mixes])),
+    },
   }
   return { input, descriptions }
 }
@@ -70,7 +90,7 @@ export async function previewPlan(actor: Actor, range: { from: string; to: strin
       demouldOpenAt: p.demouldOpenAt.toISOString(), demouldCloseAt: p.demouldCloseAt.toISOString(), slotEnd: p.slotEnd.toISOString(),
       slurryTempC: p.slurryTempC, consistency: p.consistency, setFactor: p.setFactor, overnight: p.overnight, warnings: p.warnings,
     })),
-    jobs: result.jobs.map(j => ({ ...j, jobId: Number(j.jobId) })),
+    jobs: result.jobs.map(j => ({ ...j, jobId: Number(j.jobId), readyAt: j.readyAt ? j.readyAt.toISOString() : null })),
     unplaced: result.unplaced.map(u => ({ ...u, itemId: Number(u.itemId), jobId: Number(u.jobId) })),
     moulds: result.moulds.map(m => ({ ...m, mouldId: Number(m.mouldId) })),
   }

@@ -55,6 +55,8 @@ export interface Bench {
   sortOrder: number
   archivedAt: string | null
   version: number
+  /** mixes gauged on the bench at once; null: no limit */
+  maxMixes: number | null
 }
 
 /** A mould as GET /api/moulds lists it and POST / PATCH /api/moulds and the state change answer,
@@ -80,6 +82,16 @@ export interface Mould {
   stateReason: string | null
   version: number
   life: MouldLife
+  /** the profile it casts: the planner may use any ready mould of an item's profile */
+  profile: string | null
+}
+
+/** A profile as GET /api/profiles lists it: how many moulds cast it, how many are ready. */
+export interface Profile {
+  id: number
+  name: string
+  moulds: number
+  readyMoulds: number
 }
 
 /** A pour in a mould's history, newest first. */

@@ -18,6 +18,13 @@ export interface PlannerMould {
   maxDwellMinutes: number
   pulls: number
   expectedPulls: number | null
+  /** the profile it casts: an item of that profile may use it (moulds of a profile are identical) */
+  profileId?: string | null
+  /**
+   * Mould work (being made, or away for repair): no pour starts before this instant. A mould in
+   * repair with a return date is planned from it; one in repair without is not planned.
+   */
+  availableFrom?: Date | null
 }
 
 /** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
@@ -31,8 +38,8 @@ export interface PlannerExistingPour {
 
 /**
  * An open job item. `mouldIds`: the item's mould (job_items.mould_id); `alternativeMouldIds`:
- * other moulds that cast the same profile. Together, in that order, they are the candidates
- * (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
+ * other moulds that cast the same profile; then the moulds of `profileId`. Together, in that
+ * order, they are the candidates (the order breaks ties). dueOn is the job's local due date 'YYYY-MM-DD' or null.
  */
 export interface PlannerItem {
   itemId: string
@@ -43,10 +50,38 @@ export interface PlannerItem {
   piecesRemaining: number
   mouldIds: string[]
   alternativeMouldIds?: string[]
+  /**
+   * The item's profile: every mould of it is a candidate too, after the named ones, as is every
+   * mould sharing the profile of a named mould. An item naming only a profile is so planned.
+   */
+  profileId?: string | null
   grade: PlasterGrade
   consistency: number
   /** overrides options.setFactor for this item (e.g. a retarder in its mix) */
   setFactor?: number
+  /**
+   * Hours from a cast's demould until it is ready to dispatch: fettling and drying in the
+   * drying room (default 0: the demould itself); null when the room would never dry it.
+   */
+  readyHours?: number | null
+}
+
+/** A span of local days, both ends included ('YYYY-MM-DD'): a shop closure or an absence. */
+export interface PlannerDaySpan {
+  fromDay: string
+  toDay: string
+}
+
+/**
+ * A caster's own week: working days (ISO 1 = Mon … 7 = Sun), hours as local 'HH:MM', and
+ * absences; a field left out is the workshop's. maxMixes: mixes they gauge at once (default 1).
+ */
+export interface PlannerCasterCalendar {
+  workingDays?: number[]
+  shiftStart?: string
+  shiftEnd?: string
+  absences?: PlannerDaySpan[]
+  maxMixes?: number
 }
 
 /** Options; setFactor default 1, startAt default `from`, pourMinutes default POUR_MIX_MINUTES_DEFAULT. */
@@ -54,8 +89,12 @@ export interface PlanPoursOptions {
   setFactor?: number
   startAt?: Date
   pourMinutes?: number
-  /** caster ids; when given, each pour gets a caster free for its whole gauging */
+  /** caster ids; when given, each pour gets a caster free and at work for its whole gauging */
   casters?: string[]
+  /** per caster id: their days, hours, absences and mixes at once (default: the workshop's shift, one mix) */
+  casterCalendars?: Record<string, PlannerCasterCalendar>
+  /** per bench id: how many mixes may be gauged on it at once (a bench not listed: no limit) */
+  benchMaxMixes?: Record<string, number>
   projectionDays?: number
 }
 
@@ -63,10 +102,12 @@ export interface PlanPoursOptions {
  * Input of planPours. shopTempByDay: °C per local date; days missing use defaultShopTempC
  * (default 20 °C, the plaster model's reference). The slurry is taken at the shop's
  * temperature (water and powder stored in the shop: common practice); a day below 0 °C gets
- * no pours (the gauging water would freeze).
+ * no pours (the gauging water would freeze), and a pour on a day from 0 to 5 °C carries a
+ * cold-day caution. closures: days the shop is shut (holidays), no pour is planned on them.
  */
 export interface PlanPoursInput {
   calendar: WorkshopShiftCalendar
+  closures?: PlannerDaySpan[]
   from: Date
   to: Date
   moulds: PlannerMould[]
@@ -101,11 +142,13 @@ export interface ProposedPour {
 }
 
 /**
- * Per job. finishesOn: local date the job's last cast comes out of its mould (fettling and
- * drying follow and are not planned here), when every piece is placed before `to`;
- * projectedDate: the same date from the schedule continued past `to` (null when some piece
- * cannot be placed at all, e.g. a sample still awaiting approval). onTime: projectedDate ≤ dueOn
- * (any date when dueOn is null); a job with nothing left to cast is on time with no dates.
+ * Per job. readyAt: when its last piece is expected ready to dispatch (the last demould plus the
+ * item's readyHours: fettling and drying), from the schedule continued past `to`; null when
+ * some piece cannot be placed at all (e.g. a sample still awaiting approval) or would never dry.
+ * projectedDate: readyAt's local date; finishesOn: the same when every piece is cast before
+ * `to`. onTime: projectedDate ≤ dueOn (any date when dueOn is null); a job with nothing left to
+ * cast is on time with no dates. waitsFor: the mould work its last piece waits for, in words;
+ * note: why there is no date, in words.
  */
 export interface PlannerJobOutcome {
   jobId: string
@@ -116,10 +159,13 @@ export interface PlannerJobOutcome {
   finishesOn: string | null
   onTime: boolean
   projectedDate: string | null
+  readyAt: Date | null
+  waitsFor: string | null
+  note: string | null
 }
 
 /** Why pieces of an item could not be placed at all (not even in the projection). */
-export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon'
+export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon' | 'no-caster'
 
 export interface PlannerUnplaced {
   itemId: string

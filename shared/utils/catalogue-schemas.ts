@@ -79,6 +79,8 @@ export const benchFields = z.object({
   kind: requiredText('kind', 60),
   lengthM: numberIn('lengthM', 0, 50, 'm', { exclusive: true }).nullable().optional(),
   sortOrder: numberIn('sortOrder', 0, 1000, '', { int: true }),
+  /** mixes gauged on the bench at once (the planner keeps to it); null: no limit */
+  maxMixes: numberIn('maxMixes', 1, 100, 'mixes', { int: true }).nullable().optional(),
 })
 export const benchCreateSchema = benchFields
 export const benchPatchSchema = benchFields.partial().extend({
@@ -98,9 +100,12 @@ export const mouldFields = z.object({
   maxDwellMinutes: numberIn('maxDwellMinutes', 0, 10080, 'min', { int: true }),
   pulls: numberIn('pulls', 0, 100000, 'pulls', { int: true }),
   expectedPulls: numberIn('expectedPulls', 1, 100000, 'pulls', { int: true }).nullable().optional(),
+  profile: optionalText('profile', 120),
 })
 export const mouldCreateSchema = mouldFields
 export const mouldPatchSchema = mouldFields.partial().extend({ version: versionField })
+
+export const profileCreateSchema = z.object({ name: requiredText('name', 120) })
 
 /** A state change needs a reason when the mould leaves service (repair, retired). */
 export const mouldStateSchema = z.object({

@@ -16,6 +16,8 @@
  * Pure: the server gathers the facts.
  */
 import { finishingDryBy } from './finishing'
+import { batchForCavity, castFromBatch } from './plaster'
+import type { PlasterGrade } from './plaster-core'
 
 /**
  * Hours from demoulding until a cast is fettled and racked to dry: 2 (common practice for
@@ -25,6 +27,26 @@ import { finishingDryBy } from './finishing'
 export const FETTLING_ALLOWANCE_HOURS = 2
 
 const HOUR_MS = 3_600_000
+
+/**
+ * Hours from a cast's demould until it is ready to dispatch: FETTLING_ALLOWANCE_HOURS, then the
+ * drying estimate (finishingDryBy) in the room's conditions; null when it would never dry.
+ * The one rule behind the client's date (jobCompletion) and the planner's (services/planning.ts).
+ */
+export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavityLitres: number }, room: { tempC: number; humidityPct: number }): number | null {
+  const dry = finishingDryBy({
+    from: new Date(0), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres,
+    airTempC: room.tempC, relHumidityPct: room.humidityPct,
+  })
+  return Number.isFinite(dry.hours) ? FETTLING_ALLOWANCE_HOURS + dry.hours : null
+}
+
+/** castReadyHours of a cast not made yet: its masses from the batch that fills the cavity (no waste). */
+export function plannedCastReadyHours(input: { cavityLitres: number; consistency: number; grade: PlasterGrade; room: { tempC: number; humidityPct: number } }): number | null {
+  const batch = batchForCavity({ cavityLitres: input.cavityLitres, consistency: input.consistency, grade: input.grade })
+  const cast = castFromBatch({ plasterKg: batch.plasterKg, waterKg: batch.waterKg, grade: input.grade })
+  return castReadyHours({ wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg, cavityLitres: input.cavityLitres }, input.room)
+}
 
 export interface CompletionCast {
   /** the piece's state once demoulded, or null for a cast not yet out of the mould */
@@ -64,13 +86,9 @@ export function jobCompletion(input: CompletionInput): Completion {
       last = Math.max(last, c.dryBy.getTime())
       continue
     }
-    const out = (c.demouldedAt ?? c.demouldOpenAt).getTime() + FETTLING_ALLOWANCE_HOURS * HOUR_MS
-    const dry = finishingDryBy({
-      from: new Date(out), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres,
-      airTempC: input.room.tempC, relHumidityPct: input.room.humidityPct,
-    })
-    if (!dry.dryBy) return { kind: 'never_dries' }
-    last = Math.max(last, dry.dryBy.getTime())
+    const hours = castReadyHours(c, input.room)
+    if (hours === null) return { kind: 'never_dries' }
+    last = Math.max(last, (c.demouldedAt ?? c.demouldOpenAt).getTime() + hours * HOUR_MS)
   }
   return last ? { kind: 'ready_by', at: new Date(last) } : { kind: 'all_ready' }
 }

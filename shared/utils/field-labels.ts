@@ -32,6 +32,7 @@ export const FIELD_LABELS: Record<string, string> = {
   lotId: 'Plaster lot',
   gradeId: 'Plaster grade',
   mouldId: 'Mould',
+  profile: 'Profile',
   jobItemId: 'Job item',
   casterId: 'Caster',
   benchId: 'Bench',
@@ -85,6 +86,16 @@ export const FIELD_LABELS: Record<string, string> = {
   mailSamples: 'Sample mail',
   mailDispatch: 'Dispatch mail',
   shiftBreaks: 'Breaks',
+  maxMixes: 'Mixes at once',
+  leadDays: 'Lead time',
+  startedOn: 'Started on',
+  availableFrom: 'Available from',
+  assignedTo: 'Who does it',
+  fromDay: 'From',
+  toDay: 'To',
+  workingDays: 'Working days',
+  shiftStart: 'Shift start',
+  shiftEnd: 'Shift end',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

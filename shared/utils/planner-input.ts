@@ -3,8 +3,8 @@
  * naming the first bad one. Ranges are sanity bounds (common practice) that keep typos out;
  * the database's own checks are the stricter ones. Pure: no I/O, no framework import.
  */
-import type { PlanPoursInput, PlannerExistingPour, PlannerItem, PlannerMould, PlannerMouldState } from '../types/planner'
-import { PlanningInputError, assertPlanningDate } from './workshop-calendar'
+import type { PlanPoursInput, PlannerCasterCalendar, PlannerDaySpan, PlannerExistingPour, PlannerItem, PlannerMould, PlannerMouldState } from '../types/planner'
+import { PlanningInputError, assertPlanningDate, parseShiftClock } from './workshop-calendar'
 
 function plannerNumber(value: unknown, field: string, min: number, max: number, integer = false): number {
   const ok = typeof value === 'number' && Number.isFinite(value) && value >= min && value <= max
@@ -36,6 +36,8 @@ function checkMould(m: PlannerMould, i: number): void {
   plannerNumber(m.maxDwellMinutes, `${f}.maxDwellMinutes`, 0, 10080)
   plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
   if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 0, 1e9, true)
+  if (m.profileId != null) plannerString(m.profileId, `${f}.profileId`)
+  if (m.availableFrom != null) assertPlanningDate(m.availableFrom, `${f}.availableFrom`)
 }
 
 function checkItem(it: PlannerItem, i: number): void {
@@ -52,6 +54,8 @@ function checkItem(it: PlannerItem, i: number): void {
   plannerArray<string>(it.alternativeMouldIds ?? [], `${f}.alternativeMouldIds`)
     .forEach((id, j) => plannerString(id, `${f}.alternativeMouldIds[${j}]`))
   if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
+  if (it.profileId != null) plannerString(it.profileId, `${f}.profileId`)
+  if (it.readyHours != null) plannerNumber(it.readyHours, `${f}.readyHours`, 0, 24 * 365)
 }
 
 function checkExisting(p: PlannerExistingPour, i: number): void {
@@ -61,6 +65,27 @@ function checkExisting(p: PlannerExistingPour, i: number): void {
   const e = assertPlanningDate(p.slotEnd, `${f}.slotEnd`)
   if (e.getTime() < s.getTime()) throw new PlanningInputError(`${f}.slotEnd`, `${f}.slotEnd must not be before slotStart`)
   if (p.mixAt != null) assertPlanningDate(p.mixAt, `${f}.mixAt`)
+}
+
+function checkSpan(span: PlannerDaySpan, f: string): void {
+  if (typeof span !== 'object' || span === null) throw new PlanningInputError(f, `${f} must be an object`)
+  for (const k of ['fromDay', 'toDay'] as const) {
+    if (typeof span[k] !== 'string' || !LOCAL_DATE.test(span[k])) throw new PlanningInputError(`${f}.${k}`, `${f}.${k} must be 'YYYY-MM-DD'`)
+  }
+  if (span.toDay < span.fromDay) throw new PlanningInputError(`${f}.toDay`, `${f}.toDay must not be before fromDay`)
+}
+
+function checkCasterCalendar(c: PlannerCasterCalendar, f: string): void {
+  if (typeof c !== 'object' || c === null) throw new PlanningInputError(f, `${f} must be an object`)
+  if (c.workingDays !== undefined) {
+    const ok = Array.isArray(c.workingDays) && c.workingDays.every(d => Number.isInteger(d) && d >= 1 && d <= 7)
+    if (!ok) throw new PlanningInputError(`${f}.workingDays`, `${f}.workingDays must list ISO weekdays 1 (Mon) to 7 (Sun)`)
+  }
+  const start = c.shiftStart === undefined ? null : parseShiftClock(c.shiftStart, `${f}.shiftStart`)
+  const end = c.shiftEnd === undefined ? null : parseShiftClock(c.shiftEnd, `${f}.shiftEnd`)
+  if (start !== null && end !== null && end <= start) throw new PlanningInputError(`${f}.shiftEnd`, `${f}.shiftEnd must be after shiftStart`)
+  plannerArray<PlannerDaySpan>(c.absences ?? [], `${f}.absences`).forEach((a, j) => checkSpan(a, `${f}.absences[${j}]`))
+  if (c.maxMixes !== undefined) plannerNumber(c.maxMixes, `${f}.maxMixes`, 1, 20, true)
 }
 
 /**
@@ -84,4 +109,7 @@ export function assertPlanPoursInput(input: PlanPoursInput): void {
   if (o.projectionDays !== undefined) plannerNumber(o.projectionDays, 'options.projectionDays', 0, 730, true)
   if (o.startAt !== undefined) assertPlanningDate(o.startAt, 'options.startAt')
   if (o.casters !== undefined) plannerArray<string>(o.casters, 'options.casters').forEach((c, j) => plannerString(c, `options.casters[${j}]`))
+  for (const [id, c] of Object.entries(o.casterCalendars ?? {})) checkCasterCalendar(c, `options.casterCalendars.${id}`)
+  for (const [id, n] of Object.entries(o.benchMaxMixes ?? {})) plannerNumber(n, `options.benchMaxMixes.${id}`, 1, 100, true)
+  plannerArray<PlannerDaySpan>(input.closures ?? [], 'closures').forEach((c, j) => checkSpan(c, `closures[${j}]`))
 }

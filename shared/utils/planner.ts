@@ -19,16 +19,30 @@
  * - no mix is gauged into a break of the shift (the workshop's shift breaks): a gauged mix
  *   cannot wait for the caster to come back (common practice), so a mix that would start in a
  *   break or run into one starts at the break's end instead;
- * - with `casters` given, a caster gauges one mix at a time;
+ * - shop closures (holidays) have no shift; a day below 0 °C gets no pour and a day from 0 to
+ *   5 °C a cold-day caution (a wet cast can freeze: common practice);
+ * - with `casters` given, every pour books a caster at work for its whole gauging: inside their
+ *   own days and hours (the workshop's unless set), never on an absence or a closure, and at
+ *   most `maxMixes` mixes at once (default 1); when no caster is at work again before the
+ *   horizon ends the pieces are reported as 'no-caster', in words;
+ * - a bench with a mix limit gauges at most that many mixes at once across its moulds;
+ * - an item's candidate moulds are the ones it names, then every mould of its profile and of
+ *   the named moulds' profiles (identical moulds: common practice to cast a run from several);
+ *   an item that names only a profile is planned on that profile's moulds;
  * - each piece goes on the item's mould where it can start earliest (same day: no overnight
  *   note first; then earliest prep start, earliest slot end, the item's mould order).
+ * - a mould under mould work (being made, or away for repair with a return date) takes no pour
+ *   before its available-from instant; a job that casts in it on that day says it waits for it;
+ * - a job's date is when its last piece is ready to dispatch: the last demould plus the item's
+ *   readyHours (fettling and drying from the drying model, given by the caller), not the demould.
  * The schedule runs on past `to` for `projectionDays` (default 365) to tell when late jobs
  * would finish; only pours starting before `to` are returned.
  *
  * Ids are strings (PostgreSQL bigints arrive as strings). Pure: no I/O, no framework import.
  */
+import { DateTime } from 'luxon'
 import type {
-  PlanPoursInput, PlanPoursResult, PlannerExistingPour, PlannerItem, PlannerJobOutcome,
+  PlanPoursInput, PlanPoursResult, PlannerDaySpan, PlannerItem, PlannerJobOutcome,
   PlannerMould, PlannerMouldNote, PlannerUnplaced, PlannerUnplacedReason, ProposedPour,
 } from '../types/planner'
 import {
@@ -41,10 +55,12 @@ import {
   type PourTimingMinutes,
 } from './pour-timing'
 import { assertPlanPoursInput } from './planner-input'
+import { PLASTER_FREEZE_WARN_C } from './plaster-drying'
 import { PlanningInputError, shiftWindows, type ShiftWindow } from './workshop-calendar'
 
 const MINUTE_MS = 60_000
 const DAY_MS = 86_400_000
+const HOUR_MS = 3_600_000
 const ceilMinute = (t: number) => Math.ceil(t / MINUTE_MS) * MINUTE_MS
 
 interface Lane {
@@ -56,6 +72,8 @@ interface Lane {
   busyPtr: number
   planned: number
   worn: boolean
+  /** no pour starts before this (mould work); -Infinity when the mould is free now */
+  availableFrom: number
 }
 
 interface Win {
@@ -81,6 +99,8 @@ interface Placement {
   outDayIndex: number
   overnight: boolean
   casterId: string | null
+  casterLane: number | null
+  benchLane: number | null
   timing: PourTimingMinutes
   slurryTempC: number
 }
@@ -92,7 +112,10 @@ interface Ctx {
   to: number
   setFactor: number
   pourMinutes: number
-  casters: CasterBook | null
+  casters: Book | null
+  benches: Book | null
+  /** set when a search found mould time but no caster at work for the rest of the horizon */
+  casterShort: boolean
   tempOf: (day: string) => number
   /** per item × mould (itemIndex × mould count + mould order), then per slurry °C */
   timings: Map<number, Map<number, PourTimingMinutes>>
@@ -128,41 +151,131 @@ function mergeIntervals(list: [number, number][]): { starts: number[]; ends: num
   return { starts, ends }
 }
 
-/** Each caster's gauging intervals, so one caster never has two mixes at once. */
-class CasterBook {
-  private readonly lanes: { id: string; starts: number[]; ends: number[] }[]
+/** One lane of a Book: the busy intervals of one caster (or bench) copy, ascending and disjoint. */
+interface BookLane {
+  id: string
+  starts: number[]
+  ends: number[]
+}
 
-  constructor(ids: string[], existing: PlannerExistingPour[], mixMs: number) {
-    this.lanes = ids.map((id) => {
-      const mixes = existing.filter(p => p.casterId === id && p.mixAt)
-        .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
-      return { id, ...mergeIntervals(mixes) }
-    })
+/**
+ * Who or what gauges a mix: casters, or benches with a limit on mixes at once. Each id has as
+ * many lanes as mixes it can gauge at once; a lane is busy during its mixes and, for a caster,
+ * whenever they are not at work (off hours, days off, absences, closures), so "free for the
+ * whole mix" also means "at work for the whole mix".
+ */
+class Book {
+  private readonly lanes: BookLane[] = []
+  private readonly byId = new Map<string, number[]>()
+
+  /** Adds `copies` lanes for `id`: each blocked by `off`; each existing mix on the first lane it fits. */
+  add(id: string, copies: number, off: [number, number][], mixes: [number, number][]): void {
+    const first = this.lanes.length
+    const merged = mergeIntervals(off)
+    for (let c = 0; c < copies; c++) this.lanes.push({ id, starts: [...merged.starts], ends: [...merged.ends] })
+    const own = Array.from({ length: copies }, (_, c) => first + c)
+    this.byId.set(id, own)
+    for (const [s, e] of [...mixes].sort((a, b) => a[0] - b[0])) {
+      const free = own.find(l => this.freeAt(l, s, e - s) === s)
+      if (free !== undefined) this.book(free, s, e)
+      else {
+        // an existing mix that fits no lane (the board allows it): kept on the first lane
+        const lane = this.lanes[first]!
+        const m = mergeIntervals([...lane.starts.map((x, i): [number, number] => [x, lane.ends[i]!]), [s, e]])
+        lane.starts = m.starts
+        lane.ends = m.ends
+      }
+    }
+  }
+
+  has(id: string): boolean {
+    return this.byId.has(id)
+  }
+
+  /** The earliest start ≥ `start` at which the lane is free for `ms` (its intervals walked forward). */
+  private freeAt(l: number, start: number, ms: number): number {
+    const lane = this.lanes[l]!
+    let s = start
+    for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
+      s = Math.max(s, lane.ends[i]!)
+    }
+    return s
   }
 
   /**
-   * A caster free for the whole mix [start, start + ms), or the earliest later start at which
-   * some caster is (each caster's mixes are walked forward to the first gap long enough).
+   * A lane (of `id`, or of any id) free for the whole [start, start + ms), or the earliest later
+   * start at which one is (Infinity: none ever is, e.g. every caster absent to the horizon).
    */
-  pick(start: number, ms: number): { id: string } | { retryAt: number } {
+  pick(start: number, ms: number, id?: string): { lane: number } | { retryAt: number } {
     let retryAt = Infinity
-    for (const lane of this.lanes) {
-      let s = start
-      for (let i = firstEndAfter(lane.ends, start); i < lane.ends.length && lane.starts[i]! < s + ms; i++) {
-        s = Math.max(s, lane.ends[i]!)
-      }
-      if (s === start) return { id: lane.id }
+    const lanes = id === undefined ? this.lanes.map((_, i) => i) : (this.byId.get(id) ?? [])
+    for (const l of lanes) {
+      const s = this.freeAt(l, start, ms)
+      if (s === start) return { lane: l }
       retryAt = Math.min(retryAt, s)
     }
     return { retryAt }
   }
 
-  book(id: string, start: number, end: number): void {
-    const lane = this.lanes.find(l => l.id === id)!
+  idOf(lane: number): string {
+    return this.lanes[lane]!.id
+  }
+
+  book(l: number, start: number, end: number): void {
+    const lane = this.lanes[l]!
     const i = firstEndAfter(lane.ends, start)
     lane.starts.splice(i, 0, start)
     lane.ends.splice(i, 0, end)
   }
+}
+
+const dayIn = (day: string, spans: readonly PlannerDaySpan[]) => spans.some(s => day >= s.fromDay && day <= s.toDay)
+
+/**
+ * Each caster's lanes: off whenever they are not at work. Their windows are the workshop's
+ * calendar with their own days and hours, less their absences and the shop's closures.
+ */
+function casterBook(input: PlanPoursInput, casters: string[], shop: Win[], horizon: { from: Date; to: Date }, mixMs: number): Book {
+  const book = new Book()
+  const cals = input.options?.casterCalendars ?? {}
+  const closures = input.closures ?? []
+  for (const id of casters) {
+    const c = cals[id] ?? {}
+    // a caster on the shop's own days and hours shares its windows (already without closures)
+    const own = c.workingDays || c.shiftStart || c.shiftEnd
+      ? shiftWindows({
+          timezone: input.calendar.timezone, shiftStart: c.shiftStart ?? input.calendar.shiftStart, shiftEnd: c.shiftEnd ?? input.calendar.shiftEnd,
+          workingDays: c.workingDays ?? input.calendar.workingDays, ...horizon,
+        }).filter(w => !dayIn(w.day, closures)).map((w): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
+      : shop
+    const absences = c.absences ?? []
+    const off: [number, number][] = []
+    let last = -Infinity
+    for (const w of own) {
+      if (absences.length && dayIn(w.day, absences)) continue
+      off.push([last, w.start])
+      last = w.end
+    }
+    off.push([last, Infinity])
+    const mixes = input.existingPours.filter(p => p.casterId === id && p.mixAt)
+      .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
+    book.add(id, c.maxMixes ?? 1, off, mixes)
+  }
+  return book
+}
+
+/** Benches with a limit on mixes at once; the existing pours' mixes on their moulds taken first. */
+function benchBook(input: PlanPoursInput, mixMs: number): Book | null {
+  const limits = input.options?.benchMaxMixes ?? {}
+  if (Object.keys(limits).length === 0) return null
+  const benchOf = new Map(input.moulds.map(m => [m.id, m.benchId]))
+  const book = new Book()
+  for (const [id, n] of Object.entries(limits)) {
+    const mixes = input.existingPours.filter(p => p.mixAt && benchOf.get(p.mouldId) === id)
+      .map((p): [number, number] => [p.mixAt!.getTime(), p.mixAt!.getTime() + mixMs])
+    book.add(id, n, [], mixes)
+  }
+  return book
 }
 
 /** End of the first existing pour on the lane that overlaps [start, end), or −1. */
@@ -232,7 +345,7 @@ function fitInShift(ctx: Ctx, d: number, t: number, m: PourTimingMinutes): Shift
 /** The earliest placement of one piece of `item` on `lane` at or after its cursor, or null within the horizon. */
 function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: number): Placement | null {
   const wins = ctx.wins
-  let t = ceilMinute(Math.max(lane.cursor, ctx.earliest))
+  let t = ceilMinute(Math.max(lane.cursor, ctx.earliest, lane.availableFrom))
   let d = firstEndAfter(ctx.winEnds, t)
   while (d < wins.length) {
     const w = wins[d]!
@@ -259,12 +372,25 @@ function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: numb
       t = ceilMinute(busyEnd)
       continue
     }
-    const caster = ctx.casters?.pick(fit.mixAt, m.mixMinutes * MINUTE_MS) ?? { id: null }
+    const mixMs = m.mixMinutes * MINUTE_MS
+    const bench = lane.mould.benchId !== null && ctx.benches?.has(lane.mould.benchId)
+      ? ctx.benches.pick(fit.mixAt, mixMs, lane.mould.benchId)
+      : { lane: null }
+    if ('retryAt' in bench) {
+      t = ceilMinute(bench.retryAt - m.prepMinutes * MINUTE_MS)
+      continue
+    }
+    const caster = ctx.casters?.pick(fit.mixAt, mixMs) ?? { lane: null }
     if ('retryAt' in caster) {
+      if (caster.retryAt === Infinity) {
+        ctx.casterShort = true
+        return null
+      }
       t = ceilMinute(caster.retryAt - m.prepMinutes * MINUTE_MS)
       continue
     }
-    return { ...fit, lane, dayIndex: d, casterId: caster.id, timing: m, slurryTempC }
+    const casterId = caster.lane === null ? null : ctx.casters!.idOf(caster.lane)
+    return { ...fit, lane, dayIndex: d, casterId, casterLane: caster.lane, benchLane: bench.lane, timing: m, slurryTempC }
   }
   return null
 }
@@ -285,13 +411,19 @@ function commitPlacement(ctx: Ctx, p: Placement): void {
   lane.planned++
   const life = lane.mould.expectedPulls
   if (life !== null && lane.mould.pulls + lane.planned >= life) lane.worn = true
-  if (p.casterId !== null) ctx.casters!.book(p.casterId, p.mixAt, p.mixAt + p.timing.mixMinutes * MINUTE_MS)
+  const mixEnd = p.mixAt + p.timing.mixMinutes * MINUTE_MS
+  if (p.casterLane !== null) ctx.casters!.book(p.casterLane, p.mixAt, mixEnd)
+  if (p.benchLane !== null) ctx.benches!.book(p.benchLane, p.mixAt, mixEnd)
 }
 
 function toProposedPour(ctx: Ctx, item: PlannerItem, p: Placement): ProposedPour {
   const at = pourTimingAt(new Date(p.mixAt), p.timing)
   const m = p.lane.mould
   const warnings = [...at.warnings]
+  if (p.slurryTempC < PLASTER_FREEZE_WARN_C) {
+    warnings.push(`A cold day (${p.slurryTempC} °C in the shop): the set is slow and a wet cast can freeze. Warm the water and `
+      + 'the shop or move the pour; follow your shop\'s cold-weather practice.')
+  }
   if (p.overnight) {
     warnings.push(`The demould window opens after the shift ends; the cast stays in the mould until the shift of ${ctx.wins[p.outDayIndex]!.day} starts.`)
   }
@@ -330,20 +462,34 @@ function unplacedOf(item: PlannerItem, reason: PlannerUnplacedReason, pieces: nu
 
 /**
  * After a commit, drops the remembered placements it spoils: the committed mould's, and any
- * that counted on the same caster for an overlapping mix and finds no other caster free then
- * (one that does just changes caster). The rest stay the earliest on their mould, because a
- * commit only ever takes mould and caster time away.
+ * that counted on the same caster or bench lane for an overlapping mix and finds no other one
+ * free then (one that does just changes lane). The rest stay the earliest on their mould,
+ * because a commit only ever takes mould, caster and bench time away.
  */
 function forgetSpoiled(ctx: Ctx, known: Map<Lane, Placement | null>, done: Placement): void {
   known.delete(done.lane)
-  if (done.casterId === null) return
+  if (done.casterLane === null && done.benchLane === null) return
   const end = done.mixAt + done.timing.mixMinutes * MINUTE_MS
   for (const [lane, p] of known) {
-    const ms = p ? p.timing.mixMinutes * MINUTE_MS : 0
-    if (!p || p.casterId !== done.casterId || p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
-    const other = ctx.casters!.pick(p.mixAt, ms)
-    if ('id' in other) p.casterId = other.id
-    else known.delete(lane)
+    if (!p) continue
+    const ms = p.timing.mixMinutes * MINUTE_MS
+    if (p.mixAt >= end || done.mixAt >= p.mixAt + ms) continue
+    if (done.casterLane !== null && p.casterLane === done.casterLane) {
+      const other = ctx.casters!.pick(p.mixAt, ms)
+      if ('lane' in other) {
+        p.casterLane = other.lane
+        p.casterId = ctx.casters!.idOf(other.lane)
+      }
+      else {
+        known.delete(lane)
+        continue
+      }
+    }
+    if (done.benchLane !== null && p.benchLane === done.benchLane) {
+      const other = ctx.benches!.pick(p.mixAt, ms, p.lane.mould.benchId!)
+      if ('lane' in other) p.benchLane = other.lane
+      else known.delete(lane)
+    }
   }
 }
 
@@ -359,6 +505,7 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
     const left = item.piecesRemaining - n
     let best: Placement | null = null
     let usable = 0
+    ctx.casterShort = false
     for (const lane of lanes) {
       if (lane.worn) continue
       usable++
@@ -369,6 +516,11 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
     if (usable === 0) {
       const msg = `Every mould for this item has reached its expected life; ${left} piece(s) need a new or repaired mould.`
       return { item, placed, unplaced: unplacedOf(item, 'mould-life-reached', left, msg) }
+    }
+    if (!best && ctx.casterShort) {
+      const msg = `No caster is at work when ${left} piece(s) could be cast: every caster is off, absent or busy to the end of `
+        + 'the planning horizon. Check casters\' hours and absences, or add a caster.'
+      return { item, placed, unplaced: unplacedOf(item, 'no-caster', left, msg) }
     }
     if (!best) {
       const msg = `No free mould time inside shift hours within the planning horizon for ${left} piece(s).`
@@ -407,10 +559,12 @@ function buildLanes(input: PlanPoursInput): Map<string, Lane> {
   }
   const lanes = new Map<string, Lane>()
   input.moulds.forEach((mould, order) => {
-    if (mould.state === 'repair' || mould.state === 'retired') return
+    // a mould away for repair comes back on its return date; without one it is not planned
+    if (mould.state === 'retired' || (mould.state === 'repair' && !mould.availableFrom)) return
     const { starts, ends } = mergeIntervals(busy.get(mould.id) ?? [])
     const worn = mould.expectedPulls !== null && mould.pulls >= mould.expectedPulls
-    lanes.set(mould.id, { mould, order, cursor: -Infinity, busyStart: starts, busyEnd: ends, busyPtr: 0, planned: 0, worn })
+    const availableFrom = mould.availableFrom ? mould.availableFrom.getTime() : -Infinity
+    lanes.set(mould.id, { mould, order, cursor: -Infinity, busyStart: starts, busyEnd: ends, busyPtr: 0, planned: 0, worn, availableFrom })
   })
   return lanes
 }
@@ -420,7 +574,11 @@ function buildCtx(input: PlanPoursInput): Ctx {
   const from = input.from.getTime()
   const to = input.to.getTime()
   const projectionDays = o.projectionDays ?? 365
-  const wins = shiftWindows({ ...input.calendar, from: input.from, to: new Date(to + projectionDays * DAY_MS) })
+  const horizon = { from: input.from, to: new Date(to + projectionDays * DAY_MS) }
+  const closures = input.closures ?? []
+  // a closed day (holiday) has no shift: a cast held overnight waits for the next open one
+  const wins = shiftWindows({ ...input.calendar, ...horizon })
+    .filter(w => !dayIn(w.day, closures))
     .map((w: ShiftWindow): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime(), breaks: w.breaks.map(b => [b.start.getTime(), b.end.getTime()]) }))
   const pourMinutes = o.pourMinutes ?? POUR_MIX_MINUTES_DEFAULT
   const temps = input.shopTempByDay ?? {}
@@ -432,7 +590,9 @@ function buildCtx(input: PlanPoursInput): Ctx {
     to,
     setFactor: o.setFactor ?? 1,
     pourMinutes,
-    casters: o.casters?.length ? new CasterBook(o.casters, input.existingPours, pourMinutes * MINUTE_MS) : null,
+    casters: o.casters?.length ? casterBook(input, o.casters, wins, horizon, pourMinutes * MINUTE_MS) : null,
+    benches: benchBook(input, pourMinutes * MINUTE_MS),
+    casterShort: false,
     tempOf: day => (Object.hasOwn(temps, day) ? temps[day]! : defaultTemp),
     timings: new Map(),
     setMinutes: new Map(),
@@ -444,7 +604,7 @@ function mouldNotes(input: PlanPoursInput, lanes: Map<string, Lane>, named: Set<
   const notes: PlannerMouldNote[] = []
   for (const m of input.moulds) {
     if (!named.has(m.id)) continue
-    if (m.state === 'repair' || m.state === 'retired') {
+    if ((m.state === 'repair' && !m.availableFrom) || m.state === 'retired') {
       notes.push({ mouldId: m.id, code: m.code, reason: m.state, message: `Mould ${m.code} is ${m.state === 'repair' ? 'in repair' : 'retired'}: not planned.` })
     }
     const lane = lanes.get(m.id)
@@ -459,52 +619,90 @@ function mouldNotes(input: PlanPoursInput, lanes: Map<string, Lane>, named: Set<
 
 interface JobTally {
   out: PlannerJobOutcome
-  last: string | null
+  readyAt: number
+  waits: { at: number; code: string } | null
   complete: boolean
   inRange: boolean
+  neverDries: boolean
 }
 
-/** Per job, in planning order: pieces planned before `to`, and the day its last cast comes out. */
-function summariseJobs(ctx: Ctx, runs: ItemRun[]): PlannerJobOutcome[] {
+/** The local date of an instant in the workshop's zone. */
+const localDay = (t: number, zone: string) => DateTime.fromMillis(t, { zone }).toISODate()!
+
+/**
+ * Per job, in planning order: pieces planned before `to`, and when its last piece is ready to
+ * dispatch: each cast's demould (the window's opening, or the next shift start for a cast held
+ * overnight) plus its item's readyHours (fettling and drying, worked out by the caller from the
+ * drying model), the latest of them.
+ */
+function summariseJobs(ctx: Ctx, runs: ItemRun[], zone: string): PlannerJobOutcome[] {
   const jobs = new Map<string, JobTally>()
   for (const { item, placed, unplaced } of runs) {
     let j = jobs.get(item.jobId)
     if (!j) {
-      const out = { jobId: item.jobId, jobCode: item.jobCode, dueOn: item.dueOn, piecesPlanned: 0, piecesRemaining: 0, finishesOn: null, onTime: false, projectedDate: null }
-      j = { out, last: null, complete: true, inRange: true }
+      const out: PlannerJobOutcome = {
+        jobId: item.jobId, jobCode: item.jobCode, dueOn: item.dueOn, piecesPlanned: 0, piecesRemaining: 0, finishesOn: null, onTime: false,
+        projectedDate: null, readyAt: null, waitsFor: null, note: null,
+      }
+      j = { out, readyAt: -Infinity, waits: null, complete: true, inRange: true, neverDries: false }
       jobs.set(item.jobId, j)
     }
     j.out.piecesRemaining += item.piecesRemaining
     if (unplaced) j.complete = false
+    if (item.readyHours === null && placed.length) j.neverDries = true
     for (const p of placed) {
       if (p.slotStart < ctx.to) j.out.piecesPlanned++
       else j.inRange = false
-      const day = ctx.wins[p.outDayIndex]!.day
-      if (j.last === null || day > j.last) j.last = day
+      const demouldAt = p.slotEnd - p.timing.cleanMinutes * MINUTE_MS
+      const ready = demouldAt + (item.readyHours ?? 0) * HOUR_MS
+      if (ready > j.readyAt) j.readyAt = ready
+      // the job waits for mould work when a cast goes in on the day its mould becomes free
+      const free = p.lane.availableFrom
+      if (free > ctx.earliest && p.slotStart < free + DAY_MS && (!j.waits || free > j.waits.at)) j.waits = { at: free, code: p.lane.mould.code }
     }
   }
-  return [...jobs.values()].map(({ out, last, complete, inRange }) => {
-    // Nothing left to cast: on time, with no date to report.
+  return [...jobs.values()].map(({ out, readyAt, waits, complete, inRange, neverDries }) => {
+    // Nothing left to cast: on time, with no dates to report.
     if (out.piecesRemaining === 0) return { ...out, onTime: true }
-    const projectedDate = complete ? last : null
-    const finishesOn = complete && inRange ? last : null
+    const waitsFor = waits ? `Waits for mould ${waits.code}, available from ${localDay(waits.at, zone)}.` : null
+    if (neverDries) {
+      return { ...out, waitsFor, note: 'The casts will not dry in the drying room\'s conditions: no date until the room is drier or warmer.' }
+    }
+    const dated = complete && readyAt > -Infinity
+    const projectedDate = dated ? localDay(readyAt, zone) : null
+    const finishesOn = dated && inRange ? projectedDate : null
     const onTime = projectedDate !== null && (out.dueOn === null || projectedDate <= out.dueOn)
-    return { ...out, projectedDate, finishesOn, onTime }
+    return { ...out, projectedDate, finishesOn, onTime, readyAt: dated ? new Date(readyAt) : null, waitsFor }
   })
 }
 
-function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>): ItemRun {
+/** The item's candidate mould ids: named first, then its profile's and its named moulds' profiles'. */
+function candidateIds(item: PlannerItem, byId: Map<string, PlannerMould>, byProfile: Map<string, string[]>): string[] {
+  const ids = [...item.mouldIds, ...(item.alternativeMouldIds ?? [])]
+  const profiles = new Set<string>()
+  if (item.profileId) profiles.add(item.profileId)
+  for (const id of ids) {
+    const p = byId.get(id)?.profileId
+    if (p) profiles.add(p)
+  }
+  for (const p of profiles) ids.push(...(byProfile.get(p) ?? []))
+  return [...new Set(ids)]
+}
+
+function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>, ids: string[]): ItemRun {
   const pieces = item.piecesRemaining
   if (pieces === 0) return { item, placed: [], unplaced: null }
   if (!item.sampleReleased) {
     const msg = 'The job waits for the client to approve its sample cast; the run is not released to the board.'
     return { item, placed: [], unplaced: unplacedOf(item, 'sample-awaiting-approval', pieces, msg) }
   }
-  const ids = [...new Set([...item.mouldIds, ...(item.alternativeMouldIds ?? [])])]
-  ids.forEach(id => named.add(id))
+  item.mouldIds.forEach(id => named.add(id))
+  item.alternativeMouldIds?.forEach(id => named.add(id))
   const candidates = ids.map(id => lanes.get(id)).filter((l): l is Lane => l !== undefined)
   if (candidates.length === 0) {
-    const msg = 'None of the item\'s moulds can be used: unknown, in repair or retired.'
+    const msg = item.mouldIds.length || item.alternativeMouldIds?.length
+      ? 'None of the item\'s moulds can be used: unknown, in repair or retired.'
+      : 'No mould of the item\'s profile can be used: none made yet, or all in repair or retired.'
     return { item, placed: [], unplaced: unplacedOf(item, 'no-usable-mould', pieces, msg) }
   }
   return placeItem(ctx, item, index, candidates)
@@ -523,8 +721,13 @@ export function planPours(input: PlanPoursInput): PlanPoursResult {
   const named = new Set<string>()
   const runs: ItemRun[] = []
   const pours: ProposedPour[] = []
+  const byId = new Map(input.moulds.map(m => [m.id, m]))
+  const byProfile = new Map<string, string[]>()
+  for (const m of input.moulds) {
+    if (m.profileId) byProfile.set(m.profileId, [...(byProfile.get(m.profileId) ?? []), m.id])
+  }
   for (const { item, index } of order) {
-    const run = runItem(ctx, lanes, item, index, named)
+    const run = runItem(ctx, lanes, item, index, named, candidateIds(item, byId, byProfile))
     runs.push(run)
     for (const p of run.placed) {
       if (p.slotStart < ctx.to) pours.push(toProposedPour(ctx, item, p))
@@ -532,5 +735,5 @@ export function planPours(input: PlanPoursInput): PlanPoursResult {
   }
   pours.sort((a, b) => a.slotStart.getTime() - b.slotStart.getTime() || compareIds(a.mouldId, b.mouldId))
   const unplaced = runs.flatMap(r => (r.unplaced ? [r.unplaced] : []))
-  return { pours, jobs: summariseJobs(ctx, runs), unplaced, moulds: mouldNotes(input, lanes, named) }
+  return { pours, jobs: summariseJobs(ctx, runs, input.calendar.timezone), unplaced, moulds: mouldNotes(input, lanes, named) }
 }

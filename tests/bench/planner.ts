@@ -3,7 +3,10 @@
  * A synthetic workshop: 60 moulds on 6 benches, 20 working days, 2,000 pieces across 80 items
  * and 25 jobs, 40 existing pours and 4 casters, all from a seeded PRNG so every run plans the
  * same board. Prints the median and p95 of 5 timed runs after a warm-up; never asserts. A second
- * run lets every item use every mould, the planner's worst case for candidates per piece.
+ * run lets every item use every mould, the planner's worst case for candidates per piece. A third
+ * plans the real shop: the same 2,000 pieces over 60 moulds of 20 profiles (items name only a
+ * profile), 8 casters with their own hours and absences, a holiday inside the 20 working days,
+ * new moulds still being made and finish dates with drying.
  */
 import { performance } from 'node:perf_hooks'
 import { GRADE_PRESETS } from '#shared/utils/plaster'
@@ -124,6 +127,33 @@ function measure(name: string, input: PlanPoursInput): void {
   record({ name: `${name}, ${pieces} pieces: median`, value: `${med.toFixed(0)} ms`, target: `< ${TARGET_MS} ms`, met: med < TARGET_MS, note: `p95 ${percentile(wall, 95).toFixed(0)} ms, cpu ${percentile(cpu, 50).toFixed(0)} ms` })
 }
 
+/**
+ * The real shop: 20 profiles of 3 identical moulds each; every item names only its profile;
+ * 8 casters (two on short days, each with an absence, one a fortnight away); a holiday on Monday
+ * 18 January; two moulds still being made; 30 to 80 h of fettling and drying per cast.
+ */
+function shopInput(base: PlanPoursInput): PlanPoursInput {
+  const moulds = base.moulds.map((m, i): PlannerMould => ({
+    ...m, profileId: `p${(i % 20) + 1}`, ...(i === 5 || i === 25 ? { availableFrom: new Date('2027-01-13T00:00:00Z') } : {}),
+  }))
+  const casters = Array.from({ length: 8 }, (_, i) => `c${i + 1}`)
+  const casterCalendars = Object.fromEntries(casters.map((c, i) => [c, {
+    ...(i < 2 ? { shiftStart: '09:00', shiftEnd: '13:00' } : {}),
+    absences: [i === 7
+      ? { fromDay: '2027-01-11', toDay: '2027-01-22' }
+      : { fromDay: `2027-01-${String(5 + 2 * i).padStart(2, '0')}`, toDay: `2027-01-${String(6 + 2 * i).padStart(2, '0')}` }],
+    maxMixes: i === 0 ? 2 : 1,
+  }]))
+  return {
+    ...base,
+    moulds,
+    closures: [{ fromDay: '2027-01-18', toDay: '2027-01-18' }],
+    items: base.items.map((it, i) => ({ ...it, mouldIds: [], profileId: `p${(i % 20) + 1}`, readyHours: 30 + (i % 6) * 10 })),
+    options: { casters, casterCalendars, benchMaxMixes: { 1: 2, 2: 2 } },
+  }
+}
+
 const input = buildInput()
 measure('planner', input)
 measure('planner, every item on every mould', wideInput(input))
+measure('planner, real shop (20 profiles, 8 casters with absences, a holiday, mould work, drying)', shopInput(input))

@@ -165,8 +165,8 @@ describe('planPours: jobs, samples and the projection', () => {
     ]
     const { result } = plan({ moulds, items })
     expect(result.jobs).toEqual([
-      { jobId: 'late', jobCode: 'J-LATE', dueOn: '2026-12-08', piecesPlanned: 45, piecesRemaining: 50, finishesOn: null, onTime: false, projectedDate: '2026-12-14' },
-      { jobId: 'ok', jobCode: 'J-OK', dueOn: '2026-12-10', piecesPlanned: 3, piecesRemaining: 3, finishesOn: '2026-12-07', onTime: true, projectedDate: '2026-12-07' },
+      { jobId: 'late', jobCode: 'J-LATE', dueOn: '2026-12-08', piecesPlanned: 45, piecesRemaining: 50, finishesOn: null, onTime: false, projectedDate: '2026-12-14', readyAt: expect.any(Date), waitsFor: null, note: null },
+      { jobId: 'ok', jobCode: 'J-OK', dueOn: '2026-12-10', piecesPlanned: 3, piecesRemaining: 3, finishesOn: '2026-12-07', onTime: true, projectedDate: '2026-12-07', readyAt: expect.any(Date), waitsFor: null, note: null },
     ])
     expect(result.pours.every(p => p.slotStart < at('2026-12-12T00:00:00Z'))).toBe(true)
   })
