@@ -11,6 +11,7 @@
 // the row as it will be stored. The kinds Setline had no export for (grades, benches,
 // clients, sites, open jobs) export through `exportKind` with the very columns they import.
 import type { Knex } from 'knex'
+import { profilesRepo } from '../repos/profiles'
 import type { ZodType } from 'zod'
 import type { ImportPreview, ImportProblem, ImportResult, ImportRowPreview } from '#shared/types/imports'
 import type { ImportKind } from '#shared/utils/import-schemas'
@@ -505,7 +506,8 @@ const jobs: KindSpec<JobValue> = {
               ? { run: { walls: v.walls!, castLengthM: mould!.cast_length_m!, minPieceM, sparesPct } }
               : { quantity: v.quantity! }).pieces
             item = {
-              mould_id: v.mouldId ?? null, profile: v.profile ?? null, description: v.description, quantity: kind === 'run' ? null : v.quantity!,
+              // the profile is linked when the rows are written (write below), like the item form does
+              mould_id: v.mouldId ?? null, profile: v.profile ?? null, profile_id: null, description: v.description, quantity: kind === 'run' ? null : v.quantity!,
               run_m: kind === 'run' ? round6(v.walls!.reduce((m, w) => m + w.lengthM, 0)) : null, walls: kind === 'run' ? JSON.stringify(v.walls) : null,
               min_piece_m: kind === 'run' ? minPieceM : null, spares_pct: kind === 'run' ? sparesPct : 0, pieces_needed: pieces,
               grade_id: v.gradeId ?? null, consistency: v.consistency ?? grade?.consistency_default ?? null,
@@ -527,6 +529,12 @@ const jobs: KindSpec<JobValue> = {
   },
   async write(trx, workshopId, _actorId, values) {
     const ids = await jobsRepo.insertMany(trx, workshopId, values.flatMap(v => (v.job ? [v.job] : [])))
+    // an item naming a profile the workshop has is linked to it (as the job item form does)
+    const profileIds = new Map<string, number | null>()
+    for (const name of new Set(values.flatMap(v => (v.item?.profile ? [v.item.profile] : [])))) {
+      profileIds.set(name, await profilesRepo.find(trx, workshopId, name))
+    }
+    for (const v of values) if (v.item?.profile) v.item.profile_id = profileIds.get(v.item.profile) ?? null
     const order = new Map<number, number>()
     await jobItemsRepo.insertMany(trx, workshopId, values.flatMap((v) => {
       if (!v.item) return []

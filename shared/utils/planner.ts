@@ -246,7 +246,7 @@ function casterBook(input: PlanPoursInput, casters: string[], shop: Win[], horiz
       ? shiftWindows({
           timezone: input.calendar.timezone, shiftStart: c.shiftStart ?? input.calendar.shiftStart, shiftEnd: c.shiftEnd ?? input.calendar.shiftEnd,
           workingDays: c.workingDays ?? input.calendar.workingDays, ...horizon,
-        }).filter(w => !dayIn(w.day, closures)).map((w): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime() }))
+        }).filter(w => !dayIn(w.day, closures)).map((w): Win => ({ day: w.day, start: w.start.getTime(), end: w.end.getTime(), breaks: w.breaks.map(b => [b.start.getTime(), b.end.getTime()]) }))
       : shop
     const absences = c.absences ?? []
     const off: [number, number][] = []
