@@ -20,13 +20,19 @@ export type BoardPlanPreview = Awaited<ReturnType<typeof fetchPreview>>
 
 export async function useBoard(range: MaybeRefOrGetter<{ from: string; to: string }>) {
   const query = computed(() => toValue(range))
+  // composables that read the Nuxt instance go before the first await (it is gone after it on the server)
+  const t = useWorkshopTime(() => data.value?.workshop.timezone ?? 'UTC')
+  // live events register on the page's mount, so before the await too; they arrive after the fetch
+  useLiveEvents(['pour.created', 'pour.updated', 'pour.voided', 'board.refreshed'], (e) => {
+    if (e.type === 'board.refreshed' || e.type === 'catch-up' || !data.value) return refresh()
+    patch(e.row, e.type === 'pour.voided')
+  })
   const { data: wire, error: loadError, refresh } = await useFetch('/api/board', { query, key: BOARD_KEY })
   // the board as the components read it: expanded once per fetch, then patched pour by pour
   const data = shallowRef<BoardScreen | null>(null)
   watch(wire, (w) => {
     data.value = w ? { ...w, pours: expandBoardPours(w) } : null
   }, { immediate: true })
-  const t = useWorkshopTime(() => data.value?.workshop.timezone ?? 'UTC')
   /** Bound by the page to the timeline component (ref="timeline"). */
   const timeline = ref<BoardTimelineHandle | null>(null)
 
@@ -42,10 +48,6 @@ export async function useBoard(range: MaybeRefOrGetter<{ from: string; to: strin
     data.value = { ...screen, pours: removed ? rest : [...rest, row].sort((a, b) => a.slotStart.localeCompare(b.slotStart) || a.id - b.id) }
     timeline.value?.patchPour(row, removed)
   }
-  useLiveEvents(['pour.created', 'pour.updated', 'pour.voided', 'board.refreshed'], (e) => {
-    if (e.type === 'board.refreshed' || e.type === 'catch-up' || !data.value) return refresh()
-    patch(e.row, e.type === 'pour.voided')
-  })
 
   const message = ref('')
   const error = ref('')

@@ -163,8 +163,8 @@ describe('pour board', () => {
     // the move's own live event patches the calendar: wait for the bar to stand on its new lane
     // (and leave CB-12's) so the next gesture does not start while the lanes are redrawn
     const rs05 = page.locator(`.fc-timeline-lane[data-resource-id="${await resourceId(page, 'RS-05')}"]`)
-    await expect.poll(() => rs05.locator('[data-testid="pour-bar"]').count()).toBe(1)
-    await expect.poll(() => lane.locator('[data-testid="pour-bar"]').count()).toBe(0)
+    await expect.poll(() => rs05.locator('[data-testid="pour-bar"]').count(), { timeout: 10_000 }).toBe(1)
+    await expect.poll(() => lane.locator('[data-testid="pour-bar"]').count(), { timeout: 10_000 }).toBe(0)
 
     // a second pour on CB-12, then try to move it onto the first: refused with the reason
     await selectSlot(page, 'CB-12')

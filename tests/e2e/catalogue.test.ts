@@ -53,7 +53,7 @@ describe('lead sets up a mould and a job', () => {
     await page.getByRole('button', { name: 'New job' }).click()
     await page.getByLabel('Job code').fill(`J-${uid}`)
     await page.getByLabel('Title').fill('Library cornice')
-    await page.getByLabel('Site').fill('Orchard Road library (invented)')
+    await page.getByLabel('Site note').fill('Orchard Road library (invented)')
     await page.getByRole('button', { name: 'Add job' }).click()
     await page.getByRole('heading', { level: 1, name: new RegExp(`J-${uid}`) }).waitFor()
 

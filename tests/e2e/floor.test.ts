@@ -13,9 +13,21 @@ import { seriousAxeViolations } from '../setup/axe'
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
+/**
+ * A timezone where it is now between 04:00 and 20:00: the pours below start up to 90 minutes
+ * ago, and the floor shows the workshop's local today, so near midnight they would fall on
+ * yesterday. One of these offsets (0, −5, −8, −10, +5:30, +9, +10) is always far from midnight.
+ */
+function zoneAwayFromMidnight(now = new Date()): string {
+  const zones = ['Europe/London', 'America/New_York', 'America/Los_Angeles', 'Pacific/Honolulu', 'Asia/Kolkata', 'Asia/Tokyo', 'Australia/Brisbane']
+  const hour = (zone: string) => Number(new Intl.DateTimeFormat('en-GB', { hour: '2-digit', hourCycle: 'h23', timeZone: zone }).format(now))
+  return zones.find(z => hour(z) >= 4 && hour(z) < 20)!
+}
+
 beforeAll(async () => {
   browser = await openBrowser(VIEWPORTS.tablet)
   fx = await boardFixture('floor-e2e')
+  await fx.k('workshops').where({ id: fx.workshopId }).update({ timezone: zoneAwayFromMidnight() })
 })
 afterAll(async () => {
   await browser?.close()
@@ -156,7 +168,8 @@ describe('floor', () => {
       await expect.poll(() => countdown.getAttribute('data-phase')).toBe('setting')
       const shift = tapped - planned.mix_at.getTime()
       const opens = planned.demould_open_at.getTime() + shift
-      const clock = (ms: number) => new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(ms)
+      const zone = (await fx.k('workshops').where({ id: fx.workshopId }).first('timezone')).timezone as string
+      const clock = (ms: number) => new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(ms)
       const note = (await countdown.textContent())!
       // the tap falls within a few seconds of `tapped`: the opening is that minute or the next
       expect([clock(opens), clock(opens + 60_000)].some(c => note.includes(`window ${c}`)), note).toBe(true)
