@@ -49,28 +49,71 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
   await boss.start()
   const every = repeats()
   const send = (name: JobName, startAfter?: Date) =>
-    boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: 15 * 60 }).catch((err: Error) => {
+    boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: name === 'cleanup' ? 15 * 60 : 120 }).catch((err: Error) => {
       log.error({ job: name, err: { message: err.message } }, 'job not queued')
       return null
     })
-  for (const name of JOB_NAMES) {
-    await boss.createQueue(name, { name, policy: 'stately' })
-    const pollingIntervalSeconds = name.startsWith('mail') ? 0.5 : 2
-    await boss.work(name, { pollingIntervalSeconds }, async () => {
-      const gap = every[name]
-      if (gap) await send(name, new Date(Date.now() + gap))
-      const db = useDb()
+  /** One run of a job, every step caught: a failed run is logged and recorded, never thrown. */
+  async function runOnce(name: JobName) {
+    const gap = every[name]
+    if (gap) await send(name, new Date(Date.now() + gap))
+    const db = useDb()
+    try {
       await backgroundRunsRepo.started(db, name)
+      const items = await handlers[name]()
+      await backgroundRunsRepo.finished(db, name, true, items)
+      if (items) log.info({ job: name, items }, 'background run')
+    }
+    catch (err) {
+      await backgroundRunsRepo.finished(db, name, false, 0).catch(() => {})
+      log.error({ job: name, err: { message: err instanceof Error ? err.message : String(err) } }, 'background run failed')
+    }
+  }
+  let stopped = false
+  let wake: (() => void) | undefined
+  const pause = (ms: number) => new Promise<void>((resolve) => {
+    const timer = setTimeout(resolve, ms)
+    wake = () => {
+      clearTimeout(timer)
+      resolve()
+    }
+  })
+  /**
+   * One queue's worker: fetch a job, run it, mark it done, each step awaited and caught. pg-boss
+   * 10's own work() leaves its complete and fail calls unawaited, so a database that goes away
+   * during a run surfaced as an unhandled rejection; here it is logged, and the completion is
+   * tried again for a few seconds (after that the job runs out at its expiry and runs again).
+   */
+  async function worker(name: JobName, pollMs: number) {
+    while (!stopped) {
+      let job: { id: string } | undefined
       try {
-        const items = await handlers[name]()
-        await backgroundRunsRepo.finished(db, name, true, items)
-        if (items) log.info({ job: name, items }, 'background run')
+        [job] = await boss.fetch(name)
       }
       catch (err) {
-        await backgroundRunsRepo.finished(db, name, false, 0).catch(() => {})
-        log.error({ job: name, err: { message: err instanceof Error ? err.message : String(err) } }, 'background run failed')
+        log.error({ job: name, err: { message: err instanceof Error ? err.message : String(err) } }, 'job queue')
       }
-    })
+      if (!job) {
+        await pause(pollMs)
+        continue
+      }
+      await runOnce(name)
+      for (let attempt = 0; attempt < 10 && !stopped; attempt++) {
+        try {
+          await boss.complete(name, job.id)
+          break
+        }
+        catch (err) {
+          if (attempt === 0) log.error({ job: name, err: { message: err instanceof Error ? err.message : String(err) } }, 'job queue: completion not recorded yet')
+          await pause(1000)
+        }
+      }
+    }
+  }
+  const workers: Promise<void>[] = []
+  for (const name of JOB_NAMES) {
+    await boss.createQueue(name, { name, policy: 'stately' })
+    workers.push(worker(name, name.startsWith('mail') ? 500 : 2000))
   }
   // the first run of each repeating job; absorbed when an instance already queued one
   for (const name of Object.keys(every) as JobName[]) await send(name)
@@ -79,6 +122,9 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
     boss,
     send,
     async stop() {
+      stopped = true
+      wake?.()
+      await Promise.race([Promise.all(workers), new Promise(resolve => setTimeout(resolve, 5000))])
       await boss.stop({ graceful: true, timeout: 5000, wait: true })
     },
   }
