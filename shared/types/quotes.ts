@@ -84,12 +84,5 @@ export interface ClientQuote {
   earlier: { revision: number; status: QuoteStatus; total: number; sentAt: string | null }[]
 }
 
-export interface ClientQuoteSummary {
-  id: number
-  number: string
-  title: string
-  revision: number
-  status: QuoteStatus
-  currency: string
-  total: number
-}
+/** A line of GET /api/client/quotes: the latest sent revision in brief. */
+export type ClientQuoteSummary = Pick<ClientQuote, 'id' | 'number' | 'title' | 'revision' | 'status' | 'currency' | 'total'>

@@ -1,0 +1,87 @@
+// From enquiry to an accepted quote, in the browser: the lead sets the workshop's rates, prices
+// a take-off (our own worked example's drawing room), sends it; the client accepts it on a phone.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
+import { testContext } from '../setup/context'
+import { seriousAxeViolations } from '../setup/axe'
+
+const base = testContext().baseUrl
+let desk: Awaited<ReturnType<typeof openBrowser>>
+let phone: Awaited<ReturnType<typeof openBrowser>>
+beforeAll(async () => {
+  desk = await openBrowser(VIEWPORTS.desktop)
+  phone = await openBrowser(VIEWPORTS.phone)
+})
+afterAll(async () => {
+  await desk?.close()
+  await phone?.close()
+  await closeTestDb()
+})
+
+describe('a quote from take-off to acceptance', () => {
+  it('the lead prices and sends a take-off; the client accepts it on a phone', async () => {
+    const lead = await desk.context.newPage()
+    await signInThroughForm(lead, base, demo.lead.email, DEMO_PASSWORD)
+    await lead.goto(`${base}/lead/quotes`)
+    await lead.getByRole('heading', { level: 1, name: 'Quotes' }).waitFor()
+    await lead.locator('html[data-hydrated]').waitFor()
+
+    // rates: typed as money, kept in pence
+    await lead.getByRole('button', { name: 'Rates' }).click()
+    const rates: [string, string][] = [['Plaster, per bag', '18.50'], ['A new mould', '420'], ['Casting, per length', '35'], ['Casting, per piece', '28'],
+      ['Fettling, per piece', '9'], ['Fixing on site, per metre', '12.50'], ['Delivery, per trip', '60']]
+    for (const [label, value] of rates) await lead.getByLabel(label).fill(value)
+    await lead.getByLabel('Margin').fill('15')
+    await lead.getByLabel('Tax').fill('20')
+    await lead.getByLabel('Deposit asked').fill('30')
+    await lead.getByRole('button', { name: 'Save rates' }).click()
+    await lead.getByText(/Rates saved/).waitFor()
+
+    // the take-off: one drawing room, walls 5.0 m and 3.1 m, 9 kg per length, a new mould
+    await lead.getByRole('button', { name: 'New quote' }).click()
+    await lead.getByLabel('Title').fill('Drawing room cornice')
+    await lead.getByLabel('Client').selectOption({ label: 'Hollin Row Architects' })
+    await lead.getByLabel('Room', { exact: true }).fill('Drawing room')
+    await lead.getByLabel('Run profile').fill('Egg-and-dart 150')
+    await lead.getByLabel('Walls').fill('5.0, 3.1')
+    await lead.getByLabel('Spares').fill('0')
+    await lead.getByLabel('Plaster per length').fill('9')
+    await lead.getByLabel('Needs a new mould').check()
+    expect(await seriousAxeViolations(lead)).toEqual([])
+    await lead.getByRole('button', { name: 'Price this take-off' }).click()
+    await lead.waitForURL(/\/lead\/quotes\/\d+$/)
+    await lead.getByRole('heading', { level: 1, name: /Q-\d{4} · Drawing room cornice/ }).waitFor()
+    // by hand (our own worked example; the form's defaults: 3 m lengths, 0.3 m shortest piece,
+    // 25 kg bags, one delivery, fixing on): unit prices carry the 15 % margin, rounded to the penny.
+    // New mould 483.00 + 3 lengths × 40.25 + fettling 3 × 10.35 + 2 bags × 21.28
+    // + fixing 8.1 m × 14.38 (116.478 → 116.48) + one delivery 69.00 = 862.84 net;
+    // tax 20 % = 172.568 → 172.57; total 1,035.41
+    await lead.getByText('£862.84', { exact: true }).waitFor()
+    await lead.getByText('£1,035.41', { exact: true }).waitFor()
+    await lead.getByText(/Shop's own estimate/).waitFor()
+    expect(await seriousAxeViolations(lead)).toEqual([])
+    await screenshot(lead, 'quote-lead-draft')
+    await lead.getByRole('button', { name: 'Send to client' }).click()
+    await lead.getByRole('dialog').getByRole('button', { name: 'Send to client' }).click()
+    await lead.getByText(/this revision is now frozen/).waitFor()
+    const quoteUrl = lead.url()
+
+    // the client, on a phone: the quote is listed, read, accepted
+    const client = await phone.context.newPage()
+    await signInThroughForm(client, base, demo.client1.email, DEMO_PASSWORD)
+    await client.goto(`${base}/client`)
+    await client.getByRole('heading', { name: 'Quotes' }).waitFor()
+    await client.getByRole('link', { name: /Drawing room cornice/ }).click()
+    await client.getByRole('heading', { level: 1, name: /Drawing room cornice/ }).waitFor()
+    await client.locator('html[data-hydrated]').waitFor()
+    expect(await client.getByText(/estimate/i).count()).toBe(0)
+    expect(await seriousAxeViolations(client)).toEqual([])
+    await client.getByRole('button', { name: 'Accept for £1,035.41' }).click()
+    await client.getByText(/the workshop has your acceptance/).waitFor()
+    await screenshot(client, 'quote-client-accepted')
+
+    await lead.goto(quoteUrl)
+    await lead.getByText(/Accepted · revision 1/).waitFor()
+  }, 120_000)
+})
