@@ -70,7 +70,9 @@ export const quotesRepo = {
     return db('quote_versions').first(VERSION_COLUMNS).where({ workshop_id: workshopId, quote_id: quoteId }).orderBy('revision', 'desc')
   },
   async insert(db: Knex, workshopId: number, input: { title: string; clientOrgId: number | null }): Promise<number> {
-    // numbers follow on per workshop; the unique (workshop_id, number) turns a race into a retry
+    // numbers follow on per workshop: two quotes made at once take turns on a lock held to the
+    // end of the caller's transaction (createQuote runs in one), so they never draw the same number
+    await db.raw('SELECT pg_advisory_xact_lock(hashtext(\'quotes.number\'), ?::int)', [workshopId])
     const [{ next }] = await db('quotes').where({ workshop_id: workshopId }).select(db.raw('coalesce(max(number), 0) + 1 as next'))
     const [row] = await db('quotes').insert({ workshop_id: workshopId, number: next, title: input.title, client_org_id: input.clientOrgId }).returning('id')
     return Number(row.id)

@@ -113,6 +113,12 @@ describe('quotes', () => {
     expect(v2.data.revisions[0].net).toBe(157987 - 11648 - 6900)
   })
 
+  it('numbers quotes made at the same moment one after another, never the same number twice', async () => {
+    const made = await Promise.all(Array.from({ length: 5 }, (_, i) => call('/api/quotes', { method: 'POST', cookie: lead, body: { title: `At once ${i}`, takeOff } })))
+    expect(made.map(r => r.status)).toEqual([201, 201, 201, 201, 201])
+    expect(new Set(made.map(r => r.data.number)).size).toBe(5)
+  })
+
   it('will not send a quote without a client, and a stale version is a conflict', async () => {
     const made = (await call('/api/quotes', { method: 'POST', cookie: lead, body: { title: 'No client yet', takeOff } })).data
     const r = await call(`/api/quotes/${made.id}/send`, { method: 'POST', cookie: lead, body: { version: made.version } })
