@@ -13,7 +13,7 @@ const STALL_SECONDS = 120
 const local = (col: string, as: string) => `to_char(${col} AT TIME ZONE w.timezone, 'YYYY-MM-DD HH24:MI') AS ${as}`
 
 const REGISTER_SELECT = [
-  'p.id AS "pourId"', 'p.state', 'p.is_sample AS "isSample"', 'pc.mark', 'pc.state AS "pieceState"', 'i.description AS item',
+  'p.id AS "pourId"', 'p.state', 'p.is_sample AS "isSample"', 'pc.mark', 'pc.id::int AS "pieceId"', 'pc.state AS "pieceState"', 'i.description AS item',
   'm.code AS mould', 'g.name AS grade', 'l.lot_code AS lot', 'p.consistency', 'p.plaster_kg_actual AS "plasterKgActual"', 'p.water_kg_actual AS "waterKgActual"',
   'p.water_temp_c AS "waterTempC"', 'p.powder_temp_c AS "powderTempC"', 'p.shop_temp_c AS "shopTempC"', 'p.slurry_temp_c AS "slurryTempC"',
   local('p.mix_at', '"mixPlanned"'), local('p.mixing_at', '"mixingAt"'), local('p.poured_at', '"pouredAt"'),

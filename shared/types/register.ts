@@ -8,6 +8,8 @@ export type RegisterRow = {
   state: string
   isSample: boolean
   mark: string | null
+  /** the piece's id, for its page (the CSV leaves it out) */
+  pieceId: number | null
   pieceState: string | null
   item: string
   mould: string
