@@ -82,7 +82,7 @@ async function historyOf(db: Knex, workshopId: number, pieceId: number): Promise
     const kind = String(e.type).replace(/^piece\./, '')
     const data = (e.data ?? {}) as { reason?: string | null; notes?: string | null; override?: boolean }
     return {
-      kind: KINDS.has(kind) ? kind as FinishingActionKind : kind === 'dispatched' ? 'dispatched' : 'other',
+      kind: KINDS.has(kind) ? kind as FinishingActionKind : kind === 'created' || kind === 'dispatched' ? kind : 'other',
       at: iso(e.at)!, by: e.name, note: data.reason ?? data.notes ?? null, override: data.override === true,
     }
   })

@@ -27,9 +27,9 @@ export interface PieceWeighingDto {
   isDry: boolean
 }
 
-/** One register entry of the piece: its finishing step (fettled, repair, …), when, by whom, and the reason or note given. */
+/** One register entry of the piece: made at demould, its finishing steps (fettled, repair, …), dispatched; when, by whom, and the reason or note given. */
 export interface PieceHistoryDto {
-  kind: FinishingActionKind | 'dispatched' | 'other'
+  kind: FinishingActionKind | 'created' | 'dispatched' | 'other'
   at: string
   by: string | null
   /** a repair's or rejection's reason, a repair's notes */

@@ -59,8 +59,9 @@ export function pieceNextSteps(state: FinishingPieceState): FinishingActionKind[
 /** A label token: 16 random bytes in base64url (22 characters), short enough for a small QR code. */
 export const LABEL_TOKEN_PATTERN = /^[\w-]{22}$/
 
+const NOT_A_LABEL = 'The scanned code is not a Setline label: it opens nothing'
 export const labelTokenParamSchema = z.object({
-  token: z.string({ error: 'label must be a Setline label code' }).regex(LABEL_TOKEN_PATTERN, { error: 'label must be a Setline label code' }),
+  token: z.string({ error: NOT_A_LABEL }).regex(LABEL_TOKEN_PATTERN, { error: NOT_A_LABEL }),
 })
 
 /** The address a label's QR code carries: the piece page, with the label's token. */

@@ -135,6 +135,12 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/jobs/[id]/dispatches', roles: LEAD, ids: { id: 'job' }, body: async s => ({ actionId: randomUUID(), pieceIds: [await s.id('newPackedPiece')] }) },
   { route: 'GET /api/jobs/[id]/dispatches', roles: ['lead', 'finisher'], ids: { id: 'job' } },
   { route: 'GET /api/dispatches/[id]', roles: ['lead', 'finisher'], ids: { id: 'dispatch' } },
+  // the piece page, labels and scans
+  { route: 'GET /api/pieces/[id]', roles: STAFF, ids: { id: 'piece' } },
+  { route: 'GET /api/pieces/[id]/label', roles: STAFF, ids: { id: 'piece' } },
+  { route: 'POST /api/pieces/[id]/label/revoke', roles: LEAD, ids: { id: 'newPiece' } },
+  { route: 'GET /api/jobs/[id]/labels', roles: STAFF, ids: { id: 'job' } },
+  { route: 'GET /api/labels/[token]', roles: STAFF, ids: { token: 'label' } },
   // shared tablets and PINs; the tablet's own two routes answer to its device cookie, not a session (tests/api/tablet.test.ts)
   { route: 'GET /api/tablets', roles: LEAD },
   { route: 'POST /api/tablets', roles: LEAD, body: () => ({ name: `Matrix tablet ${rnd()}` }), endsSession: true },

@@ -5,7 +5,7 @@
 // A new kind of row (a piece, a dispatch…): add it to KINDS with its table, to CLIENT_KINDS when
 // it belongs to a client's job, a standing row to each scope below, and a maker to `fresh` for
 // its `new…` kind when a route uses it up.
-import { randomUUID } from 'node:crypto'
+import { randomBytes, randomUUID } from 'node:crypto'
 import { call } from './http'
 import { demo, demoWorkshopId, testDb } from './fixtures'
 import { jpegWithGps, photoForm } from './photo-fixtures'
@@ -27,6 +27,7 @@ export const KINDS = {
   quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
+  label: 'piece_labels',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -127,6 +128,12 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   }
   /** A paid bank transfer on the job, straight in the database. */
   const paymentRow = (workshopId: number, jobId: number) => insert('payments', { workshop_id: workshopId, job_id: jobId, amount: 1000, currency: 'GBP', method: 'bank_transfer', status: 'paid', paid_at: new Date() })
+  /** A piece's live label; its id for a route is the token its QR code carries. */
+  const labelRow = async (workshopId: number, pieceId: Id) => {
+    const token = randomBytes(16).toString('base64url')
+    await k('piece_labels').insert({ workshop_id: workshopId, piece_id: pieceId, token })
+    return token
+  }
   const tabletRow = (workshopId: number, tag: string) => insert('tablet_devices', { workshop_id: workshopId, name: `Tablet ${tag}`, token_hash: `matrix-${randomUUID()}` })
   const orgRow = (workshopId: number, tag: string) => insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag}` })
   const contactRow = (workshopId: number, orgId: number, tag: string) => insert('client_contacts', { workshop_id: workshopId, client_org_id: orgId, name: `Contact ${tag}`, email: `${tag}-${++n}@contact.example.test` })
@@ -147,8 +154,9 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
     // asks a deposit, so ada has something to pay by card
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
-    clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own),
+    clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own), label: '',
   }
+  own.label = await labelRow(ws, own.piece)
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
   const job2 = await jobRow(ws, tags.otherClient, {}, client2)
@@ -187,7 +195,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     piece: 0, packedPiece: 0,
     quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
-    clientOrg: 0, contact: 0, site: 0,
+    clientOrg: 0, contact: 0, site: 0, label: '',
   }
   otherRows.clientOrg = await orgRow(ow, tags.other)
   otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)
@@ -195,6 +203,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   otherRows.item = await itemRow(ow, oJob, oGrade)
   otherRows.piece = await pieceRow(ow, tags.other, otherRows.item as number, 'to_fettle', oPour)
   otherRows.packedPiece = otherRows.piece
+  otherRows.label = await labelRow(ow, otherRows.piece)
   otherRows.payment = await paymentRow(ow, oJob)
   const standing: Record<ScopeName, Standing> = { own, other: otherRows, otherClient }
   const emails = { own: await email(await person(ws, 'client', tags.own)), other: await email(oClient) }
