@@ -3,8 +3,8 @@
 // address. Shared by the server (label data, scans) and the tablet (the scanner reads the token
 // back out of the address). Nuxt auto-imports every export of shared/utils, so names carry a
 // piece or label prefix.
-import { z } from 'zod'
 import { runCutList, type PlasterRunCutList } from './plaster-cutlist'
+import { LABEL_TOKEN_PATTERN } from './label-schemas'
 import { FINISHING_ACTION_KINDS, FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from './finishing-schemas'
 
 /**
@@ -55,14 +55,6 @@ export function pieceRunPlaceWords(p: PieceRunPlace): string {
 export function pieceNextSteps(state: FinishingPieceState): FinishingActionKind[] {
   return FINISHING_ACTION_KINDS.filter(k => FINISHING_STEPS[k].from.includes(state))
 }
-
-/** A label token: 16 random bytes in base64url (22 characters), short enough for a small QR code. */
-export const LABEL_TOKEN_PATTERN = /^[\w-]{22}$/
-
-const NOT_A_LABEL = 'The scanned code is not a Setline label: it opens nothing'
-export const labelTokenParamSchema = z.object({
-  token: z.string({ error: NOT_A_LABEL }).regex(LABEL_TOKEN_PATTERN, { error: NOT_A_LABEL }),
-})
 
 /** The address a label's QR code carries: the piece page, with the label's token. */
 export function labelUrl(appUrl: string, pieceId: number, token: string) {
