@@ -293,9 +293,10 @@ export function constantWeight(weighings: { kg: number; at: Date }[]): PlasterCo
   const earlier = [...rows].reverse().find(r => last.at - r.at >= minHoursApart * HOUR_MS)
   if (!earlier) {
     const first = rows[0]!
+    const so = rows.length === 1 ? 'weighed once so far' : `weighed ${rows.length} times, the first ${Math.round((last.at - first.at) / HOUR_MS)} h before the last`
     return {
       isDry: false, changePct: null, hoursApart: null,
-      message: `Needs a second weighing at least ${minHoursApart} hours after an earlier one (weighed ${rows.length} time${rows.length === 1 ? '' : 's'}, the first ${Math.round((last.at - first.at) / HOUR_MS)} h before the last) to show constant weight.`,
+      message: `Needs a second weighing at least ${minHoursApart} hours after an earlier one (${so}) to show constant weight.`,
     }
   }
   const { changePct, holds } = pairHolds(earlier, last)

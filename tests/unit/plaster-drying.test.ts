@@ -179,6 +179,7 @@ describe('constantWeight (common practice: 0.1 % over at least 24 h, this model\
   it('says what is missing: a weighing, a second one a day later, or a steady weight', () => {
     expect(constantWeight([]).message).toMatch(/Not weighed yet/)
     expect(constantWeight([{ kg: 10, at: h(0) }, { kg: 10, at: h(5) }]).message).toMatch(/second weighing at least 24 hours.*weighed 2 times, the first 5 h before the last/)
+    expect(constantWeight([{ kg: 10, at: h(0) }]).message).toMatch(/second weighing at least 24 hours after an earlier one \(weighed once so far\)/)
     expect(constantWeight([{ kg: 10.5, at: h(0) }, { kg: 10, at: h(25) }]).message).toMatch(/^Still changing: 5\.00 % over 25 h/)
   })
 
