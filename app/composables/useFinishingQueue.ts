@@ -4,7 +4,7 @@
 // the card moves at once ("sending…") and the server's answer replaces it. Live piece and
 // dispatch events read the queue again.
 import { FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from '#shared/utils/finishing-schemas'
-import { dryness } from '#shared/utils/plaster-drying'
+import { constantWeight, dryness } from '#shared/utils/plaster-drying'
 import type { ApiAnswer } from '~/utils/api-answer'
 
 const readQueue = () => $fetch('/api/finishing')
@@ -19,7 +19,6 @@ const LABEL: Record<FinishingActionKind, string> = {
 }
 
 export function useFinishingQueue() {
-  const w = useWorkshopFormat()
   const outbox = useOutboxStore()
   const queue = ref<FinishingQueueData | null>(null)
   const offlineCopy = ref(false)
@@ -51,15 +50,23 @@ export function useFinishingQueue() {
     return last ? FINISHING_STEPS[last.kind as FinishingActionKind].to : p.state
   }
   /**
-   * The card's piece: the server's, with a weighing still in the outbox shown as its last one
-   * (worked out here with the same `dryness`), so a finisher offline can weigh and then mark ready.
+   * The card's piece: the server's, with weighings still in the outbox added to its spell
+   * (worked out here with the same `dryness` and `constantWeight`), so a finisher offline can
+   * weigh and then mark ready.
    */
   function shownPiece(p: FinishingPiece): FinishingPiece {
-    const w = pendingFor(p.id).filter(e => e.kind === 'weighed').at(-1)
-    const kg = Number(w?.body.weighedKg)
-    if (!w || !(kg > 0)) return p
-    const d = dryness({ weighedKg: kg, dryMassKg: p.dryMassKg })
-    return { ...p, lastWeighing: { kg, at: w.tappedAt, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry } }
+    const queued = pendingFor(p.id).filter(e => e.kind === 'weighed' && Number(e.body.weighedKg) > 0)
+      .map(e => ({ kg: Number(e.body.weighedKg), at: typeof e.body.at === 'string' ? e.body.at : e.tappedAt }))
+    const w = queued.at(-1)
+    if (!w) return p
+    const d = dryness({ weighedKg: w.kg, dryMassKg: p.dryMassKg })
+    const weighings = [...p.weighings, ...queued]
+    return {
+      ...p,
+      lastWeighing: { kg: w.kg, at: w.at, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct },
+      weighings,
+      constantWeight: constantWeight(weighings.map(x => ({ kg: x.kg, at: new Date(x.at) }))),
+    }
   }
   /** The pieces a tab shows, as this tablet knows them. */
   const inState = (s: FinishingPieceState) => all.value.filter(p => stateOf(p) === s).map(shownPiece)
@@ -93,7 +100,7 @@ export function useFinishingQueue() {
       const r = e.result as FinishingActionAnswer | undefined
       if (r?.piece) replace(r.piece)
       if (r?.dryness) {
-        lastAnswer.value = `${r.piece.mark}: ${w.mass(r.dryness.freeWaterKg, 3)} free water left (${r.dryness.freeWaterPct.toFixed(1)} %), ${r.dryness.isDry ? 'dry: it can be marked ready' : 'not dry yet'}.`
+        lastAnswer.value = `${r.piece.mark}: ${r.dryness.constantWeight.isDry ? 'constant weight, dry: it can be marked ready' : r.dryness.constantWeight.message}`
       }
       if (r?.jobReady && r.piece.job) lastAnswer.value = `${r.piece.job.code} is ready for dispatch: every piece it needs is ready.`
     },

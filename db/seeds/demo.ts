@@ -76,7 +76,19 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
     pm33: await mould({ bench_id: benches.small, code: 'PM-33', casts: 'Bead-and-reel panel moulding, 0.9 m', material: 'plaster_piece', cavity_litres: 0.8, cast_length_m: 0.9, prep_minutes: 20, clean_minutes: 15, max_dwell_minutes: 45, pulls: 55, expected_pulls: 80, state: 'repair', state_reason: 'Chipped key on the return; re-cast the piece' }),
     rs05: await mould({ bench_id: benches.small, code: 'RS-05', casts: 'Rose enrichment, 90 mm', material: 'gelatine', cavity_litres: 0.2, prep_minutes: 10, clean_minutes: 5, max_dwell_minutes: 40, pulls: 14, expected_pulls: 25 }),
   }
-  return { grades, lots, benches, moulds }
+  // identical moulds share a profile: the planner may use either copy for an item of the profile
+  const profile = (name: string) => insertId(k, 'profiles', { workshop_id: workshopId, name })
+  const profiles: Ids = { eggDart: await profile('Egg-and-dart cornice'), corbel: await profile('Scroll corbel') }
+  await k('moulds').whereIn('id', [moulds.cr101!, moulds.cr102!]).update({ profile_id: profiles.eggDart })
+  await k('moulds').where({ id: moulds.cb12 }).update({ profile_id: profiles.corbel })
+  // a second corbel mould being made: the planner puts nothing in it before its available-from day
+  moulds.cb14 = await mould({ bench_id: benches.small, code: 'CB-14', casts: 'Scroll corbel, 220 mm (second copy, being made)', material: 'silicone', cavity_litres: 1.9, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 240, pulls: 0, expected_pulls: 150, profile_id: profiles.corbel })
+  await k('mould_works').insert({
+    workshop_id: workshopId, mould_id: moulds.cb14, kind: 'new', assigned_to: leadId, started_on: isoDay(-3), available_from: isoDay(8),
+    stages: JSON.stringify([{ stage: 'model', leadDays: 1, done: true }, { stage: 'running', leadDays: 2, done: true }, { stage: 'case', leadDays: 2, done: false }, { stage: 'mould', leadDays: 3, done: false }]),
+    notes: 'Squeeze taken from CB-12; silicone to go on after the case',
+  })
+  return { grades, lots, benches, moulds, profiles }
 }
 
 export async function seedDemo(k: Knex) {
@@ -91,7 +103,7 @@ export async function seedDemo(k: Knex) {
   })
 }
 
-interface Ctx { grades: Ids; lots: Ids; benches: Ids; moulds: Ids; orgs: Ids; users: Ids }
+interface Ctx { grades: Ids; lots: Ids; benches: Ids; moulds: Ids; profiles: Ids; orgs: Ids; users: Ids }
 
 async function seedJobs(k: Knex, workshopId: number, c: Ctx) {
   const job = (row: Record<string, unknown>) => insertId(k, 'jobs', { workshop_id: workshopId, ...row })
@@ -111,7 +123,7 @@ async function seedJobs(k: Knex, workshopId: number, c: Ctx) {
   ])
   const walls = [{ lengthM: 5.2 }, { lengthM: 4.1 }, { lengthM: 5.2 }, { lengthM: 4.1 }]
   const item = (row: Record<string, unknown>) => insertId(k, 'job_items', { workshop_id: workshopId, ...row })
-  const cornice = await item({ job_id: fernhill, mould_id: c.moulds.cr101, profile: 'Egg-and-dart cornice', description: 'Cornice run round the drawing room', run_m: 18.6, walls: JSON.stringify(walls), spares_pct: 10, pieces_needed: 18, grade_id: c.grades['beta-casting'], consistency: 70, sort_order: 1 })
+  const cornice = await item({ job_id: fernhill, mould_id: c.moulds.cr101, profile: 'Egg-and-dart cornice', profile_id: c.profiles.eggDart, description: 'Cornice run round the drawing room', run_m: 18.6, walls: JSON.stringify(walls), spares_pct: 10, pieces_needed: 18, grade_id: c.grades['beta-casting'], consistency: 70, sort_order: 1 })
   await item({ job_id: fernhill, mould_id: c.moulds.cr115, description: 'Internal corner blocks', quantity: 4, pieces_needed: 4, grade_id: c.grades['alpha-casting'], consistency: 35, sort_order: 2 })
   const centres = await item({ job_id: alder, mould_id: c.moulds.cc210, description: 'Acanthus ceiling centre, 600 mm', quantity: 6, pieces_needed: 6, grade_id: c.grades['beta-fibrous'], consistency: 68, sort_order: 1 })
   await item({ job_id: mill, mould_id: c.moulds.cb12, description: 'Scroll corbels', quantity: 8, pieces_needed: 8, grade_id: c.grades['alpha-casting'], consistency: 35, sort_order: 1 })

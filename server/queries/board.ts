@@ -60,7 +60,9 @@ SELECT w.timezone, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w
     'items', (SELECT coalesce(json_object_agg(i.id, json_build_object('jobId', i.job_id, 'description', i.description)), '{}') FROM job_items i
       WHERE i.workshop_id = w.id AND i.id IN (SELECT job_item_id FROM rp)),
     'grades', (SELECT coalesce(json_object_agg(g.id, g.name), '{}') FROM plaster_grades g WHERE g.workshop_id = w.id AND g.id IN (SELECT grade_id FROM rp)),
-    'people', (SELECT coalesce(json_object_agg(u.id, u.name), '{}') FROM users u WHERE u.workshop_id = w.id AND u.id IN (SELECT caster_id FROM rp))
+    'people', (SELECT coalesce(json_object_agg(u.id, u.name), '{}') FROM users u WHERE u.workshop_id = w.id AND u.id IN (SELECT caster_id FROM rp)),
+    'calibration', (SELECT coalesce(json_object_agg(g.id, json_build_object('factor', g.calibration_applied_factor::float8, 'count', g.calibration_applied_count)), '{}')
+      FROM plaster_grades g WHERE g.workshop_id = w.id AND g.calibration_applied AND g.calibration_applied_factor IS NOT NULL AND g.id IN (SELECT grade_id FROM rp))
   ) AS lookups
   FROM w`
 

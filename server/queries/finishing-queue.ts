@@ -1,20 +1,29 @@
 // The finisher's queue screen's read (GET /api/finishing) and the piece card every finishing answer carries.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import type { FinishingPieceDto, FinishingQueue } from '#shared/types/finishing'
+import type { FinishingDryingRoom, FinishingPieceDto, FinishingQueue } from '#shared/types/finishing'
 import { piecesRepo, type PieceViewRow } from '../repos/pieces'
 import { shopDaysRepo } from '../repos/shop-days'
 import type { WorkshopRow } from '../repos/workshops'
-import { dryness } from '#shared/utils/plaster-drying'
-import { FINISHING_TEAM_LIFT_KG, finishingHandlingKg } from '#shared/utils/finishing'
+import { constantWeight, dryMassGuide, dryness } from '#shared/utils/plaster-drying'
+import { FINISHING_FALLING_RATE_SPELLS, FINISHING_TEAM_LIFT_KG, finishingFallingRate, finishingHandlingKg } from '#shared/utils/finishing'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import { loadWorkshop } from '../services/workshop'
 
 const num = (v: number | null) => (v === null ? null : Number(v))
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
 
+/** The batch gauged over the planned one, % (0 when not known): the dry mass guide's low end. */
+function batchExcessPct(r: PieceViewRow) {
+  const planned = Number(r.plaster_kg_planned)
+  const actual = Number(r.plaster_kg_actual)
+  return planned > 0 && actual > 0 ? Math.max(0, (actual / planned - 1) * 100) : 0
+}
+
 export function pieceDto(r: PieceViewRow): FinishingPieceDto {
   const dryMassKg = Number(r.dry_mass_kg)
+  const weighings = (r.spell_weighings ?? []).map(w => ({ kg: Number(w.kg), at: new Date(w.at).toISOString() }))
+  const guide = dryMassGuide(dryMassKg, batchExcessPct(r))
   const wetMassKg = Number(r.wet_mass_kg)
   const lastKg = num(r.weighed_kg)
   const d = lastKg === null ? null : dryness({ weighedKg: lastKg, dryMassKg })
@@ -36,7 +45,10 @@ export function pieceDto(r: PieceViewRow): FinishingPieceDto {
     dryingTempC: num(r.drying_temp_c),
     dryingHumidityPct: num(r.drying_humidity_pct),
     reason: r.reason,
-    lastWeighing: d && r.weighed_at ? { kg: lastKg!, at: iso(r.weighed_at)!, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry } : null,
+    lastWeighing: d && r.weighed_at ? { kg: lastKg!, at: iso(r.weighed_at)!, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct } : null,
+    weighings,
+    constantWeight: constantWeight(weighings.map(w => ({ kg: w.kg, at: new Date(w.at) }))),
+    dryMassGuide: { lowKg: guide.lowKg, highKg: guide.highKg, batchExcessPct: guide.batchExcessPct },
     dispatchId: r.dispatch_id === null ? null : Number(r.dispatch_id),
   }
 }
@@ -46,11 +58,23 @@ export async function pieceDtos(db: Knex, workshopId: number, ids: number[]) {
 }
 
 /** The drying room's conditions to start from: today's shop day when the lead entered one, else the workshop's usual. */
-export async function dryingRoom(db: Knex, ws: WorkshopRow, at: Date): Promise<FinishingQueue['room']> {
+export async function dryingRoom(db: Knex, ws: WorkshopRow, at: Date): Promise<FinishingDryingRoom> {
   const day = await shopDaysRepo.on(db, ws.id, boardLocalDay(at, ws.timezone))
   return day
     ? { tempC: Number(day.temp_c), humidityPct: Number(day.humidity_pct), source: 'shop day' }
     : { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct), source: 'workshop' }
+}
+
+/** The shop's falling-rate factor from its latest drying spells (finishingFallingRate). */
+export async function shopFallingRate(db: Knex, workshopId: number) {
+  const spells = await piecesRepo.dryingSpells(db, workshopId, FINISHING_FALLING_RATE_SPELLS)
+  const num = (v: string | null) => (v === null ? null : Number(v))
+  return finishingFallingRate(spells.map(s => ({
+    fettledAt: new Date(s.fettled_at),
+    // spells put to dry before the factor was stored used factor 1, so their hours are the base
+    estimatedHours: num(s.base_hours) ?? num(s.hours),
+    weighings: s.weighings.map(w => ({ kg: Number(w.kg), at: new Date(w.at) })),
+  })))
 }
 
 const byDryBy = (a: FinishingPieceDto, b: FinishingPieceDto) =>
@@ -66,12 +90,12 @@ const byJobThenMark = (a: FinishingPieceDto, b: FinishingPieceDto) =>
 export async function finishingQueue(actor: Actor): Promise<FinishingQueue> {
   const db = useDb()
   const ws = await loadWorkshop(db, actor.workshopId)
-  const [rows, room] = await Promise.all([piecesRepo.open(db, ws.id), dryingRoom(db, ws, new Date())])
+  const [rows, room, fallingRate] = await Promise.all([piecesRepo.open(db, ws.id), dryingRoom(db, ws, new Date()), shopFallingRate(db, ws.id)])
   const pieces = rows.map(pieceDto)
   const inState = (s: FinishingPieceDto['state']) => pieces.filter(p => p.state === s)
   return {
     timezone: ws.timezone,
-    room,
+    room: { ...room, fallingRate },
     toFettle: inState('to_fettle'),
     repair: inState('repair'),
     drying: inState('drying').sort(byDryBy),

@@ -1,8 +1,9 @@
 // Every knex call for job_items, joined with the mould and grade the calculator needs.
 import type { Knex } from 'knex'
+import type { PlasterRunWall } from '#shared/utils/plaster-cutlist'
 
 export const ITEM_COLUMNS = ['id', 'job_id', 'mould_id', 'profile', 'description', 'quantity', 'run_m', 'walls', 'min_piece_m',
-  'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version', 'profile_id'] as const
+  'spares_pct', 'pieces_needed', 'grade_id', 'consistency', 'sort_order', 'version', 'profile_id', 'projection_m', 'saw_cut_m', 'corner_block_leg_m'] as const
 
 /** A job_items row as ITEM_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
 export interface ItemRow {
@@ -13,7 +14,7 @@ export interface ItemRow {
   description: string
   quantity: number | null
   run_m: number | null
-  walls: { lengthM: number }[] | null
+  walls: PlasterRunWall[] | null
   min_piece_m: number | null
   spares_pct: number
   pieces_needed: number
@@ -22,6 +23,9 @@ export interface ItemRow {
   sort_order: number
   version: number
   profile_id: number | null
+  projection_m: number | null
+  saw_cut_m: number | null
+  corner_block_leg_m: number | null
 }
 /** An item with its mould's code, cavity and cast length and its grade's name. */
 export type ItemListRow = ItemRow & { mould_code: string | null; cavity_litres: number | null; cast_length_m: number | null; grade_name: string | null }

@@ -44,23 +44,34 @@ export interface PieceViewRow {
   job_due_on: string | null
   weighed_kg: number | null
   weighed_at: Date | null
+  /** the current drying spell's weighings, oldest first (json: weighed_at as text) */
+  spell_weighings: { kg: number | string; at: string }[]
+  plaster_kg_planned: number | string | null
+  plaster_kg_actual: number | string | null
 }
 
 /**
- * The latest weighing that belongs to the piece's current drying spell: a weighing from before
+ * The piece's current drying spell: weighings from its last fettling on. A weighing from before
  * a repair (and the piece's second fettling) says nothing about how wet it is now.
  */
-const LAST_WEIGHING = `LEFT JOIN LATERAL (
-    SELECT w.weighed_kg, w.weighed_at FROM piece_weighings w
-    WHERE w.piece_id = c.id AND w.workshop_id = c.workshop_id
+const IN_SPELL = `w.piece_id = c.id AND w.workshop_id = c.workshop_id
       AND w.weighed_at >= coalesce((SELECT max(e.at) FROM events e WHERE e.workshop_id = c.workshop_id AND e.entity = 'piece'
-        AND e.entity_id = c.id::text AND e.type = 'piece.fettled'), '-infinity')
-    ORDER BY w.weighed_at DESC, w.id DESC LIMIT 1) lw ON true`
+        AND e.entity_id = c.id::text AND e.type = 'piece.fettled'), '-infinity')`
+
+/** The spell's latest weighing, and its last 20 weighings (oldest first) for the constant-weight test. */
+const LAST_WEIGHING = `LEFT JOIN LATERAL (
+    SELECT w.weighed_kg, w.weighed_at FROM piece_weighings w WHERE ${IN_SPELL}
+    ORDER BY w.weighed_at DESC, w.id DESC LIMIT 1) lw ON true
+  LEFT JOIN LATERAL (
+    SELECT coalesce(json_agg(json_build_object('kg', x.weighed_kg, 'at', x.weighed_at) ORDER BY x.weighed_at, x.id), '[]'::json) AS spell_weighings
+    FROM (SELECT w.id, w.weighed_kg, w.weighed_at FROM piece_weighings w WHERE ${IN_SPELL}
+      ORDER BY w.weighed_at DESC, w.id DESC LIMIT 20) x) sw ON true`
 
 const VIEW_SQL = `SELECT c.id, c.version, c.mark, c.state, c.dry_mass_kg, c.wet_mass_kg, c.dry_by, c.drying_temp_c, c.drying_humidity_pct,
     c.reason, c.dispatch_id, c.created_at, p.demoulded_at, m.code AS mould_code, m.casts AS mould_casts, m.cavity_litres,
     i.id AS item_id, i.description AS item_description, j.id AS job_id, j.code AS job_code, j.title AS job_title,
-    to_char(j.due_on, 'YYYY-MM-DD') AS job_due_on, lw.weighed_kg, lw.weighed_at
+    to_char(j.due_on, 'YYYY-MM-DD') AS job_due_on, lw.weighed_kg, lw.weighed_at, sw.spell_weighings,
+    p.plaster_kg_planned, p.plaster_kg_actual
   FROM pieces c
   JOIN pours p ON p.id = c.pour_id AND p.workshop_id = c.workshop_id
   JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = c.workshop_id
@@ -122,6 +133,25 @@ export const piecesRepo = {
   },
   async addWeighing(db: Knex, workshopId: number, w: { pieceId: number; kg: number; at: Date; by: number }) {
     await db('piece_weighings').insert({ workshop_id: workshopId, piece_id: w.pieceId, weighed_kg: w.kg, weighed_at: w.at.toISOString(), weighed_by: w.by })
+  },
+  /**
+   * The workshop's latest drying spells (newest first, at most `limit`): when each piece was put
+   * to dry, the hours the estimate gave (and at factor 1, `base_hours`, when stored), and the
+   * spell's weighings up to its end (a repair or rejection ends it), for the shop's falling-rate
+   * factor. Only spells with two weighings or more can show constant weight.
+   */
+  async dryingSpells(db: Knex, workshopId: number, limit: number): Promise<{ fettled_at: Date; hours: string | null; base_hours: string | null; weighings: { kg: number | string; at: string }[] }[]> {
+    const r = await db.raw(`SELECT e.at AS fettled_at, e.data->>'hours' AS hours, e.data->>'baseHours' AS base_hours, sw.weighings
+      FROM events e
+      CROSS JOIN LATERAL (
+        SELECT json_agg(json_build_object('kg', w.weighed_kg, 'at', w.weighed_at) ORDER BY w.weighed_at, w.id) AS weighings, count(*) AS n
+        FROM piece_weighings w
+        WHERE w.workshop_id = e.workshop_id AND w.piece_id = e.entity_id::bigint AND w.weighed_at >= e.at
+          AND w.weighed_at < coalesce((SELECT min(x.at) FROM events x WHERE x.workshop_id = e.workshop_id AND x.entity = 'piece'
+            AND x.entity_id = e.entity_id AND x.type IN ('piece.repair', 'piece.rejected', 'piece.fettled') AND x.at > e.at), 'infinity')) sw
+      WHERE e.workshop_id = ? AND e.entity = 'piece' AND e.type = 'piece.fettled' AND sw.n >= 2
+      ORDER BY e.at DESC, e.id DESC LIMIT ?`, [workshopId, limit])
+    return r.rows
   },
   /** When the piece's latest register entry happened (a new step may not be dated before it). */
   async lastEventAt(db: Knex, workshopId: number, id: number): Promise<Date | null> {

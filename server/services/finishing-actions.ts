@@ -3,8 +3,12 @@
 // with its register entry. The server judges the order of steps and the version the tablet saw.
 //
 // The steps are FINISHING_STEPS (shared/utils/finishing-schemas.ts); every piece action, a
-// weighing included, moves the piece's version on. Ready needs a weighing of the current drying
-// spell within 0.5 % free water (`dryness`), or a lead's `override`, kept in the register. A
+// weighing included, moves the piece's version on. Ready needs constant weight in the current
+// drying spell (`constantWeight`: two weighings at least a day apart within 0.1 %, at least 2 g,
+// plaster-drying.ts), or a lead's `override`, kept in the register; the free water against the
+// computed dry mass is shown as a guide only (the model's dry mass is good to about 2 %). The
+// dry-by date at fettling uses the shop's own falling-rate factor once enough of its pieces were
+// weighed to constant weight (finishingFallingRate), and says which factor it used. A
 // rejected piece's pour stops counting for the planner, the board and the client's counts
 // (COUNTED_POUR in server/repos/planning.ts), so its item is planned again. The `ready` step
 // mails the job's client when every item of the open job has its pieces ready, packed or
@@ -12,12 +16,12 @@
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'
 import { FINISHING_STEPS, type FinishingActionInput, type FinishingPieceState } from '#shared/utils/finishing-schemas'
-import { PLASTER_DRY_FREE_WATER_PCT, dryness } from '#shared/utils/plaster-drying'
+import { dryness } from '#shared/utils/plaster-drying'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { piecesRepo, type PieceRow } from '../repos/pieces'
 import { runStep, writeStep, type StepContext as Step, type StepMachine } from './step-machine'
 import { loadWorkshop } from './workshop'
-import { dryingRoom, pieceDtos } from '../queries/finishing-queue'
+import { dryingRoom, pieceDtos, shopFallingRate } from '../queries/finishing-queue'
 import { notifyJobReady } from './notify'
 
 type StepContext = Step<PieceRow>
@@ -43,41 +47,45 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
   const airTempC = input.dryingTempC ?? room.tempC
   const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
   const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
+  const fallingRate = await shopFallingRate(c.trx, c.actor.workshopId)
   const est = finishingDryBy({
-    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct,
+    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct, fallingRateFactor: fallingRate.factor,
   })
   const hours = Number.isFinite(est.hours) ? est.hours : null
+  const baseHours = hours === null ? null : hours / fallingRate.factor
   await write(c, 'fettled', { dry_by: est.dryBy, drying_temp_c: airTempC, drying_humidity_pct: relHumidityPct, reason: null },
-    { dryingTempC: airTempC, dryingHumidityPct: relHumidityPct, roomFrom: input.dryingTempC === undefined ? room.source : 'form', hours, dryBy: est.dryBy, warnings: est.warnings })
-  return { drying: { hours, dryBy: est.dryBy?.toISOString() ?? null, warnings: est.warnings } }
+    { dryingTempC: airTempC, dryingHumidityPct: relHumidityPct, roomFrom: input.dryingTempC === undefined ? room.source : 'form', hours, baseHours, fallingRate: { factor: fallingRate.factor, count: fallingRate.count, source: fallingRate.source }, dryBy: est.dryBy, warnings: est.warnings })
+  return { drying: { hours, dryBy: est.dryBy?.toISOString() ?? null, warnings: est.warnings, fallingRate } }
 }
 
 async function weighed(c: StepContext, input: Extract<FinishingActionInput, { kind: 'weighed' }>): Promise<StepOutcome> {
   const d = dryness({ weighedKg: input.weighedKg, dryMassKg: Number(c.row.dry_mass_kg) })
   await piecesRepo.addWeighing(c.trx, c.actor.workshopId, { pieceId: c.row.id, kg: input.weighedKg, at: c.at, by: c.actor.id })
-  await write(c, 'weighed', {}, { weighedKg: input.weighedKg, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry })
-  return { dryness: d }
+  // constant weight over the spell's weighings, this one included
+  const [view] = await pieceDtos(c.trx, c.actor.workshopId, [c.row.id])
+  const cw = view!.constantWeight
+  await write(c, 'weighed', {}, { weighedKg: input.weighedKg, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, constantWeight: cw.isDry, changePct: cw.changePct, hoursApart: cw.hoursApart })
+  return { dryness: { freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, warnings: d.warnings, constantWeight: cw } }
 }
 
 /**
- * Ready needs the trade's proof: the last weighing of this drying spell within 0.5 % free water
- * of the computed dry mass (plaster-drying.ts `dryness`). Without one, 409 names what is missing.
- * A lead may pass a piece anyway (`override`: the lead has judged it dry another way, e.g.
- * constant weight on the shop's own scale); the register keeps that it was overridden.
+ * Ready needs the trade's proof: constant weight over this drying spell's weighings (two at
+ * least a day apart within 0.1 %, at least 2 g; plaster-drying.ts `constantWeight`). Without
+ * it, 409 says what is missing (no weighing, no second weighing a day later, still changing).
+ * A lead may pass a piece anyway (`override`: the lead has judged it dry another way); the
+ * register keeps that it was overridden.
  */
 async function ready(c: StepContext, input: Extract<FinishingActionInput, { kind: 'ready' }>): Promise<StepOutcome> {
   if (input.override && c.actor.role !== 'lead') {
-    throw createError({ statusCode: 403, message: 'Only a lead can pass a piece as dry without a dry weighing' })
+    throw createError({ statusCode: 403, message: 'Only a lead can pass a piece as dry without constant weight' })
   }
   const [view] = await pieceDtos(c.trx, c.actor.workshopId, [c.row.id])
   const last = view?.lastWeighing ?? null
-  if (!input.override && !last?.isDry) {
-    const why = last
-      ? `its last weighing (${last.kg.toFixed(2)} kg) leaves ${last.freeWaterKg.toFixed(2)} kg of free water, ${last.freeWaterPct.toFixed(1)} % of its dry mass (dry is ${PLASTER_DRY_FREE_WATER_PCT} % or less)`
-      : 'it has not been weighed since it went to drying'
-    conflict(`Piece ${c.row.mark} is not shown dry yet: ${why}. Weigh it again when it has dried, or ask a lead to pass it.`, { state: c.row.state, version: c.row.version, lastWeighing: last })
+  const cw = view!.constantWeight
+  if (!input.override && !cw.isDry) {
+    conflict(`Piece ${c.row.mark} is not shown dry yet: ${cw.message} Ready needs constant weight, or a lead to pass it.`, { state: c.row.state, version: c.row.version, lastWeighing: last, constantWeight: cw })
   }
-  await write(c, 'ready', {}, { override: !!input.override, lastWeighing: last })
+  await write(c, 'ready', {}, { override: !!input.override, lastWeighing: last, constantWeight: cw })
   return { jobReady: await checkJobReady(c) }
 }
 

@@ -511,6 +511,8 @@ const jobs: KindSpec<JobValue> = {
               run_m: kind === 'run' ? round6(v.walls!.reduce((m, w) => m + w.lengthM, 0)) : null, walls: kind === 'run' ? JSON.stringify(v.walls) : null,
               min_piece_m: kind === 'run' ? minPieceM : null, spares_pct: kind === 'run' ? sparesPct : 0, pieces_needed: pieces,
               grade_id: v.gradeId ?? null, consistency: v.consistency ?? grade?.consistency_default ?? null,
+              // the import's columns carry walls only: corners are added on the item form
+              projection_m: null, saw_cut_m: null, corner_block_leg_m: null,
             }
           }
           catch (err) {

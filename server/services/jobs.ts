@@ -33,6 +33,7 @@ export function toJobItem(r: ItemRow): JobItem {
   return {
     id: r.id, jobId: r.job_id, mouldId: r.mould_id, profile: r.profile, description: r.description, quantity: r.quantity,
     runM: r.run_m, walls: r.walls, minPieceM: r.min_piece_m, sparesPct: r.spares_pct, piecesNeeded: r.pieces_needed,
+    projectionM: r.projection_m, sawCutM: r.saw_cut_m, cornerBlockLegM: r.corner_block_leg_m,
     gradeId: r.grade_id, consistency: r.consistency, sortOrder: r.sort_order, version: r.version,
   }
 }
@@ -95,7 +96,7 @@ export async function clientJobs(actor: Actor): Promise<ClientJobSummary[]> {
 function itemPlan(item: ItemListRow, grades: Map<number, GradeRow>): ItemPlanView {
   const grade = item.grade_id ? grades.get(item.grade_id) : undefined
   const run = item.walls && item.cast_length_m
-    ? { walls: item.walls, castLengthM: item.cast_length_m, minPieceM: item.min_piece_m ?? DEFAULT_MIN_PIECE_M, sparesPct: item.spares_pct }
+    ? { walls: item.walls, castLengthM: item.cast_length_m, minPieceM: item.min_piece_m ?? DEFAULT_MIN_PIECE_M, sparesPct: item.spares_pct, ...runCorners(item) }
     : null
   const attempt = <T>(fn: () => T): T | null => {
     try {
@@ -147,6 +148,15 @@ export async function clientJobDetail(actor: Actor, id: number): Promise<ClientJ
   }
 }
 
+/** The run calculator's corner figures an item stored (absent when not given). */
+function runCorners(r: { projection_m: number | null; saw_cut_m: number | null; corner_block_leg_m: number | null }) {
+  return {
+    ...(r.projection_m === null ? {} : { projectionM: Number(r.projection_m) }),
+    ...(r.saw_cut_m === null ? {} : { sawCutM: Number(r.saw_cut_m) }),
+    ...(r.corner_block_leg_m === null ? {} : { cornerBlockLegM: Number(r.corner_block_leg_m) }),
+  }
+}
+
 /** Checks the item's mould and grade belong to the workshop, then works out pieces and run length. */
 async function itemColumns(db: Knex, workshopId: number, input: JobItemCreateInput): Promise<ItemColumns> {
   const mould = input.mouldId ? await mouldsRepo.byId(db, workshopId, input.mouldId) : null
@@ -157,16 +167,17 @@ async function itemColumns(db: Knex, workshopId: number, input: JobItemCreateInp
   if (isRun && !mould?.cast_length_m) unprocessable([{ field: 'mouldId', message: 'mouldId must be a run mould with a cast length' }])
   const minPieceM = input.minPieceM ?? DEFAULT_MIN_PIECE_M
   const sparesPct = input.sparesPct ?? 0
+  const corners = { projection_m: isRun ? input.projectionM ?? null : null, saw_cut_m: isRun ? input.sawCutM ?? null : null, corner_block_leg_m: isRun ? input.cornerBlockLegM ?? null : null }
   // a run the model refuses (a wall shorter than the shortest piece) is the usual 422 (asHttpError)
   const pieces = itemPiecesNeeded(isRun
-    ? { run: { walls: input.walls!, castLengthM: mould!.cast_length_m!, minPieceM, sparesPct } }
+    ? { run: { walls: input.walls!, castLengthM: mould!.cast_length_m!, minPieceM, sparesPct, ...runCorners(corners) } }
     : { quantity: input.quantity! }).pieces
   return {
     mould_id: input.mouldId ?? null, profile: input.profile ?? null, description: input.description,
     // the item's profile in words, linked when the workshop has it (the planner also matches by name)
     profile_id: input.profile ? await profilesRepo.find(db, workshopId, input.profile) : null,
     quantity: isRun ? null : input.quantity!, run_m: isRun ? input.walls!.reduce((m, w) => m + w.lengthM, 0) : null,
-    walls: isRun ? JSON.stringify(input.walls) : null, min_piece_m: isRun ? minPieceM : null, spares_pct: isRun ? sparesPct : 0,
+    walls: isRun ? JSON.stringify(input.walls) : null, min_piece_m: isRun ? minPieceM : null, spares_pct: isRun ? sparesPct : 0, ...corners,
     pieces_needed: pieces, grade_id: input.gradeId ?? null,
     consistency: input.consistency ?? grade?.consistency_default ?? null, sort_order: input.sortOrder ?? 0,
   }

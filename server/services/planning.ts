@@ -14,7 +14,7 @@ import { planPours } from '#shared/utils/planner'
 import { plannedCastReadyHours } from '#shared/utils/client-completion'
 import { mouldWorksRepo } from '../repos/mould-works'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
-import { appliedSetFactor } from '#shared/utils/plaster-set'
+import { appliedSetFactor, calibrationNote } from '#shared/utils/plaster-set'
 import type { PlanPoursInput, PlannerItem } from '#shared/types/planner'
 
 const DAY_MS = 86_400_000
@@ -37,6 +37,8 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
   for (const m of moulds) if (m.profile_id && !profileMould.has(Number(m.profile_id))) profileMould.set(Number(m.profile_id), m)
   const gradeById = new Map(grades.map(g => [g.id, g]))
   const descriptions = new Map<string, string>()
+  // each grade the plan times pours with, and where its set time comes from
+  const setTimes = new Map<number, { grade: string; note: string; calibrated: boolean }>()
   const items: PlannerItem[] = []
   for (const r of rows) {
     const grade = gradeById.get(r.grade_id) ?? grades.find(g => !g.archived_at)
@@ -44,6 +46,8 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     if (!grade || remaining <= 0) continue
     const model = plasterGradeFromRow(grade)
     descriptions.set(String(r.id), r.description)
+    const calibration = gradeCalibrationFromRow(grade)
+    setTimes.set(grade.id, { grade: grade.name, note: calibrationNote(calibration), calibrated: calibration.applied })
     const consistency = r.consistency ? Number(r.consistency) : model.consistency.default
     // the profile's moulds are identical, so the item's own mould or any of its profile gives the cavity
     const castIn = (r.mould_id && mouldById.get(Number(r.mould_id))) || (r.profile_id && profileMould.get(Number(r.profile_id))) || null
@@ -74,13 +78,13 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
       benchMaxMixes: Object.fromEntries(benchLimits.map(b => [String(b.id), b.max_mixes])),
     },
   }
-  return { input, descriptions }
+  return { input, descriptions, setTimes: [...setTimes.values()] }
 }
 
 export async function previewPlan(actor: Actor, range: { from: string; to: string }) {
   const db = useDb()
   const ws = await loadWorkshop(db, actor.workshopId)
-  const { input, descriptions } = await plannerInput(db, ws, range.from, range.to)
+  const { input, descriptions, setTimes } = await plannerInput(db, ws, range.from, range.to)
   const result = planPours(input)
   return {
     pours: result.pours.map(p => ({
@@ -93,6 +97,7 @@ export async function previewPlan(actor: Actor, range: { from: string; to: strin
     jobs: result.jobs.map(j => ({ ...j, jobId: Number(j.jobId), readyAt: j.readyAt ? j.readyAt.toISOString() : null })),
     unplaced: result.unplaced.map(u => ({ ...u, itemId: Number(u.itemId), jobId: Number(u.jobId) })),
     moulds: result.moulds.map(m => ({ ...m, mouldId: Number(m.mouldId) })),
+    setTimes,
   }
 }
 

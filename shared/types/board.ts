@@ -89,6 +89,8 @@ export interface BoardData {
     grades: Record<number, string>
     /** the casters the pours name */
     people: Record<number, string>
+    /** the applied calibration of the pours' grades that have one (factor, from how many pours) */
+    calibration?: Record<number, { factor: number; count: number }>
   }
   shopDays: { day: string; tempC: number; humidityPct: number }[]
   jobItems: { id: number; jobId: number; jobCode: string; description: string; mouldId: number | null; piecesNeeded: number; piecesPlanned: number; released: boolean }[]

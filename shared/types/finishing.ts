@@ -5,10 +5,24 @@ import type { FinishingPieceState } from '../utils/finishing-schemas'
 export interface FinishingWeighingDto {
   kg: number
   at: string
-  /** weighed less the computed dry mass, kg and % of the dry mass (plaster-drying.ts `dryness`) */
+  /** weighed less the computed dry mass, kg and % of the dry mass (plaster-drying.ts `dryness`): a guide, not the gate */
   freeWaterKg: number
   freeWaterPct: number
+}
+
+/** Whether the drying spell's weighings show constant weight (plaster-drying.ts `constantWeight`), and what is missing if not. */
+export interface FinishingConstantWeightDto {
   isDry: boolean
+  changePct: number | null
+  hoursApart: number | null
+  message: string
+}
+
+/** The computed dry mass as a range (plaster-drying.ts `dryMassGuide`): ±2 %, lower still when the batch was over plan. */
+export interface FinishingDryMassGuideDto {
+  lowKg: number
+  highKg: number
+  batchExcessPct: number
 }
 
 export interface FinishingPieceDto {
@@ -31,13 +45,24 @@ export interface FinishingPieceDto {
   reason: string | null
   /** the latest weighing since the piece last went to drying */
   lastWeighing: FinishingWeighingDto | null
+  /** the current drying spell's weighings (last 20, oldest first) */
+  weighings: { kg: number; at: string }[]
+  /** the ready gate: two weighings at least a day apart within the tolerance */
+  constantWeight: FinishingConstantWeightDto
+  dryMassGuide: FinishingDryMassGuideDto
   dispatchId: number | null
 }
 
+/** The drying room's conditions the fettle form starts from: today's shop day, else the workshop's usual. */
+export interface FinishingDryingRoom { tempC: number; humidityPct: number; source: 'shop day' | 'workshop' }
+
+/** The falling-rate factor a dry-by date uses: the shop's own from its weighings, or the default (finishingFallingRate). */
+export interface FinishingFallingRateDto { factor: number; count: number; source: 'shop' | 'default'; note: string }
+
 export interface FinishingQueue {
   timezone: string
-  /** the drying room's conditions the fettle form starts from: today's shop day, else the workshop's usual */
-  room: { tempC: number; humidityPct: number; source: 'shop day' | 'workshop' }
+  /** the room, and the falling-rate factor the fettle form's dry-by preview uses (the server's own) */
+  room: FinishingDryingRoom & { fallingRate: FinishingFallingRateDto }
   toFettle: FinishingPieceDto[]
   repair: FinishingPieceDto[]
   drying: FinishingPieceDto[]
@@ -47,10 +72,10 @@ export interface FinishingQueue {
 
 export interface FinishingActionResult {
   piece: FinishingPieceDto
-  /** the weighing's answer (weighed only) */
-  dryness: { freeWaterKg: number; freeWaterPct: number; isDry: boolean; warnings: string[] } | null
-  /** the drying estimate (fettled only); hours is null when the air is saturated */
-  drying: { hours: number | null; dryBy: string | null; warnings: string[] } | null
+  /** the weighing's answer (weighed only): free water against the computed dry mass (a guide) and constant weight (the gate) */
+  dryness: { freeWaterKg: number; freeWaterPct: number; warnings: string[]; constantWeight: FinishingConstantWeightDto } | null
+  /** the drying estimate (fettled only); hours is null when the air is saturated; the falling-rate factor it used and where from */
+  drying: { hours: number | null; dryBy: string | null; warnings: string[]; fallingRate: FinishingFallingRateDto } | null
   /** true when this action made the piece's job ready for dispatch (ready only) */
   jobReady: boolean
 }

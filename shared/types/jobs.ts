@@ -1,6 +1,6 @@
 // What the job routes send (camelCase on the wire): the lead's job and its items, the client's
 // view of a job (never notes or other internal fields) and the client's job list.
-import type { PlasterRunCutList } from '../utils/plaster-cutlist'
+import type { PlasterRunCutList, PlasterRunWall } from '../utils/plaster-cutlist'
 
 /** A job as POST / PATCH /api/jobs and the sample mark answer. */
 export interface Job {
@@ -34,9 +34,14 @@ export interface JobItem {
   description: string
   quantity: number | null
   runM: number | null
-  walls: { lengthM: number }[] | null
+  /** each wall's length and how its two ends finish (square, internal, external, return) */
+  walls: PlasterRunWall[] | null
   minPieceM: number | null
   sparesPct: number
+  /** the run calculator's corner figures, m (null: not given) */
+  projectionM: number | null
+  sawCutM: number | null
+  cornerBlockLegM: number | null
   piecesNeeded: number
   gradeId: number | null
   consistency: number | null

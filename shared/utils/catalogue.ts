@@ -5,7 +5,7 @@
  */
 import type { PlasterGrade } from './plaster-core'
 import { batchForCavity } from './plaster'
-import { bagsForKg, runCutList, type PlasterRunCutList } from './plaster-cutlist'
+import { bagsForKg, runCutList, type PlasterRunCutList, type PlasterRunWall } from './plaster-cutlist'
 import { formatUnits, type UnitSystem } from './units-display'
 
 /**
@@ -149,10 +149,13 @@ export function gradeCalibrationFromRow(r: GradeCalibrationRowLike) {
 }
 
 export interface RunInput {
-  walls: { lengthM: number }[]
+  walls: PlasterRunWall[]
   castLengthM: number
   minPieceM: number
   sparesPct: number
+  projectionM?: number
+  sawCutM?: number
+  cornerBlockLegM?: number
 }
 
 /** Pieces an item needs: the quantity when given, else the run's cast lengths including spares (runCutList). */

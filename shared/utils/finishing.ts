@@ -1,7 +1,7 @@
 // Finishing rules shared by the server and the tablet: the dry-by time of a fettled piece (the
 // plaster model's drying estimate over the cast's estimated area) and the weight a piece is
 // handled at. Pure; the plaster arithmetic itself stays in plaster-drying.ts.
-import { castExposedAreaM2, dryingEstimate } from './plaster-drying'
+import { castExposedAreaM2, constantWeightReachedAt, dryingEstimate, fallingRateFromWeighings, fallingRateNote } from './plaster-drying'
 import type { FinishingPieceState } from './finishing-schemas'
 
 /**
@@ -26,16 +26,38 @@ const HOUR_MS = 3_600_000
  * cavity), times the falling-rate factor (dryingEstimate). `dryBy` is null when the air is
  * saturated (the cast will not dry). Warnings come from the estimate and the 49 °C guard.
  */
-export function finishingDryBy(input: { from: Date; wetMassKg: number; dryMassKg: number; cavityLitres: number; airTempC: number; relHumidityPct: number }) {
+export function finishingDryBy(input: { from: Date; wetMassKg: number; dryMassKg: number; cavityLitres: number; airTempC: number; relHumidityPct: number; fallingRateFactor?: number }) {
   const est = dryingEstimate({
     freeWaterKg: Math.max(0, input.wetMassKg - input.dryMassKg),
     exposedAreaM2: castExposedAreaM2({ volumeLitres: input.cavityLitres }),
     airTempC: input.airTempC,
     relHumidityPct: input.relHumidityPct,
     airSpeedMs: FINISHING_AIR_SPEED_MS,
+    fallingRateFactor: input.fallingRateFactor,
   })
   const dryBy = Number.isFinite(est.hours) ? new Date(input.from.getTime() + est.hours * HOUR_MS) : null
   return { dryBy, hours: est.hours, warnings: est.warnings }
+}
+
+/** How many of the shop's latest drying spells the falling-rate fit reads. */
+export const FINISHING_FALLING_RATE_SPELLS = 50
+
+/**
+ * The shop's falling-rate factor from its drying spells: per spell, the hours from "put to dry"
+ * to the first weighing shown at constant weight (constantWeightReachedAt: it was as dry as the
+ * room makes it by then, so this errs long by up to the gap between weighings) ÷ the estimate's
+ * hours at factor 1; their median through fallingRateFromWeighings, which keeps the default (1)
+ * until enough pieces stand behind it. Spells that never reached constant weight, or whose
+ * estimate gave no date (saturated air), say nothing and are left out.
+ */
+export function finishingFallingRate(spells: { fettledAt: Date; estimatedHours: number | null; weighings: { kg: number; at: Date }[] }[]) {
+  const pieces = spells.flatMap((s) => {
+    if (s.estimatedHours === null || !(s.estimatedHours > 0)) return []
+    const reached = constantWeightReachedAt(s.weighings)
+    return reached ? [{ estimatedHours: s.estimatedHours, actualHours: (reached.getTime() - s.fettledAt.getTime()) / HOUR_MS }] : []
+  })
+  const fit = fallingRateFromWeighings(pieces)
+  return { ...fit, note: fallingRateNote(fit) }
 }
 
 const WET_STATES: readonly FinishingPieceState[] = ['to_fettle', 'repair', 'drying']

@@ -3,6 +3,7 @@ import { z } from 'zod'
 import { PLASTER_LIMITS } from './plaster-core'
 import { dayField, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
 import { idText } from './input-fields'
+import { RUN_ENDS } from './plaster-cutlist'
 
 export const JOB_STATES = ['open', 'on_hold', 'done', 'cancelled'] as const
 export const SAMPLE_STATES = ['not_required', 'awaiting_cast', 'awaiting_approval', 'approved', 'changes_requested'] as const
@@ -33,8 +34,11 @@ export const jobCreateSchema = jobFields
 export const jobPatchSchema = jobFields.partial().extend({ version: versionField })
 
 const L = PLASTER_LIMITS
+const wallEnd = z.enum(RUN_ENDS, { error: 'a wall end must be square, internal, external or return' }).optional()
 export const wallSchema = z.object({
   lengthM: numberIn('lengthM', L.wallLengthM.min, L.wallLengthM.max, 'm', { exclusive: true }),
+  start: wallEnd,
+  end: wallEnd,
 }, { error: 'each wall must be an object with lengthM' })
 
 /**
@@ -50,6 +54,10 @@ export const jobItemFields = z.object({
   walls: z.array(wallSchema, { error: 'walls must be a list' }).min(1, 'walls must list at least one wall').max(200, 'walls must list at most 200 walls').nullable().optional(),
   minPieceM: numberIn('minPieceM', 0, 20, 'm').optional(),
   sparesPct: numberIn('sparesPct', 0, 100, '%').optional(),
+  // the run calculator's corners (plaster-cutlist.ts): external mitres and returns need the projection
+  projectionM: numberIn('projectionM', L.projectionM.min, L.projectionM.max, 'm', { exclusive: true }).nullable().optional(),
+  sawCutM: numberIn('sawCutM', L.sawCutM.min, L.sawCutM.max, 'm').nullable().optional(),
+  cornerBlockLegM: numberIn('cornerBlockLegM', L.cornerBlockLegM.min, L.cornerBlockLegM.max, 'm', { exclusive: true }).nullable().optional(),
   gradeId: z.number({ error: 'gradeId must be a plaster grade' }).int().positive().nullable().optional(),
   consistency: numberIn('consistency', L.consistency.min, L.consistency.max, 'parts water per 100 parts plaster').nullable().optional(),
   sortOrder: numberIn('sortOrder', 0, 10000, '', { int: true }).optional(),

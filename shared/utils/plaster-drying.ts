@@ -33,11 +33,20 @@ export const PLASTER_DRYING_MAX_C = 49
 export const PLASTER_DRY_FREE_WATER_PCT = 0.5
 
 /**
- * Default multiplier for the slow, falling-rate end of drying: 1, i.e. no allowance, until the
- * shop's own weighings give one (fallingRateFromWeighings). The model once used an unsourced 2,
- * which happened to cancel the missing activity factor; the factor now comes from the shop.
+ * Default multiplier for the slow, falling-rate end of drying: 1, i.e. no allowance, used until
+ * the shop has weighed at least PLASTER_FALLING_RATE_MIN_PIECES pieces to constant weight
+ * (fallingRateFromWeighings). This default is our choice, neither sourced nor common practice:
+ * we know of no published factor for cast gypsum, and the model once used an unsourced 2 that
+ * happened to cancel the missing activity factor. With 1 the dry-by date errs early, which is
+ * the harmless side, because the weighings (constant weight), never the date, decide dry.
  */
 export const PLASTER_FALLING_RATE_FACTOR = 1
+
+/**
+ * Pieces weighed to constant weight the shop needs before its own falling-rate factor replaces
+ * the default: 5 (our choice; a median of fewer pieces moves too much with one odd rack).
+ */
+export const PLASTER_FALLING_RATE_MIN_PIECES = 5
 
 /** Activity factor of still, unoccupied water: 0.5 (ASHRAE Handbook—HVAC Applications, natatorium section). */
 export const PLASTER_EVAPORATION_ACTIVITY = 0.5
@@ -196,31 +205,51 @@ export function dryness(input: { weighedKg: number; dryMassKg: number }): {
   return { freeWaterKg, freeWaterPct, isDry: freeWaterPct <= PLASTER_DRY_FREE_WATER_PCT, warnings }
 }
 
+/** Where a falling-rate factor came from: the shop's own pieces, or the default for want of them. */
+export interface PlasterFallingRate {
+  factor: number
+  /** usable pieces behind the fit (may be fewer than the minimum when the default is used) */
+  count: number
+  source: 'shop' | 'default'
+}
+
 /**
  * The shop's falling-rate factor from its own weighings: per piece that reached constant weight,
  * the hours it actually took ÷ the constant-rate estimate for it (dryingEstimate with factor 1),
  * and their median (robust to a piece forgotten on the rack). Never below 1 (drying does not
- * outrun the constant rate) nor above the limit; 1 with no usable piece.
+ * outrun the constant rate) nor above the limit. With fewer than PLASTER_FALLING_RATE_MIN_PIECES
+ * usable pieces: the default (1), and says so.
  */
-export function fallingRateFromWeighings(pieces: { estimatedHours: number; actualHours: number }[]): { factor: number; count: number } {
+export function fallingRateFromWeighings(pieces: { estimatedHours: number; actualHours: number }[]): PlasterFallingRate {
   if (!Array.isArray(pieces)) throw new PlasterInputError('pieces', 'pieces must be an array')
   const ratios = pieces.filter(p => typeof p === 'object' && p !== null && Number.isFinite(p.estimatedHours) && Number.isFinite(p.actualHours)
     && p.estimatedHours > 0 && p.actualHours > 0).map(p => p.actualHours / p.estimatedHours).sort((a, b) => a - b)
-  if (!ratios.length) return { factor: PLASTER_FALLING_RATE_FACTOR, count: 0 }
+  if (ratios.length < PLASTER_FALLING_RATE_MIN_PIECES) return { factor: PLASTER_FALLING_RATE_FACTOR, count: ratios.length, source: 'default' }
   const mid = ratios.length >> 1
   const median = ratios.length % 2 ? ratios[mid]! : (ratios[mid - 1]! + ratios[mid]!) / 2
   const { min, max } = PLASTER_LIMITS.fallingRateFactor
-  return { factor: Math.min(max, Math.max(min, median)), count: ratios.length }
+  return { factor: Math.min(max, Math.max(min, median)), count: ratios.length, source: 'shop' }
+}
+
+/** How a screen says which falling-rate factor a dry-by date used. */
+export function fallingRateNote(r: PlasterFallingRate): string {
+  return r.source === 'shop'
+    ? `drying time × ${r.factor.toFixed(2)} from ${r.count} of the shop's pieces weighed to constant weight`
+    : `no allowance yet for the slow end of drying (${r.count} of ${PLASTER_FALLING_RATE_MIN_PIECES} pieces weighed to constant weight so far): the date may be early, the weighings decide`
 }
 
 /**
  * Dry by constant weight, the trade's own test (common practice; the figures are this model's
  * choice): two weighings at least 24 hours apart that differ by no more than 0.1 % of the later
- * one. Free water leaves a cast ever more slowly, so once a day in the drying room takes off no
- * more than 0.1 % the cast is as dry as that room will make it. A gain beyond the tolerance
- * (damp air) is not constant either. The computed dry mass is only a guide (dryMassGuide).
+ * one, or 2 g, whichever is more. Why these: free water leaves a cast ever more slowly, so once
+ * a day in the drying room takes off no more than 0.1 % (1 g per kg; a fresh cast holds some
+ * 250–400 g of free water per kg of plaster, from the gauging water) the cast is as dry as that
+ * room will make it; a day apart, because the slow end of drying hides inside a shorter gap;
+ * 2 g as a floor, because a bench scale reading in 1 g steps can differ by a step or two on the
+ * same piece, so a 1 kg rosette could otherwise never pass. A gain beyond the tolerance (damp
+ * air) is not constant either. The computed dry mass is only a guide (dryMassGuide).
  */
-export const PLASTER_CONSTANT_WEIGHT = { minHoursApart: 24, tolerancePct: 0.1 } as const
+export const PLASTER_CONSTANT_WEIGHT = { minHoursApart: 24, tolerancePct: 0.1, toleranceMinKg: 0.002 } as const
 
 /** Result of `constantWeight`: `changePct` is (earlier − later) ÷ later × 100 of the pair compared. */
 export interface PlasterConstantWeight {
@@ -230,46 +259,93 @@ export interface PlasterConstantWeight {
   message: string
 }
 
-/**
- * Constant weight over a piece's weighings in one drying spell (any order): the latest weighing
- * against the latest one at least `minHoursApart` before it.
- */
-export function constantWeight(weighings: { kg: number; at: Date }[]): PlasterConstantWeight {
+const HOUR_MS = 3_600_000
+
+function weighingRows(weighings: { kg: number; at: Date }[]) {
   if (!Array.isArray(weighings)) throw new PlasterInputError('weighings', 'weighings must be an array')
-  const rows = weighings.map((w, n) => {
+  return weighings.map((w, n) => {
     const o = assertPlasterObject(w, `weighings[${n}]`)
     const kg = assertPlasterNumber(o.kg, `weighings[${n}].kg`, PLASTER_LIMITS.weighedKg)
     if (!(o.at instanceof Date) || Number.isNaN(o.at.getTime())) throw new PlasterInputError(`weighings[${n}].at`, `weighings[${n}].at must be a time`)
     return { kg, at: o.at.getTime() }
   }).sort((a, b) => a.at - b.at)
-  const { minHoursApart, tolerancePct } = PLASTER_CONSTANT_WEIGHT
+}
+
+/** The pair's change, and whether it is within the tolerance (0.1 % of the later, at least 2 g). */
+function pairHolds(earlier: { kg: number }, later: { kg: number }) {
+  const { tolerancePct, toleranceMinKg } = PLASTER_CONSTANT_WEIGHT
+  const changeKg = earlier.kg - later.kg
+  const allowedKg = Math.max((later.kg * tolerancePct) / 100, toleranceMinKg)
+  return { changePct: (changeKg / later.kg) * 100, holds: Math.abs(changeKg) <= allowedKg + 1e-12 }
+}
+
+const RULE = `dry is a change of ${PLASTER_CONSTANT_WEIGHT.tolerancePct} % or less (at least ${PLASTER_CONSTANT_WEIGHT.toleranceMinKg * 1000} g allowed) over at least ${PLASTER_CONSTANT_WEIGHT.minHoursApart} h`
+
+/**
+ * Constant weight over a piece's weighings in one drying spell (any order): the latest weighing
+ * against the latest one at least `minHoursApart` before it. The message says what is missing.
+ */
+export function constantWeight(weighings: { kg: number; at: Date }[]): PlasterConstantWeight {
+  const rows = weighingRows(weighings)
+  const { minHoursApart } = PLASTER_CONSTANT_WEIGHT
   const last = rows.at(-1)
-  if (!last) return { isDry: false, changePct: null, hoursApart: null, message: 'Not weighed yet: weigh it, then again at least a day later.' }
-  const earlier = [...rows].reverse().find(r => last.at - r.at >= minHoursApart * 3_600_000)
+  if (!last) return { isDry: false, changePct: null, hoursApart: null, message: 'Not weighed yet since it went to drying: weigh it, then again at least a day later.' }
+  const earlier = [...rows].reverse().find(r => last.at - r.at >= minHoursApart * HOUR_MS)
   if (!earlier) {
-    return { isDry: false, changePct: null, hoursApart: null, message: `Weigh it again at least ${minHoursApart} hours after an earlier weighing to show constant weight.` }
+    const first = rows[0]!
+    const so = rows.length === 1 ? 'weighed once so far' : `weighed ${rows.length} times, the first ${Math.round((last.at - first.at) / HOUR_MS)} h before the last`
+    return {
+      isDry: false, changePct: null, hoursApart: null,
+      message: `Needs a second weighing at least ${minHoursApart} hours after an earlier one (${so}) to show constant weight.`,
+    }
   }
-  const changePct = ((earlier.kg - last.kg) / last.kg) * 100
-  const hoursApart = (last.at - earlier.at) / 3_600_000
-  const isDry = Math.abs(changePct) <= tolerancePct + 1e-12
-  const message = isDry
-    ? `Constant weight: ${changePct.toFixed(2)} % change over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
-    : `Still changing: ${changePct.toFixed(2)} % over ${Math.round(hoursApart)} h (dry is ${tolerancePct} % or less over at least ${minHoursApart} h).`
-  return { isDry, changePct, hoursApart, message }
+  const { changePct, holds } = pairHolds(earlier, last)
+  const hoursApart = (last.at - earlier.at) / HOUR_MS
+  const message = holds
+    ? `Constant weight: ${changePct.toFixed(2)} % change over ${Math.round(hoursApart)} h (${RULE}).`
+    : `Still changing: ${changePct.toFixed(2)} % over ${Math.round(hoursApart)} h (${RULE}); weigh it again later.`
+  return { isDry: holds, changePct, hoursApart, message }
+}
+
+/**
+ * When a piece was first shown at constant weight: the earlier weighing of the first pair (at
+ * least `minHoursApart` apart, within the tolerance); null when no pair holds. The piece was
+ * as dry as the room makes it by then, so this is when drying ended, to the nearest weighing.
+ */
+export function constantWeightReachedAt(weighings: { kg: number; at: Date }[]): Date | null {
+  const rows = weighingRows(weighings)
+  for (let i = 0; i < rows.length; i++) {
+    for (let j = i + 1; j < rows.length; j++) {
+      if (rows[j]!.at - rows[i]!.at >= PLASTER_CONSTANT_WEIGHT.minHoursApart * HOUR_MS && pairHolds(rows[i]!, rows[j]!).holds) return new Date(rows[i]!.at)
+    }
+  }
+  return null
 }
 
 /**
  * How far the computed dry mass can be trusted: ±2 %, the match of the model's dry densities to
- * published ones; and it reads high when more plaster was gauged than the cast took (the batch
- * less the usual waste is assumed to be in the cast). A guide beside the weighings, never the gate.
+ * published ones (plaster-mix tests); and it reads high by as much as the caster gauged over the
+ * planned batch, since the batch less the usual waste is assumed to be in the cast (10 % over
+ * the planned batch: up to 10 % high). A guide beside the weighings, never the gate.
  */
 export const PLASTER_DRY_MASS_UNCERTAINTY_PCT = 2
 
-export function dryMassGuide(dryMassKg: number): { kg: number; lowKg: number; highKg: number; label: string } {
+export interface PlasterDryMassGuide { kg: number; lowKg: number; highKg: number; batchExcessPct: number; label: string }
+
+/**
+ * The computed dry mass as a range: ±2 %, and, when the batch gauged was `batchExcessPct` over
+ * the planned one, the low end divided by (1 + excess) too (the extra may have stayed in the bowl).
+ */
+export function dryMassGuide(dryMassKg: number, batchExcessPct = 0): PlasterDryMassGuide {
   const kg = assertPlasterNumber(dryMassKg, 'dryMassKg', PLASTER_LIMITS.dryMassKg)
+  if (typeof batchExcessPct !== 'number' || !Number.isFinite(batchExcessPct)) throw new PlasterInputError('batchExcessPct', 'batchExcessPct must be a finite number (%)')
   const u = PLASTER_DRY_MASS_UNCERTAINTY_PCT / 100
+  const excess = Math.max(0, batchExcessPct) / 100
+  const lowKg = (kg * (1 - u)) / (1 + excess)
+  const highKg = kg * (1 + u)
+  const over = excess > 0 ? `; the batch was ${(excess * 100).toFixed(0)} % over plan, so it may be lower` : ''
   return {
-    kg, lowKg: kg * (1 - u), highKg: kg * (1 + u),
-    label: `about ${kg.toFixed(2)} kg (± ${PLASTER_DRY_MASS_UNCERTAINTY_PCT} %, a guide only; weigh to constant weight)`,
+    kg, lowKg, highKg, batchExcessPct: excess * 100,
+    label: `about ${kg.toFixed(2)} kg (± ${PLASTER_DRY_MASS_UNCERTAINTY_PCT} %${over}; a guide only, weigh to constant weight)`,
   }
 }

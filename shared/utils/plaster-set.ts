@@ -278,6 +278,18 @@ export function appliedSetFactor(calibration: { applied: boolean; appliedFactor:
   return calibration.appliedFactor
 }
 
+/**
+ * How the board says where one pour's set time comes from: the grade's applied calibration
+ * when the pour uses it ("calibrated from N pours"), the bare model at factor 1 ("shop starting
+ * point"), else a factor set for this pour on the board.
+ */
+export function pourCalibrationNote(setFactor: number, applied: { factor: number; count: number } | null | undefined): string {
+  const same = (a: number, b: number) => Math.abs(a - b) < 0.005
+  if (applied && same(setFactor, applied.factor)) return calibrationNote({ applied: true, appliedFactor: applied.factor, appliedCount: applied.count })
+  if (same(setFactor, 1)) return 'shop starting point, not calibrated'
+  return `set time × ${setFactor.toFixed(2)}, set for this pour on the board`
+}
+
 /** How a screen says where a set time comes from: "calibrated from N pours" or the bare model. */
 export function calibrationNote(calibration: { applied: boolean; appliedFactor: number | null; appliedCount: number } | null | undefined): string {
   if (!calibration?.applied || !calibration.appliedFactor) return 'shop starting point, not calibrated'

@@ -62,6 +62,27 @@ describe('jobs', () => {
     expect(detail.data.notes).toBe('Internal: price agreed')
   })
 
+  it('passes a run\'s corners, returns, saw cut and corner blocks to the run calculator and keeps them', async () => {
+    const job = await newJob()
+    const { cr101 } = await catalogue()
+    const cornered = [{ lengthM: 4, start: 'external', end: 'internal' }, { lengthM: 3, start: 'internal', end: 'return' }] as const
+    const body = { kind: 'run', mouldId: cr101.id, description: 'Bay cornice', walls: cornered, sparesPct: 0, minPieceM: 0.3, projectionM: 0.12, sawCutM: 0.003, cornerBlockLegM: 0.15 }
+    const r = await call(`/api/jobs/${job.id}/items`, { method: 'POST', cookie: lead, body })
+    expect(r.status, JSON.stringify(r.data)).toBe(201)
+    const cut = runCutList({ walls: [...cornered], castLengthM: 1.2, minPieceM: 0.3, sparesPct: 0, projectionM: 0.12, sawCutM: 0.003, cornerBlockLegM: 0.15 })
+    expect(r.data).toMatchObject({ piecesNeeded: cut.lengths, projectionM: 0.12, sawCutM: 0.003, cornerBlockLegM: 0.15, walls: cornered })
+    const item = (await call(`/api/jobs/${job.id}`, { cookie: lead })).data.items[0]
+    // by hand (plaster-cutlist.ts header): 4 + 0.12 (external mitre) − 0.15 (block leg) = 3.97 m;
+    // 3 − 0.15 + 0.12 (return mitre) = 2.97 m, a 0.12 m return piece; one block for the one internal corner
+    expect(item.plan.cutList.runM.map((m: number) => Number(m.toFixed(3)))).toEqual([3.97, 2.97])
+    expect(item.plan.cutList.cornerBlocks).toBe(1)
+    expect(item.plan.cutList.cuts.filter((c: { kind: string }) => c.kind === 'return').map((c: { lengthM: number }) => c.lengthM)).toEqual([0.12])
+    // an external corner without the projection is refused naming it
+    const bad = await call(`/api/jobs/${job.id}/items`, { method: 'POST', cookie: lead, body: { ...body, projectionM: null } })
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.problems[0].field).toBe('projectionM')
+  })
+
   it('validates items: each bad field is a 422 naming it; a run needs a mould with a cast length', async () => {
     const job = await newJob()
     const { cr101, cb12 } = await catalogue()

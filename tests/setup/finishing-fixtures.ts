@@ -21,16 +21,21 @@ export async function finishingFixture(label: string) {
     return r.data
   }
 
-  /** A piece demoulded from a pour of `itemId` (a fresh job's item when not given) on `mouldId` (fresh when not given). */
-  async function piece(opts: { itemId?: number; mouldId?: number; result?: 'sound' | 'defect'; slotStart?: string } = {}) {
+  /**
+   * A piece demoulded from a pour of `itemId` (a fresh job's item when not given) on `mouldId`
+   * (fresh when not given), `hoursBack` hours ago (2 unless given; more lets a test back-date two
+   * weighings a day apart, as constant weight needs).
+   */
+  async function piece(opts: { itemId?: number; mouldId?: number; result?: 'sound' | 'defect'; slotStart?: string; hoursBack?: number } = {}) {
+    const back = (opts.hoursBack ?? 2) * HOUR
     const itemId = opts.itemId ?? await fx.item(await fx.job(), null)
     const mouldId = opts.mouldId ?? await fx.mould()
     const planned = await call('/api/pours', { method: 'POST', cookie: lead, body: { mouldId, slotStart: opts.slotStart ?? '2031-03-05T09:00:00Z', jobItemId: itemId, casterId: fx.casterId } })
     if (planned.status !== 201) throw new Error(`planning a pour failed: ${planned.status} ${JSON.stringify(planned.data)}`)
     const pourId = planned.data.id as number
-    await step(pourId, { kind: 'start_mixing', version: 1, waterTempC: 18, at: ago(3 * HOUR) })
-    await step(pourId, { kind: 'poured', version: 2, plasterKg: 2.9, waterKg: 2.03, shopTempC: 17, at: ago(2.9 * HOUR) })
-    const d = await step(pourId, { kind: 'demoulded', version: 3, at: ago(2 * HOUR), ...(opts.result === 'defect' ? { result: 'defect', defect: 'crack' } : { result: 'sound' }) })
+    await step(pourId, { kind: 'start_mixing', version: 1, waterTempC: 18, at: ago(back + HOUR) })
+    await step(pourId, { kind: 'poured', version: 2, plasterKg: 2.9, waterKg: 2.03, shopTempC: 17, at: ago(back + 0.9 * HOUR) })
+    const d = await step(pourId, { kind: 'demoulded', version: 3, at: ago(back), ...(opts.result === 'defect' ? { result: 'defect', defect: 'crack' } : { result: 'sound' }) })
     const row = await fx.k('pieces').where({ pour_id: pourId }).first('id', 'mark', 'dry_mass_kg', 'wet_mass_kg', 'version')
     return { id: Number(row.id), mark: row.mark as string, pourId, mouldId, itemId, dryMassKg: Number(row.dry_mass_kg), wetMassKg: Number(row.wet_mass_kg), pieceMark: d.piece.mark as string }
   }

@@ -552,8 +552,10 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
           const act = (kind: string, body: Record<string, unknown> = {}) => stepPiece(who, s.finishers[i]!.id, cookie, pref, 'piece', `/api/pieces/${piece.id}/actions`, kind, body, piece.id, piece.version)
           if (piece.state === 'to_fettle') await act('fettled')
           else if (piece.state === 'repair') await act('repaired', { notes: 'Soak: filled and rubbed down' })
-          else if (piece.state === 'drying' && !piece.lastWeighing?.isDry) await act('weighed', { weighedKg: Number((piece.dryMassKg * 1.002).toFixed(3)) })
-          else if (piece.state === 'drying') await act('ready')
+          // constant weight needs weighings a day apart, longer than a compressed soak day: the
+          // finisher weighs once, and the lead passes weighed pieces (runDispatch)
+          else if (piece.state === 'drying' && !piece.lastWeighing) await act('weighed', { weighedKg: Number((piece.dryMassKg * 1.002).toFixed(3)) })
+          else if (piece.state === 'drying' && piece.constantWeight?.isDry) await act('ready')
           else if (piece.state === 'ready') await act('packed')
         }
       }
@@ -562,6 +564,9 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       for (let n = 0; n < 100_000 && Date.now() < deadline; n++) {
         const q = await sh.call('B', lead, 'GET', '/api/finishing')
         if (q.status === 200) {
+          for (const piece of q.data.drying.filter((p: { lastWeighing: unknown; constantWeight: { isDry: boolean } }) => p.lastWeighing && !p.constantWeight.isDry)) {
+            await stepPiece('lead', 0, lead, 'B', 'piece', `/api/pieces/${piece.id}/actions`, 'ready', { override: true }, piece.id, piece.version)
+          }
           for (const job of jobsAll.filter(j => !j.dispatched)) {
             const packed = q.data.packed.filter((p: { job: { id: number } | null }) => p.job?.id === job.id)
             if (packed.length !== job.pieces) continue

@@ -2,7 +2,7 @@
 // is lifted at, and the action and dispatch schemas (fields named when wrong, order of states).
 import { describe, expect, it } from 'vitest'
 import { PlasterInputError, castExposedAreaM2, dryingEstimate } from '#shared/utils/plaster'
-import { FINISHING_TEAM_LIFT_KG, finishingDryBy, finishingHandlingKg } from '#shared/utils/finishing'
+import { FINISHING_TEAM_LIFT_KG, finishingDryBy, finishingFallingRate, finishingHandlingKg } from '#shared/utils/finishing'
 import { FINISHING_STEPS, finishingActionSchema, finishingDispatchSchema } from '#shared/utils/finishing-schemas'
 
 const id = '0b7f6f0e-2f5b-4c1e-9a7e-5d2f3c4b1a09'
@@ -42,6 +42,27 @@ describe('finishingDryBy', () => {
     const wet = finishingDryBy({ ...base, airTempC: 20, relHumidityPct: 100 })
     expect(wet.dryBy).toBeNull()
     expect(wet.warnings.join(' ')).toMatch(/saturated/)
+  })
+})
+
+describe('finishingFallingRate', () => {
+  const h = (hours: number) => new Date(Date.UTC(2027, 2, 1, 8) + hours * 3_600_000)
+  /** A spell put to dry at 0 h, weighed at `first` h and again 24 h later at the same weight. */
+  const spell = (estimatedHours: number | null, first: number) => ({ fettledAt: h(0), estimatedHours, weighings: [{ kg: 5, at: h(first) }, { kg: 5, at: h(first + 24) }] })
+
+  it('fits the shop\'s factor from the hours to constant weight over the estimate, once 5 pieces stand behind it', () => {
+    // invented: estimates of 20 h, constant weight first shown at 30, 36, 40, 44 and 50 h: ratios 1.5, 1.8, 2.0, 2.2, 2.5
+    const five = [30, 36, 40, 44, 50].map(t => spell(20, t))
+    expect(finishingFallingRate(five)).toMatchObject({ factor: expect.closeTo(2.0, 9), count: 5, source: 'shop' })
+    // four are not enough: the default, said so
+    expect(finishingFallingRate(five.slice(0, 4))).toMatchObject({ factor: 1, count: 4, source: 'default', note: expect.stringMatching(/4 of 5/) })
+  })
+
+  it('leaves out spells that never reached constant weight or had no estimate (saturated air)', () => {
+    const still = { fettledAt: h(0), estimatedHours: 20, weighings: [{ kg: 5.5, at: h(30) }, { kg: 5, at: h(60) }] }
+    const five = [30, 36, 40, 44, 50].map(t => spell(20, t))
+    expect(finishingFallingRate([...five.slice(0, 4), still, spell(null, 40)])).toMatchObject({ count: 4, source: 'default' })
+    expect(finishingFallingRate([...five, still])).toMatchObject({ factor: expect.closeTo(2.0, 9), count: 5 })
   })
 })
 

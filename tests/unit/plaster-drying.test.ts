@@ -4,9 +4,11 @@ import {
   dryingEstimate,
   dryingGuard,
   constantWeight,
+  constantWeightReachedAt,
   dryMassGuide,
   dryness,
   fallingRateFromWeighings,
+  fallingRateNote,
   fToC,
   saturationVapourPressureKPa,
   wetBulbC,
@@ -165,9 +167,36 @@ describe('constantWeight (common practice: 0.1 % over at least 24 h, this model\
     expect(constantWeight(w)).toMatchObject({ isDry: true, hoursApart: 25 }) // 10.005 at 25 h vs 10 at 50 h: 0.05 %
   })
 
+  it('allows at least 2 g on a small piece (a bench scale\'s step), 0.1 % on a big one', () => {
+    // 1.000 → 0.998 kg: 0.2 %, but 2 g: within the floor
+    expect(constantWeight([{ kg: 1, at: h(0) }, { kg: 0.998, at: h(24) }]).isDry).toBe(true)
+    expect(constantWeight([{ kg: 1, at: h(0) }, { kg: 0.997, at: h(24) }]).isDry).toBe(false)
+    // 20 kg: 0.1 % is 20 g
+    expect(constantWeight([{ kg: 20.019, at: h(0) }, { kg: 20, at: h(24) }]).isDry).toBe(true)
+    expect(constantWeight([{ kg: 20.03, at: h(0) }, { kg: 20, at: h(24) }]).isDry).toBe(false)
+  })
+
+  it('says what is missing: a weighing, a second one a day later, or a steady weight', () => {
+    expect(constantWeight([]).message).toMatch(/Not weighed yet/)
+    expect(constantWeight([{ kg: 10, at: h(0) }, { kg: 10, at: h(5) }]).message).toMatch(/second weighing at least 24 hours.*weighed 2 times, the first 5 h before the last/)
+    expect(constantWeight([{ kg: 10, at: h(0) }]).message).toMatch(/second weighing at least 24 hours after an earlier one \(weighed once so far\)/)
+    expect(constantWeight([{ kg: 10.5, at: h(0) }, { kg: 10, at: h(25) }]).message).toMatch(/^Still changing: 5\.00 % over 25 h/)
+  })
+
   it('throws a named error on a bad weighing', () => {
     expect(fieldOf(() => constantWeight([{ kg: -1, at: h(0) }]))).toBe('weighings[0].kg')
     expect(fieldOf(() => constantWeight([{ kg: 1, at: new Date(Number.NaN) }]))).toBe('weighings[0].at')
+  })
+})
+
+describe('constantWeightReachedAt', () => {
+  const h = (hours: number) => new Date(Date.UTC(2027, 2, 1, 8) + hours * 3_600_000)
+  it('is the earlier weighing of the first pair a day apart that holds', () => {
+    // drying: 11 → 10.3 → 10.005 → 10.0 → 10.0 kg at 0, 24, 48, 72, 96 h: 10.005 (48 h) vs 10.0 (72 h) is 0.05 %
+    const w = [[0, 11], [24, 10.3], [48, 10.005], [72, 10], [96, 10]].map(([t, kg]) => ({ kg: kg!, at: h(t!) }))
+    expect(constantWeightReachedAt(w)).toEqual(h(48))
+    expect(constantWeightReachedAt(w.slice(0, 3))).toBeNull()
+    expect(constantWeightReachedAt([])).toBeNull()
   })
 })
 
@@ -176,18 +205,39 @@ describe('dryMassGuide', () => {
     const g = dryMassGuide(1.098) // the 1 L beta cast (derived in plaster-mix.test.ts)
     expect(g.lowKg).toBeCloseTo(1.098 * 0.98, 12)
     expect(g.highKg).toBeCloseTo(1.098 * 1.02, 12)
-    expect(g.label).toMatch(/about 1\.10 kg \(± 2 %, a guide only/)
+    expect(g.label).toMatch(/about 1\.10 kg \(± 2 %; a guide only/)
+  })
+
+  it('reaches lower when the batch was over plan (the extra may have stayed in the bowl)', () => {
+    // the issue's case: 10 % over a batch planned with 5 % waste reads 1.10 / 1.05 = 4.8 % high
+    const g = dryMassGuide(10, 10)
+    expect(g.lowKg).toBeCloseTo((10 * 0.98) / 1.1, 12)
+    expect(g.highKg).toBeCloseTo(10.2, 12)
+    expect(g.label).toMatch(/10 % over plan/)
+    // a short batch does not widen the range upward: the cast holds what its cavity holds
+    expect(dryMassGuide(10, -5)).toMatchObject({ lowKg: expect.closeTo(9.8, 12), batchExcessPct: 0 })
+    expect(fieldOf(() => dryMassGuide(10, Number.NaN))).toBe('batchExcessPct')
   })
 })
 
 describe('fallingRateFromWeighings', () => {
   it('is the median of actual ÷ estimated hours over the shop\'s pieces, at least 1', () => {
-    // invented shop: pieces took 1.8, 2.2 and 2.0 × the constant-rate estimate, one was left a week
-    const pieces = [[10, 18], [12, 26.4], [8, 16], [10, 168]].map(([e, a]) => ({ estimatedHours: e!, actualHours: a! }))
-    expect(fallingRateFromWeighings(pieces)).toEqual({ factor: expect.closeTo(2.1, 9), count: 4 }) // median of 1.8, 2.0, 2.2, 16.8
-    expect(fallingRateFromWeighings([{ estimatedHours: 10, actualHours: 5 }]).factor).toBe(1)
-    expect(fallingRateFromWeighings([])).toEqual({ factor: 1, count: 0 })
+    // invented shop: pieces took 1.8, 2.2, 2.0 and 1.9 × the constant-rate estimate, one was left a week
+    const pieces = [[10, 18], [12, 26.4], [8, 16], [10, 19], [10, 168]].map(([e, a]) => ({ estimatedHours: e!, actualHours: a! }))
+    expect(fallingRateFromWeighings(pieces)).toEqual({ factor: expect.closeTo(2.0, 9), count: 5, source: 'shop' }) // median of 1.8, 1.9, 2.0, 2.2, 16.8
+    const faster = [5, 4, 6, 5, 5].map(a => ({ estimatedHours: 10, actualHours: a }))
+    expect(fallingRateFromWeighings(faster)).toMatchObject({ factor: 1, source: 'shop' })
     expect(fieldOf(() => fallingRateFromWeighings('x' as never))).toBe('pieces')
+  })
+
+  it('keeps the default 1 with fewer than 5 usable pieces, and says so', () => {
+    const four = [[10, 18], [12, 26.4], [8, 16], [10, 19]].map(([e, a]) => ({ estimatedHours: e!, actualHours: a! }))
+    expect(fallingRateFromWeighings(four)).toEqual({ factor: 1, count: 4, source: 'default' })
+    expect(fallingRateFromWeighings([])).toEqual({ factor: 1, count: 0, source: 'default' })
+    // a piece without an estimate (saturated air) or with no time says nothing
+    expect(fallingRateFromWeighings([...four, { estimatedHours: 0, actualHours: 5 }, { estimatedHours: 5, actualHours: Number.NaN }]).source).toBe('default')
+    expect(fallingRateNote({ factor: 1, count: 4, source: 'default' })).toMatch(/4 of 5 pieces/)
+    expect(fallingRateNote({ factor: 2, count: 5, source: 'shop' })).toMatch(/× 2\.00 from 5 of the shop's pieces/)
   })
 })
 

@@ -7,6 +7,7 @@ import {
   calibrationFactor,
   calibrationFromPours,
   calibrationNote,
+  pourCalibrationNote,
   calibrationSample,
   demouldReadyMinutes,
   demouldWindow,
@@ -246,5 +247,13 @@ describe('calibration from the register', () => {
     expect(appliedSetFactor({ applied: true, appliedFactor: 1.3 })).toBe(1.3)
     expect(calibrationNote({ applied: true, appliedFactor: 1.3, appliedCount: 12 })).toBe('calibrated from 12 pours (× 1.30)')
     expect(calibrationNote({ applied: false, appliedFactor: null, appliedCount: 0 })).toBe('shop starting point, not calibrated')
+  })
+
+  it('says on the board whether a pour uses the grade\'s calibration, the starting point or its own factor', () => {
+    expect(pourCalibrationNote(1.3, { factor: 1.3, count: 12 })).toBe('calibrated from 12 pours (× 1.30)')
+    expect(pourCalibrationNote(1, { factor: 1.3, count: 12 })).toBe('shop starting point, not calibrated')
+    expect(pourCalibrationNote(1, undefined)).toBe('shop starting point, not calibrated')
+    // stretched on the board: neither
+    expect(pourCalibrationNote(1.45, { factor: 1.3, count: 12 })).toBe('set time × 1.45, set for this pour on the board')
   })
 })
