@@ -86,6 +86,12 @@ const QUEUE_ORDER = 'ORDER BY j.due_on NULLS LAST, coalesce(p.demoulded_at, c.cr
 const asNumberId = <T extends { id: number | string }>(r: T) => ({ ...r, id: Number(r.id) })
 
 export const piecesRepo = {
+  /** Ready pieces put into a crate become packed, each moving its version on (packed ones stay as they are). */
+  async packReady(db: Knex, workshopId: number, ids: number[]) {
+    if (!ids.length) return
+    await db('pieces').where({ workshop_id: workshopId, state: 'ready' }).whereIn('id', ids)
+      .update({ state: 'packed', version: db.raw('version + 1'), updated_at: db.fn.now() })
+  },
   /** Marks the pieces dispatched on a note, each moving its version on. */
   async dispatch(db: Knex, workshopId: number, ids: number[], dispatchId: number) {
     await db('pieces').where({ workshop_id: workshopId }).whereIn('id', ids)

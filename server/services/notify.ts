@@ -18,7 +18,7 @@ import { jobsRepo, type JobRow } from '../repos/jobs'
 import { workshopsRepo } from '../repos/workshops'
 import { mailOutboxRepo } from '../repos/mail-outbox'
 import { clientContactsRepo, type ContactMail } from '../repos/client-contacts'
-import { formatDateTime, workshopLocale } from '#shared/utils/workshop-format'
+import { formatDateTime, formatDay, workshopLocale } from '#shared/utils/workshop-format'
 import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
 /** A user, or a client contact (key c<contactId>; userId when the contact is also a user). */
@@ -39,7 +39,7 @@ async function send(trx: Knex, workshopId: number, kind: NotifyKind, to: Recipie
   return queued
 }
 
-const CONTACT_MAIL: Partial<Record<NotifyKind, ContactMail>> = { sample_ready: 'mail_samples', photos_shared: 'mail_progress', job_ready: 'mail_dispatch' }
+const CONTACT_MAIL: Partial<Record<NotifyKind, ContactMail>> = { sample_ready: 'mail_samples', photos_shared: 'mail_progress', job_ready: 'mail_dispatch', delivery: 'mail_dispatch' }
 
 /** Who gets a job's client mail of `kind`: its client's contacts with that mail on, or its members when it has no client. */
 async function jobClientRecipients(trx: Knex, workshopId: number, jobId: number, kind: NotifyKind): Promise<Recipient[]> {
@@ -85,6 +85,34 @@ export async function notifyJobReady(trx: Knex, workshopId: number, jobId: numbe
     subject: `Ready for dispatch: ${job.code} ${job.title}`,
     lines: [`Every piece of ${job.code} (${job.title}) is ready for dispatch.`, 'The workshop will be in touch about delivery. Your job page:', link(`/client/jobs/${job.id}`)],
     dedupeKey: `job-ready:${job.id}:${rid(r)}`,
+  }))
+}
+
+/** To the job's client contacts with dispatch mail on: a delivery is booked (day, vehicle, what goes). */
+export async function notifyDeliveryBooked(trx: Knex, workshopId: number, d: { id: number; jobId: number; day: string; vehicle: string; pieces: number; crates: number; site: string | null }) {
+  const job = await jobsRepo.byId(trx, workshopId, d.jobId)
+  if (!job) return 0
+  const locale = workshopLocale((await workshopsRepo.get(trx, workshopId))?.locale)
+  const day = formatDay(`${d.day}T12:00:00Z`, 'UTC', locale)
+  return send(trx, workshopId, 'delivery', await jobClientRecipients(trx, workshopId, d.jobId, 'delivery'), r => ({
+    subject: `Delivery booked for ${day}: ${job.code} ${job.title}`,
+    lines: [`A delivery of ${job.code} (${job.title}) is booked for ${day}${d.site ? ` to ${d.site}` : ''}.`,
+      `It carries ${d.pieces} piece${d.pieces === 1 ? '' : 's'}${d.crates ? ` in ${d.crates} crate${d.crates === 1 ? '' : 's'}` : ''} on ${d.vehicle}.`,
+      'Someone on site will be asked to sign for it. Follow it on your job page:', link(`/client/jobs/${job.id}`)],
+    dedupeKey: `delivery-booked:${d.id}:${rid(r)}`,
+  }))
+}
+
+/** To the job's client contacts with dispatch mail on: the delivery was signed for; the signed note is in the portal. */
+export async function notifyDeliverySigned(trx: Knex, workshopId: number, d: { id: number; jobId: number; receiverName: string; broken: string[] }) {
+  const job = await jobsRepo.byId(trx, workshopId, d.jobId)
+  if (!job) return 0
+  return send(trx, workshopId, 'delivery', await jobClientRecipients(trx, workshopId, d.jobId, 'delivery'), r => ({
+    subject: `Delivered and signed for: ${job.code} ${job.title}`,
+    lines: [`The delivery of ${job.code} (${job.title}) was signed for by ${d.receiverName}.`,
+      ...(d.broken.length ? [`Noted broken on arrival: ${d.broken.join(', ')}. The workshop will cast replacements.`] : []),
+      'The signed delivery note (PDF):', link(`/api/client/deliveries/${d.id}/note`), 'Your job page:', link(`/client/jobs/${job.id}`)],
+    dedupeKey: `delivery-signed:${d.id}:${rid(r)}`,
   }))
 }
 

@@ -15,6 +15,8 @@ export const JSON_BODY_MAX_BYTES = 64 * 1024
  */
 const LARGE_JSON: { method: string; path: RegExp; max: number }[] = [
   { method: 'POST', path: /^\/api\/planner\/accept$/, max: 512 * 1024 },
+  // a proof of delivery carries the signature as a PNG data URL (DELIVERY_SIGNATURE_MAX_CHARS, 200 000)
+  { method: 'POST', path: /^\/api\/deliveries\/[^/]+\/proof$/, max: 256 * 1024 },
 ]
 
 /** Routes that take a file as multipart/form-data (RFC 7578), and nothing else does. */

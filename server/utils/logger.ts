@@ -28,6 +28,8 @@ const SECRET_PARAM = /token|code|pass|pin|secret|key|sig/i
 
 /** The request path with the value of every secret-looking query parameter masked (reset and invitation links carry their token there). */
 export function loggablePath(path: string): string {
+  // a calendar feed's secret is the last segment of its path (services/calendar-feeds.ts)
+  path = path.replace(/^\/api\/ics\/[^/?]+/, '/api/ics/[redacted]')
   const q = path.indexOf('?')
   if (q < 0) return path
   const params = new URLSearchParams(path.slice(q + 1))

@@ -96,6 +96,17 @@ export const FIELD_LABELS: Record<string, string> = {
   workingDays: 'Working days',
   shiftStart: 'Shift start',
   shiftEnd: 'Shift end',
+  // crates and deliveries (shared/utils/delivery-schemas.ts)
+  pieceIds: 'Pieces',
+  crateIds: 'Crates',
+  deliveryDay: 'Delivery day',
+  fixingOn: 'Fixing from',
+  vehicle: 'Vehicle',
+  receiverName: 'Received by',
+  signature: 'Signature',
+  photoId: 'Photo',
+  broken: 'Broken pieces',
+  crateMaxKg: 'Heaviest crate',
 }
 
 const segments = (path: string) => path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean)

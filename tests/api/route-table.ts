@@ -66,6 +66,8 @@ const EVERYONE: Role[] = ['lead', 'caster', 'finisher', 'client']
 const rnd = () => randomUUID().slice(0, 8)
 /** A well-formed link token no invitation or reset has. */
 const NO_TOKEN = 'matrix-token-that-was-never-issued-00000'
+/** A signature as the pad sends it: a real PNG (one pixel) as a data URL. */
+const MATRIX_SIGNATURE = 'data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg=='
 const GRADE = (({ label: _l, ...g }) => g)(plasterGradeFromPreset('beta-fibrous'))
 const MIX = { consistency: 70, wastePct: 0, waterTempC: 20, powderTempC: 20, shopTempC: 20, setFactor: 1 }
 /** The demo workshop's settings as the settings page sends them back. */
@@ -141,6 +143,23 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/pieces/[id]/label/revoke', roles: LEAD, ids: { id: 'newPiece' } },
   { route: 'GET /api/jobs/[id]/labels', roles: STAFF, ids: { id: 'job' } },
   { route: 'GET /api/labels/[token]', roles: STAFF, ids: { token: 'label' } },
+  // crates, deliveries, proof of delivery, calendar feeds
+  { route: 'GET /api/jobs/[id]/crates', roles: ['lead', 'finisher'], ids: { id: 'job' } },
+  { route: 'POST /api/jobs/[id]/crates', roles: ['lead', 'finisher'], ids: { id: 'job' }, body: async s => ({ pieceIds: [await s.id('newPackedPiece')] }) },
+  { route: 'GET /api/crates/[id]', roles: ['lead', 'finisher'], ids: { id: 'crate' } },
+  { route: 'POST /api/crates/[id]/pieces', roles: ['lead', 'finisher'], ids: { id: 'crate' }, body: async s => ({ pieceIds: [await s.id('newPackedPiece')] }) },
+  { route: 'GET /api/jobs/[id]/deliveries', roles: ['lead', 'finisher'], ids: { id: 'job' } },
+  { route: 'POST /api/jobs/[id]/deliveries', roles: LEAD, ids: { id: 'job' }, body: async s => ({ deliveryDay: '2027-09-21', vehicle: 'Matrix van', pieceIds: [await s.id('newPackedPiece')] }) },
+  { route: 'GET /api/deliveries/[id]', roles: ['lead', 'finisher'], ids: { id: 'delivery' } },
+  { route: 'GET /api/deliveries/[id]/note', roles: ['lead', 'finisher'], ids: { id: 'delivery' } },
+  { route: 'POST /api/deliveries/[id]/proof', roles: ['lead', 'finisher'], ids: { id: 'newDelivery' }, body: () => ({ actionId: randomUUID(), receiverName: 'Matrix receiver', signature: MATRIX_SIGNATURE }) },
+  { route: 'GET /api/client/jobs/[id]/deliveries', roles: ['client'], ids: { id: 'job' } },
+  { route: 'GET /api/client/deliveries/[id]/note', roles: ['client'], ids: { id: 'delivery' } },
+  { route: 'GET /api/jobs/[id]/fixers-pack', roles: ['lead', 'finisher'], ids: { id: 'job' } },
+  { route: 'GET /api/feeds', roles: LEAD },
+  { route: 'POST /api/feeds', roles: LEAD, body: async s => ({ jobId: await s.id('job') }) },
+  { route: 'DELETE /api/feeds/[id]', roles: LEAD, ids: { id: 'feed' } },
+  { route: 'GET /api/ics/[token]', roles: 'public', params: { token: `${NO_TOKEN.replace(/-/g, '_')}.ics` }, public: 404 },
   // shared tablets and PINs; the tablet's own two routes answer to its device cookie, not a session (tests/api/tablet.test.ts)
   { route: 'GET /api/tablets', roles: LEAD },
   { route: 'POST /api/tablets', roles: LEAD, body: () => ({ name: `Matrix tablet ${rnd()}` }), endsSession: true },

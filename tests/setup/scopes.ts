@@ -28,6 +28,7 @@ export const KINDS = {
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
   label: 'piece_labels',
+  crate: 'crates', delivery: 'deliveries', newDelivery: 'deliveries', feed: 'calendar_feeds',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -138,6 +139,14 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   const orgRow = (workshopId: number, tag: string) => insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag}` })
   const contactRow = (workshopId: number, orgId: number, tag: string) => insert('client_contacts', { workshop_id: workshopId, client_org_id: orgId, name: `Contact ${tag}`, email: `${tag}-${++n}@contact.example.test` })
   const siteRow = (workshopId: number, orgId: number, tag: string) => insert('client_sites', { workshop_id: workshopId, client_org_id: orgId, name: `Site ${tag}`, address: `1 ${tag} Street` })
+  const crateRow = (workshopId: number, jobId: number) => insert('crates', { workshop_id: workshopId, job_id: jobId, crate_no: ++n })
+  /** A booked delivery of the job, carrying `pieceId` loose when given. */
+  const deliveryRow = async (workshopId: number, jobId: number, pieceId?: number) => {
+    const id = await insert('deliveries', { workshop_id: workshopId, job_id: jobId, delivery_day: '2027-09-20', vehicle: 'Matrix van' })
+    if (pieceId) await k('delivery_pieces').insert({ workshop_id: workshopId, delivery_id: id, piece_id: pieceId })
+    return id
+  }
+  const feedRow = (workshopId: number) => insert('calendar_feeds', { workshop_id: workshopId, token_hash: `matrix-${randomUUID()}` })
   const ownOrg = await orgRow(ws, tags.own)
   const job = await jobRow(ws, tags.own, {}, client1)
   const ownItem = await itemRow(ws, job, grade)
@@ -155,6 +164,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     // asks a deposit, so ada has something to pay by card
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
     clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own), label: '',
+    crate: await crateRow(ws, job), delivery: await deliveryRow(ws, job), feed: await feedRow(ws),
   }
   own.label = await labelRow(ws, own.piece)
 
@@ -196,6 +206,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
     clientOrg: 0, contact: 0, site: 0, label: '',
+    crate: await crateRow(ow, oJob), delivery: await deliveryRow(ow, oJob), feed: await feedRow(ow),
   }
   otherRows.clientOrg = await orgRow(ow, tags.other)
   otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)
@@ -221,6 +232,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
     newPayment: s => paymentRow(ws, standing[s].job as number),
     newContact: s => contactRow(ws, ownOrg, tags[s]),
+    newDelivery: async s => deliveryRow(ws, standing[s].job as number, await pieceRow(ws, tags[s], standing[s].item as number, 'packed')),
   }
   const standingKind = (kind: Kind) => (kind.startsWith('new') ? kind[3]!.toLowerCase() + kind.slice(4) : kind) as keyof Standing
 
