@@ -1,15 +1,17 @@
 // The built app server (.output) for tests and benchmarks, and the vitest globalSetup of the api,
 // e2e and services projects: it hands each test file the run's seeded template database, from
-// which tests/setup/per-file.ts clones the file's own database and starts the file's own server
-// (tests/setup/services.ts: the database only).
-import { spawn } from 'node:child_process'
+// which tests/setup/services.ts clones the file's own database; for the api and e2e projects it
+// also runs the pool of servers started ahead (tests/setup/server-pool.ts), each on a database
+// of its own cloned from that template, from which tests/setup/per-file.ts claims the file's server.
+import { spawn, type ChildProcess } from 'node:child_process'
 import { existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 import type { TestProject } from 'vitest/node'
 import { freePort } from './throwaway-db'
+import { startServerPool } from './server-pool'
 
 declare module 'vitest' {
-  export interface ProvidedContext { templateUrl: string }
+  export interface ProvidedContext { templateUrl: string; serverPoolUrl: string }
 }
 
 /**
@@ -56,8 +58,34 @@ export async function startAppServer(env: Record<string, string>, output?: strin
   throw new Error('the app server did not start within 60 s')
 }
 
+/** Stops a server started by startAppServer: SIGTERM, then SIGKILL when it has not exited within 3 s. */
+export async function stopAppServer(proc: ChildProcess) {
+  if (proc.exitCode !== null || proc.signalCode !== null) return
+  await new Promise<void>((resolve) => {
+    const t = setTimeout(() => {
+      proc.kill('SIGKILL')
+      resolve()
+    }, 3000)
+    proc.once('exit', () => {
+      clearTimeout(t)
+      resolve()
+    })
+    proc.kill('SIGTERM')
+  })
+}
+
 export default async function setup(project: TestProject) {
   const templateUrl = process.env.SETLINE_TEST_DATABASE_URL
   if (!templateUrl) throw new Error('SETLINE_TEST_DATABASE_URL is not set: run the suite with npm test')
   project.provide('templateUrl', templateUrl)
+  if (project.name !== 'api' && project.name !== 'e2e') return
+  // the files this run will claim a server for: the project's, narrowed by the file names given
+  // on the command line (npm test -- tests/api/x.test.ts passes them through)
+  const args = process.argv.slice(2)
+  const filters = args.filter((a, i) => a.includes('tests/') && !a.startsWith('-') && args[i - 1] !== '--project')
+  const { testFiles } = await project.globTestFiles(filters.length ? filters : undefined)
+  const workers = Number(project.config.maxWorkers) || 1
+  const pool = await startServerPool(templateUrl, workers, testFiles.length)
+  project.provide('serverPoolUrl', pool.url)
+  return () => pool.stop()
 }
