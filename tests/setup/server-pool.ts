@@ -17,7 +17,7 @@ import type { TestContext } from './context'
 
 export interface PooledServer extends TestContext { id: string }
 
-interface Running { ctx: PooledServer; proc: ChildProcess; drop: () => Promise<void> }
+interface Running { ctx: PooledServer; proc: ChildProcess; drop: () => Promise<unknown> }
 
 let serial = 0
 
@@ -27,7 +27,9 @@ async function startOne(templateUrl: string): Promise<Running> {
   // photos go to a throwaway folder; a 2 MB limit lets the tests send an oversize file cheaply
   const photoDir = mkdtempSync(join(tmpdir(), 'setline-photos-'))
   try {
-    const started = await startAppServer({ DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, PHOTO_STORAGE_DIR: photoDir, PHOTO_MAX_BYTES: String(2 * 1024 * 1024) })
+    // a start ahead competes with the file running beside it, and nobody waits on it yet: it gets
+    // three times the minute a file's own start had
+    const started = await startAppServer({ DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, PHOTO_STORAGE_DIR: photoDir, PHOTO_MAX_BYTES: String(2 * 1024 * 1024) }, undefined, true, 180_000)
     return { ctx: { id: String(++serial), baseUrl: started.url, databaseUrl, sessionPassword, photoDir }, proc: started.proc, drop }
   }
   catch (err) {

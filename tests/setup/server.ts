@@ -18,9 +18,9 @@ declare module 'vitest' {
  * Starts the built app; with `output`, what it prints is also collected there (a test reads its log),
  * and echoed unless `echo` is false (the soak keeps its servers' thousands of lines out of the terminal).
  * SETLINE_BUILD_DIR names another copy of a build to start instead of .output (a benchmark of an
- * older build while the tree is rebuilt).
+ * older build while the tree is rebuilt). `startLimitMs`: how long it may take to answer GET /api/health.
  */
-export async function startAppServer(env: Record<string, string>, output?: string[], echo = true) {
+export async function startAppServer(env: Record<string, string>, output?: string[], echo = true, startLimitMs = 60_000) {
   const root = resolve(import.meta.dirname, '../..')
   const entry = resolve(root, process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error(`No build in ${entry}: run npm test (it builds first)`)
@@ -45,7 +45,7 @@ export async function startAppServer(env: Record<string, string>, output?: strin
     })
   }
   const url = `http://127.0.0.1:${port}`
-  const until = Date.now() + 60_000
+  const until = Date.now() + startLimitMs
   while (Date.now() < until) {
     if (proc.exitCode !== null) throw new Error(`the app server exited with ${proc.exitCode}`)
     try {
@@ -55,7 +55,7 @@ export async function startAppServer(env: Record<string, string>, output?: strin
     await new Promise(r => setTimeout(r, 200))
   }
   proc.kill('SIGKILL')
-  throw new Error('the app server did not start within 60 s')
+  throw new Error(`the app server did not start within ${startLimitMs / 1000} s`)
 }
 
 /** Stops a server started by startAppServer: SIGTERM, then SIGKILL when it has not exited within 3 s. */
