@@ -18,7 +18,8 @@ const only = async <T>(name: string, make: () => T | Promise<T>) => !asked.lengt
 // API and browser files each have their own database and server, so they run side by side;
 // SETLINE_TEST_WORKERS sets how many at once (default 2 API files beside 2 browser files on 2
 // cores, where most of a file's time is spent waiting on its server, its database or chromium;
-// a third API file made sign-ins, each a deliberately slow scrypt hash, queue past the timeout).
+// a third API file made sign-ins, each a deliberately slow scrypt hash, queue past the timeout);
+// it is also how many servers the project's pool keeps started ahead (tests/setup/server-pool.ts).
 const workers = (fallback: number) => Number(process.env.SETLINE_TEST_WORKERS) || fallback
 
 const alias = {

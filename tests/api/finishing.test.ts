@@ -4,7 +4,7 @@
 // the floor API (tests/setup/finishing-fixtures.ts); pours are planned in 2031.
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn, waitForMail } from '../setup/http'
+import { call, expectStaleStepRefused, signIn, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop, makeUser } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
 import { finishingDryBy } from '#shared/utils/finishing'
@@ -237,13 +237,7 @@ describe('who, where, once', () => {
   it('refuses a stale version with 409, and its replay gets the same 409', async () => {
     const p = await piece()
     await act(p.id, { kind: 'fettled', version: 1 })
-    const body = { actionId: randomUUID(), kind: 'repair', version: 1, reason: 'crack' }
-    const r = await call(`/api/pieces/${p.id}/actions`, { method: 'POST', cookie: finisher, body })
-    expect(r.status).toBe(409)
-    expect(r.data.message).toMatch(/changed by someone else/)
-    const again = await call(`/api/pieces/${p.id}/actions`, { method: 'POST', cookie: finisher, body: { ...body, version: 2 } })
-    expect(again.status).toBe(409)
-    expect(again.data.message).toBe(r.data.message)
+    await expectStaleStepRefused(`/api/pieces/${p.id}/actions`, finisher, { kind: 'repair', version: 1, reason: 'crack' })
     expect((await row(p.id)).state).toBe('drying')
   })
 

@@ -3,7 +3,7 @@
 // tenancy and validation naming the field.
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { call, expectStaleStepRefused, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
@@ -76,13 +76,7 @@ describe('POST /api/pours/:id/actions: start mixing', () => {
   it('refuses a stale version with 409, and its replay gets the same 409 without a change', async () => {
     const p = await plannedPour()
     await call(`/api/pours/${p.id}`, { method: 'PATCH', cookie: lead, body: { version: 1, slotStart: '2028-04-05T10:00:00Z' } })
-    const body = { actionId: randomUUID(), kind: 'start_mixing', version: 1, waterTempC: 18 }
-    const r = await call(`/api/pours/${p.id}/actions`, { method: 'POST', cookie: caster, body })
-    expect(r.status).toBe(409)
-    expect(r.data.message).toMatch(/changed by someone else/)
-    const again = await call(`/api/pours/${p.id}/actions`, { method: 'POST', cookie: caster, body: { ...body, version: 2 } })
-    expect(again.status).toBe(409)
-    expect(again.data.message).toBe(r.data.message)
+    await expectStaleStepRefused(`/api/pours/${p.id}/actions`, caster, { kind: 'start_mixing', version: 1, waterTempC: 18 })
     expect((await row(p.id)).state).toBe('planned')
   })
 

@@ -10,7 +10,7 @@ import { join } from 'node:path'
 import { inject } from 'vitest'
 import pg from 'pg'
 import { cloneFileDatabase } from './file-db'
-import { startAppServer } from './server'
+import { startAppServer, stopAppServer } from './server'
 import { setTestContext, testContext, type TestContext } from './context'
 import { closeTestDb } from './fixtures'
 
@@ -40,17 +40,7 @@ export async function startEmptyServer(env: Record<string, string> = {}) {
     async stop() {
       await closeTestDb()
       if (seeded) setTestContext(seeded)
-      started.proc.kill('SIGTERM')
-      await new Promise<void>((resolve) => {
-        const t = setTimeout(() => {
-          started.proc.kill('SIGKILL')
-          resolve()
-        }, 3000)
-        started.proc.once('exit', () => {
-          clearTimeout(t)
-          resolve()
-        })
-      })
+      await stopAppServer(started.proc)
       rmSync(photoDir, { recursive: true, force: true })
       await drop()
     },

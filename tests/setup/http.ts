@@ -1,4 +1,6 @@
 // Small HTTP helpers for API tests against the built server.
+import { randomUUID } from 'node:crypto'
+import { expect } from 'vitest'
 import { testContext } from './context'
 
 export interface CallResult<T = any> { status: number; data: T; cookie?: string; headers: Headers }
@@ -74,4 +76,19 @@ export function tokenFrom(text: string): string {
   const m = text.match(/token=([\w-]+)/)
   if (!m) throw new Error('no token link in the mail')
   return m[1]!
+}
+
+/**
+ * A tablet step sent with a stale `version`: 409 "changed by someone else", and its replay (the
+ * same actionId, now with the current version) answers the same 409, since an action id is
+ * answered once. The caller then checks that nothing changed.
+ */
+export async function expectStaleStepRefused(url: string, cookie: string, step: Record<string, unknown> & { version: number }) {
+  const body = { actionId: randomUUID(), ...step }
+  const r = await call(url, { method: 'POST', cookie, body })
+  expect(r.status).toBe(409)
+  expect(r.data.message).toMatch(/changed by someone else/)
+  const again = await call(url, { method: 'POST', cookie, body: { ...body, version: step.version + 1 } })
+  expect(again.status).toBe(409)
+  expect(again.data.message).toBe(r.data.message)
 }

@@ -3,6 +3,7 @@ import { PlanningInputError } from '#shared/utils/workshop-calendar'
 import { planPours } from '#shared/utils/planner'
 import type { PlanPoursInput } from '#shared/types/planner'
 import { MIN, baseInput, expectInsideShifts, expectNoOverlaps, item, mould } from './planner-helpers'
+import { inputErrorField } from '../setup/input-errors'
 
 // Timing used throughout (pour-timing.test.ts checks it): the beta casting preset at 70 and a
 // 20 °C shop opens 30 min after mixing ends, + 5 min mixing = 35 min after mixAt. A mould with
@@ -19,16 +20,7 @@ function plan(over: Partial<PlanPoursInput>) {
   return { input, result }
 }
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlanningInputError)
-    return (e as PlanningInputError).field
-  }
-  return undefined
-}
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlanningInputError)
 
 describe('planPours: order and cycle', () => {
   it('fills a mould on its 55-minute cycle, 9 pours a day inside the shift', () => {

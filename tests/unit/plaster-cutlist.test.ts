@@ -12,17 +12,9 @@ import {
   runCutList,
   usGallonsToLitres,
 } from '#shared/utils/plaster'
+import { inputErrorField } from '../setup/input-errors'
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlasterInputError)
-    return (e as PlasterInputError).field
-  }
-  return undefined
-}
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlasterInputError)
 
 function sumByWall(cuts: { wall: number; lengthM: number }[]): number[] {
   const sums: number[] = []

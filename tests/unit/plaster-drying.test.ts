@@ -13,21 +13,13 @@ import {
   saturationVapourPressureKPa,
   wetBulbC,
 } from '#shared/utils/plaster'
+import { inputErrorField } from '../setup/input-errors'
 
 function expectNear(actual: number, expected: number, relTol: number) {
   expect(Math.abs(actual / expected - 1)).toBeLessThan(relTol)
 }
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlasterInputError)
-    return (e as PlasterInputError).field
-  }
-  return undefined
-}
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlasterInputError)
 
 describe('saturationVapourPressureKPa (Buck 1996)', () => {
   it('matches the IAPWS-95 table values within 0.1 %', () => {

@@ -17,21 +17,13 @@ import {
   type CalibrationPour,
   type PlasterGradePresetKey,
 } from '#shared/utils/plaster'
+import { inputErrorField } from '../setup/input-errors'
 
 const beta = GRADE_PRESETS['beta-casting']
 const alpha = GRADE_PRESETS['alpha-casting']
 const presetKeys = Object.keys(GRADE_PRESETS) as PlasterGradePresetKey[]
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlasterInputError)
-    return (e as PlasterInputError).field
-  }
-  return undefined
-}
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlasterInputError)
 
 describe('temperature factors', () => {
   it('interpolates linearly and holds flat beyond the table', () => {

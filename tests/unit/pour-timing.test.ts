@@ -7,6 +7,7 @@ import {
   pourTimingFromSlotStart,
   pourTimingMinutes,
 } from '#shared/utils/pour-timing'
+import { inputErrorField } from '../setup/input-errors'
 
 // Preset values relied on (plaster-presets.ts): beta casting demouldMinutesRef 30 at its default
 // consistency 70, set-time water exponent 1.2, temperature factor 1 at 20 °C and 1.3 at 10 °C.
@@ -17,16 +18,7 @@ const mixAt = new Date('2026-12-07T09:00:00Z')
 const min = (n: number) => n * 60_000
 const at = (base: Date, minutes: number) => new Date(base.getTime() + min(minutes))
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlasterInputError)
-    return (e as PlasterInputError).field
-  }
-  return undefined
-}
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlasterInputError)
 
 describe('pourTiming', () => {
   it('beta casting at 70 and 20 °C opens 30 min after mixing ends (preset), so 35 min after mixAt', () => {

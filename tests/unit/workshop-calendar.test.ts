@@ -8,22 +8,14 @@ import {
   shiftWindows,
   type WorkshopShiftCalendar,
 } from '#shared/utils/workshop-calendar'
+import { inputErrorField } from '../setup/input-errors'
 
 const london: WorkshopShiftCalendar = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
 const everyDay = { ...london, workingDays: [1, 2, 3, 4, 5, 6, 7] }
 const iso = (d: Date) => d.toISOString()
 
-function fieldOf(fn: () => unknown): string | undefined {
-  try {
-    fn()
-  }
-  catch (e) {
-    expect(e).toBeInstanceOf(PlanningInputError)
-    expect(e).toBeInstanceOf(PlasterInputError) // the routes' 422 mapping catches it
-    return (e as PlanningInputError).field
-  }
-  return undefined
-}
+// a planning error is a plaster input error too: the routes' 422 mapping catches it
+const fieldOf = (fn: () => unknown) => inputErrorField(fn, PlanningInputError, PlasterInputError)
 
 describe('shiftWindows', () => {
   it('lists the working days of a winter week at 07:30–16:00 GMT', () => {
