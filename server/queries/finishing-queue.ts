@@ -38,6 +38,9 @@ export function pieceDto(r: PieceViewRow): FinishingPieceDto {
     reason: r.reason,
     lastWeighing: d && r.weighed_at ? { kg: lastKg!, at: iso(r.weighed_at)!, freeWaterKg: d.freeWaterKg, freeWaterPct: d.freeWaterPct, isDry: d.isDry } : null,
     dispatchId: r.dispatch_id === null ? null : Number(r.dispatch_id),
+    timer: (r.timer_type === 'piece.fettle_start' || r.timer_type === 'piece.repair_start') && r.timer_at
+      ? { work: r.timer_type === 'piece.fettle_start' ? 'fettle' : 'repair', since: iso(r.timer_at)!, by: r.timer_by_name }
+      : null,
   }
 }
 

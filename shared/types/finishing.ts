@@ -32,6 +32,8 @@ export interface FinishingPieceDto {
   /** the latest weighing since the piece last went to drying */
   lastWeighing: FinishingWeighingDto | null
   dispatchId: number | null
+  /** fettling or repair being timed on the finishing tablet now (for the job's cost), or null */
+  timer: { work: 'fettle' | 'repair'; since: string; by: string | null } | null
 }
 
 export interface FinishingQueue {

@@ -14,7 +14,7 @@
  *   (every pour of theirs counts, other jobs' too), so their hours are never counted twice. This
  *   is the usual equal split of shared time in job costing (common practice); Setline's rule.
  * - Fettling and repair: from a start to the next stop on the finishing tablet, or to the step
- *   that ends the work (fettled; repaired; rejected ends either). A start while one is running
+ *   that ends the work (fettled or sent to repair; repaired; rejected ends either). A start while one is running
  *   for the same piece hands it over: the first is closed there. A timer still running counts
  *   to `now`. Booked to whoever started it.
  * - Mould-making: the hours written on each stage of the mould's work records, at the same rate,
@@ -59,7 +59,7 @@ export interface JobCostCastingSpan {
   end: Date
 }
 
-export const JOB_COST_FINISHING_TYPES = ['fettle_start', 'fettle_stop', 'fettled', 'repair_start', 'repair_stop', 'repaired', 'rejected'] as const
+export const JOB_COST_FINISHING_TYPES = ['fettle_start', 'fettle_stop', 'fettled', 'repair', 'repair_start', 'repair_stop', 'repaired', 'rejected'] as const
 export type JobCostFinishingType = (typeof JOB_COST_FINISHING_TYPES)[number]
 
 export interface JobCostFinishingEvent {
@@ -171,7 +171,7 @@ export function jobCostCastingShares(spans: readonly JobCostCastingSpan[]): { de
 interface Timed { itemId: number; personId: number; kind: 'fettling' | 'repair'; ms: bigint; running: boolean }
 
 const ENDS: Record<'fettling' | 'repair', readonly JobCostFinishingType[]> = {
-  fettling: ['fettle_stop', 'fettled', 'rejected'],
+  fettling: ['fettle_stop', 'fettled', 'repair', 'rejected'],
   repair: ['repair_stop', 'repaired', 'rejected'],
 }
 const STARTS: Record<'fettling' | 'repair', JobCostFinishingType> = { fettling: 'fettle_start', repair: 'repair_start' }

@@ -111,6 +111,14 @@ describe('job cost: the parts', () => {
     expect([...jobCostCastingShares(spans).shareMs.values()]).toEqual([3_600_000n, 3_600_000n])
   })
 
+  it('ends fettling when the piece is sent to repair', () => {
+    const t = jobCostFinishingTimes([
+      { pieceId: 1, itemId: 1, personId: 5, type: 'fettle_start', at: at('08:00') },
+      { pieceId: 1, itemId: 1, personId: 5, type: 'repair', at: at('08:05') },
+    ], at('12:00'))
+    expect(t.map(x => [x.kind, Number(x.ms) / 60_000, x.running])).toEqual([['fettling', 5, false]])
+  })
+
   it('ends a repair at repaired and both timers at rejected; a stop without a start adds nothing', () => {
     const t = jobCostFinishingTimes([
       { pieceId: 1, itemId: 1, personId: 5, type: 'repair_stop', at: at('07:00') },
