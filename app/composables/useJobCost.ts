@@ -23,7 +23,9 @@ export async function useJobCost(jobId: MaybeRefOrGetter<number>) {
   }
   useLiveEvents(['pour.updated', 'pour.voided', 'piece.updated'], (e) => {
     if (e.type === 'catch-up') return refreshSoon()
-    const ofJob = e.type === 'piece.updated' ? e.row.job?.id : e.row.jobId
+    // a pour event's member names three types at once, so Extract cannot narrow to it: read the row's job
+    const row = (e as { row?: { jobId?: number | null; job?: { id: number } | null } }).row
+    const ofJob = row?.job?.id ?? row?.jobId
     if (ofJob === id) refreshSoon()
   })
   await read
