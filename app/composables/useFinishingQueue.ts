@@ -3,7 +3,7 @@
 // Every action goes through the outbox (app/stores/outbox.ts), so a Wi-Fi drop loses nothing:
 // the card moves at once ("sending…") and the server's answer replaces it. Live piece and
 // dispatch events read the queue again.
-import { FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from '#shared/utils/finishing-schemas'
+import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingActionKind, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-schemas'
 import { constantWeight, dryness } from '#shared/utils/plaster-drying'
 import type { ApiAnswer } from '~/utils/api-answer'
 
@@ -16,6 +16,7 @@ type FinishingActionAnswer = ApiAnswer<'/api/pieces/:id/actions', 'post'>
 const CACHE_KEY = 'finishing'
 const LABEL: Record<FinishingActionKind, string> = {
   fettled: 'Fettled', weighed: 'Weighed', ready: 'Ready', repair: 'To repair', repaired: 'Repaired', rejected: 'Rejected', packed: 'Packed',
+  fettle_start: 'Fettling started', fettle_stop: 'Fettling stopped', repair_start: 'Repair started', repair_stop: 'Repair stopped',
 }
 
 export function useFinishingQueue() {
@@ -54,7 +55,11 @@ export function useFinishingQueue() {
    * (worked out here with the same `dryness` and `constantWeight`), so a finisher offline can
    * weigh and then mark ready.
    */
-  function shownPiece(p: FinishingPiece): FinishingPiece {
+  function shownPiece(server: FinishingPiece): FinishingPiece {
+    // a timer started or stopped on this tablet shows at once, like a state
+    const tick = pendingFor(server.id).filter(e => e.kind in FINISHING_TIMER_STEPS).at(-1)
+    const step = tick ? FINISHING_TIMER_STEPS[tick.kind as FinishingTimerKind] : null
+    const p = step ? { ...server, timer: step.start ? { work: step.work, since: tick!.tappedAt, by: null } : null } : server
     const queued = pendingFor(p.id).filter(e => e.kind === 'weighed' && Number(e.body.weighedKg) > 0)
       .map(e => ({ kg: Number(e.body.weighedKg), at: typeof e.body.at === 'string' ? e.body.at : e.tappedAt }))
     const w = queued.at(-1)

@@ -50,6 +50,9 @@ export function pieceDto(r: PieceViewRow): FinishingPieceDto {
     constantWeight: constantWeight(weighings.map(w => ({ kg: w.kg, at: new Date(w.at) }))),
     dryMassGuide: { lowKg: guide.lowKg, highKg: guide.highKg, batchExcessPct: guide.batchExcessPct },
     dispatchId: r.dispatch_id === null ? null : Number(r.dispatch_id),
+    timer: (r.timer_type === 'piece.fettle_start' || r.timer_type === 'piece.repair_start') && r.timer_at
+      ? { work: r.timer_type === 'piece.fettle_start' ? 'fettle' : 'repair', since: iso(r.timer_at)!, by: r.timer_by_name }
+      : null,
   }
 }
 

@@ -48,6 +48,10 @@ export interface PieceViewRow {
   spell_weighings: { kg: number | string; at: string }[]
   plaster_kg_planned: number | string | null
   plaster_kg_actual: number | string | null
+  timer_type: string | null
+  timer_at: Date | null
+  timer_by: number | null
+  timer_by_name: string | null
 }
 
 /**
@@ -67,17 +71,30 @@ const LAST_WEIGHING = `LEFT JOIN LATERAL (
     FROM (SELECT w.id, w.weighed_kg, w.weighed_at FROM piece_weighings w WHERE ${IN_SPELL}
       ORDER BY w.weighed_at DESC, w.id DESC LIMIT 20) x) sw ON true`
 
+/**
+ * The finisher's clock on the piece: its latest timing step (or a step that ends the work). A
+ * start there means fettling or repair is being timed now, by whom and since when.
+ */
+const TIMER_TYPES = `('piece.fettle_start', 'piece.fettle_stop', 'piece.fettled', 'piece.repair_start', 'piece.repair_stop',
+  'piece.repaired', 'piece.rejected', 'piece.repair')`
+const LAST_TIMER = `LEFT JOIN LATERAL (
+    SELECT e.type AS timer_type, e.at AS timer_at, e.actor_id AS timer_by, u.name AS timer_by_name FROM events e
+    LEFT JOIN users u ON u.id = e.actor_id
+    WHERE e.workshop_id = c.workshop_id AND e.entity = 'piece' AND e.entity_id = c.id::text AND e.type IN ${TIMER_TYPES}
+    ORDER BY e.at DESC, e.id DESC LIMIT 1) lt ON true`
+
 const VIEW_SQL = `SELECT c.id, c.version, c.mark, c.state, c.dry_mass_kg, c.wet_mass_kg, c.dry_by, c.drying_temp_c, c.drying_humidity_pct,
     c.reason, c.dispatch_id, c.created_at, p.demoulded_at, m.code AS mould_code, m.casts AS mould_casts, m.cavity_litres,
     i.id AS item_id, i.description AS item_description, j.id AS job_id, j.code AS job_code, j.title AS job_title,
     to_char(j.due_on, 'YYYY-MM-DD') AS job_due_on, lw.weighed_kg, lw.weighed_at, sw.spell_weighings,
-    p.plaster_kg_planned, p.plaster_kg_actual
+    p.plaster_kg_planned, p.plaster_kg_actual, lt.timer_type, lt.timer_at, lt.timer_by, lt.timer_by_name
   FROM pieces c
   JOIN pours p ON p.id = c.pour_id AND p.workshop_id = c.workshop_id
   JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = c.workshop_id
   LEFT JOIN job_items i ON i.id = c.job_item_id AND i.workshop_id = c.workshop_id
   LEFT JOIN jobs j ON j.id = i.job_id AND j.workshop_id = c.workshop_id
   ${LAST_WEIGHING}
+  ${LAST_TIMER}
   WHERE c.workshop_id = :workshopId`
 
 /** Most urgent job first (earliest due date; pieces of no job or no due date after), then the oldest cast. */
@@ -163,6 +180,14 @@ export const piecesRepo = {
   async lastEventAt(db: Knex, workshopId: number, id: number): Promise<Date | null> {
     const row = await db('events').max({ at: 'at' }).where({ workshop_id: workshopId, entity: 'piece', entity_id: String(id) }).first()
     return (row?.at as Date | null) ?? null
+  },
+  /** The piece's running timer (fettling or repair being timed), or null. */
+  async runningTimer(db: Knex, workshopId: number, id: number): Promise<{ work: 'fettle' | 'repair'; by: number | null } | null> {
+    const row = await db('events').first('type', 'actor_id').where({ workshop_id: workshopId, entity: 'piece', entity_id: String(id) })
+      .whereRaw(`type IN ${TIMER_TYPES}`).orderBy([{ column: 'at', order: 'desc' }, { column: 'id', order: 'desc' }])
+    if (row?.type === 'piece.fettle_start') return { work: 'fettle', by: row.actor_id === null ? null : Number(row.actor_id) }
+    if (row?.type === 'piece.repair_start') return { work: 'repair', by: row.actor_id === null ? null : Number(row.actor_id) }
+    return null
   },
   /** The cast's volume (its mould's cavity), for the drying estimate. */
   async cavityLitres(db: Knex, workshopId: number, pourId: number): Promise<number> {

@@ -3,7 +3,7 @@ import type { Knex } from 'knex'
 import type { LotPourSums } from '#shared/utils/catalogue'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
-export const LOT_COLUMNS = ['id', 'grade_id', 'lot_code', 'bags_received', 'bag_kg', 'received_on', 'use_by', 'notes', 'archived_at', 'version'] as const
+export const LOT_COLUMNS = ['id', 'grade_id', 'lot_code', 'bags_received', 'bag_kg', 'received_on', 'use_by', 'notes', 'price_per_bag', 'archived_at', 'version'] as const
 
 /** A plaster_lots row as LOT_COLUMNS read it (DATE as 'YYYY-MM-DD', NUMERIC as a number: server/utils/db.ts). */
 export interface LotRow {
@@ -15,11 +15,13 @@ export interface LotRow {
   received_on: string
   use_by: string | null
   notes: string | null
+  /** minor units of the workshop currency; null when not known */
+  price_per_bag: number | null
   archived_at: Date | null
   version: number
 }
 
-export interface LotInput { gradeId?: number; lotCode?: string; bagsReceived?: number; bagKg?: number; receivedOn?: string; useBy?: string | null; notes?: string | null; archived?: boolean }
+export interface LotInput { gradeId?: number; lotCode?: string; bagsReceived?: number; bagKg?: number; receivedOn?: string; useBy?: string | null; notes?: string | null; pricePerBag?: number | null; archived?: boolean }
 
 function toColumns(input: LotInput, db: Knex) {
   return {
@@ -30,6 +32,7 @@ function toColumns(input: LotInput, db: Knex) {
     ...(input.receivedOn !== undefined && { received_on: input.receivedOn }),
     ...(input.useBy !== undefined && { use_by: input.useBy }),
     ...(input.notes !== undefined && { notes: input.notes }),
+    ...(input.pricePerBag !== undefined && { price_per_bag: input.pricePerBag }),
     ...(input.archived !== undefined && { archived_at: input.archived ? db.fn.now() : null }),
   }
 }
@@ -88,7 +91,7 @@ export const lotsRepo = {
     return db('plaster_lots as l').join('plaster_grades as g', function () {
       this.on('g.id', 'l.grade_id').andOn('g.workshop_id', 'l.workshop_id')
     }).where('l.workshop_id', workshopId)
-      .select('l.lot_code', 'g.name as grade', 'l.bags_received', 'l.bag_kg', 'l.received_on', 'l.use_by', 'l.notes')
+      .select('l.lot_code', 'g.name as grade', 'l.bags_received', 'l.bag_kg', 'l.received_on', 'l.use_by', 'l.notes', 'l.price_per_bag')
       .select(db.raw('l.archived_at IS NOT NULL AS archived')).orderBy('l.received_on', 'desc')
   },
 }

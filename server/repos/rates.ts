@@ -15,19 +15,22 @@ export interface RatesRow {
   margin_bp: number
   tax_bp: number
   deposit_bp: number
+  /** the hourly labour rate the job's actual cost is priced at (shared/utils/job-cost.ts) */
+  labour_per_hour: number
   version: number
 }
 
 const COLUMNS = ['workshop_id', 'currency', 'plaster_per_bag', 'mould_per_profile', 'cast_per_length', 'cast_per_piece',
-  'fettle_per_piece', 'fix_per_metre', 'delivery_per_trip', 'margin_bp', 'tax_bp', 'deposit_bp', 'version'] as const
+  'fettle_per_piece', 'fix_per_metre', 'delivery_per_trip', 'margin_bp', 'tax_bp', 'deposit_bp', 'labour_per_hour', 'version'] as const
 
 /** The migration's column defaults: what a workshop that never saved its rates has. */
 const DEFAULTS: Omit<RatesRow, 'workshop_id'> = {
   currency: 'GBP', plaster_per_bag: 0, mould_per_profile: 0, cast_per_length: 0, cast_per_piece: 0, fettle_per_piece: 0,
-  fix_per_metre: 0, delivery_per_trip: 0, margin_bp: 0, tax_bp: 0, deposit_bp: 0, version: 1,
+  fix_per_metre: 0, delivery_per_trip: 0, margin_bp: 0, tax_bp: 0, deposit_bp: 0, labour_per_hour: 0, version: 1,
 }
 
-export type RatesColumns = Omit<RatesRow, 'workshop_id' | 'version'>
+/** A save's columns; the labour rate is kept when a save leaves it out. */
+export type RatesColumns = Omit<RatesRow, 'workshop_id' | 'version' | 'labour_per_hour'> & { labour_per_hour?: number }
 
 export const ratesRepo = {
   async get(db: Knex, workshopId: number): Promise<RatesRow> {

@@ -69,7 +69,7 @@ export async function updateBench(workshopId: number, id: number, version: numbe
 export function toLot(r: LotRow): Lot {
   return {
     id: r.id, gradeId: r.grade_id, lotCode: r.lot_code, bagsReceived: r.bags_received, bagKg: r.bag_kg,
-    receivedOn: r.received_on, useBy: r.use_by, notes: r.notes, archivedAt: isoOrNull(r.archived_at), version: r.version,
+    receivedOn: r.received_on, useBy: r.use_by, notes: r.notes, pricePerBag: r.price_per_bag, archivedAt: isoOrNull(r.archived_at), version: r.version,
   }
 }
 

@@ -13,9 +13,14 @@
 // (COUNTED_POUR in server/repos/planning.ts), so its item is planned again. The `ready` step
 // mails the job's client when every item of the open job has its pieces ready, packed or
 // dispatched (notifyJobReady). Only packed pieces go on a dispatch note (services/dispatches.ts).
+//
+// Fettling and repair are timed for the job's cost (shared/utils/job-cost.ts): fettle_start /
+// fettle_stop on a piece to fettle, repair_start / repair_stop on a piece in repair; fettled,
+// repaired and rejected stop the clock too. A stop needs a running clock of that work (409); a
+// start while someone else's clock runs takes the piece over, the finisher's own is refused.
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'
-import { FINISHING_STEPS, type FinishingActionInput, type FinishingPieceState } from '#shared/utils/finishing-schemas'
+import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingActionInput, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-schemas'
 import { dryness } from '#shared/utils/plaster-drying'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { piecesRepo, type PieceRow } from '../repos/pieces'
@@ -129,6 +134,21 @@ async function packed(c: StepContext): Promise<StepOutcome> {
   return {}
 }
 
+const WORK_WORDS = { fettle: 'Fettling', repair: 'Repair' } as const
+
+async function timerStep(c: StepContext, kind: FinishingTimerKind): Promise<StepOutcome> {
+  const { work, start } = FINISHING_TIMER_STEPS[kind]
+  const running = await piecesRepo.runningTimer(c.trx, c.actor.workshopId, c.row.id)
+  if (start && running?.work === work && running.by === c.actor.id) {
+    conflict(`${WORK_WORDS[work]} of piece ${c.row.mark} is already being timed by you`, { state: c.row.state, version: c.row.version })
+  }
+  if (!start && running?.work !== work) {
+    conflict(`${WORK_WORDS[work]} of piece ${c.row.mark} is not being timed: start it first`, { state: c.row.state, version: c.row.version })
+  }
+  await write(c, kind, {}, start && running ? { takenOverFrom: running.by } : {})
+  return {}
+}
+
 const finishingSteps: StepMachine<PieceRow, FinishingActionInput, StepOutcome, FinishingActionResult> = {
   entity: 'piece',
   noun: 'Piece',
@@ -139,7 +159,13 @@ const finishingSteps: StepMachine<PieceRow, FinishingActionInput, StepOutcome, F
   },
   changed: row => `Piece ${row.mark} was changed by someone else; reload to see it`,
   previousAt: (trx, workshopId, row) => piecesRepo.lastEventAt(trx, workshopId, row.id),
-  steps: { fettled, weighed, ready, repair, repaired, rejected, packed },
+  steps: {
+    fettled, weighed, ready, repair, repaired, rejected, packed,
+    fettle_start: c => timerStep(c, 'fettle_start'),
+    fettle_stop: c => timerStep(c, 'fettle_stop'),
+    repair_start: c => timerStep(c, 'repair_start'),
+    repair_stop: c => timerStep(c, 'repair_stop'),
+  },
   async answer(trx, actor, pieceId, out) {
     const [piece] = await pieceDtos(trx, actor.workshopId, [pieceId])
     const jobId = piece!.job?.id ?? null

@@ -25,6 +25,8 @@ import { clientSitesRepo } from '../repos/client-sites'
 import { jobsRepo, type JobInput } from '../repos/jobs'
 import { jobItemsRepo, type ItemColumns } from '../repos/job-items'
 import { workshopsRepo } from '../repos/workshops'
+import { ratesRepo } from '../repos/rates'
+import { MoneyInputError, parseMoney } from '#shared/utils/money'
 import { contactsExport, openJobsExport, sitesExport } from '../queries/import-exports'
 import { decodeCsvFile, parseCsvText, readDayCell, readNumberCell } from '../utils/csv-read'
 import { UNIT_LABELS, fromDisplay, toDisplay, type UnitSystem } from '#shared/utils/units-display'
@@ -162,15 +164,17 @@ const LOT_COLUMNS: Column[] = [
   { header: 'bags received', field: 'bagsReceived', number: true, required: true }, { header: 'bag kg', field: 'bagKg', number: true, required: true },
   { header: 'received on', field: 'receivedOn', required: true }, { header: 'use by', field: 'useBy' },
   { header: 'archived', field: 'archived' }, { header: 'notes', field: 'notes' },
+  // money in the workshop's currency as a person types it (18.50), never rounded (money.ts)
+  { header: 'price per bag', field: 'pricePerBag' },
 ]
 type LotValue = LotCreateInput & { archived: boolean }
 
 const lots: KindSpec<LotValue> = {
   columns: LOT_COLUMNS,
-  example: { 'lot code': 'L-2027-014', 'grade': 'Fibrous casting plaster', 'bags received': '40', 'bag kg': '25', 'received on': '2027-03-01', 'use by': '2027-09-01', 'archived': 'no', 'notes': '' },
+  example: { 'lot code': 'L-2027-014', 'grade': 'Fibrous casting plaster', 'bags received': '40', 'bag kg': '25', 'received on': '2027-03-01', 'use by': '2027-09-01', 'archived': 'no', 'notes': '', 'price per bag': '18.50' },
   async check(workshopId, rows) {
     const db = useDb()
-    const [taken, grades] = await Promise.all([lotsRepo.codes(db, workshopId), gradesRepo.list(db, workshopId)])
+    const [taken, grades, rates] = await Promise.all([lotsRepo.codes(db, workshopId), gradesRepo.list(db, workshopId), ratesRepo.get(db, workshopId)])
     const gradeByName = new Map(grades.map(g => [g.name.toLowerCase(), g.id]))
     const firstLine = new Map<string, number>()
     return rows.map(({ line, cells }) => {
@@ -190,8 +194,17 @@ const lots: KindSpec<LotValue> = {
       }
       const archivedWord = (cells.archived ?? '').toLowerCase()
       if (!['', 'yes', 'no'].includes(archivedWord)) problems.push({ column: 'archived', message: 'archived must be yes or no' })
+      let pricePerBag: number | null = null
+      const priceText = String(cells['price per bag'] ?? '').trim()
+      try {
+        if (priceText) pricePerBag = parseMoney(priceText, rates.currency, 'price per bag')
+      }
+      catch (e) {
+        if (!(e instanceof MoneyInputError)) throw e
+        problems.push({ column: 'price per bag', message: e.message })
+      }
       const input = {
-        lotCode: code, gradeId: gradeId ?? 0, bagsReceived: n.bagsReceived ?? undefined, bagKg: n.bagKg ?? undefined,
+        pricePerBag, lotCode: code, gradeId: gradeId ?? 0, bagsReceived: n.bagsReceived ?? undefined, bagKg: n.bagKg ?? undefined,
         receivedOn: days.receivedOn ?? undefined, useBy: days.useBy ?? null, notes: cells.notes ?? null,
       }
       const said = new Set(problems.map(p => p.column))

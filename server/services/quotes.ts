@@ -23,7 +23,7 @@ function toRates(r: RatesRow): Rates {
     currency: r.currency, plasterPerBag: r.plaster_per_bag, mouldPerProfile: r.mould_per_profile,
     castPerLength: r.cast_per_length, castPerPiece: r.cast_per_piece, fettlePerPiece: r.fettle_per_piece,
     fixPerMetre: r.fix_per_metre, deliveryPerTrip: r.delivery_per_trip,
-    marginPct: pct(r.margin_bp), taxPct: pct(r.tax_bp), depositPct: pct(r.deposit_bp), version: r.version,
+    marginPct: pct(r.margin_bp), taxPct: pct(r.tax_bp), depositPct: pct(r.deposit_bp), labourPerHour: r.labour_per_hour, version: r.version,
   }
 }
 
@@ -31,13 +31,14 @@ export async function getRates(workshopId: number): Promise<Rates> {
   return toRates(await ratesRepo.get(useDb(), workshopId))
 }
 
-export async function putRates(workshopId: number, version: number, input: Omit<Rates, 'version'>): Promise<Rates> {
+export async function putRates(workshopId: number, version: number, input: Omit<Rates, 'version' | 'labourPerHour'> & { labourPerHour?: number }): Promise<Rates> {
   const patch: RatesColumns = {
     currency: input.currency, plaster_per_bag: input.plasterPerBag, mould_per_profile: input.mouldPerProfile,
     cast_per_length: input.castPerLength, cast_per_piece: input.castPerPiece, fettle_per_piece: input.fettlePerPiece,
     fix_per_metre: input.fixPerMetre, delivery_per_trip: input.deliveryPerTrip,
     margin_bp: percentToBasisPoints(input.marginPct, 'marginPct'), tax_bp: percentToBasisPoints(input.taxPct, 'taxPct'),
     deposit_bp: percentToBasisPoints(input.depositPct, 'depositPct'),
+    ...(input.labourPerHour === undefined ? {} : { labour_per_hour: input.labourPerHour }),
   }
   return useDb().transaction(async trx => toRates(await ratesRepo.update(trx, workshopId, version, patch)))
 }

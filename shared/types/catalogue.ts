@@ -40,6 +40,8 @@ export interface Lot {
   receivedOn: string
   useBy: string | null
   notes: string | null
+  /** what a bag cost, in the workshop currency's minor unit; null when not known */
+  pricePerBag: number | null
   archivedAt: string | null
   version: number
 }

@@ -51,6 +51,8 @@ export interface FinishingPieceDto {
   constantWeight: FinishingConstantWeightDto
   dryMassGuide: FinishingDryMassGuideDto
   dispatchId: number | null
+  /** fettling or repair being timed on the finishing tablet now (for the job's cost), or null */
+  timer: { work: 'fettle' | 'repair'; since: string; by: string | null } | null
 }
 
 /** The drying room's conditions the fettle form starts from: today's shop day, else the workshop's usual. */

@@ -16,6 +16,8 @@ export interface Rates {
   marginPct: number
   taxPct: number
   depositPct: number
+  /** the hourly labour rate the job's actual cost is priced at */
+  labourPerHour: number
   version: number
 }
 

@@ -3,6 +3,7 @@
 import { z } from 'zod'
 import { plasterGradeSchema } from './plaster-schema'
 import { CALENDAR_YEARS, PG_INTEGER_MAX, isCalendarDay } from './input-fields'
+import { MAX_MINOR } from './money'
 
 export const MOULD_MATERIALS = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine'] as const
 export const MOULD_STATES = ['ready', 'in_use', 'cleaning', 'repair', 'retired'] as const
@@ -66,6 +67,9 @@ export const lotFields = z.object({
   receivedOn: dayField('receivedOn'),
   useBy: dayField('useBy').nullable().optional(),
   notes: optionalText('notes', 2000),
+  // what a bag of this lot cost, in the workshop currency's minor unit (money.ts); the job's cost prices plaster by it
+  pricePerBag: z.number({ error: 'pricePerBag must be an amount' }).int('pricePerBag must be a whole number of pence or cents')
+    .min(0, 'pricePerBag must not be negative').max(MAX_MINOR, 'pricePerBag is too large').nullable().optional(),
 })
 const useByAfterReceived = (v: { receivedOn?: string; useBy?: string | null }) => !v.useBy || !v.receivedOn || v.useBy >= v.receivedOn
 export const lotCreateSchema = lotFields.refine(useByAfterReceived, { message: 'useBy must not be before receivedOn', path: ['useBy'] })

@@ -21,7 +21,8 @@ export const FINISHING_STATE_WORDS: Record<FinishingPieceState, string> = {
  */
 export const FINISHING_REASONS = CAST_DEFECTS
 
-export const FINISHING_ACTION_KINDS = ['fettled', 'weighed', 'ready', 'repair', 'repaired', 'rejected', 'packed'] as const
+export const FINISHING_ACTION_KINDS = ['fettled', 'weighed', 'ready', 'repair', 'repaired', 'rejected', 'packed',
+  'fettle_start', 'fettle_stop', 'repair_start', 'repair_stop'] as const
 export type FinishingActionKind = (typeof FINISHING_ACTION_KINDS)[number]
 
 /**
@@ -38,7 +39,22 @@ export const FINISHING_STEPS: Record<FinishingActionKind, { from: readonly Finis
   repaired: { from: ['repair'], to: 'to_fettle' },
   rejected: { from: ['repair', 'to_fettle', 'drying'], to: 'rejected' },
   packed: { from: ['ready'], to: 'packed' },
+  // the finisher's clock for the job's cost: started and stopped on the piece, state unchanged
+  fettle_start: { from: ['to_fettle'], to: 'to_fettle' },
+  fettle_stop: { from: ['to_fettle'], to: 'to_fettle' },
+  repair_start: { from: ['repair'], to: 'repair' },
+  repair_stop: { from: ['repair'], to: 'repair' },
 }
+
+/** The timer steps: which work they time, and whether they start or stop it. */
+export const FINISHING_TIMER_STEPS = {
+  fettle_start: { work: 'fettle', start: true },
+  fettle_stop: { work: 'fettle', start: false },
+  repair_start: { work: 'repair', start: true },
+  repair_stop: { work: 'repair', start: false },
+} as const
+export type FinishingTimerKind = keyof typeof FINISHING_TIMER_STEPS
+export type FinishingTimerWork = 'fettle' | 'repair'
 
 const positiveId = (field: string) => z.number({ error: `${field} must be a positive whole number` })
   .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })
@@ -74,6 +90,10 @@ export const finishingActionSchema = z.discriminatedUnion('kind', [
   z.object({ ...common, kind: z.literal('repaired'), notes }),
   z.object({ ...common, kind: z.literal('rejected'), reason }),
   z.object({ ...common, kind: z.literal('packed') }),
+  z.object({ ...common, kind: z.literal('fettle_start') }),
+  z.object({ ...common, kind: z.literal('fettle_stop') }),
+  z.object({ ...common, kind: z.literal('repair_start') }),
+  z.object({ ...common, kind: z.literal('repair_stop') }),
 ], { error: `kind must be one of: ${FINISHING_ACTION_KINDS.join(', ')}` })
 export type FinishingActionInput = z.infer<typeof finishingActionSchema>
 

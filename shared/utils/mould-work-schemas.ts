@@ -3,6 +3,7 @@ import { z } from 'zod'
 import { isCalendarDay } from './input-fields'
 import { MOULD_WORK_STAGES } from './mould-work'
 
+const HOURS_MESSAGE = 'hours must be a number of hours from 0 to 1000'
 const day = (field: string) => z.string({ error: `${field} must be a date` }).refine(isCalendarDay, { error: `${field} must be a date` })
 
 export const mouldWorkStageSchema = z.object({
@@ -10,6 +11,9 @@ export const mouldWorkStageSchema = z.object({
   leadDays: z.number({ error: 'leadDays must be a whole number of days from 0 to 365' }).int({ error: 'leadDays must be a whole number of days from 0 to 365' })
     .min(0, { error: 'leadDays must be a whole number of days from 0 to 365' }).max(365, { error: 'leadDays must be a whole number of days from 0 to 365' }),
   done: z.boolean({ error: 'done must be true or false' }).default(false),
+  // the hours the stage took, for the job's cost (job-cost.ts); a quarter of an hour is fine enough
+  hours: z.number({ error: HOURS_MESSAGE }).min(0, { error: HOURS_MESSAGE }).max(1000, { error: HOURS_MESSAGE })
+    .refine(v => Math.abs(Math.round(v * 100) - v * 100) < 1e-6, { error: 'hours may have at most two decimal places' }).optional(),
 }, { error: 'each stage must be an object with stage and leadDays' })
 
 /**

@@ -21,6 +21,8 @@ export interface MouldWorkStageRow {
   stage: MouldWorkStage
   leadDays: number
   done: boolean
+  /** hours the stage took (booked to the work's person in the job's cost); absent until written */
+  hours?: number
 }
 
 const DAY_MS = 86_400_000

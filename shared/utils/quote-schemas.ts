@@ -32,6 +32,8 @@ export const ratesSchema = z.object({
   fettlePerPiece: minor('fettlePerPiece'),
   fixPerMetre: minor('fixPerMetre'),
   deliveryPerTrip: minor('deliveryPerTrip'),
+  // the job's actual cost (job-cost.ts) prices time at this; left out, the saved rate is kept
+  labourPerHour: minor('labourPerHour').optional(),
   marginPct: percent('marginPct'),
   taxPct: percent('taxPct'),
   depositPct: numberIn('depositPct', 0, 100, '%')

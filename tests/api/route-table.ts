@@ -246,6 +246,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/jobs/[id]/sample', roles: LEAD, ids: { id: 'sampleJob' }, body: async s => ({ state: 'awaiting_approval', version: await s.version('sampleJob') }) },
   { route: 'POST /api/jobs/[id]/sample-decision', roles: ['client'], ids: { id: 'decisionJob' }, body: () => ({ decision: 'approved' }) },
   { route: 'GET /api/jobs/[id]/export', roles: LEAD, ids: { id: 'job' } },
+  { route: 'GET /api/jobs/[id]/cost', roles: LEAD, ids: { id: 'job' } },
   { route: 'GET /api/jobs/[id]/photos', roles: STAFF, ids: { id: 'job' } },
   { route: 'GET /api/client/jobs/[id]/photos', roles: ['client'], ids: { id: 'job' } },
   { route: 'POST /api/jobs/[id]/photos', roles: STAFF, ids: { id: 'job' }, form: photo },

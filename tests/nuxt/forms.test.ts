@@ -63,6 +63,25 @@ describe('CatalogueLotForm', () => {
   })
 })
 
+describe('CatalogueLotForm price per bag', () => {
+  const grades = [{ id: 3, name: 'Fine casting (beta)', bagKg: 25, archivedAt: null }] as unknown as Grade[]
+
+  it('sends the price typed as money in whole pence and refuses a third decimal', async () => {
+    const w = await mountSuspended(CatalogueLotForm, { props: { grades, currency: 'GBP' } })
+    await w.find('#lot-code').setValue('L-2026/08')
+    await w.find('#lot-bags').setValue('12')
+    await w.find('#lot-received').setValue('2026-03-10')
+    await w.find('#lot-price').setValue('18.505')
+    await submit(w)
+    expect(errorOf(w, 'lot-price')).toBe('Price per bag has more than 2 decimal places')
+    expect(sent).toEqual([])
+    await w.find('#lot-price').setValue('18.50')
+    await submit(w)
+    await expect.poll(() => w.emitted('saved')?.length).toBe(1)
+    expect(sent).toEqual([{ method: 'POST', path: '/api/lots', body: expect.objectContaining({ lotCode: 'L-2026/08', pricePerBag: 1850 }) }])
+  })
+})
+
 describe('CatalogueMouldForm', () => {
   const benches = [{ id: 4, name: 'North bench', archivedAt: null }] as unknown as Bench[]
   record('/api/moulds', 'POST', { id: 41 })
