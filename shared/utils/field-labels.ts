@@ -70,6 +70,8 @@ export const FIELD_LABELS: Record<string, string> = {
   deliveries: 'Deliveries',
   title: 'Title',
   depositMinor: 'Deposit',
+  jobCode: 'Job code',
+  newSite: 'New site',
   amount: 'Amount',
   method: 'Paid by',
   paidOn: 'Paid on',

@@ -165,6 +165,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'PATCH /api/quotes/[id]', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ takeOff: TAKE_OFF, version: await s.version('newQuote') }) },
   { route: 'POST /api/quotes/[id]/send', roles: LEAD, ids: { id: 'newQuote' }, body: async s => ({ version: await s.version('newQuote') }) },
   { route: 'POST /api/quotes/[id]/revise', roles: LEAD, ids: { id: 'newSentQuote' }, body: async s => ({ version: await s.version('newSentQuote') }) },
+  { route: 'POST /api/quotes/[id]/job', roles: LEAD, ids: { id: 'newAcceptedQuote' }, body: () => ({ jobCode: `QJ-${rnd()}`, newSite: { name: `Matrix site ${rnd()}`, address: '1 Example Row' } }) },
   { route: 'GET /api/client/quotes', roles: ['client'] },
   { route: 'GET /api/client/quotes/[id]', roles: ['client'], ids: { id: 'sentQuote' } },
   { route: 'GET /api/client/quotes/[id]/pdf', roles: ['client'], ids: { id: 'sentQuote' } },

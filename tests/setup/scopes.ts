@@ -24,7 +24,7 @@ export const KINDS = {
   piece: 'pieces', packedPiece: 'pieces', dispatch: 'dispatches', tablet: 'tablet_devices',
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
-  quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
+  quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes', acceptedQuote: 'quotes', newAcceptedQuote: 'quotes',
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
 } as const
@@ -118,7 +118,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   /** A quote with one revision in `status`, straight in the database (a one-room take-off priced at nothing). */
   // in the demo workshop the quotes are for ada's organisation (the matrix's client), elsewhere for one of their own
   const adaOrg = Number((await k('users').where({ id: client1 }).first('client_org_id')).client_org_id)
-  const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent') => {
+  const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent' | 'accepted') => {
     const org = workshopId === ws ? adaOrg : await insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag} ${++n}` })
     const id = await insert('quotes', { workshop_id: workshopId, number: 9000 + ++n, title: `Quote ${tag}`, client_org_id: org })
     const takeOff = { rooms: [{ name: `Room ${tag}`, runs: [], ornaments: [{ name: 'Patera', count: 1, plasterKgEach: 1, newMould: false }] }], bagKg: 25, deliveries: 0, fixing: false }
@@ -144,7 +144,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     sampleJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_cast' }),
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
-    quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
+    quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'), acceptedQuote: await quoteRow(ws, tags.own, 'accepted'),
     // asks a deposit, so ada has something to pay by card
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
     clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own),
@@ -185,7 +185,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     item: 0, member: oClient, tablet: await tabletRow(ow, tags.other),
     dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
     piece: 0, packedPiece: 0,
-    quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
+    quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'), acceptedQuote: await quoteRow(ow, tags.other, 'accepted'),
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
     clientOrg: 0, contact: 0, site: 0,
   }
@@ -210,6 +210,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newTablet: s => tabletRow(ws, tags[s]),
     newQuote: s => quoteRow(ws, tags[s], 'draft'),
     newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
+    newAcceptedQuote: s => quoteRow(ws, tags[s], 'accepted'),
     newPayment: s => paymentRow(ws, standing[s].job as number),
     newContact: s => contactRow(ws, ownOrg, tags[s]),
   }
