@@ -6,6 +6,7 @@
 // when the row is expanded (shared/utils/board-lean.ts), against `now`, the server's clock. Measured by tests/bench/board.ts beside the raw SQL.
 import type { BoardData, BoardPourRow } from '#shared/types/board'
 import { COUNTED_POUR } from '../repos/planning'
+import { DEPOSIT_RELEASED } from '../repos/payments'
 
 interface BoardContextRow {
   timezone: string
@@ -19,7 +20,8 @@ interface BoardContextRow {
   benches: { id: number; name: string; sort_order: number }[]
   moulds: { id: number; code: string; casts: string; bench_id: number | null; bench_name: string | null; state: string; pulls: number; expected_pulls: number | null }[]
   shop_days: { day: string; temp_c: number; humidity_pct: number }[]
-  job_items: { id: number; job_id: number; job_code: string; description: string; mould_id: number | null; pieces_needed: number; pieces_planned: number; released: boolean }[]
+  job_items: { id: number; job_id: number; job_code: string; description: string; mould_id: number | null; pieces_needed: number; pieces_planned: number; released: boolean; deposit_waiting: boolean }[]
+  deposit_waiting_jobs: number[]
   casters: { id: number; name: string }[]
   pours: BoardPourRow[]
   lookups: BoardData['lookups']
@@ -43,9 +45,11 @@ SELECT w.timezone, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w
   (SELECT coalesce(json_agg(json_build_object('id', i.id, 'job_id', j.id, 'job_code', j.code, 'description', i.description,
        'mould_id', i.mould_id, 'pieces_needed', i.pieces_needed,
        'pieces_planned', (SELECT count(*) FROM pours p WHERE p.workshop_id = w.id AND p.job_item_id = i.id AND ${COUNTED_POUR}),
-       'released', NOT j.sample_required OR j.sample_state = 'approved') ORDER BY j.due_on NULLS LAST, j.code, i.sort_order, i.id), '[]')
+       'released', NOT j.sample_required OR j.sample_state = 'approved', 'deposit_waiting', NOT ${DEPOSIT_RELEASED('j')}) ORDER BY j.due_on NULLS LAST, j.code, i.sort_order, i.id), '[]')
      FROM job_items i JOIN jobs j ON j.id = i.job_id AND j.workshop_id = w.id
      WHERE i.workshop_id = w.id AND j.state = 'open') AS job_items,
+  (SELECT coalesce(json_agg(j.id ORDER BY j.id), '[]') FROM jobs j
+     WHERE j.workshop_id = w.id AND j.state IN ('open', 'on_hold') AND NOT ${DEPOSIT_RELEASED('j')}) AS deposit_waiting_jobs,
   (SELECT coalesce(json_agg(json_build_object('id', u.id, 'name', u.name) ORDER BY u.name), '[]')
      FROM users u WHERE u.workshop_id = w.id AND u.role IN ('caster', 'lead') AND u.disabled_at IS NULL) AS casters,
   (SELECT coalesce(json_agg(json_build_object('id', p.id, 'version', p.version, 'mouldId', p.mould_id, 'jobItemId', p.job_item_id,
@@ -87,8 +91,9 @@ export async function boardData(workshopId: number, from: string, to: string): P
     shopDays: ctx.shop_days.map(s => ({ day: s.day, tempC: Number(s.temp_c), humidityPct: Number(s.humidity_pct) })),
     jobItems: ctx.job_items.map(i => ({
       id: Number(i.id), jobId: Number(i.job_id), jobCode: i.job_code, description: i.description,
-      mouldId: i.mould_id === null ? null : Number(i.mould_id), piecesNeeded: i.pieces_needed, piecesPlanned: Number(i.pieces_planned), released: i.released,
+      mouldId: i.mould_id === null ? null : Number(i.mould_id), piecesNeeded: i.pieces_needed, piecesPlanned: Number(i.pieces_planned), released: i.released, depositWaiting: i.deposit_waiting,
     })),
     casters: ctx.casters.map(c => ({ id: Number(c.id), name: c.name })),
+    depositWaitingJobs: ctx.deposit_waiting_jobs.map(Number),
   }
 }

@@ -54,6 +54,10 @@ export const jobItemsRepo = {
     const [row] = await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols }).returning(ITEM_COLUMNS)
     return row
   },
+  /** An item made from an accepted quote, with the shop's estimate for it (minor units). */
+  async insertFromQuote(db: Knex, workshopId: number, jobId: number, cols: ItemColumns, estimateMinor: number): Promise<void> {
+    await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols, estimate_minor: estimateMinor })
+  },
   /** Many items at once (an import), each naming its job. */
   async insertMany(db: Knex, workshopId: number, rows: (ItemColumns & { job_id: number })[]) {
     for (let i = 0; i < rows.length; i += 500) await db('job_items').insert(rows.slice(i, i + 500).map(r => ({ workshop_id: workshopId, ...r })))

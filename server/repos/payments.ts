@@ -21,7 +21,22 @@ export interface PaymentRow {
 
 const COLUMNS = ['id', 'workshop_id', 'job_id', 'purpose', 'amount', 'currency', 'method', 'status', 'provider_ref', 'provider_payment', 'recorded_by', 'note', 'paid_at', 'refunded_at', 'created_at']
 
+/**
+ * SQL: the job aliased `j` asks no deposit, or its paid deposit payments (refunds taken off, as
+ * a refunded payment is no longer 'paid') cover it: its moulds may start. The same rule as
+ * depositReleased (server/services/payments.ts), for the planner's, the board's and the floor's reads.
+ */
+export const DEPOSIT_RELEASED = (j = 'j') => `(${j}.deposit_minor = 0 OR (SELECT coalesce(sum(pd.amount), 0) FROM payments pd
+  WHERE pd.workshop_id = ${j}.workshop_id AND pd.job_id = ${j}.id AND pd.purpose = 'deposit' AND pd.status = 'paid') >= ${j}.deposit_minor)`
+
 export const paymentsRepo = {
+  /** The code of the job item's job when that job still waits for its deposit, else null. */
+  async depositWaitingForItem(db: Knex, workshopId: number, itemId: number): Promise<string | null> {
+    const row = await db('job_items as i').join('jobs as j', function () {
+      this.on('j.id', 'i.job_id').andOn('j.workshop_id', 'i.workshop_id')
+    }).first('j.code').where({ 'i.workshop_id': workshopId, 'i.id': itemId }).whereRaw(`NOT ${DEPOSIT_RELEASED('j')}`)
+    return row ? row.code : null
+  },
   forJob(db: Knex, workshopId: number, jobId: number): Promise<PaymentRow[]> {
     return db('payments').select(COLUMNS).where({ workshop_id: workshopId, job_id: jobId }).orderBy('id')
   },

@@ -1,5 +1,6 @@
 // The planner's reads: everything planPours needs about a workshop, each in its workshop.
 import type { Knex } from 'knex'
+import { DEPOSIT_RELEASED } from './payments'
 
 /**
  * A pour that counts towards its item's pieces (SQL on a pour aliased `p`): not void, and not
@@ -24,6 +25,7 @@ export const planningRepo = {
     })
       .select('i.id', 'i.job_id', 'i.description', 'i.mould_id', 'i.grade_id', 'i.consistency', 'i.pieces_needed',
         'j.code as job_code', 'j.due_on', 'j.sample_required', 'j.sample_state')
+      .select(db.raw(`${DEPOSIT_RELEASED('j')} AS deposit_released`))
       // the item's profile, linked or named (a profile made after the item still matches by name)
       .select(db.raw(`COALESCE(i.profile_id, (SELECT pr.id FROM profiles pr WHERE pr.workshop_id = i.workshop_id
         AND lower(pr.name) = lower(btrim(i.profile)))) AS profile_id`))

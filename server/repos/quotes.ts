@@ -77,6 +77,13 @@ export const quotesRepo = {
     const [row] = await db('quotes').insert({ workshop_id: workshopId, number: next, title: input.title, client_org_id: input.clientOrgId }).returning('id')
     return Number(row.id)
   },
+  /** The quote row held for the caller's transaction (making its job), or undefined. */
+  lockForJob(db: Knex, workshopId: number, id: number): Promise<{ id: number; number: number; title: string; client_org_id: number | null; job_id: number | null } | undefined> {
+    return db('quotes').first('id', 'number', 'title', 'client_org_id', 'job_id').where({ workshop_id: workshopId, id }).forUpdate()
+  },
+  async setJob(db: Knex, workshopId: number, id: number, jobId: number): Promise<void> {
+    await db('quotes').where({ workshop_id: workshopId, id }).update({ job_id: jobId, version: db.raw('version + 1'), updated_at: db.fn.now() })
+  },
   touch(db: Knex, workshopId: number, id: number, version: number, patch: { title?: string; client_org_id?: number | null }): Promise<QuoteRow> {
     return updateVersioned<QuoteRow>(db, 'quotes', { workshopId, id, version }, patch, ['id'], 'Quote')
   },

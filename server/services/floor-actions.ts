@@ -7,6 +7,7 @@ import { FLOOR_STEPS } from '#shared/utils/floor-schemas'
 import { poursRepo, pourFactsRepo, type PourStepRow } from '../repos/pours'
 import { mouldFloorRepo } from '../repos/moulds'
 import { piecesRepo } from '../repos/pieces'
+import { paymentsRepo } from '../repos/payments'
 import { recordEvent } from '../repos/events'
 import { gradeCalibrationRepo } from '../repos/plaster-grades'
 import { shopDaysRepo } from '../repos/shop-days'
@@ -42,6 +43,9 @@ function write(c: StepContext, type: string, patch: Record<string, unknown>, dat
 async function startMixing(c: StepContext, input: Extract<FloorActionInput, { kind: 'start_mixing' }>) {
   const { gradeModel, mould } = await gradeAndMould(c)
   if (mould.state === 'repair' || mould.state === 'retired') conflict(`Mould ${mould.code} is in ${mould.state}: ask the lead before casting in it`)
+  // the deposit gate: a job's moulds are not started before its deposit is paid
+  const waiting = c.row.job_item_id ? await paymentsRepo.depositWaitingForItem(c.trx, c.actor.workshopId, c.row.job_item_id) : null
+  if (waiting) conflict(`Job ${waiting} waits for its deposit: do not start this pour until the deposit is paid; ask the lead`)
   const lotId = input.lotId === undefined ? c.row.lot_id : input.lotId
   if (lotId) {
     const lot = await pourFactsRepo.lot(c.trx, c.actor.workshopId, lotId)

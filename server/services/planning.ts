@@ -53,7 +53,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     const castIn = (r.mould_id && mouldById.get(Number(r.mould_id))) || (r.profile_id && profileMould.get(Number(r.profile_id))) || null
     items.push({
       itemId: String(r.id), jobId: String(r.job_id), jobCode: r.job_code, dueOn: r.due_on,
-      sampleReleased: !r.sample_required || r.sample_state === 'approved', piecesRemaining: remaining,
+      sampleReleased: !r.sample_required || r.sample_state === 'approved', depositReleased: r.deposit_released, piecesRemaining: remaining,
       mouldIds: r.mould_id ? [String(r.mould_id)] : [], profileId: r.profile_id ? String(r.profile_id) : null, grade: model,
       consistency,
       readyHours: castIn ? plannedCastReadyHours({ cavityLitres: Number(castIn.cavity_litres), consistency, grade: model, room }) : 0,

@@ -93,9 +93,11 @@ export interface BoardData {
     calibration?: Record<number, { factor: number; count: number }>
   }
   shopDays: { day: string; tempC: number; humidityPct: number }[]
-  jobItems: { id: number; jobId: number; jobCode: string; description: string; mouldId: number | null; piecesNeeded: number; piecesPlanned: number; released: boolean }[]
+  jobItems: { id: number; jobId: number; jobCode: string; description: string; mouldId: number | null; piecesNeeded: number; piecesPlanned: number; released: boolean; depositWaiting?: boolean }[]
   /** active casters and leads: who a pour can be given to */
   casters: { id: number; name: string }[]
+  /** open jobs still waiting for their deposit: their pours show the gate and are not started */
+  depositWaitingJobs?: number[]
 }
 
 /** The board as its components read it: the pours expanded to PourDto. */

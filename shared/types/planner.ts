@@ -47,6 +47,8 @@ export interface PlannerItem {
   jobCode: string
   dueOn: string | null
   sampleReleased: boolean
+  /** false while the job waits for its deposit: its moulds are not started (left out: no deposit asked) */
+  depositReleased?: boolean
   piecesRemaining: number
   mouldIds: string[]
   alternativeMouldIds?: string[]
@@ -165,7 +167,7 @@ export interface PlannerJobOutcome {
 }
 
 /** Why pieces of an item could not be placed at all (not even in the projection). */
-export type PlannerUnplacedReason = 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon' | 'no-caster'
+export type PlannerUnplacedReason = 'deposit-awaiting' | 'sample-awaiting-approval' | 'no-usable-mould' | 'mould-life-reached' | 'no-slot-in-horizon' | 'no-caster'
 
 export interface PlannerUnplaced {
   itemId: string

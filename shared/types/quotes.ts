@@ -2,6 +2,7 @@
 // workshop currency's minor unit (shared/utils/money.ts); percentages are numbers (12.5 = 12.5 %).
 import type { QuoteLine } from '../utils/quote-pricing'
 import type { TakeOffInput } from '../utils/quote-schemas'
+import type { Job } from './jobs'
 
 /** The workshop's rates as GET and PUT /api/rates answer. */
 export interface Rates {
@@ -88,3 +89,12 @@ export interface ClientQuote {
 
 /** A line of GET /api/client/quotes: the latest sent revision in brief. */
 export type ClientQuoteSummary = Pick<ClientQuote, 'id' | 'number' | 'title' | 'revision' | 'status' | 'currency' | 'total'>
+
+/** POST /api/quotes/[id]/job: the job made from the accepted quote, its item count and the deposit it asks. */
+export interface QuoteJobResult {
+  quoteId: number
+  jobId: number
+  job: Job
+  items: number
+  depositMinor: number
+}

@@ -49,6 +49,7 @@ function checkItem(it: PlannerItem, i: number): void {
     throw new PlanningInputError(`${f}.dueOn`, `${f}.dueOn must be 'YYYY-MM-DD' or null`)
   }
   if (typeof it.sampleReleased !== 'boolean') throw new PlanningInputError(`${f}.sampleReleased`, `${f}.sampleReleased must be true or false`)
+  if (it.depositReleased !== undefined && typeof it.depositReleased !== 'boolean') throw new PlanningInputError(`${f}.depositReleased`, `${f}.depositReleased must be true or false`)
   plannerNumber(it.piecesRemaining, `${f}.piecesRemaining`, 0, 1e6, true)
   plannerArray<string>(it.mouldIds, `${f}.mouldIds`).forEach((id, j) => plannerString(id, `${f}.mouldIds[${j}]`))
   plannerArray<string>(it.alternativeMouldIds ?? [], `${f}.alternativeMouldIds`)

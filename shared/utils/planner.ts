@@ -692,6 +692,10 @@ function candidateIds(item: PlannerItem, byId: Map<string, PlannerMould>, byProf
 function runItem(ctx: Ctx, lanes: Map<string, Lane>, item: PlannerItem, index: number, named: Set<string>, ids: string[]): ItemRun {
   const pieces = item.piecesRemaining
   if (pieces === 0) return { item, placed: [], unplaced: null }
+  if (item.depositReleased === false) {
+    const msg = 'The job waits for deposit: its moulds are not started until the deposit is paid.'
+    return { item, placed: [], unplaced: unplacedOf(item, 'deposit-awaiting', pieces, msg) }
+  }
   if (!item.sampleReleased) {
     const msg = 'The job waits for the client to approve its sample cast; the run is not released to the board.'
     return { item, placed: [], unplaced: unplacedOf(item, 'sample-awaiting-approval', pieces, msg) }

@@ -3,7 +3,7 @@
 // percentages as numbers with at most two decimals.
 import { z } from 'zod'
 import { PLASTER_LIMITS, RUN_ENDS } from './plaster'
-import { numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
+import { dayField, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
 import { MAX_MINOR } from './money'
 
 const minor = (field: string) => z.number({ error: `${field} must be an amount` })
@@ -106,3 +106,16 @@ export const quoteDecisionSchema = z.object({
   decision: z.enum(['accept', 'changes'], { error: 'decision must be accept or changes' }),
   comment: optionalText('comment', 2000),
 }).refine(v => v.decision !== 'changes' || !!v.comment, { path: ['comment'], message: 'Say what you would like changed' })
+
+/** The accepted quote made into a job: its code, and a site of the quote's client picked or made. */
+export const quoteJobSchema = z.object({
+  jobCode: requiredText('jobCode', 40).regex(/^[\w.\-/ ]+$/, 'jobCode may use letters, digits, spaces and . - / _'),
+  title: optionalText('title', 160),
+  dueOn: dayField('dueOn').nullable().optional(),
+  siteId: z.number({ error: 'siteId must be a site' }).int().positive().max(Number.MAX_SAFE_INTEGER).nullable().optional(),
+  newSite: z.object({
+    name: requiredText('name', 160),
+    address: requiredText('address', 500),
+    postcode: optionalText('postcode', 20),
+  }, { error: 'newSite must be a site with a name and an address' }).nullable().optional(),
+}).refine(v => !!v.siteId !== !!v.newSite, { path: ['siteId'], message: 'Pick one of the client\'s sites or add a new one' })

@@ -24,7 +24,7 @@ export const KINDS = {
   piece: 'pieces', packedPiece: 'pieces', dispatch: 'dispatches', tablet: 'tablet_devices',
   newMould: 'moulds', newItem: 'job_items', newMember: 'users', newPour: 'pours', newPhoto: 'photos',
   newPiece: 'pieces', newPackedPiece: 'pieces', newTablet: 'tablet_devices',
-  quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
+  quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes', acceptedQuote: 'quotes', newAcceptedQuote: 'quotes', invoice: 'invoices', newInvoice: 'invoices',
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
   label: 'piece_labels',
@@ -33,7 +33,7 @@ export const KINDS = {
 export type Kind = keyof typeof KINDS
 
 /** Kinds that are the other client's in the otherClient scope; every other kind is the own row there. */
-const CLIENT_KINDS = new Set<Kind>(['job', 'decisionJob', 'depositJob', 'item', 'member', 'photo', 'newItem', 'newMember', 'newPhoto'])
+const CLIENT_KINDS = new Set<Kind>(['invoice', 'job', 'decisionJob', 'depositJob', 'item', 'member', 'photo', 'newItem', 'newMember', 'newPhoto'])
 
 type Id = number | string
 type Standing = Record<Exclude<Kind, `new${string}`>, Id>
@@ -120,13 +120,18 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   /** A quote with one revision in `status`, straight in the database (a one-room take-off priced at nothing). */
   // in the demo workshop the quotes are for ada's organisation (the matrix's client), elsewhere for one of their own
   const adaOrg = Number((await k('users').where({ id: client1 }).first('client_org_id')).client_org_id)
-  const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent') => {
+  const quoteRow = async (workshopId: number, tag: string, status: 'draft' | 'sent' | 'accepted') => {
     const org = workshopId === ws ? adaOrg : await insert('client_orgs', { workshop_id: workshopId, name: `Client ${tag} ${++n}` })
     const id = await insert('quotes', { workshop_id: workshopId, number: 9000 + ++n, title: `Quote ${tag}`, client_org_id: org })
     const takeOff = { rooms: [{ name: `Room ${tag}`, runs: [], ornaments: [{ name: 'Patera', count: 1, plasterKgEach: 1, newMould: false }] }], bagKg: 25, deliveries: 0, fixing: false }
     await k('quote_versions').insert({ workshop_id: workshopId, quote_id: id, revision: 1, status, take_off: JSON.stringify(takeOff), lines: '[]', currency: 'GBP', net: 0, tax: 0, total: 0, estimate: 0, deposit: 0 })
     return id
   }
+  /** An issued invoice on the job, straight in the database. */
+  const invoiceRow = (workshopId: number, jobId: number) => insert('invoices', {
+    workshop_id: workshopId, job_id: jobId, number: 9000 + ++n, stage: 'Matrix stage', lines: JSON.stringify([{ description: 'Cast', quantity: 1, unitPrice: 1000, amount: 1000 }]),
+    currency: 'GBP', net: 1000, tax: 0, total: 1000, deposit_credit: 0, amount_due: 1000,
+  })
   /** A paid bank transfer on the job, straight in the database. */
   const paymentRow = (workshopId: number, jobId: number) => insert('payments', { workshop_id: workshopId, job_id: jobId, amount: 1000, currency: 'GBP', method: 'bank_transfer', status: 'paid', paid_at: new Date() })
   /** A piece's live label; its id for a route is the token its QR code carries. */
@@ -160,9 +165,9 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     sampleJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_cast' }),
     decisionJob: await jobRow(ws, tags.own, { sample_required: true, sample_state: 'awaiting_approval' }, client1),
     pour: await pourRow(), photo: await photoRow(job, true),
-    quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'),
+    quote: await quoteRow(ws, tags.own, 'draft'), sentQuote: await quoteRow(ws, tags.own, 'sent'), acceptedQuote: await quoteRow(ws, tags.own, 'accepted'),
     // asks a deposit, so ada has something to pay by card
-    depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
+    depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job), invoice: await invoiceRow(ws, job),
     clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own), label: '',
     crate: await crateRow(ws, job), delivery: await deliveryRow(ws, job), feed: await feedRow(ws),
   }
@@ -175,7 +180,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   const otherClient: Standing = {
     ...own, job: job2, decisionJob: decision2, item: item2, member: await memberRow(ws, job2, tags.otherClient),
     photo: await photoRow(job2, true), packedPiece: await pieceRow(ws, tags.otherClient, item2, 'packed'),
-    depositJob: await jobRow(ws, tags.otherClient, { deposit_minor: 5000 }, client2),
+    depositJob: await jobRow(ws, tags.otherClient, { deposit_minor: 5000 }, client2), invoice: await invoiceRow(ws, job2),
   }
 
   // other: a second workshop, whose client is on its job; its pour and photo are rows only.
@@ -203,8 +208,8 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     item: 0, member: oClient, tablet: await tabletRow(ow, tags.other),
     dispatch: await insert('dispatches', { workshop_id: ow, job_id: oJob, note_no: `${tags.other}-DN`, dispatched_at: new Date() }),
     piece: 0, packedPiece: 0,
-    quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
-    depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
+    quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'), acceptedQuote: await quoteRow(ow, tags.other, 'accepted'),
+    depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0, invoice: 0,
     clientOrg: 0, contact: 0, site: 0, label: '',
     crate: await crateRow(ow, oJob), delivery: await deliveryRow(ow, oJob), feed: await feedRow(ow),
   }
@@ -216,6 +221,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
   otherRows.packedPiece = otherRows.piece
   otherRows.label = await labelRow(ow, otherRows.piece)
   otherRows.payment = await paymentRow(ow, oJob)
+  otherRows.invoice = await invoiceRow(ow, oJob)
   const standing: Record<ScopeName, Standing> = { own, other: otherRows, otherClient }
   const emails = { own: await email(await person(ws, 'client', tags.own)), other: await email(oClient) }
 
@@ -230,7 +236,9 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     newTablet: s => tabletRow(ws, tags[s]),
     newQuote: s => quoteRow(ws, tags[s], 'draft'),
     newSentQuote: s => quoteRow(ws, tags[s], 'sent'),
+    newAcceptedQuote: s => quoteRow(ws, tags[s], 'accepted'),
     newPayment: s => paymentRow(ws, standing[s].job as number),
+    newInvoice: s => invoiceRow(ws, standing[s].job as number),
     newContact: s => contactRow(ws, ownOrg, tags[s]),
     newDelivery: async s => deliveryRow(ws, standing[s].job as number, await pieceRow(ws, tags[s], standing[s].item as number, 'packed')),
   }

@@ -1,0 +1,30 @@
+// What the invoice routes send. Amounts in the workshop currency's minor unit (money.ts).
+
+export interface InvoiceLine {
+  description: string
+  quantity: number
+  unitPrice: number
+  amount: number
+}
+
+/** An issued (or voided) invoice: never edited once issued. */
+export interface Invoice {
+  id: number
+  number: string
+  jobId: number
+  jobCode: string
+  dispatchId: number | null
+  dispatchNote: string | null
+  stage: string | null
+  status: 'issued' | 'void'
+  lines: InvoiceLine[]
+  currency: string
+  net: number
+  tax: number
+  total: number
+  depositCredit: number
+  amountDue: number
+  voidReason: string | null
+  issuedAt: string
+  voidedAt: string | null
+}
