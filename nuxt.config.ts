@@ -4,7 +4,7 @@ import { fileURLToPath } from 'node:url'
 import { SCRYPT_OPTIONS } from './server/utils/password-policy'
 
 export default defineNuxtConfig({
-  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@vite-pwa/nuxt'],
   devtools: { enabled: false },
   // npm test builds into a folder of its own while nuxt prepare (typecheck) writes .nuxt beside it
   ...process.env.SETLINE_BUILD_DIR ? { buildDir: process.env.SETLINE_BUILD_DIR } : {},
@@ -82,5 +82,46 @@ export default defineNuxtConfig({
     },
   },
   auth: { hash: { scrypt: SCRYPT_OPTIONS } },
+  // The service worker (workbox through @vite-pwa/nuxt) that lets the floor and finishing
+  // tablets reload without Wi-Fi. It is registered only for shop staff (app/plugins/
+  // service-worker.client.ts), so clients' phones never download it. It keeps:
+  // - the app's hashed scripts and styles (precached, cache first: a hashed name never changes),
+  //   the icons, and fonts and other build files as they are used (cache first, bounded);
+  // - the HTML of /floor and /finishing only, network first: online every reload reads the
+  //   server, offline the last copy opens and the page reads its cards from the outbox's cache;
+  // - no other page, no API answer, no write (only GET navigations are matched).
+  // Signing out deletes the pages' copies (useSignOut). The web app manifest is public/'s own.
+  pwa: {
+    strategies: 'generateSW',
+    registerType: 'autoUpdate',
+    injectRegister: false,
+    manifest: false,
+    client: { registerPlugin: false },
+    workbox: {
+      navigateFallback: null,
+      globPatterns: ['_nuxt/**/*.{js,css}', 'favicon.png', 'icon.svg', 'icons/*.png'],
+      cleanupOutdatedCaches: true,
+      clientsClaim: true,
+      skipWaiting: true,
+      runtimeCaching: [
+        {
+          // serialised into the worker as written: no outside names, no types inside
+          urlPattern: ({ request, url }) => request.mode === 'navigate' && /^\/(floor|finishing)\/?$/.test(url.pathname),
+          handler: 'NetworkFirst',
+          options: {
+            cacheName: 'setline-pages',
+            networkTimeoutSeconds: 10,
+            // a sign-in redirect or an error page is never kept as the page's offline copy
+            plugins: [{ cacheWillUpdate: async ({ response }) => (response.status === 200 && !response.redirected ? response : null) }],
+          },
+        },
+        {
+          urlPattern: ({ url }) => url.pathname.startsWith('/_nuxt/'),
+          handler: 'CacheFirst',
+          options: { cacheName: 'setline-assets', expiration: { maxEntries: 200, maxAgeSeconds: 60 * 60 * 24 * 30 }, cacheableResponse: { statuses: [200] } },
+        },
+      ],
+    },
+  },
   tailwindcss: { cssPath: '~/assets/css/tailwind.css', viewer: false },
 })

@@ -13,7 +13,6 @@ export type FinishingPiece = FinishingQueueData['toFettle'][number]
 /** What a piece action answers (POST /api/pieces/:id/actions), as the outbox hands it back. */
 type FinishingActionAnswer = ApiAnswer<'/api/pieces/:id/actions', 'post'>
 
-const CACHE_KEY = 'finishing'
 const LABEL: Record<FinishingActionKind, string> = {
   fettled: 'Fettled', weighed: 'Weighed', ready: 'Ready', repair: 'To repair', repaired: 'Repaired', rejected: 'Rejected', packed: 'Packed',
   fettle_start: 'Fettling started', fettle_stop: 'Fettling stopped', repair_start: 'Repair started', repair_stop: 'Repair stopped',
@@ -21,6 +20,9 @@ const LABEL: Record<FinishingActionKind, string> = {
 
 export function useFinishingQueue() {
   const outbox = useOutboxStore()
+  const { user } = useUserSession()
+  // one copy per person, like the floor's: a tablet shared by finishers never shows one the other's copy
+  const cacheKey = computed(() => `finishing:${user.value?.id ?? 0}`)
   const queue = ref<FinishingQueueData | null>(null)
   const offlineCopy = ref(false)
   /** What the last answered weighing said, for the status line. */
@@ -31,10 +33,10 @@ export function useFinishingQueue() {
       const r = await readQueue()
       queue.value = r
       offlineCopy.value = false
-      await outbox.cachePut(CACHE_KEY, r)
+      await outbox.cachePut(cacheKey.value, r)
     }
     catch {
-      queue.value ??= (await outbox.cacheGet<FinishingQueueData>(CACHE_KEY)) ?? null
+      queue.value ??= (await outbox.cacheGet<FinishingQueueData>(cacheKey.value)) ?? null
       offlineCopy.value = true
     }
   }

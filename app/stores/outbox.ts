@@ -5,9 +5,15 @@
 // so sending twice is harmless: each action runs exactly once. A refusal (409, 422)
 // stays in the history, shown. Each entry records who tapped it and goes out only under that
 // person's session (the rules: app/utils/outbox-owners.ts); a 401 stops sending until a sign-in.
+// Photos taken on the floor are entries too: their files wait here (IndexedDB keeps File
+// objects as they are: W3C Indexed Database API 3.0, values are structured-cloned) and go as
+// one multipart upload with progress (`uploading`); the entry's id is the upload's action id,
+// so a retry after a lost answer stores the photos once. Once answered the files are dropped.
+// `clearCache` forgets the pages' offline copies at sign-out; waiting entries stay for their owner.
 import { defineStore } from 'pinia'
 import { openDB, type IDBPDatabase } from 'idb'
 import { outcomeOf, sendableBy, type OutboxOwner } from '~/utils/outbox-owners'
+import { postPhotos } from '~/composables/usePhotoUpload'
 
 export type OutboxStatus = 'pending' | 'done' | 'refused'
 
@@ -27,6 +33,10 @@ export interface OutboxEntry {
   /** Set when a lead took an entry without an owner on as theirs, to send it under their name. */
   adoptedAt?: string
   body: Record<string, unknown>
+  /** Photos to upload (multipart, `url` is the job's photo route); dropped once answered. */
+  files?: File[]
+  /** How many photos the entry carried (kept after the files are dropped). */
+  fileCount?: number
   /** When the caster tapped it (device clock), ISO. */
   tappedAt: string
   status: OutboxStatus
@@ -78,6 +88,8 @@ export const useOutboxStore = defineStore('outbox', () => {
   const { user } = useUserSession()
   const entries = ref<OutboxEntry[]>([])
   const sending = ref(false)
+  /** The photo entry being uploaded now, with its progress in percent. */
+  const uploading = ref<{ id: string; percent: number } | null>(null)
   /** The signed-in person, as an entry records them. */
   const me = computed<OutboxOwner | null>(() => (user.value ? { id: user.value.id, name: user.value.name } : null))
   /** Set when a send met a 401: the session is over, nothing is sent until someone signs in. */
@@ -126,8 +138,26 @@ export const useOutboxStore = defineStore('outbox', () => {
     return { ...e.body, actionId: e.id, kind: e.kind, ...(late ? { at: e.tappedAt } : {}) }
   }
 
+  /** A photo entry as the multipart form of the photo route, its id as the upload's action id. */
+  async function sendPhotos(e: OutboxEntry) {
+    const form = new FormData()
+    for (const f of e.files ?? []) form.append('files', f, f.name)
+    for (const [k, v] of Object.entries(e.body)) if (v !== undefined && v !== null) form.append(k, String(v))
+    form.append('actionId', e.id)
+    uploading.value = { id: e.id, percent: 0 }
+    try {
+      return await postPhotos(urlOf(e), form, (percent) => {
+        uploading.value = { id: e.id, percent }
+      })
+    }
+    finally {
+      uploading.value = null
+    }
+  }
+
   async function settle(e: OutboxEntry, status: OutboxStatus, patch: Partial<OutboxEntry>) {
-    Object.assign(e, patch, { status, settledAt: new Date().toISOString() })
+    // an answered photo entry needs its files no longer: the tablet's storage is not a photo store
+    Object.assign(e, patch, { status, settledAt: new Date().toISOString() }, e.files ? { files: undefined } : {})
     await save(e)
     settled.forEach(fn => fn(e))
   }
@@ -156,7 +186,7 @@ export const useOutboxStore = defineStore('outbox', () => {
         }
         e.tries++
         try {
-          const result = await $fetch(urlOf(e), { method: 'POST', body: bodyOf(e) })
+          const result = e.files ? await sendPhotos(e) : await $fetch(urlOf(e), { method: 'POST', body: bodyOf(e) })
           await settle(e, 'done', { result })
         }
         catch (err) {
@@ -201,9 +231,13 @@ export const useOutboxStore = defineStore('outbox', () => {
   async function cachePut(key: string, value: unknown) {
     await (await outboxDb()).put('cache', JSON.parse(JSON.stringify(value)), key)
   }
+  /** Forgets every page's offline copy (signing out: the next person must not read them). */
+  async function clearCache() {
+    await (await outboxDb()).clear('cache')
+  }
   async function cacheGet<T>(key: string): Promise<T | undefined> {
     return (await (await outboxDb()).get('cache', key)) as T | undefined
   }
 
-  return { entries, pending, mine, me, sessionEnded, history, recentRefusal, sending, start, enqueue, flush, adoptUnowned, onSettled, cachePut, cacheGet }
+  return { entries, pending, mine, me, sessionEnded, history, recentRefusal, sending, uploading, start, enqueue, flush, adoptUnowned, onSettled, cachePut, cacheGet, clearCache }
 })

@@ -8,6 +8,7 @@ import {
   stopCluster, ensureDatabase, type Cluster,
 } from './pg'
 import { root } from './config'
+import { installJobQueue, jobQueueReady } from './job-queue'
 
 const migrationsDir = resolve(root, 'db/migrations')
 
@@ -48,6 +49,8 @@ export async function migrate(url: string) {
   const k = knex({ client: 'pg', connection: url, pool: { min: 0, max: 2 } })
   try {
     const [, done] = await k.migrate.latest({ migrationSource, tableName: 'knex_migrations' })
+    // the job queue's tables too, so the app never needs to create any (db/local/job-queue.ts)
+    await installJobQueue(url)
     return done as string[]
   }
   finally {
@@ -55,12 +58,16 @@ export async function migrate(url: string) {
   }
 }
 
-/** Migrations not applied yet (names), for a production start that refuses to run on an old schema. */
+/**
+ * Migrations not applied yet (names), for a production start that refuses to run on an old
+ * schema; the job queue's schema counts as one when pg-boss's own check fails.
+ */
 export async function pendingMigrations(url: string): Promise<string[]> {
   const k = knex({ client: 'pg', connection: url, pool: { min: 0, max: 1 } })
   try {
     const [, pending] = await k.migrate.list({ migrationSource, tableName: 'knex_migrations' }) as [unknown, unknown[]]
-    return pending.map(m => typeof m === 'string' ? m : String((m as { file?: string; name?: string }).file ?? (m as { name?: string }).name))
+    const names = pending.map(m => typeof m === 'string' ? m : String((m as { file?: string; name?: string }).file ?? (m as { name?: string }).name))
+    return (await jobQueueReady(url)) ? names : [...names, 'the job queue schema (pg-boss)']
   }
   finally {
     await k.destroy()

@@ -29,7 +29,7 @@ export interface ContactInput {
 export type ContactMail = 'mail_progress' | 'mail_samples' | 'mail_dispatch'
 
 /** A contact who gets a job mail; user_id and notify_prefs when the contact is also a user of the workshop. */
-export interface ContactRecipientRow { id: number; name: string; email: string; user_id: number | null; notify_prefs: unknown }
+export interface ContactRecipientRow { id: number; name: string; email: string; user_id: number | null; user_role: string | null; notify_prefs: unknown }
 
 export function contactColumns(i: ContactInput) {
   const map: [keyof ContactInput, string][] = [['name', 'name'], ['email', 'email'], ['phone', 'phone'], ['role', 'role'],
@@ -91,7 +91,7 @@ export const clientContactsRepo = {
       })
       .where({ 'c.workshop_id': workshopId, 'c.client_org_id': orgId, [`c.${mail}`]: true })
       .whereNull('u.disabled_at')
-      .select('c.id', 'c.name', 'c.email', 'u.id as user_id', 'u.notify_prefs')
+      .select('c.id', 'c.name', 'c.email', 'u.id as user_id', 'u.role as user_role', 'u.notify_prefs')
       .orderBy('c.id')
   },
 }

@@ -89,6 +89,17 @@ function replay<T>(actor: Actor, target: ActionTarget, found: NonNullable<Awaite
 }
 
 /**
+ * The stored answer of an action id already answered (or its refusal thrown again, or a 409
+ * when the id was used for something else); undefined when the id is new. A look without the
+ * lock, for work that is costly before its transaction (a photo upload decodes its images
+ * first): a replay is answered at once, and `runOnce` still decides a race between two copies.
+ */
+export async function answeredAction<T>(actor: Actor, actionId: string, target: ActionTarget): Promise<ActionAnswer<T> | undefined> {
+  const found = await processedActionsRepo.find(useDb(), actionId)
+  return found ? replay<T>(actor, target, found) : undefined
+}
+
+/**
  * Runs `work` once per action id inside one transaction, with the id's answer recorded in it.
  * A stored answer is returned (or its refusal thrown again) instead of running `work`, when the
  * id was used by the same person for the same step on the same row (`target`); otherwise a 409.

@@ -10,6 +10,10 @@
 // contact); a contact who is also a user of the workshop keeps their own settings from /account
 // on top, and a disabled user's contact gets nothing. A job without a client organisation mails
 // its client members, as before clients had contacts. Contact keys end with c<contactId>.
+// The job page's link goes only to those who can open it (a client member of the job); any
+// other contact is told the workshop can give them access, and reads the news in the mail.
+// Our decision: an invitation is the lead's to give (it opens the workshop's portal), never a
+// side effect of a contact's mail setting; and a link that answers "not found" helps nobody.
 import type { Knex } from 'knex'
 import { notifyPrefsOf, type NotifyKind } from '#shared/utils/notify-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'
@@ -22,7 +26,7 @@ import { formatDateTime, formatDay, workshopLocale } from '#shared/utils/worksho
 import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
 
 /** A user, or a client contact (key c<contactId>; userId when the contact is also a user). */
-type Recipient = RecipientRow & { key?: string; userId?: number | null }
+type Recipient = RecipientRow & { key?: string; userId?: number | null; opensJob?: boolean }
 type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
 
 const link = (path: string) => `${appEnv().APP_URL}${path}`
@@ -46,7 +50,17 @@ async function jobClientRecipients(trx: Knex, workshopId: number, jobId: number,
   const orgId = await jobsRepo.clientOrgId(trx, workshopId, jobId)
   if (!orgId) return usersRepo.jobMemberRecipients(trx, workshopId, jobId)
   const contacts = await clientContactsRepo.recipients(trx, workshopId, orgId, CONTACT_MAIL[kind]!)
-  return contacts.map(c => ({ id: c.id, name: c.name, email: c.email, notify_prefs: c.notify_prefs ?? {}, key: `c${c.id}`, userId: c.user_id }))
+  const members = new Set((await jobsRepo.members(trx, workshopId, jobId)).map(m => Number(m.id)))
+  return contacts.map(c => ({
+    id: c.id, name: c.name, email: c.email, notify_prefs: c.notify_prefs ?? {}, key: `c${c.id}`, userId: c.user_id,
+    opensJob: c.user_id !== null && c.user_role === 'client' && members.has(Number(c.user_id)),
+  }))
+}
+
+/** The job page's link for whoever can open it; for a contact who cannot, how to get access instead. */
+function jobPageLines(r: Recipient, jobId: number, intro: string, otherwise: string): string[] {
+  if (r.opensJob !== false) return [intro, link(`/client/jobs/${jobId}`)]
+  return [otherwise, 'To follow the job online, ask the workshop to invite you to its Setline.']
 }
 const rid = (r: Recipient) => r.key ?? String(r.id)
 
@@ -55,7 +69,7 @@ export function notifySampleReady(trx: Knex, workshopId: number, job: JobRef & {
   return jobClientRecipients(trx, workshopId, job.id, 'sample_ready').then(to => send(trx, workshopId, 'sample_ready', to, r => ({
     subject: `Sample ready for your approval: ${job.code} ${job.title}`,
     lines: [`The sample cast for ${job.code} (${job.title}) is ready for your approval.`,
-      'Approve it, or ask for changes with a comment, here:', link(`/client/jobs/${job.id}`), '',
+      ...jobPageLines(r, job.id, 'Approve it, or ask for changes with a comment, here:', 'To approve it or ask for changes, reply to the workshop.'), '',
       'The rest of the job goes on the casting board once you approve the sample.'],
     dedupeKey: `sample-ready:${job.id}:${job.version}:${rid(r)}`,
   })))
@@ -72,7 +86,7 @@ export async function notifyPhotosShared(trx: Knex, workshopId: number, jobId: n
   const day = boardLocalDay(new Date(), ws?.timezone ?? 'UTC')
   return send(trx, workshopId, 'photos_shared', await jobClientRecipients(trx, workshopId, jobId, 'photos_shared'), r => ({
     subject: `New photos of ${job.code} ${job.title}`,
-    lines: [`The workshop has shared new photos of ${job.code} (${job.title}).`, 'See them on your job page:', link(`/client/jobs/${job.id}`)],
+    lines: [`The workshop has shared new photos of ${job.code} (${job.title}).`, ...jobPageLines(r, job.id, 'See them on your job page:', 'The workshop can send you copies if you ask.')],
     dedupeKey: `photos:${job.id}:${day}:${rid(r)}`,
   }))
 }
@@ -83,7 +97,7 @@ export async function notifyJobReady(trx: Knex, workshopId: number, jobId: numbe
   if (!job) return 0
   return send(trx, workshopId, 'job_ready', await jobClientRecipients(trx, workshopId, jobId, 'job_ready'), r => ({
     subject: `Ready for dispatch: ${job.code} ${job.title}`,
-    lines: [`Every piece of ${job.code} (${job.title}) is ready for dispatch.`, 'The workshop will be in touch about delivery. Your job page:', link(`/client/jobs/${job.id}`)],
+    lines: [`Every piece of ${job.code} (${job.title}) is ready for dispatch.`, ...jobPageLines(r, job.id, 'The workshop will be in touch about delivery. Your job page:', 'The workshop will be in touch about delivery.')],
     dedupeKey: `job-ready:${job.id}:${rid(r)}`,
   }))
 }

@@ -8,6 +8,7 @@ import type { Storage } from 'unstorage'
 import type { Actor } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
 import { notifyPhotosShared } from './notify'
+import { answeredAction, runOnce } from './actions'
 import { photosRepo, type PhotoRow, type StoredPhotoRow } from '../repos/photos'
 import { PhotoRejected, processPhoto, type PhotoVariants } from '../utils/photo-image'
 import { newPhotoKey, photoStorage, readPhotoFile } from '../utils/storage'
@@ -69,9 +70,22 @@ async function removeKeys(store: Storage, keys: string[]) {
   await Promise.allSettled(keys.map(k => store.removeItem(k)))
 }
 
+/** What an upload's action id is bound to: uploading photos to this job. */
+const uploadTarget = (jobId: number) => ({ kind: 'photo.upload', entityId: jobId })
+
+/**
+ * Stores the uploaded photos of a job. An upload with an `actionId` (a tablet's outbox sends
+ * one, and may send it again after a lost answer) is stored once: a replay gets the first
+ * answer's photos back, decoded and stored nothing; two copies at once meet in `runOnce`, and
+ * the loser's stored files are removed.
+ */
 export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUploadFields, files: UploadedFile[], store: Storage = photoStorage()): Promise<PhotoDto[]> {
   const db = useDb()
   await jobVisibleTo(db, actor, jobId)
+  if (fields.actionId) {
+    const earlier = await answeredAction<PhotoDto[]>(actor, fields.actionId, uploadTarget(jobId))
+    if (earlier) return earlier.result
+  }
   const links = await checkLinks(db, actor, jobId, fields)
   const processed = await processAll(files)
   const keys: string[] = []
@@ -85,16 +99,29 @@ export async function uploadPhotos(actor: Actor, jobId: number, fields: PhotoUpl
       await store.setItemRaw(displayKey, p.display)
       stored.push({ ...p, thumbKey, displayKey })
     }
-    const rows = await db.transaction(async (trx) => {
+    const insertRows = async (trx: Knex.Transaction) => {
       const inserted = await Promise.all(stored.map(s => photosRepo.insert(trx, actor.workshopId, {
         jobId, ...links, caption: fields.caption, shared: fields.shared, uploadedBy: actor.id,
         thumbKey: s.thumbKey, displayKey: s.displayKey, width: s.width, height: s.height, bytes: s.bytes,
       })))
       if (inserted.some(r => r.shared)) await notifyPhotosShared(trx, actor.workshopId, jobId)
       return inserted
+    }
+    const emitAll = (rows: PhotoRow[]) => {
+      for (const row of rows) emitPhoto(actor, 'photo.created', row, row.shared)
+    }
+    if (!fields.actionId) {
+      const rows = await db.transaction(insertRows)
+      emitAll(rows)
+      return rows.map(toPhotoDto)
+    }
+    const answer = await runOnce<PhotoDto[]>(actor, fields.actionId, uploadTarget(jobId), async (trx) => {
+      const rows = await insertRows(trx)
+      return { result: rows.map(toPhotoDto), after: () => emitAll(rows) }
     })
-    for (const row of rows) emitPhoto(actor, 'photo.created', row, row.shared)
-    return rows.map(toPhotoDto)
+    // another copy of this upload landed first: its photos are the answer, these files are spare
+    if (answer.replayed) await removeKeys(store, keys)
+    return answer.result
   }
   catch (err) {
     await removeKeys(store, keys)

@@ -1,5 +1,6 @@
 // Background work in PostgreSQL, through pg-boss (its tables live in the database's `pgboss`
-// schema, which it creates on first start). Every app instance runs a worker; the queues make
+// schema, which `npm run db:migrate` installs and upgrades: db/local/job-queue.ts; the app
+// starts pg-boss with migrate off, so it needs no DDL rights and refuses an old schema). Every app instance runs a worker; the queues make
 // each piece of work run once across all of them:
 // - mail-now: asked for when a transaction that queued mail commits (server/utils/mail.ts);
 // - mail-sweep, every MAIL_WORKER_INTERVAL_MS: retries that came due, and mail claimed by an
@@ -13,9 +14,7 @@
 // background_runs for the readiness route (GET /api/ready).
 import PgBoss from 'pg-boss'
 import { backgroundRunsRepo } from '../repos/background-runs'
-
-export const JOB_NAMES = ['mail-now', 'mail-sweep', 'overdue-check', 'cleanup'] as const
-export type JobName = typeof JOB_NAMES[number]
+import { JOB_NAMES, queueOptions, type JobName } from './job-queues'
 
 export type JobHandlers = Record<JobName, () => Promise<number>>
 
@@ -42,11 +41,21 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
     connectionString,
     max: 3,
     application_name: 'setline-jobs',
+    // the schema is the migration step's (db/local/job-queue.ts): only pg-boss's version check here
+    migrate: false,
     // finished jobs are kept a day for looking into, then pg-boss deletes them
     deleteAfterDays: 1,
   })
   boss.on('error', err => log.error({ err: { message: err.message } }, 'job queue'))
-  await boss.start()
+  try {
+    await boss.start()
+  }
+  catch (err) {
+    // pg-boss's own check: its schema is missing or older than this pg-boss (the pool it opened is closed)
+    await boss.stop({ graceful: false }).catch(() => {})
+    const message = err instanceof Error ? err.message : String(err)
+    throw new Error(`the job queue is not ready (${message}): run \`npm run db:migrate\``)
+  }
   const every = repeats()
   const send = (name: JobName, startAfter?: Date) =>
     boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: name === 'cleanup' ? 15 * 60 : 120 }).catch((err: Error) => {
@@ -112,7 +121,7 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
   }
   const workers: Promise<void>[] = []
   for (const name of JOB_NAMES) {
-    await boss.createQueue(name, { name, policy: 'stately' })
+    await boss.createQueue(name, queueOptions(name))
     workers.push(worker(name, name.startsWith('mail') ? 500 : 2000))
   }
   // the first run of each repeating job; absorbed when an instance already queued one

@@ -18,6 +18,11 @@ export const photoUploadFieldsSchema = z.object({
   shared: sharedFlag.optional().transform(v => v ?? false),
   pieceId: optionalId('pieceId'),
   pourId: optionalId('pourId'),
+  /**
+   * The tablet's id for this upload (its outbox entry): a retried upload with the same id is
+   * answered with the first one's photos and stores nothing again (server/services/photos.ts).
+   */
+  actionId: z.uuid({ error: 'actionId must be a UUID' }).optional(),
 })
 export type PhotoUploadFields = z.infer<typeof photoUploadFieldsSchema>
 

@@ -112,6 +112,53 @@ describe('stored variants', () => {
   })
 })
 
+describe('an upload with an action id (the tablet\'s outbox)', () => {
+  const files = (n: number) => Array.from({ length: n }, (_, i) => ({ name: `retry-${i}.jpg`, data: jpeg }))
+  const stored = (actionId: string) => testDb()('processed_actions').where({ id: actionId }).first('kind', 'status')
+  const filesInStore = () => readdirSync(photoDir, { recursive: true }).length
+
+  it('is stored once however often it is sent, the replay answered with the first photos', async () => {
+    const actionId = crypto.randomUUID()
+    const first = await upload(c.caster, files(2), { caption: 'Sent twice', actionId })
+    expect(first.status, JSON.stringify(first.data)).toBe(201)
+    expect(await stored(actionId)).toEqual({ kind: 'photo.upload', status: 200 })
+    const inStore = filesInStore()
+    // the answer was lost on the way back: the outbox sends the same upload again, twice at once
+    const again = await Promise.all([upload(c.caster, files(2), { caption: 'Sent twice', actionId }), upload(c.caster, files(2), { caption: 'Sent twice', actionId })])
+    for (const r of again) {
+      expect(r.status).toBe(201)
+      expect(r.data.map((p: { id: string }) => p.id)).toEqual(first.data.map((p: { id: string }) => p.id))
+    }
+    expect(await testDb()('photos').where({ job_id: fernhill, caption: 'Sent twice' }).count('* as n').first()).toEqual({ n: '2' })
+    // nothing of the copies is left in the photo store
+    expect(filesInStore()).toBe(inStore)
+  })
+
+  it('two copies racing before either is answered still store the photos once', async () => {
+    const actionId = crypto.randomUUID()
+    const both = await Promise.all([upload(c.caster, files(1), { caption: 'Raced', actionId }), upload(c.caster, files(1), { caption: 'Raced', actionId })])
+    expect(both.map(r => r.status)).toEqual([201, 201])
+    expect(both[0]!.data[0].id).toBe(both[1]!.data[0].id)
+    expect(await testDb()('photos').where({ job_id: fernhill, caption: 'Raced' }).count('* as n').first()).toEqual({ n: '1' })
+  })
+
+  it('an id reused by another person, or for another job, is a 409 and stores nothing', async () => {
+    const actionId = crypto.randomUUID()
+    expect((await upload(c.caster, files(1), { caption: 'Bound', actionId })).status).toBe(201)
+    const other = await upload(c.caster2, files(1), { caption: 'Bound', actionId })
+    expect(other.status).toBe(409)
+    expect(other.data.message).toMatch(/another person/)
+    const ws = await demoWorkshopId()
+    const [job] = await testDb()('jobs').insert({ workshop_id: ws, code: `AID-${actionId.slice(0, 6)}`, title: 'Another job' }).returning('id')
+    const elsewhere = await upload(c.caster, files(1), { caption: 'Bound', actionId }, Number(job.id))
+    expect(elsewhere.status).toBe(409)
+    expect(await testDb()('photos').where({ caption: 'Bound' }).count('* as n').first()).toEqual({ n: '1' })
+    const bad = await upload(c.caster, files(1), { actionId: 'not-a-uuid' })
+    expect(bad.status).toBe(422)
+    expect(bad.data.message).toMatch(/UUID/)
+  })
+})
+
 describe('who sees and changes a photo', () => {
   it('a client sees only shared photos of their own jobs; everything else is 404', async () => {
     const hidden = await uploadOne(c.caster)
