@@ -77,7 +77,7 @@ describe('client completion', () => {
     await jobCard.waitFor()
     expect(await seriousAxeViolations(page)).toEqual([])
     await page.close()
-  }, 120_000)
+  }, 180_000)
 
   it('a lead on a phone opens the menu that replaces the hidden sidebar, and Escape closes it', async () => {
     const page = await browser.context.newPage()

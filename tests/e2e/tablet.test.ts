@@ -129,7 +129,7 @@ describe('shared tablet', () => {
     await page.waitForURL(`${base}/tablet`)
     await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
     await page.close()
-  })
+  }, 180_000)
 
   it('a caster sets a PIN on their account page: an easy one is refused beside the field', async () => {
     const page = await browser.context.newPage()
