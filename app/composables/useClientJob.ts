@@ -16,7 +16,7 @@ export async function useClientJob(id: MaybeRefOrGetter<string | number>) {
   const expected = computed(() => {
     const c = progress.value?.completion
     if (!c) return ''
-    if (c.kind === 'ready_by') return formatDay(c.readyBy, c.timezone)
+    if (c.kind === 'ready_by') return formatDay(c.readyBy, c.timezone, c.locale)
     if (c.kind === 'all_ready') return 'every piece is ready'
     if (c.kind === 'never_dries') return 'not yet known: the workshop is checking the drying conditions'
     return c.notPlanned === c.ordered

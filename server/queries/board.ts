@@ -7,9 +7,11 @@
 import type { BoardData, BoardPourRow } from '#shared/types/board'
 import { COUNTED_POUR } from '../repos/planning'
 import { DEPOSIT_RELEASED } from '../repos/payments'
+import { workshopLocale } from '#shared/utils/workshop-format'
 
 interface BoardContextRow {
   timezone: string
+  locale: string
   shift_start: string
   shift_end: string
   shift_breaks: { start: string; end: string }[]
@@ -33,7 +35,7 @@ const MS = (x: string) => `floor(extract(epoch FROM ${x}) * 1000)::bigint`
 
 const SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
   rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
-SELECT w.timezone, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
+SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
      FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,
   (SELECT coalesce(json_agg(json_build_object('id', m.id, 'code', m.code, 'casts', m.casts, 'bench_id', m.bench_id, 'bench_name', b.name,
@@ -77,7 +79,7 @@ export async function boardData(workshopId: number, from: string, to: string): P
   return {
     now: Date.now(),
     workshop: {
-      timezone: ctx.timezone, shiftStart: ctx.shift_start.slice(0, 5), shiftEnd: ctx.shift_end.slice(0, 5),
+      timezone: ctx.timezone, locale: workshopLocale(ctx.locale), shiftStart: ctx.shift_start.slice(0, 5), shiftEnd: ctx.shift_end.slice(0, 5),
       shiftBreaks: ctx.shift_breaks, workingDays: ctx.working_days.map(Number), units: ctx.units, defaultShopTempC: Number(ctx.default_shop_temp_c),
       defaultHumidityPct: Number(ctx.default_humidity_pct),
     },

@@ -38,6 +38,8 @@ export interface PourDtoRow {
   timezone: string
   /** the workshop's units, for the figures in the stored (metric) warnings */
   units: 'metric' | 'imperial'
+  /** the workshop's locale, for the day style of those times */
+  locale: string
 }
 
 /** A pour's row as its floor steps read and write it (locked), with its actuals. */
@@ -76,7 +78,7 @@ const DTO_SQL = `SELECT p.id, p.version, p.mould_id, m.code AS mould_code, m.ben
     p.job_item_id, i.job_id, j.code AS job_code, i.description AS item_description,
     p.caster_id, u.name AS caster_name, p.grade_id, g.name AS grade_name, p.lot_id, p.state, p.is_sample,
     p.consistency, p.set_factor, lower(p.slot) AS slot_start, upper(p.slot) AS slot_end, p.mix_at,
-    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings, ws.timezone, ws.units
+    p.demould_open_at, p.demould_close_at, p.plaster_kg_planned, p.water_kg_planned, p.warnings, ws.timezone, ws.units, ws.locale
   FROM pours p
   JOIN workshops ws ON ws.id = p.workshop_id
   JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = p.workshop_id

@@ -10,6 +10,7 @@ import { toClientPhotoDto } from './photos'
 import { loadWorkshop } from './workshop'
 import { jobCompletion, type Completion } from '#shared/utils/client-completion'
 import type { ClientProgressDto } from '#shared/types/photos'
+import type { WorkshopLocale } from '#shared/utils/workshop-format'
 import { castFromBatch } from '#shared/utils/plaster'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
 import { POUR_WASTE_PCT } from '#shared/utils/board-rules'
@@ -23,8 +24,8 @@ function plannedCast(c: { plaster_kg_planned: string | number; water_kg_planned:
   return { wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg }
 }
 
-function completionDto(c: Completion, timezone: string): ClientProgressDto['completion'] {
-  return c.kind === 'ready_by' ? { kind: c.kind, readyBy: c.at.toISOString(), timezone } : c
+function completionDto(c: Completion, timezone: string, locale: WorkshopLocale): ClientProgressDto['completion'] {
+  return c.kind === 'ready_by' ? { kind: c.kind, readyBy: c.at.toISOString(), timezone, locale } : c
 }
 
 export async function clientProgress(actor: Actor, jobId: number): Promise<ClientProgressDto> {
@@ -50,7 +51,7 @@ export async function clientProgress(actor: Actor, jobId: number): Promise<Clien
     job: { id: job.id, code: job.code, title: job.title, dueOn: job.due_on },
     items: items.map(i => ({ id: i.id, description: i.description, piecesNeeded: i.pieces_needed, planned: i.planned, cast: i.cast, fettled: i.fettled, dry: i.dry, dispatched: i.dispatched })),
     expectedCompletionAt: completion.kind === 'ready_by' ? completion.at.toISOString() : null,
-    completion: completionDto(completion, ws.timezone),
+    completion: completionDto(completion, ws.timezone, ws.locale),
     photos: photos.map(toClientPhotoDto),
   }
 }

@@ -14,8 +14,9 @@ import { batchForCavity } from '#shared/utils/plaster'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 import { missedStartWarning, pourSituation } from '#shared/utils/pour-status'
 import { inUnits } from '#shared/utils/units-display'
+import { workshopLocale } from '#shared/utils/workshop-format'
 import {
-  POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourDwellWarning, pourOverdue, pourWarnings,
+  POUR_WASTE_PCT, boardClock, boardLocalDay, mixesOverlap, pourBreakWarning, pourDwellWarning, pourOverdue, pourWarnings,
 } from '#shared/utils/board-rules'
 
 /** A pour as every route and live event sends it (the one declared PourDto, shared/types/board.ts). */
@@ -29,7 +30,7 @@ export function pourDto(r: PourDtoRow, now = new Date()): PourDto {
     slotStart: r.slot_start.toISOString(), slotEnd: r.slot_end.toISOString(), mixAt: r.mix_at.toISOString(),
     demouldOpenAt: r.demould_open_at.toISOString(), demouldCloseAt: r.demould_close_at.toISOString(),
     plasterKg: Number(r.plaster_kg_planned), waterKg: Number(r.water_kg_planned),
-    warnings: [...(situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone)] : []), ...r.warnings.map(w => inUnits(w, r.units))],
+    warnings: [...(situation === 'missed_start' ? [missedStartWarning(r.mix_at, r.timezone, workshopLocale(r.locale))] : []), ...r.warnings.map(w => inUnits(w, r.units))],
     overdue: pourOverdue({ state: r.state, demouldCloseAt: r.demould_close_at }, now),
     situation,
   }
@@ -83,8 +84,8 @@ async function refuseClash(db: Knex, ws: WorkshopRow, mouldId: number, start: Da
   const c = await poursRepo.clash(db, ws.id, mouldId, start, end, selfId)
   if (!c) return
   // the other pour by what the lead sees on the board: its job, its mould and its mix time
-  conflict(`This mould is already taken from ${boardClock(c.slot_start, ws.timezone)} to ${boardClock(c.slot_end, ws.timezone)}`
-    + ` by the ${c.job_code ? `${c.job_code} ` : ''}pour on ${c.mould_code} mixing at ${boardClock(c.mix_at, ws.timezone)}`, { pourId: c.id })
+  conflict(`This mould is already taken from ${boardClock(c.slot_start, ws.timezone, ws.locale)} to ${boardClock(c.slot_end, ws.timezone, ws.locale)}`
+    + ` by the ${c.job_code ? `${c.job_code} ` : ''}pour on ${c.mould_code} mixing at ${boardClock(c.mix_at, ws.timezone, ws.locale)}`, { pourId: c.id })
 }
 
 /** The pour's timing and batch from the model, on the workshop's shop temperature of its day. */
@@ -113,6 +114,7 @@ async function pourWrite(trx: Knex, ws: WorkshopRow, named: Named, p: PourPlanIn
   const warnings = pourWarnings({
     modelWarnings: t.warnings,
     dwell: pourDwellWarning(workshopCalendar(ws), t),
+    shiftBreak: pourBreakWarning(workshopCalendar(ws), t.mixAt, ws.timezone),
     casterClashes: near.filter(n => mixesOverlap(n.mix_at, t.mixAt)).map(n => ({ mouldCode: n.mould_code, mixAt: n.mix_at })),
     casterName: caster?.name,
     mould: { code: mould.code, pulls: mould.pulls, expectedPulls: mould.expected_pulls },
@@ -164,8 +166,8 @@ async function clipToNext(trx: Knex, ws: WorkshopRow, mouldId: number, t: { slot
   const next = await poursRepo.nextStart(trx, ws.id, mouldId, t.slotStart, selfId)
   if (!next || next.getTime() >= t.slotEnd.getTime()) return null
   t.slotEnd = next
-  return `With the day's shop temperature this cast is ready at ${boardClock(t.demouldOpenAt, ws.timezone)}, `
-    + `after the next pour on this mould starts at ${boardClock(next, ws.timezone)}: move one of them.`
+  return `With the day's shop temperature this cast is ready at ${boardClock(t.demouldOpenAt, ws.timezone, ws.locale)}, `
+    + `after the next pour on this mould starts at ${boardClock(next, ws.timezone, ws.locale)}: move one of them.`
 }
 
 /**

@@ -22,6 +22,8 @@ const envSchema = z.object({
   MAIL_FAKE_EXPOSE: flag.default(false),
   MAIL_WORKER_INTERVAL_MS: z.coerce.number().int().min(200).max(3_600_000).default(5000),
   MAIL_RETRY_BASE_SECONDS: z.coerce.number().int().min(1).max(3600).default(15),
+  // how long a sender's claim on a mail lasts before another process may take it (server/utils/mail.ts)
+  MAIL_CLAIM_SECONDS: z.coerce.number().int().min(5).max(86_400).default(600),
   // the nightly clean-up (server/services/cleanup.ts): how long sent mail and answered tablet actions are kept
   SENT_MAIL_KEEP_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
   ACTIONS_KEEP_DAYS: z.coerce.number().int().min(1).max(3650).default(30),

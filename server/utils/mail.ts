@@ -65,12 +65,19 @@ export function retryDelaySeconds(attempts: number, baseSeconds = appEnv().MAIL_
 }
 
 /**
- * How long a claimed mail stays with the process that claimed it. Sending a batch takes
- * seconds; a process that dies mid-send leaves its claims to run out, and the mail is claimed
- * again (sent at least once: a relay that took it before the crash may see it twice).
+ * A claimed mail stays with the process that claimed it for MAIL_CLAIM_SECONDS (default ten
+ * minutes; sending a batch takes seconds). A process that dies mid-send leaves its claims to run
+ * out, and the mail is claimed again: sending is at least once, and a relay that took a mail just
+ * before the crash sees it twice. Both copies carry the row's own Message-ID (messageId below),
+ * so mail stores and clients show them as one message.
  */
-const CLAIM_SECONDS = 600
 const BATCH = 20
+
+/** The row's Message-ID, the same on every attempt (RFC 5322 §3.6.4), in the sender's domain. */
+export function messageId(token: string, from = appEnv().MAIL_FROM) {
+  const domain = /@([^>\s]+)>?\s*$/.exec(from)?.[1] ?? 'setline.invalid'
+  return `<${token}@${domain}>`
+}
 
 let running: Promise<number> | undefined
 
@@ -90,11 +97,12 @@ export function deliverDueMail(): Promise<number> {
  */
 export async function deliverMailBatch(db: Knex = useDb()): Promise<number> {
   let sent = 0
-  const claimed = await mailOutboxRepo.claimDue(db, BATCH, CLAIM_SECONDS)
+  const claimed = await mailOutboxRepo.claimDue(db, BATCH, appEnv().MAIL_CLAIM_SECONDS)
   for (const m of claimed) {
     try {
       await mailer().sendMail({
         from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined,
+        messageId: messageId(m.message_token),
         // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
         headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
       })

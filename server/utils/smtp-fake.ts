@@ -70,6 +70,7 @@ export async function startSmtpFake(port: number, host = '127.0.0.1'): Promise<S
           subject: parsed.subject ?? '',
           text: parsed.text ?? '',
           html: typeof parsed.html === 'string' ? parsed.html : null,
+          messageId: parsed.messageId ?? null,
           receivedAt: new Date().toISOString(),
         })
         if (messages.length > KEEP) messages.splice(0, messages.length - KEEP)

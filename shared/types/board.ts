@@ -1,6 +1,7 @@
 // The board's data as GET /api/board returns it (the contract shared by the board page and
 // the pours routes). Instants are ISO strings, days 'YYYY-MM-DD'.
 import type { PourSituation } from '../utils/pour-status'
+import type { WorkshopLocale } from '../utils/workshop-format'
 /** The board's views: the shift day, and the working days of one or two weeks in shift hours. */
 export type BoardView = 'day' | 'week' | 'fortnight'
 
@@ -78,7 +79,7 @@ export interface BoardPourRow {
 export interface BoardData {
   /** the server's clock when the board was read (ms): where each pour stands is judged against it */
   now: number
-  workshop: { timezone: string; shiftStart: string; shiftEnd: string; shiftBreaks: { start: string; end: string }[]; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number; defaultHumidityPct: number }
+  workshop: { timezone: string; locale: WorkshopLocale; shiftStart: string; shiftEnd: string; shiftBreaks: { start: string; end: string }[]; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number; defaultHumidityPct: number }
   benches: { id: number; name: string; sortOrder: number }[]
   moulds: BoardMould[]
   pours: BoardPourRow[]

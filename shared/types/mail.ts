@@ -7,5 +7,7 @@ export interface CapturedMail {
   subject: string
   text: string
   html: string | null
+  /** the Message-ID the outbox gave the mail, the same on a resend (server/utils/mail.ts) */
+  messageId: string | null
   receivedAt: string
 }

@@ -1,4 +1,5 @@
 // What the photo and client progress routes return.
+import type { WorkshopLocale } from '../utils/workshop-format'
 
 /** GET /api/jobs/:id/photos (staff), and what an upload or a PATCH answers. */
 export interface PhotoDto {
@@ -37,7 +38,7 @@ export interface ClientProgressDto {
   expectedCompletionAt: string | null
   /** what the page says about completion (shared/utils/client-completion.ts) */
   completion:
-    | { kind: 'ready_by'; readyBy: string; timezone: string }
+    | { kind: 'ready_by'; readyBy: string; timezone: string; locale: WorkshopLocale }
     | { kind: 'not_planned'; notPlanned: number; ordered: number }
     | { kind: 'never_dries' }
     | { kind: 'all_ready' }

@@ -21,7 +21,7 @@ export function expandPour(data: Pick<BoardData, 'moulds' | 'lookups' | 'now' | 
     gradeId: p.gradeId, gradeName: data.lookups.grades[p.gradeId] ?? '', lotId: p.lotId,
     state: p.state, isSample: p.isSample, consistency: p.consistency, setFactor: p.setFactor,
     slotStart: iso(p.t[0]), slotEnd: iso(p.t[1]), mixAt: iso(p.t[2]), demouldOpenAt: iso(p.t[3]), demouldCloseAt: iso(p.t[4]),
-    plasterKg: p.plasterKg, waterKg: p.waterKg, warnings: [...(situation === 'missed_start' ? [missedStartWarning(iso(p.t[2]), data.workshop.timezone)] : []), ...p.warnings.map(w => inUnits(w, data.workshop.units))],
+    plasterKg: p.plasterKg, waterKg: p.waterKg, warnings: [...(situation === 'missed_start' ? [missedStartWarning(iso(p.t[2]), data.workshop.timezone, data.workshop.locale)] : []), ...p.warnings.map(w => inUnits(w, data.workshop.units))],
     overdue: situation === 'overdue_demould', situation,
   }
 }

@@ -11,6 +11,7 @@ import { bagsForKg } from './plaster-cutlist'
 import { MIX_WATER_DENSITY } from './plaster-core'
 import { POUR_MIX_MINUTES_DEFAULT, dwellWarning } from './pour-timing'
 import { nextShiftStart, shiftWindows, type WorkshopShiftCalendar } from './workshop-calendar'
+import { formatDateTime, type WorkshopLocale } from './workshop-format'
 
 const MINUTE_MS = 60_000
 
@@ -55,6 +56,8 @@ export interface PourWarningFacts {
   modelWarnings: string[]
   /** dwellWarning's text, or null */
   dwell: string | null
+  /** pourBreakWarning's text, or null (a pour placed by hand with its mix in a shift break) */
+  shiftBreak?: string | null
   /** codes of the other pours whose mix the same caster is gauging at the same time */
   casterClashes: { mouldCode: string; mixAt: Date }[]
   casterName?: string | null
@@ -91,6 +94,7 @@ const hhmm = (d: Date, timezone: string) => formatter('clock', timezone).format(
 export function pourWarnings(f: PourWarningFacts, timezone: string): string[] {
   const out = [...f.modelWarnings]
   if (f.dwell) out.push(f.dwell)
+  if (f.shiftBreak) out.push(f.shiftBreak)
   for (const c of f.casterClashes) {
     out.push(`${f.casterName ?? 'The caster'} is already gauging a mix for ${c.mouldCode} at ${hhmm(c.mixAt, timezone)}: two mixes at once.`)
   }
@@ -147,8 +151,8 @@ export function boardLocalDay(at: Date, timezone: string): string {
 }
 
 /** 'YYYY-MM-DD HH:MM' of an instant in a timezone, for messages. */
-export function boardClock(at: Date, timezone: string): string {
-  return `${boardLocalDay(at, timezone)} ${hhmm(at, timezone)}`
+export function boardClock(at: Date, timezone: string, locale?: WorkshopLocale): string {
+  return formatDateTime(at, timezone, locale)
 }
 
 const DAY_MS = 86_400_000
@@ -169,6 +173,24 @@ export function pourDwellWarning(calendar: WorkshopShiftCalendar, t: { mixAt: Da
     shiftEndAt: shift.end,
     nextShiftStartAt: nextShiftStart(calendar, new Date(Math.max(shift.end.getTime(), mix))),
   })
+}
+
+/**
+ * A pour placed by hand whose gauging [mixAt, mixAt + mixMinutes) touches a break of its shift:
+ * the caster would be mixing on their break (the planner never does this; common practice: a
+ * gauged mix cannot wait). Says the break and the first mix time after it; null when clear.
+ */
+export function pourBreakWarning(calendar: WorkshopShiftCalendar, mixAt: Date, timezone: string, mixMinutes = POUR_MIX_MINUTES_DEFAULT): string | null {
+  const mix = mixAt.getTime()
+  const end = mix + mixMinutes * MINUTE_MS
+  for (const w of shiftWindows({ ...calendar, from: new Date(mix - DAY_MS), to: new Date(end + 1) })) {
+    for (const b of w.breaks) {
+      if (mix < b.end.getTime() && b.start.getTime() < end) {
+        return `The mix at ${hhmm(mixAt, timezone)} runs into the ${hhmm(b.start, timezone)}–${hhmm(b.end, timezone)} break: mix at ${hhmm(b.end, timezone)} or before ${hhmm(new Date(b.start.getTime() - mixMinutes * MINUTE_MS), timezone)} instead.`
+      }
+    }
+  }
+  return null
 }
 
 /** The instant a local day 'YYYY-MM-DD' starts (local midnight) in a timezone. */

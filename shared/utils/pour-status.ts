@@ -18,6 +18,7 @@
  * Pure: no I/O, no framework import.
  */
 import { boardClock } from './board-rules'
+import type { WorkshopLocale } from './workshop-format'
 
 export type PourSituation = 'waiting' | 'mix_now' | 'missed_start' | 'mixing' | 'setting' | 'ready' | 'overdue_demould' | 'demoulded' | 'void'
 
@@ -89,6 +90,6 @@ export function pourWindowFromSteps<P extends { state: string; mixAt: string; de
 }
 
 /** The line a missed start leads the pour's warnings with (the board lists warnings). */
-export function missedStartWarning(mixAt: Date | string, timezone: string) {
-  return `Missed start: never mixed; the mix was due at ${boardClock(new Date(ms(mixAt)), timezone)}. Re-plan or void it.`
+export function missedStartWarning(mixAt: Date | string, timezone: string, locale?: WorkshopLocale) {
+  return `Missed start: never mixed; the mix was due at ${boardClock(new Date(ms(mixAt)), timezone, locale)}. Re-plan or void it.`
 }

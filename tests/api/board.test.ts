@@ -75,7 +75,7 @@ describe('GET /api/board', () => {
     const mouldId = await fx.mould({ max_dwell_minutes: 30 })
     const past = (await post({ mouldId, slotStart: '2025-06-02T09:00:00+01:00' })).data
     expect(past).toMatchObject({ overdue: false, situation: 'missed_start' })
-    expect(past.warnings[0]).toMatch(/^Missed start: never mixed; the mix was due at 2025-06-02 09:\d\d/)
+    expect(past.warnings[0]).toMatch(/^Missed start: never mixed; the mix was due at Mon 2 Jun 2025 09:\d\d/)
     await fx.k('pours').where({ id: past.id }).update({ state: 'setting', mixing_at: past.mixAt, poured_at: past.mixAt })
     const r = await board('2025-06-02', '2025-06-02')
     const seen = r.data.pours.find((p: { id: number }) => p.id === past.id)

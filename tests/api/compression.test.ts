@@ -48,6 +48,23 @@ beforeAll(async () => {
 afterAll(closeTestDb)
 
 describe('static assets', () => {
+  it('the sign-in page preloads the regular body font, and that file is served as a cached woff2', async () => {
+    const page = decode(await get('/login', { 'accept-encoding': 'identity' })).toString('utf8')
+    const link = /<link[^>]*rel="preload"[^>]*>/g
+    const font = [...page.matchAll(link)].map(m => m[0]).find(l => l.includes('as="font"'))
+    expect(font, 'a font preload link').toBeTruthy()
+    expect(font).toContain('type="font/woff2"')
+    expect(font).toContain('crossorigin')
+    const href = /href="([^"]+)"/.exec(font!)![1]!
+    expect(href).toMatch(/latin-400-normal.*\.woff2$/)
+    const r = await get(href)
+    expect(r.status).toBe(200)
+    expect(String(r.headers['content-type'])).toContain('font/woff2')
+    expect(r.headers['cache-control']).toContain('immutable')
+    // a woff2 file starts with its signature 'wOF2' (W3C WOFF 2.0, section 3)
+    expect(r.body.subarray(0, 4).toString('latin1')).toBe('wOF2')
+  })
+
   const original = readFileSync(join(assets, bigScript))
 
   it.each(['br', 'gzip'] as const)('go out precompressed as %s, decode to the file, and stay cached as immutable', async (coding) => {

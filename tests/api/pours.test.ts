@@ -64,7 +64,7 @@ describe('POST /api/pours', () => {
     expect((await post({ mouldId, slotStart: at('10:00') })).status).toBe(201)
     const r = await post({ mouldId, slotStart: at('10:20') })
     expect(r.status).toBe(409)
-    expect(r.data.message).toMatch(/This mould is already taken from 2027-03-01 10:00 to 2027-03-01 \d\d:\d\d/)
+    expect(r.data.message).toMatch(/This mould is already taken from Mon 1 Mar 2027 10:00 to Mon 1 Mar 2027 \d\d:\d\d/)
   })
 
   it('refuses a mould in repair or retired', async () => {
@@ -107,6 +107,26 @@ describe('POST /api/pours', () => {
     expect(r.data.warnings.join(' ')).toContain('cannot hold the cast overnight')
     const long = await fx.mould({ max_dwell_minutes: 1200 })
     expect((await post({ mouldId: long, slotStart: at('15:45') })).data.warnings).toEqual([])
+  })
+
+  it('warns when a pour placed by hand mixes into a shift break, and not once moved clear', async () => {
+    await fx.k('workshops').where({ id: fx.workshopId }).update({ shift_breaks: JSON.stringify([{ start: '10:00', end: '10:20' }]) })
+    try {
+      const mouldId = await fx.mould()
+      const r = await post({ mouldId, slotStart: at('10:00', '2027-03-03') })
+      expect(r.status).toBe(201)
+      const mixAt = new Date(r.data.mixAt)
+      // the mix falls after the mould prep, inside the 10:00–10:20 break
+      expect(mixAt.getTime()).toBeGreaterThan(Date.parse(at('10:00', '2027-03-03')))
+      expect(mixAt.getTime()).toBeLessThan(Date.parse(at('10:20', '2027-03-03')))
+      expect(r.data.warnings.join(' ')).toContain('runs into the 10:00–10:20 break')
+      const moved = await call(`/api/pours/${r.data.id}`, { method: 'PATCH', cookie: lead, body: { version: r.data.version, mouldId, slotStart: at('10:30', '2027-03-03') } })
+      expect(moved.status, JSON.stringify(moved.data)).toBe(200)
+      expect(moved.data.warnings.join(' ')).not.toContain('break')
+    }
+    finally {
+      await fx.k('workshops').where({ id: fx.workshopId }).update({ shift_breaks: '[]' })
+    }
   })
 
   it('warns when the mould passes its expected life', async () => {

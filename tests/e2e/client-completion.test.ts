@@ -66,11 +66,18 @@ describe('client completion', () => {
     expect(await page.getByText('Ready to dispatch by:').count()).toBe(1)
     await screenshot(page, 'client-fully-planned')
     expect(await seriousAxeViolations(page)).toEqual([])
+    // a workshop in the US style writes the day the US way
+    await fx.k('workshops').where({ id: fx.workshopId }).update({ locale: 'en-US' })
+    await page.reload()
+    const usDay = formatDay(readyBy, progress.completion.timezone, 'en-US')
+    expect(usDay).not.toBe(day)
+    await expect.poll(() => expected.textContent(), { timeout: 10_000 }).toBe(usDay)
+    await fx.k('workshops').where({ id: fx.workshopId }).update({ locale: 'en-GB' })
     await page.goto(`${base}/client`)
     await jobCard.waitFor()
     expect(await seriousAxeViolations(page)).toEqual([])
     await page.close()
-  }, 120_000)
+  }, 180_000)
 
   it('a lead on a phone opens the menu that replaces the hidden sidebar, and Escape closes it', async () => {
     const page = await browser.context.newPage()

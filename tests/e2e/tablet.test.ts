@@ -1,11 +1,13 @@
 // The shared tablet on a tablet-sized screen (820×1180): the lead signs the device in as a
 // shared tablet, a caster switches in with the keypad and sees the floor, then "Switch
-// person" hands the tablet to the finisher, who sees the fettling queue. Screenshots per step.
+// person" hands the tablet to the finisher, who sees the fettling queue. Screenshots per step;
+// axe on the picker, the keypad and every page of the caster switched in by PIN.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
+import { seriousAxeViolations } from '../setup/axe'
 import { testContext } from '../setup/context'
 
 const base = testContext().baseUrl
@@ -70,6 +72,7 @@ describe('shared tablet', () => {
     const tile = page.getByRole('button', { name: new RegExp(demo.caster1.name) })
     expect((await tile.boundingBox())!.height).toBeGreaterThanOrEqual(48)
     await screenshot(page, 'tablet-2-picker')
+    expect(await seriousAxeViolations(page)).toEqual([])
 
     await page.getByRole('button', { name: new RegExp(demo.caster1.name) }).click()
     await typePin(page, PINS.caster.slice(0, 2))
@@ -77,6 +80,7 @@ describe('shared tablet', () => {
     expect(ok!.height).toBeGreaterThanOrEqual(64)
     expect((await page.getByTestId('tablet-keypad').getByRole('button', { name: '5', exact: true }).boundingBox())!.height).toBeGreaterThanOrEqual(64)
     await screenshot(page, 'tablet-3-keypad')
+    expect(await seriousAxeViolations(page)).toEqual([])
     await typePin(page, PINS.caster.slice(2))
     await page.getByTestId('tablet-ok').click()
     await page.waitForURL(`${base}/floor`)
@@ -85,6 +89,14 @@ describe('shared tablet', () => {
     await expect.poll(() => page.getByTestId('user-name').textContent()).toBe(demo.caster1.name)
     await expect.poll(() => page.getByTestId('user-role').textContent()).toContain('Casting shop tablet')
     await screenshot(page, 'tablet-4-caster-floor')
+    // the caster switched in by PIN walks their pages: axe finds nothing serious on any
+    for (const path of ['/floor', '/day-sheet', '/mix', '/cautions', '/account', '/floor']) {
+      await page.goto(`${base}${path}`)
+      await page.locator('html[data-hydrated]').waitFor()
+      await page.locator('main').waitFor()
+      expect(await seriousAxeViolations(page), path).toEqual([])
+    }
+    await expect.poll(() => page.getByTestId('user-name').textContent()).toBe(demo.caster1.name)
 
     await page.getByTestId('switch-person').click()
     await page.waitForURL(`${base}/tablet`)
@@ -117,7 +129,7 @@ describe('shared tablet', () => {
     await page.waitForURL(`${base}/tablet`)
     await page.getByRole('heading', { level: 1, name: 'Who is working?' }).waitFor()
     await page.close()
-  })
+  }, 180_000)
 
   it('a caster sets a PIN on their account page: an easy one is refused beside the field', async () => {
     const page = await browser.context.newPage()

@@ -60,6 +60,24 @@ describe('claim, commit, then send', () => {
     expect((await mailOutboxRepo.claimDue(pool(), 100, 600)).map(c => c.to_email)).toContain(to)
   })
 
+  it('a mail sent again after a crash before its sent mark carries the same Message-ID', async () => {
+    const [to] = await queue('crash', 1)
+    await deliverMailBatch(pool())
+    // the process died after the relay took the mail and before it marked it sent: the row is
+    // still claimed, and its claim runs out
+    await testDb()('mail_outbox').where({ to_email: to }).update({ status: 'sending', sent_at: null, claimed_until: testDb().raw(`now() - interval '1 second'`) })
+    await deliverMailBatch(pool())
+    const copies = fake.messages.filter(m => m.to.includes(to!))
+    expect(copies).toHaveLength(2)
+    const token = (await testDb()('mail_outbox').where({ to_email: to }).first('message_token')).message_token
+    // setline.example.test is the domain of the default MAIL_FROM (server/utils/env.ts)
+    expect(copies.map(c => c.messageId)).toEqual([`<${token}@setline.example.test>`, `<${token}@setline.example.test>`])
+    // another mail has a Message-ID of its own
+    const [other] = await queue('crash-other', 1)
+    await deliverMailBatch(pool())
+    expect(fake.messages.find(m => m.to.includes(other!))!.messageId).not.toBe(copies[0]!.messageId)
+  })
+
   it('a mail the relay refuses is queued again with its error, then sent on a later run', async () => {
     const workshopId = Number((await testDb()('workshops').first('id')).id)
     fake.refuseNext(workshopId, 1)

@@ -82,6 +82,7 @@ const REQUEST_TIMEOUT_MS = 15_000
 
 interface Instance { name: 'A' | 'B'; url: string; proc: ChildProcess | null; up: boolean; inflight: number; output: string[] }
 
+interface Delivered { to: string; subject: string; text: string; messageId: string | null }
 interface Answer { status: number; data: any; replayed: boolean; ms: number }
 
 class Shop {
@@ -303,13 +304,13 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     target = await ownSeededCluster(base, 'soak')
     const tgt = target
     fake = await startSmtpFake(0)
-    const delivered: { to: string; subject: string; text: string }[] = []
+    const delivered: Delivered[] = []
     let seenMail = 0
     const mailWatch = setInterval(() => {
       // the fake keeps its latest 500: copy each new message out before it can roll off
       for (const m of fake!.messages) {
         if (m.id > seenMail) {
-          delivered.push({ to: m.to.join(','), subject: m.subject, text: m.text.replace(/\r\n/g, '\n').trim() })
+          delivered.push({ to: m.to.join(','), subject: m.subject, text: m.text.replace(/\r\n/g, '\n').trim(), messageId: m.messageId })
           seenMail = m.id
         }
       }
@@ -318,6 +319,8 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     shop = new Shop({
       DATABASE_URL: tgt.url, NUXT_SESSION_PASSWORD: randomBytes(24).toString('hex'), PHOTO_STORAGE_DIR: photoDir,
       MAIL_FAKE: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(fake.port), MAIL_WORKER_INTERVAL_MS: '300', MAIL_RETRY_BASE_SECONDS: '1',
+      // a killed instance's claims run out within the run, so its mail is sent before the end
+      MAIL_CLAIM_SECONDS: '15',
       OVERDUE_CHECK_INTERVAL_MS: '5000',
     }, deadline)
     await shop.start('A')
@@ -797,7 +800,7 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
 // ── the invariants, from the database and the tablets' records ──
 
 async function checkInvariants(
-  k: Knex, s: Setup, tablets: CasterTablet[], others: TabletAction[], delivered: { to: string; subject: string; text: string }[],
+  k: Knex, s: Setup, tablets: CasterTablet[], others: TabletAction[], delivered: Delivered[],
   shop: Shop, mem: { warmKb: number; endKb: number }, finished: boolean,
 ): Promise<Invariant[]> {
   const out: Invariant[] = []
@@ -865,15 +868,25 @@ async function checkInvariants(
   }
   inv('the register holds every step in order with the right person', bad4, `${events.length} floor entries on ${byPour.size} pours`)
 
-  // 5. each mail went out once per its key
-  const rows = await k('mail_outbox').select('to_email', 'subject', 'text', 'status', 'dedupe_key')
+  // 5. each mail went out once per its key. Sending is at least once (claim, commit, send, mark:
+  // an instance killed between the relay's acceptance and the mark sends that mail again once its
+  // claim runs out), so a mail is one message per Message-ID: every copy of a resend carries the
+  // outbox row's own Message-ID and a mail store shows them as one (RFC 5322 §3.6.4).
+  const rows = await k('mail_outbox').select('to_email', 'subject', 'text', 'status', 'dedupe_key', 'message_token')
   const bad5 = rows.filter(m => m.status !== 'sent').map(m => `${m.dedupe_key ?? m.subject}: ${m.status}`)
-  const sentBy = count(rows.filter(m => m.status === 'sent').map(m => ({ key: `${m.to_email}|${m.subject}|${String(m.text).replace(/\r\n/g, '\n').trim()}` })))
-  const gotBy = count(delivered.map(m => ({ key: `${m.to}|${m.subject}|${m.text}` })))
-  for (const key of new Set([...sentBy.keys(), ...gotBy.keys()])) if (sentBy.get(key) !== gotBy.get(key)) bad5.push(`${key.split('|').slice(0, 2).join(' ')}: ${sentBy.get(key) ?? 0} in the outbox, ${gotBy.get(key) ?? 0} delivered`)
+  const tokenOf = (messageId: string | null) => messageId?.match(/^<([^@>]+)@/)?.[1] ?? '(none)'
+  const byToken = new Map(rows.map(m => [String(m.message_token), m]))
+  const copies = count(delivered.map(m => ({ key: tokenOf(m.messageId) })))
+  for (const m of rows) if (m.status === 'sent' && !copies.has(String(m.message_token))) bad5.push(`${m.to_email} ${m.subject}: in the outbox as sent, never delivered`)
+  for (const m of delivered) {
+    const row = byToken.get(tokenOf(m.messageId))
+    if (!row) bad5.push(`${m.to} ${m.subject}: delivered with Message-ID ${m.messageId ?? 'none'}, no such mail in the outbox`)
+    else if (row.to_email !== m.to || row.subject !== m.subject || String(row.text).replace(/\r\n/g, '\n').trim() !== m.text) bad5.push(`${m.messageId}: delivered text differs from the outbox`)
+  }
+  const resent = [...copies.values()].filter(n => n > 1).length
   const keys = count(rows.filter(m => m.dedupe_key).map(m => ({ key: m.dedupe_key as string })))
   for (const [key, n] of keys) if (n > 1) bad5.push(`${key} queued ${n} times`)
-  inv('each mail went out once per its key', bad5, `${rows.length} mails, ${delivered.length} delivered`)
+  inv('each mail went out once per its key', bad5, `${rows.length} mails, ${copies.size} Message-IDs delivered${resent ? `, ${resent} sent again after a kill with the same Message-ID` : ''}`)
 
   // 6. each tablet's view after reconnecting equals the database
   const bad6: string[] = []

@@ -9,6 +9,7 @@ import {
   lotToOpen,
   mixesOverlap,
   mouldLifeFlag,
+  pourBreakWarning,
   pourDwellWarning,
   pourOverdue,
   pourWarnings,
@@ -120,7 +121,9 @@ describe('days and clocks in the workshop zone', () => {
   it('local day and clock, across the zone', () => {
     expect(boardLocalDay(new Date('2027-07-01T23:30:00Z'), 'Europe/London')).toBe('2027-07-02') // BST
     expect(boardLocalDay(new Date('2027-01-01T23:30:00Z'), 'Europe/London')).toBe('2027-01-01')
-    expect(boardClock(new Date('2027-07-01T08:05:00Z'), 'Europe/London')).toBe('2027-07-01 09:05')
+    // the house day-and-time style (workshop-format.ts), 24-hour clock in both locales
+    expect(boardClock(new Date('2027-07-01T08:05:00Z'), 'Europe/London')).toBe('Thu 1 Jul 2027 09:05')
+    expect(boardClock(new Date('2027-07-01T18:05:00Z'), 'America/New_York', 'en-US')).toBe('Thu, Jul 1, 2027 14:05')
   })
   it('a day starts at local midnight', () => {
     expect(boardDayStart('2027-07-01', 'Europe/London').toISOString()).toBe('2027-06-30T23:00:00.000Z')
@@ -152,5 +155,27 @@ describe('pourDwellWarning', () => {
     const fri = new Date('2027-03-05T15:40:00Z')
     const w = pourDwellWarning(calendar, { mixAt: fri, demouldOpenAt: new Date('2027-03-05T16:10:00Z'), demouldCloseAt: new Date('2027-03-06T07:30:00Z') })
     expect(w).toContain('cannot hold')
+  })
+})
+
+describe('a pour placed by hand with its mix in a break', () => {
+  // an invented shop: 07:30–16:00 Monday to Friday, tea 10:00–10:20, lunch 12:30–13:00, London
+  const cal = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5], breaks: [{ start: '10:00', end: '10:20' }, { start: '12:30', end: '13:00' }] }
+  it('warns when the gauging touches a break, naming the break and the clear times', () => {
+    // Wed 3 Mar 2027, GMT: 10:10 local is inside the tea break
+    expect(pourBreakWarning(cal, new Date('2027-03-03T10:10:00Z'), cal.timezone, 5))
+      .toBe('The mix at 10:10 runs into the 10:00–10:20 break: mix at 10:20 or before 09:55 instead.')
+    // 12:27 + 5 minutes of gauging runs into lunch at 12:30
+    expect(pourBreakWarning(cal, new Date('2027-03-03T12:27:00Z'), cal.timezone, 5)).toMatch(/^The mix at 12:27 runs into the 12:30–13:00 break/)
+  })
+  it('is quiet when the gauging ends as the break starts or starts as it ends, and without breaks', () => {
+    expect(pourBreakWarning(cal, new Date('2027-03-03T09:55:00Z'), cal.timezone, 5)).toBeNull()
+    expect(pourBreakWarning(cal, new Date('2027-03-03T10:20:00Z'), cal.timezone, 5)).toBeNull()
+    expect(pourBreakWarning({ ...cal, breaks: [] }, new Date('2027-03-03T10:10:00Z'), cal.timezone, 5)).toBeNull()
+  })
+  it('follows the local clock across the change to summer time', () => {
+    // Wed 31 Mar 2027 is BST (UTC+1): 10:10 local is 09:10Z
+    expect(pourBreakWarning(cal, new Date('2027-03-31T09:10:00Z'), cal.timezone, 5)).toMatch(/^The mix at 10:10 runs into the 10:00–10:20 break/)
+    expect(pourBreakWarning(cal, new Date('2027-03-31T10:10:00Z'), cal.timezone, 5)).toBeNull()
   })
 })
