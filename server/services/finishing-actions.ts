@@ -42,9 +42,9 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
   const room = await dryingRoom(c.trx, ws, c.at)
   const airTempC = input.dryingTempC ?? room.tempC
   const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
-  const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
+  const { cavityLitres, thicknessMm } = await piecesRepo.dryingSection(c.trx, c.actor.workshopId, c.row.pour_id)
   const est = finishingDryBy({
-    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct,
+    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct, thicknessMm,
   })
   const hours = Number.isFinite(est.hours) ? est.hours : null
   await write(c, 'fettled', { dry_by: est.dryBy, drying_temp_c: airTempC, drying_humidity_pct: relHumidityPct, reason: null },

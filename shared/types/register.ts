@@ -7,10 +7,13 @@ export type RegisterRow = {
   pourId: number
   state: string
   isSample: boolean
+  /** every piece's mark, space-separated, in cavity order */
   mark: string | null
   pieceState: string | null
   item: string
   mould: string
+  /** pieces the pour makes (its mould's cavities) */
+  cavities: number
   grade: string
   lot: string | null
   consistency: number
