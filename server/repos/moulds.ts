@@ -116,6 +116,12 @@ export const mouldsRepo = {
     const rows: { id: number; code: string; cast_length_m: number | null }[] = await db('moulds').select('id', 'code', 'cast_length_m').where({ workshop_id: workshopId })
     return new Map(rows.map(r => [r.code, { id: Number(r.id), cast_length_m: r.cast_length_m === null ? null : Number(r.cast_length_m) }]))
   },
+  /** Pieces one pour makes, per mould id. */
+  async cavities(db: Knex, workshopId: number, ids: number[]): Promise<Map<number, number>> {
+    if (!ids.length) return new Map()
+    const rows: { id: number; cavities: number }[] = await db('moulds').select('id', 'cavities').where({ workshop_id: workshopId }).whereIn('id', ids)
+    return new Map(rows.map(r => [Number(r.id), Number(r.cavities)]))
+  },
   /** Many moulds at once (CSV import, inside its transaction), with their state; in batches of 500 rows. */
   async insertMany(db: Knex, workshopId: number, actorId: number, rows: (MouldInput & { state: string; stateReason: string | null })[]) {
     const cols = rows.map(({ state, stateReason, ...input }) => ({

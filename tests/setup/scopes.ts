@@ -27,6 +27,7 @@ export const KINDS = {
   quote: 'quotes', sentQuote: 'quotes', newQuote: 'quotes', newSentQuote: 'quotes',
   depositJob: 'jobs', payment: 'payments', newPayment: 'payments',
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
+  consumable: 'consumables',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -148,6 +149,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     // asks a deposit, so ada has something to pay by card
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job),
     clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own),
+    consumable: await insert('consumables', { workshop_id: ws, name: `Scrim ${tags.own}`, unit: 'm2' }),
   }
 
   // otherClient: a job of Quayside Interiors (ravi, client2) in the demo workshop
@@ -188,6 +190,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     quote: await quoteRow(ow, tags.other, 'draft'), sentQuote: await quoteRow(ow, tags.other, 'sent'),
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0,
     clientOrg: 0, contact: 0, site: 0,
+    consumable: await insert('consumables', { workshop_id: ow, name: `Scrim ${tags.other}`, unit: 'm2' }),
   }
   otherRows.clientOrg = await orgRow(ow, tags.other)
   otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)
