@@ -5,7 +5,7 @@
 // server maps no pour row. Where a pour stands (missed start, overdue demould…) is worked out
 // when the row is expanded (shared/utils/board-lean.ts), against `now`, the server's clock. Measured by tests/bench/board.ts beside the raw SQL.
 import type { BoardData, BoardPourRow } from '#shared/types/board'
-import { COUNTED_POUR } from '../repos/planning'
+import { COUNTED_PIECES } from '../repos/planning'
 import { DEPOSIT_RELEASED } from '../repos/payments'
 import { workshopLocale } from '#shared/utils/workshop-format'
 
@@ -46,7 +46,7 @@ SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.worki
      FROM shop_days s WHERE s.workshop_id = w.id AND s.day BETWEEN :from::date AND :to::date) AS shop_days,
   (SELECT coalesce(json_agg(json_build_object('id', i.id, 'job_id', j.id, 'job_code', j.code, 'description', i.description,
        'mould_id', i.mould_id, 'pieces_needed', i.pieces_needed,
-       'pieces_planned', (SELECT count(*) FROM pours p WHERE p.workshop_id = w.id AND p.job_item_id = i.id AND ${COUNTED_POUR}),
+       'pieces_planned', ${COUNTED_PIECES},
        'released', NOT j.sample_required OR j.sample_state = 'approved', 'deposit_waiting', NOT ${DEPOSIT_RELEASED('j')}) ORDER BY j.due_on NULLS LAST, j.code, i.sort_order, i.id), '[]')
      FROM job_items i JOIN jobs j ON j.id = i.job_id AND j.workshop_id = w.id
      WHERE i.workshop_id = w.id AND j.state = 'open') AS job_items,

@@ -1,4 +1,5 @@
 // The finisher's queue screen's read (GET /api/finishing) and the piece card every finishing answer carries.
+import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import type { FinishingDryingRoom, FinishingPieceDto, FinishingQueue } from '#shared/types/finishing'
@@ -35,7 +36,7 @@ export function pieceDto(r: PieceViewRow): FinishingPieceDto {
     state: r.state,
     job: r.job_id ? { id: Number(r.job_id), code: r.job_code!, title: r.job_title!, dueOn: r.job_due_on } : null,
     item: r.item_id ? { id: Number(r.item_id), description: r.item_description! } : null,
-    mould: { code: r.mould_code, casts: r.mould_casts, cavityLitres: Number(r.cavity_litres) },
+    mould: { code: r.mould_code, casts: r.mould_casts, cavityLitres: Number(r.cavity_litres), thicknessMm: dryingThicknessMm(mouldCastFromRow(r)) },
     dryMassKg,
     wetMassKg,
     handlingKg,

@@ -6,6 +6,8 @@ import { poursRepo, daySheetRepo, type PourDtoRow, type PourStepRow } from '../r
 import { BURN_CAUTION } from '#shared/utils/plaster'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import type { FloorCardDto, FloorCaution } from '#shared/types/floor'
+import type { CastType } from '#shared/utils/plaster-fibrous'
+import { markRange } from '#shared/utils/piece-marks'
 import type { PourDto } from '#shared/types/board'
 import { pourDto } from '../services/pours'
 import { loadWorkshop } from '../services/workshop'
@@ -19,10 +21,12 @@ export interface FloorActualsRow extends PourActuals {
   result: 'sound' | 'defect' | null
   defect: string | null
   lot_code: string | null
-  piece_mark: string | null
+  piece_marks: string[]
   piece_id: number | null
   cavity_litres: number
   mould_state: string
+  cavities: number
+  cast_type: CastType
 }
 
 /** The floor's extra facts about pours: actuals, lot, piece, the mould's cavity and state; and the casts left overnight. */
@@ -37,10 +41,15 @@ const floorFacts = {
   /** The floor's extra facts for the given pours: actuals, lot, piece, the mould's cavity and state. */
   actuals(db: Knex, workshopId: number, ids: number[]): Promise<FloorActualsRow[]> {
     return db('pours as p').join('moulds as m', 'm.id', 'p.mould_id').leftJoin('plaster_lots as l', 'l.id', 'p.lot_id')
-      .leftJoin('pieces as pc', 'pc.pour_id', 'p.id')
+      // the first piece (cavity 1) for photos; every piece's mark, in cavity order, for the label
+      .leftJoin('pieces as pc', function () {
+        this.on('pc.pour_id', 'p.id').andOn('pc.workshop_id', 'p.workshop_id').andOnVal('pc.cavity', 1)
+      })
       .select('p.id', 'p.mixing_at', 'p.poured_at', 'p.demoulded_at', 'p.backdated', 'p.plaster_kg_actual', 'p.water_kg_actual',
         'p.water_temp_c', 'p.powder_temp_c', 'p.shop_temp_c', 'p.slurry_temp_c', 'p.result', 'p.defect', 'l.lot_code',
-        'pc.mark as piece_mark', 'pc.id as piece_id', 'm.cavity_litres', 'm.state as mould_state')
+        'pc.id as piece_id', 'm.cavity_litres', 'm.state as mould_state', 'm.cavities', 'm.cast_type')
+      .select(db.raw(`(SELECT coalesce(array_agg(x.mark ORDER BY x.cavity), '{}') FROM pieces x
+        WHERE x.pour_id = p.id AND x.workshop_id = p.workshop_id) AS piece_marks`))
       .where({ 'p.workshop_id': workshopId }).whereIn('p.id', ids)
   },
 }
@@ -52,7 +61,8 @@ function actualOf(a: FloorActualsRow): FloorCardDto['actual'] {
   return {
     mixingAt: iso(a.mixing_at), pouredAt: iso(a.poured_at), demouldedAt: iso(a.demoulded_at), backdated: a.backdated,
     plasterKg: num(a.plaster_kg_actual), waterKg: num(a.water_kg_actual), waterTempC: num(a.water_temp_c), powderTempC: num(a.powder_temp_c),
-    shopTempC: num(a.shop_temp_c), slurryTempC: num(a.slurry_temp_c), result: a.result, defect: a.defect, lotCode: a.lot_code, pieceMark: a.piece_mark,
+    shopTempC: num(a.shop_temp_c), slurryTempC: num(a.slurry_temp_c), result: a.result, defect: a.defect, lotCode: a.lot_code,
+    pieceMark: a.piece_marks.length ? markRange(a.piece_marks) : null, pieceMarks: a.piece_marks,
     pieceId: a.piece_id === null ? null : Number(a.piece_id),
   }
 }
@@ -104,7 +114,7 @@ async function cardsOf(db: Knex, workshopId: number, rows: PourDtoRow[]): Promis
     const pour = pourDto(r)
     return {
       pour,
-      mould: { code: r.mould_code, casts: r.casts, cavityLitres: Number(a.cavity_litres), state: a.mould_state },
+      mould: { code: r.mould_code, casts: r.casts, cavityLitres: Number(a.cavity_litres), state: a.mould_state, cavities: Number(a.cavities), castType: a.cast_type },
       bench: r.bench_id ? { id: Number(r.bench_id), name: r.bench_name! } : null,
       actual: actualOf(a),
       lots: floorLots(lots.filter(l => Number(l.grade_id) === Number(r.grade_id)), Number(r.lot_id), today),

@@ -1,5 +1,5 @@
-// The register screen's read, the casting register of a job: one row per pour with its piece (a pour makes at most one
-// piece), everything that traces the piece back to how it was cast. Times are formatted by
+// The register screen's read, the casting register of a job: one row per pour with its pieces (one per cavity
+// of its mould: every mark, in cavity order), everything that traces the pieces back to how they were cast. Times are formatted by
 // PostgreSQL in the workshop's timezone, so a 100,000-row export does no per-row date work in JS.
 import type { Knex } from 'knex'
 import type { RegisterFilter } from '#shared/utils/register-schemas'
@@ -13,14 +13,15 @@ const STALL_SECONDS = 120
 const local = (col: string, as: string) => `to_char(${col} AT TIME ZONE w.timezone, 'YYYY-MM-DD HH24:MI') AS ${as}`
 
 const REGISTER_SELECT = [
-  'p.id AS "pourId"', 'p.state', 'p.is_sample AS "isSample"', 'pc.mark', 'pc.id::int AS "pieceId"', 'pc.state AS "pieceState"', 'i.description AS item',
-  'm.code AS mould', 'g.name AS grade', 'l.lot_code AS lot', 'p.consistency', 'p.plaster_kg_actual AS "plasterKgActual"', 'p.water_kg_actual AS "waterKgActual"',
+  'p.id AS "pourId"', 'p.state', 'p.is_sample AS "isSample"',
+  `(SELECT string_agg(x.mark, ' ' ORDER BY x.cavity) FROM pieces x WHERE x.pour_id = p.id AND x.workshop_id = p.workshop_id) AS mark`,
+  'pc.id::int AS "pieceId"', 'pc.state AS "pieceState"', 'i.description AS item', 'm.code AS mould', 'm.cavities', 'g.name AS grade', 'l.lot_code AS lot', 'p.consistency', 'p.plaster_kg_actual AS "plasterKgActual"', 'p.water_kg_actual AS "waterKgActual"',
   'p.water_temp_c AS "waterTempC"', 'p.powder_temp_c AS "powderTempC"', 'p.shop_temp_c AS "shopTempC"', 'p.slurry_temp_c AS "slurryTempC"',
   local('p.mix_at', '"mixPlanned"'), local('p.mixing_at', '"mixingAt"'), local('p.poured_at', '"pouredAt"'),
   local('p.demould_open_at', '"demouldOpen"'), local('p.demould_close_at', '"demouldClose"'), local('p.demoulded_at', '"demouldedAt"'),
   'u.name AS caster', 'p.result', 'p.defect', 'p.backdated',
   `(SELECT count(*)::int FROM photos ph WHERE ph.workshop_id = p.workshop_id AND ph.job_id = i.job_id
-     AND (ph.pour_id = p.id OR (pc.id IS NOT NULL AND ph.piece_id = pc.id))) AS photos`,
+     AND (ph.pour_id = p.id OR ph.piece_id IN (SELECT x.id FROM pieces x WHERE x.pour_id = p.id AND x.workshop_id = p.workshop_id))) AS photos`,
 ]
 
 /** The job's pours joined to everything the register shows, filtered; no select, no order. */
@@ -42,8 +43,9 @@ function base(db: Knex, workshopId: number, jobId: number, f: RegisterFilter) {
     .leftJoin('users as u', function () {
       this.on('u.id', 'p.caster_id').andOn('u.workshop_id', 'p.workshop_id')
     })
+    // the first piece's state (cavity 1): one row per pour however many pieces it made
     .leftJoin('pieces as pc', function () {
-      this.on('pc.pour_id', 'p.id').andOn('pc.workshop_id', 'p.workshop_id')
+      this.on('pc.pour_id', 'p.id').andOn('pc.workshop_id', 'p.workshop_id').andOnVal('pc.cavity', 1)
     })
     .where({ 'p.workshop_id': workshopId, 'i.job_id': jobId })
   // the day a pour belongs to is the local day it was mixed (planned mix time until mixed)

@@ -4,7 +4,7 @@ import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
 export const MOULD_COLUMNS = ['id', 'bench_id', 'code', 'casts', 'material', 'cavity_litres', 'cast_length_m', 'prep_minutes',
   'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls', 'state', 'state_changed_by', 'state_changed_at',
-  'state_reason', 'version', 'profile_id'] as const
+  'state_reason', 'version', 'profile_id', 'cavities', 'cast_type', 'surface_area_m2', 'shell_thickness_mm'] as const
 
 /** A moulds row as MOULD_COLUMNS read it (NUMERIC as a number: server/utils/db.ts). */
 export interface MouldRow {
@@ -26,6 +26,10 @@ export interface MouldRow {
   state_reason: string | null
   version: number
   profile_id: number | null
+  cavities: number
+  cast_type: 'solid' | 'fibrous'
+  surface_area_m2: number | null
+  shell_thickness_mm: number | null
 }
 /** A mould with its bench's name, its profile's name and the name of who last changed its state. */
 export type MouldListRow = MouldRow & { bench_name: string | null; state_changed_by_name: string | null; profile_name: string | null }
@@ -66,12 +70,17 @@ export interface MouldInput {
   pulls?: number
   expectedPulls?: number | null
   profileId?: number | null
+  cavities?: number
+  castType?: 'solid' | 'fibrous'
+  surfaceAreaM2?: number | null
+  shellThicknessMm?: number | null
 }
 
 function toColumns(i: MouldInput) {
   const map: [keyof MouldInput, string][] = [['code', 'code'], ['casts', 'casts'], ['material', 'material'], ['benchId', 'bench_id'],
     ['cavityLitres', 'cavity_litres'], ['castLengthM', 'cast_length_m'], ['prepMinutes', 'prep_minutes'], ['cleanMinutes', 'clean_minutes'],
-    ['maxDwellMinutes', 'max_dwell_minutes'], ['pulls', 'pulls'], ['expectedPulls', 'expected_pulls'], ['profileId', 'profile_id']]
+    ['maxDwellMinutes', 'max_dwell_minutes'], ['pulls', 'pulls'], ['expectedPulls', 'expected_pulls'], ['profileId', 'profile_id'],
+    ['cavities', 'cavities'], ['castType', 'cast_type'], ['surfaceAreaM2', 'surface_area_m2'], ['shellThicknessMm', 'shell_thickness_mm']]
   return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
 }
 
@@ -106,6 +115,12 @@ export const mouldsRepo = {
   async byCode(db: Knex, workshopId: number): Promise<Map<string, { id: number; cast_length_m: number | null }>> {
     const rows: { id: number; code: string; cast_length_m: number | null }[] = await db('moulds').select('id', 'code', 'cast_length_m').where({ workshop_id: workshopId })
     return new Map(rows.map(r => [r.code, { id: Number(r.id), cast_length_m: r.cast_length_m === null ? null : Number(r.cast_length_m) }]))
+  },
+  /** Pieces one pour makes, per mould id. */
+  async cavities(db: Knex, workshopId: number, ids: number[]): Promise<Map<number, number>> {
+    if (!ids.length) return new Map()
+    const rows: { id: number; cavities: number }[] = await db('moulds').select('id', 'cavities').where({ workshop_id: workshopId }).whereIn('id', ids)
+    return new Map(rows.map(r => [Number(r.id), Number(r.cavities)]))
   },
   /** Many moulds at once (CSV import, inside its transaction), with their state; in batches of 500 rows. */
   async insertMany(db: Knex, workshopId: number, actorId: number, rows: (MouldInput & { state: string; stateReason: string | null })[]) {
@@ -163,7 +178,8 @@ export const mouldsRepo = {
       this.on('b.id', 'm.bench_id').andOn('b.workshop_id', 'm.workshop_id')
     }).where('m.workshop_id', workshopId)
       .select('m.code', 'm.casts', 'm.material', 'b.name as bench', 'm.cavity_litres', 'm.cast_length_m', 'm.prep_minutes',
-        'm.clean_minutes', 'm.max_dwell_minutes', 'm.pulls', 'm.expected_pulls', 'm.state', 'm.state_reason')
+        'm.clean_minutes', 'm.max_dwell_minutes', 'm.pulls', 'm.expected_pulls', 'm.state', 'm.state_reason',
+        'm.cavities', 'm.cast_type', 'm.surface_area_m2', 'm.shell_thickness_mm')
       .orderBy('m.code')
   },
 }
@@ -171,7 +187,8 @@ export const mouldsRepo = {
 /** The floor's writes to a mould: its row locked for a pour's step, its state and pull count. */
 export const mouldFloorRepo = {
   forStep(db: Knex, workshopId: number, id: number) {
-    return db('moulds').first('id', 'code', 'state', 'pulls', 'cavity_litres', 'max_dwell_minutes', 'prep_minutes', 'clean_minutes', 'version')
+    return db('moulds').first('id', 'code', 'state', 'pulls', 'cavity_litres', 'max_dwell_minutes', 'prep_minutes', 'clean_minutes', 'version',
+      'cavities', 'cast_type', 'surface_area_m2', 'shell_thickness_mm')
       .where({ workshop_id: workshopId, id }).forUpdate()
   },
   /** Moves the mould's state (and optionally counts a pull), bumping its version. */

@@ -1,6 +1,7 @@
 // Every knex call for pieces and piece_weighings: the finisher's steps, the queue's reads with
 // job, item, mould and the last weighing, and the job-ready count. Workshop in every WHERE.
 import type { Knex } from 'knex'
+import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
 import type { FinishingPieceState } from '#shared/utils/finishing-schemas'
 
 export interface PieceRow {
@@ -36,6 +37,8 @@ export interface PieceViewRow {
   mould_code: string
   mould_casts: string
   cavity_litres: number
+  cast_type: string
+  shell_thickness_mm: number | null
   item_id: number | null
   item_description: string | null
   job_id: number | null
@@ -84,7 +87,7 @@ const LAST_TIMER = `LEFT JOIN LATERAL (
     ORDER BY e.at DESC, e.id DESC LIMIT 1) lt ON true`
 
 const VIEW_SQL = `SELECT c.id, c.version, c.mark, c.state, c.dry_mass_kg, c.wet_mass_kg, c.dry_by, c.drying_temp_c, c.drying_humidity_pct,
-    c.reason, c.dispatch_id, c.created_at, p.demoulded_at, m.code AS mould_code, m.casts AS mould_casts, m.cavity_litres,
+    c.reason, c.dispatch_id, c.created_at, p.demoulded_at, m.code AS mould_code, m.casts AS mould_casts, m.cavity_litres, m.cast_type, m.shell_thickness_mm,
     i.id AS item_id, i.description AS item_description, j.id AS job_id, j.code AS job_code, j.title AS job_title,
     to_char(j.due_on, 'YYYY-MM-DD') AS job_due_on, lw.weighed_kg, lw.weighed_at, sw.spell_weighings,
     p.plaster_kg_planned, p.plaster_kg_actual, lt.timer_type, lt.timer_at, lt.timer_by, lt.timer_by_name
@@ -132,9 +135,9 @@ export const piecesRepo = {
     return Number(r?.n ?? 0) + 1
   },
   /** A new piece from a demoulded pour. */
-  async insert(db: Knex, workshopId: number, p: { pourId: number; jobItemId: number | null; mark: string; dryMassKg: number; wetMassKg: number; state: FinishingPieceState }) {
+  async insert(db: Knex, workshopId: number, p: { pourId: number; jobItemId: number | null; mark: string; cavity?: number; dryMassKg: number; wetMassKg: number; state: FinishingPieceState }) {
     const [row] = await db('pieces').insert({
-      workshop_id: workshopId, pour_id: p.pourId, job_item_id: p.jobItemId, mark: p.mark, state: p.state,
+      workshop_id: workshopId, pour_id: p.pourId, job_item_id: p.jobItemId, mark: p.mark, cavity: p.cavity ?? 1, state: p.state,
       dry_mass_kg: p.dryMassKg, wet_mass_kg: p.wetMassKg,
     }).returning(['id', 'mark', 'state', 'dry_mass_kg', 'wet_mass_kg', 'version'])
     return { id: Number(row.id), mark: row.mark as string, state: row.state as FinishingPieceState, dryMassKg: Number(row.dry_mass_kg), wetMassKg: Number(row.wet_mass_kg), version: row.version as number }
@@ -195,6 +198,13 @@ export const piecesRepo = {
       this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
     }).first('m.cavity_litres').where({ 'p.workshop_id': workshopId, 'p.id': pourId })
     return Number(row.cavity_litres)
+  },
+  /** The section a piece dries through: its mould's cavity (or fibrous shell) litres and thickness (plaster-fibrous.ts). */
+  async dryingSection(db: Knex, workshopId: number, pourId: number): Promise<{ cavityLitres: number; thicknessMm: number }> {
+    const row = await db('pours as p').join('moulds as m', function () {
+      this.on('m.id', 'p.mould_id').andOn('m.workshop_id', 'p.workshop_id')
+    }).first('m.cavity_litres', 'm.cast_type', 'm.shell_thickness_mm').where({ 'p.workshop_id': workshopId, 'p.id': pourId })
+    return { cavityLitres: Number(row.cavity_litres), thicknessMm: dryingThicknessMm(mouldCastFromRow(row)) }
   },
   async jobIdOfItem(db: Knex, workshopId: number, itemId: number | null): Promise<number | null> {
     if (!itemId) return null

@@ -242,7 +242,8 @@ export const poursRepo = {
 /** The facts a pour's rules read about the things it names, each in the caller's workshop. */
 export const pourFactsRepo = {
   mould(db: Knex, workshopId: number, id: number) {
-    return db('moulds').first('id', 'code', 'state', 'cavity_litres', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls')
+    return db('moulds').first('id', 'code', 'state', 'cavity_litres', 'prep_minutes', 'clean_minutes', 'max_dwell_minutes', 'pulls', 'expected_pulls',
+      'cavities', 'cast_type', 'surface_area_m2', 'shell_thickness_mm')
       .where({ workshop_id: workshopId, id })
   },
   item(db: Knex, workshopId: number, id: number) {

@@ -4,7 +4,7 @@
 // its place), so the counts never pass what was ordered because of a bad cast, and the client
 // is not shown that anything was rejected.
 import type { Knex } from 'knex'
-import { COUNTED_POUR } from './planning'
+import { COUNTED_PIECES, COUNTED_POUR } from './planning'
 
 /** Per item, the counts the client's page shows (shared/types/photos.ts ItemProgressDto). */
 export interface ItemProgressRow { id: number; description: string; pieces_needed: number; planned: number; cast: number; fettled: number; dry: number; dispatched: number }
@@ -17,7 +17,7 @@ export const progressRepo = {
     const inList = (states: string[]) => states.map(() => '?').join(', ')
     return db('job_items as i').where({ 'i.workshop_id': workshopId, 'i.job_id': jobId })
       .select('i.id', 'i.description', 'i.pieces_needed')
-      .select(db.raw(`(SELECT count(*)::int FROM pours p WHERE p.job_item_id = i.id AND p.workshop_id = i.workshop_id AND ${COUNTED_POUR}) AS planned`))
+      .select(db.raw(`${COUNTED_PIECES} AS planned`))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state <> 'rejected') AS cast`))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(FETTLED)})) AS fettled`, FETTLED))
       .select(db.raw(`(SELECT count(*)::int FROM pieces c WHERE c.job_item_id = i.id AND c.workshop_id = i.workshop_id AND c.state IN (${inList(DRY)})) AS dry`, DRY))
@@ -39,13 +39,15 @@ export const progressRepo = {
       .join('plaster_grades as g', function () {
         this.on('g.id', 'p.grade_id').andOn('g.workshop_id', 'p.workshop_id')
       })
+      // one row per piece once demoulded (a multi-cavity pour makes several), the rejected left out
       .leftJoin('pieces as c', function () {
         this.on('c.pour_id', 'p.id').andOn('c.workshop_id', 'p.workshop_id')
       })
       .where({ 'p.workshop_id': workshopId, 'i.job_id': jobId })
       .whereRaw(COUNTED_POUR)
+      .where(q => q.whereNull('c.id').orWhereNot('c.state', 'rejected'))
       .select('p.demould_open_at', 'p.demoulded_at', 'p.plaster_kg_planned', 'p.water_kg_planned', 'p.plaster_kg_actual', 'p.water_kg_actual',
-        'm.cavity_litres', 'c.state as piece_state', 'c.dry_by', 'c.wet_mass_kg', 'c.dry_mass_kg', 'g.form', 'g.powder_density',
+        'm.cavity_litres', 'm.cavities', 'm.cast_type', 'm.shell_thickness_mm', 'c.state as piece_state', 'c.dry_by', 'c.wet_mass_kg', 'c.dry_mass_kg', 'g.form', 'g.powder_density',
         'g.consistency_min', 'g.consistency_max', 'g.consistency_default', 'g.demould_minutes_ref', 'g.set_time_water_exponent',
         'g.temperature_factors', 'g.hydration_heat', 'g.set_expansion_pct', 'g.purity')
   },

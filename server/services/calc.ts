@@ -7,6 +7,7 @@ import { workshopsRepo } from '../repos/workshops'
 import type { PlasterGrade } from '#shared/utils/plaster-core'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import type { MixOptions } from '#shared/types/mix'
+import { mouldCastFromRow, pourLitres } from '#shared/utils/plaster-fibrous'
 
 export async function mixOptions(workshopId: number): Promise<MixOptions> {
   const db = useDb()
@@ -21,7 +22,10 @@ export async function mixOptions(workshopId: number): Promise<MixOptions> {
       calibration: gradeCalibrationFromRow(g),
     })),
     moulds: moulds.filter(m => m.state !== 'retired')
-      .map(m => ({ id: m.id, code: m.code, casts: m.casts, cavityLitres: m.cavity_litres, maxDwellMinutes: m.max_dwell_minutes, state: m.state })),
+      .map(m => ({
+        id: m.id, code: m.code, casts: m.casts, cavityLitres: pourLitres(mouldCastFromRow(m)), maxDwellMinutes: m.max_dwell_minutes, state: m.state,
+        cavities: m.cavities, castType: m.cast_type,
+      })),
   }
 }
 
@@ -32,9 +36,9 @@ export async function mixGrade(db: Knex, workshopId: number, id: number): Promis
   return plasterGradeFromRow(row)
 }
 
-/** The cavity and dwell of a mould a mix request names by id (422 when not the workshop's). */
+/** The slurry of one pour (every cavity, or the fibrous shell) and the dwell of a mould a mix request names by id (422 when not the workshop's). */
 export async function mixMould(db: Knex, workshopId: number, id: number): Promise<{ cavityLitres: number; maxDwellMinutes: number }> {
   const row = await mouldsRepo.byId(db, workshopId, id)
   if (!row) unprocessable([{ field: 'mouldId', message: 'is not a mould of this workshop' }])
-  return { cavityLitres: row.cavity_litres, maxDwellMinutes: row.max_dwell_minutes }
+  return { cavityLitres: pourLitres(mouldCastFromRow(row)), maxDwellMinutes: row.max_dwell_minutes }
 }

@@ -7,11 +7,13 @@ import { workshopsRepo } from '../repos/workshops'
 import { profilesRepo } from '../repos/profiles'
 import { mouldsRepo, type MouldEventRow, type MouldInput, type MouldListRow, type MouldPourRow } from '../repos/moulds'
 import { recordEvent } from '../repos/events'
+import { consumablesRepo, mouldConsumablesRepo, type MouldConsumableRow } from '../repos/consumables'
+import { shellLitres } from '#shared/utils/plaster-fibrous'
 import { benchesRepo, type BenchInput, type BenchRow } from '../repos/benches'
 import { gradeCalibrationRepo, gradesRepo, type GradeInput, type GradeRow } from '../repos/plaster-grades'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import { formatDay, workshopLocale } from '#shared/utils/workshop-format'
-import type { Bench, Grade, Lot, LotWithStock, Mould, MouldDetail, MouldEvent, MouldPour, Profile } from '#shared/types/catalogue'
+import type { Bench, Grade, Lot, LotWithStock, Mould, MouldConsumable, MouldDetail, MouldEvent, MouldPour, Profile } from '#shared/types/catalogue'
 
 /** A timestamp as the wire sends it (what JSON.stringify made of the Date before). */
 export const isoOrNull = (d: Date | null): string | null => (d ? d.toISOString() : null)
@@ -92,8 +94,15 @@ export async function saveLot(workshopId: number, target: { id: number; version:
   return toLot(target ? await lotsRepo.update(db, workshopId, target.id, target.version, input) : await lotsRepo.insert(db, workshopId, input))
 }
 
-export function toMould(r: MouldListRow): Mould {
+export const toMouldConsumable = (c: MouldConsumableRow): MouldConsumable => ({
+  consumableId: Number(c.consumable_id), name: c.name, unit: c.unit, quantityPerCast: Number(c.quantity_per_cast),
+  kgPerUnit: c.kg_per_unit === null ? null : Number(c.kg_per_unit),
+})
+
+export function toMould(r: MouldListRow, consumables: MouldConsumableRow[] = []): Mould {
   return {
+    cavities: r.cavities, castType: r.cast_type, surfaceAreaM2: r.surface_area_m2, shellThicknessMm: r.shell_thickness_mm,
+    consumables: consumables.map(toMouldConsumable),
     id: r.id, benchId: r.bench_id, benchName: r.bench_name, code: r.code, casts: r.casts, material: r.material,
     cavityLitres: r.cavity_litres, castLengthM: r.cast_length_m, prepMinutes: r.prep_minutes, cleanMinutes: r.clean_minutes,
     maxDwellMinutes: r.max_dwell_minutes, pulls: r.pulls, expectedPulls: r.expected_pulls, state: r.state,
@@ -113,14 +122,16 @@ function toMouldPour(r: MouldPourRow): MouldPour {
 const toMouldEvent = (r: MouldEventRow): MouldEvent => ({ id: r.id, type: r.type, at: r.at.toISOString(), actor: r.actor, data: r.data })
 
 export async function listMoulds(workshopId: number): Promise<Mould[]> {
-  return (await mouldsRepo.list(useDb(), workshopId)).map(toMould)
+  const db = useDb()
+  const [rows, lists] = await Promise.all([mouldsRepo.list(db, workshopId), mouldConsumablesRepo.list(db, workshopId)])
+  return rows.map(r => toMould(r, lists.filter(c => Number(c.mould_id) === Number(r.id))))
 }
 
 /** The mould as the list shows it, read again after a write (bench and changer names joined). */
 async function mouldById(db: Knex, workshopId: number, id: number): Promise<Mould> {
   const row = await mouldsRepo.byId(db, workshopId, id)
   if (!row) notFound('Mould')
-  return toMould(row)
+  return toMould(row, await mouldConsumablesRepo.list(db, workshopId, [id]))
 }
 
 export async function mouldDetail(workshopId: number, id: number): Promise<MouldDetail> {
@@ -130,18 +141,55 @@ export async function mouldDetail(workshopId: number, id: number): Promise<Mould
   return { ...mould, pours: pours.map(toMouldPour), events: events.map(toMouldEvent) }
 }
 
+/**
+ * The cast columns after an edit: a fibrous mould needs its face area and shell thickness, and
+ * its cavity column holds the shell's litres (area × thickness, plaster-fibrous.ts), so every
+ * reader of a mould's litres per piece (drying, the client's date, the item's plaster) gets the
+ * shell, not a solid cavity it never fills. A solid mould needs its cavity.
+ */
+function castColumns(input: MouldInput, before: MouldListRow | undefined): Partial<MouldInput> {
+  const castType = input.castType ?? before?.cast_type ?? 'solid'
+  const area = input.surfaceAreaM2 !== undefined ? input.surfaceAreaM2 : before?.surface_area_m2 ?? null
+  const mm = input.shellThicknessMm !== undefined ? input.shellThicknessMm : before?.shell_thickness_mm ?? null
+  if (castType === 'fibrous') {
+    const problems = [
+      ...(area === null ? [{ field: 'surfaceAreaM2', message: 'surfaceAreaM2 is required for a fibrous mould' }] : []),
+      ...(mm === null ? [{ field: 'shellThicknessMm', message: 'shellThicknessMm is required for a fibrous mould' }] : []),
+    ]
+    if (problems.length) unprocessable(problems)
+    return { cavityLitres: Math.round(shellLitres({ surfaceAreaM2: Number(area), shellThicknessMm: Number(mm) }) * 1000) / 1000 }
+  }
+  if (input.cavityLitres === undefined && !before) unprocessable([{ field: 'cavityLitres', message: 'cavityLitres is required' }])
+  return {}
+}
+
+/** Replaces a mould's consumables list; each must be one of the workshop's, named once. */
+async function replaceMouldConsumables(trx: Knex, workshopId: number, mouldId: number, lines: { consumableId: number; quantityPerCast: number }[]) {
+  const ids = lines.map(l => l.consumableId)
+  const dup = ids.findIndex((id, i) => ids.indexOf(id) !== i)
+  if (dup >= 0) unprocessable([{ field: `consumables[${dup}].consumableId`, message: 'consumableId is listed twice' }])
+  const own = await consumablesRepo.ownIds(trx, workshopId, ids)
+  const foreign = ids.findIndex(id => !own.has(id))
+  if (foreign >= 0) unprocessable([{ field: `consumables[${foreign}].consumableId`, message: 'consumableId is not a consumable of this workshop' }])
+  await mouldConsumablesRepo.replace(trx, workshopId, mouldId, lines)
+}
+
 /** A new mould, or an edit of one's details; the bench must be one of the workshop's. */
-export async function saveMould(actor: Actor, target: { id: number; version: number } | null, input: MouldInput & { profile?: string | null }): Promise<Mould> {
+export async function saveMould(actor: Actor, target: { id: number; version: number } | null, input: MouldInput & { profile?: string | null; consumables?: { consumableId: number; quantityPerCast: number }[] }): Promise<Mould> {
   return useDb().transaction(async (trx) => {
     if (input.benchId && !(await benchesRepo.byId(trx, actor.workshopId, input.benchId))) unprocessable([{ field: 'benchId', message: 'benchId is not a bench of this workshop' }])
     // the profile is named in words; a new name makes a new profile
-    const { profile, ...fields } = input
+    const { profile, consumables, ...fields } = input
     const columns: MouldInput = profile === undefined
       ? fields
       : { ...fields, profileId: profile === null ? null : await profilesRepo.ensure(trx, actor.workshopId, profile) }
+    const before = target ? await mouldsRepo.byId(trx, actor.workshopId, target.id) : undefined
+    if (target && !before) notFound('Mould')
+    Object.assign(columns, castColumns(columns, before))
     const row = target
       ? await mouldsRepo.update(trx, actor.workshopId, target.id, target.version, columns)
       : await mouldsRepo.insert(trx, actor.workshopId, actor.id, columns)
+    if (consumables) await replaceMouldConsumables(trx, actor.workshopId, row.id, consumables)
     return mouldById(trx, actor.workshopId, row.id)
   })
 }

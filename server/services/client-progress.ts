@@ -12,6 +12,7 @@ import { jobCompletion, type Completion } from '#shared/utils/client-completion'
 import type { ClientProgressDto } from '#shared/types/photos'
 import type { WorkshopLocale } from '#shared/utils/workshop-format'
 import { castFromBatch } from '#shared/utils/plaster'
+import { dryingThicknessMm, mouldCastFromRow, pieceMasses } from '#shared/utils/plaster-fibrous'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
 import { POUR_WASTE_PCT } from '#shared/utils/board-rules'
 
@@ -43,8 +44,13 @@ export async function clientProgress(actor: Actor, jobId: number): Promise<Clien
     // the drying room at the workshop's usual conditions: a plan days ahead has no shop day yet
     room: { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct) },
     casts: casts.map((c) => {
-      const mass = c.wet_mass_kg === null ? plannedCast(c) : { wetMassKg: Number(c.wet_mass_kg), dryMassKg: Number(c.dry_mass_kg) }
-      return { pieceState: c.piece_state, dryBy: c.dry_by, demouldedAt: c.demoulded_at, demouldOpenAt: c.demould_open_at, cavityLitres: Number(c.cavity_litres), ...mass }
+      // a pour not yet demoulded: each of its pieces is its share of the batch (one per cavity)
+      const mould = mouldCastFromRow(c)
+      const mass = c.wet_mass_kg === null ? pieceMasses({ cast: plannedCast(c), mould }) : { wetMassKg: Number(c.wet_mass_kg), dryMassKg: Number(c.dry_mass_kg) }
+      return {
+        pieceState: c.piece_state, dryBy: c.dry_by, demouldedAt: c.demoulded_at, demouldOpenAt: c.demould_open_at, cavityLitres: Number(c.cavity_litres),
+        thicknessMm: dryingThicknessMm(mould), ...mass,
+      }
     }),
   })
   return {

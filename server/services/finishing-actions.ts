@@ -51,10 +51,10 @@ async function fettled(c: StepContext, input: Extract<FinishingActionInput, { ki
   const room = await dryingRoom(c.trx, ws, c.at)
   const airTempC = input.dryingTempC ?? room.tempC
   const relHumidityPct = input.dryingHumidityPct ?? room.humidityPct
-  const cavityLitres = await piecesRepo.cavityLitres(c.trx, c.actor.workshopId, c.row.pour_id)
+  const { cavityLitres, thicknessMm } = await piecesRepo.dryingSection(c.trx, c.actor.workshopId, c.row.pour_id)
   const fallingRate = await shopFallingRate(c.trx, c.actor.workshopId)
   const est = finishingDryBy({
-    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct, fallingRateFactor: fallingRate.factor,
+    from: c.at, wetMassKg: Number(c.row.wet_mass_kg), dryMassKg: Number(c.row.dry_mass_kg), cavityLitres, airTempC, relHumidityPct, thicknessMm, fallingRateFactor: fallingRate.factor,
   })
   const hours = Number.isFinite(est.hours) ? est.hours : null
   const baseHours = hours === null ? null : hours / fallingRate.factor

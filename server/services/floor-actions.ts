@@ -12,6 +12,9 @@ import { recordEvent } from '../repos/events'
 import { gradeCalibrationRepo } from '../repos/plaster-grades'
 import { shopDaysRepo } from '../repos/shop-days'
 import { castFromBatch, slurryTemperature } from '#shared/utils/plaster'
+import { consumablesForPour, mouldCastFromRow, pieceMasses, piecesPerPour } from '#shared/utils/plaster-fibrous'
+import { jobPieceMarks, markRange, stockPieceMarks } from '#shared/utils/piece-marks'
+import { consumablesRepo, mouldConsumablesRepo } from '../repos/consumables'
 import { calibrationFromPours } from '#shared/utils/plaster-set'
 import { POUR_MIX_MINUTES_DEFAULT, pourSetMinutes, pourTiming } from '#shared/utils/pour-timing'
 import { demouldTiming } from '#shared/utils/pour-status'
@@ -24,7 +27,7 @@ import type { FloorActionResult } from '#shared/types/floor'
 const MINUTE_MS = 60_000
 
 type StepContext = Step<PourStepRow>
-type MadePiece = { id: number; mark: string } | null
+type MadePiece = { id: number; mark: string }[] | null
 
 async function gradeAndMould(c: StepContext) {
   const grade = await pourFactsRepo.grade(c.trx, c.actor.workshopId, c.row.grade_id)
@@ -90,24 +93,25 @@ async function poured(c: StepContext, input: Extract<FloorActionInput, { kind: '
     water_temp_c: waterTempC, slurry_temp_c: slurryTempC, demould_open_at: t.demouldOpenAt, demould_close_at: t.demouldCloseAt,
     predicted_demould_minutes: predicted,
   }, { plasterKg: input.plasterKg, waterKg: input.waterKg, consistency, shopTempC: input.shopTempC, waterTempC, slurryTempC, predictedMinutes: predicted, demouldOpenAt: t.demouldOpenAt, demouldCloseAt: t.demouldCloseAt })
+  // the mould's consumables (scrim, laths, …) leave the stock once the pour is in: per cast × cavities
+  const list = await mouldConsumablesRepo.list(c.trx, c.actor.workshopId, [mould.id])
+  const used = consumablesForPour(list.map(r => ({ consumableId: Number(r.consumable_id), name: r.name, unit: r.unit, quantityPerCast: Number(r.quantity_per_cast) })), mouldCastFromRow(mould))
+  await consumablesRepo.use(c.trx, c.actor.workshopId, { pourId: c.row.id, actorId: c.actor.id, at: c.at, lines: used.map(u => ({ consumableId: Number(u.consumableId), quantity: u.quantity })) })
   return null
 }
 
 /**
- * A piece's mark, one scheme: the job code as written, '#', the piece's number within the job
- * (J-2601#017); a piece cast for stock: the mould code, '#M' and the mould's pull (CR-101#M117).
- * Short, printable on a label, and unambiguous: codes cannot contain '#', and a stock piece's
- * number starts with M. Marks stored before this scheme keep their form.
+ * The marks of a pour's pieces, one per cavity, in the one scheme of shared/utils/piece-marks.ts.
+ * A lead may have reset a mould's pull count: the pour id keeps a stock mark unique then.
  */
-async function pieceMark(c: StepContext, mould: { code: string; pulls: number }) {
+async function pieceMarks(c: StepContext, mould: { code: string; pulls: number }, count: number): Promise<string[]> {
   const item = c.row.job_item_id ? await pourFactsRepo.item(c.trx, c.actor.workshopId, c.row.job_item_id) : undefined
   if (!item) {
-    const mark = `${mould.code}#M${String(mould.pulls + 1).padStart(3, '0')}`
-    // a lead may have reset a mould's pull count: the pour id keeps the mark unique then
-    return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, mark)) ? `${mark}-P${c.row.id}` : mark
+    const marks = stockPieceMarks(mould.code, mould.pulls + 1, count)
+    return (await piecesRepo.markTaken(c.trx, c.actor.workshopId, marks[0]!)) ? marks.map(m => `${m}-P${c.row.id}`) : marks
   }
   const next = await piecesRepo.nextInJob(c.trx, c.actor.workshopId, Number(item.job_id), item.job_code)
-  return `${item.job_code}#${String(next).padStart(3, '0')}`
+  return jobPieceMarks(item.job_code, next, count)
 }
 
 async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind: 'demoulded' }>) {
@@ -116,7 +120,16 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
   // the cast holds the batch less what stayed in the bowl and on the spill (the board's waste allowance)
   const keep = 1 + POUR_WASTE_PCT / 100
   const cast = castFromBatch({ plasterKg: Number(c.row.plaster_kg_actual) / keep, waterKg: Number(c.row.water_kg_actual) / keep, grade: gradeModel })
-  const mark = await pieceMark(c, mould)
+  // one piece per cavity, each its share of the cast plus the scrim and laths it carries
+  const mouldCast = mouldCastFromRow(mould)
+  const carried = mouldCast.castType === 'fibrous'
+    ? (await mouldConsumablesRepo.list(c.trx, c.actor.workshopId, [mould.id])).map(r => ({
+        consumableId: Number(r.consumable_id), name: r.name, unit: r.unit, quantityPerCast: Number(r.quantity_per_cast), kgPerUnit: r.kg_per_unit === null ? null : Number(r.kg_per_unit),
+      }))
+    : []
+  const masses = pieceMasses({ cast, mould: mouldCast, consumables: carried })
+  const marks = await pieceMarks(c, mould, piecesPerPour(mouldCast))
+  const mark = markRange(marks)
   // early: the caster was asked on the tablet and went on; early and late stay out of calibration
   const timing = demouldTiming({ demouldOpenAt: c.row.demould_open_at, demouldCloseAt: c.row.demould_close_at }, c.at)
   await write(c, 'pour.demoulded', {
@@ -124,18 +137,22 @@ async function demoulded(c: StepContext, input: Extract<FloorActionInput, { kind
     notes: input.notes ?? null, actual_demould_minutes: actualMinutes, demould_timing: timing,
   }, { result: input.result, defect: input.defect ?? null, notes: input.notes ?? null, actualMinutes, predictedMinutes: Number(c.row.predicted_demould_minutes), mark, timing })
   // a defect goes to the finisher as a repair to judge (repair or reject); a sound cast to fettling
-  const piece = await piecesRepo.insert(c.trx, c.actor.workshopId, {
-    pourId: c.row.id, jobItemId: c.row.job_item_id, mark, dryMassKg: cast.dryMassKg, wetMassKg: cast.wetMassKg,
-    state: input.result === 'sound' ? 'to_fettle' : 'repair',
-  })
-  await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'piece', entityId: piece.id, type: 'piece.created', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { pourId: c.row.id, mark, state: piece.state } })
+  const pieces: { id: number; mark: string }[] = []
+  for (const [i, pieceMark] of marks.entries()) {
+    const piece = await piecesRepo.insert(c.trx, c.actor.workshopId, {
+      pourId: c.row.id, jobItemId: c.row.job_item_id, mark: pieceMark, cavity: i + 1, dryMassKg: masses.dryMassKg, wetMassKg: masses.wetMassKg,
+      state: input.result === 'sound' ? 'to_fettle' : 'repair',
+    })
+    await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'piece', entityId: piece.id, type: 'piece.created', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { pourId: c.row.id, mark: pieceMark, state: piece.state } })
+    pieces.push({ id: piece.id, mark: pieceMark })
+  }
   await mouldFloorRepo.moveState(c.trx, c.actor.workshopId, mould.id, 'cleaning', c.actor.id, true)
   await recordEvent(c.trx, { workshopId: c.actor.workshopId, entity: 'mould', entityId: mould.id, type: 'mould.state_changed', actorId: c.actor.id, at: c.at, backdated: c.backdated, data: { from: mould.state, to: 'cleaning', pull: mould.pulls + 1, pourId: c.row.id } })
   // every pour here was gauged with the floor's default mixing minutes (pourTiming)
   const pours = await poursRepo.calibrationPours(c.trx, c.actor.workshopId, c.row.grade_id)
   const cal = calibrationFromPours(pours.map(p => ({ ...p, mixMinutes: POUR_MIX_MINUTES_DEFAULT })))
   await gradeCalibrationRepo.set(c.trx, c.actor.workshopId, c.row.grade_id, cal.factor, cal.count, cal.excluded)
-  return { id: piece.id, mark }
+  return pieces
 }
 
 const floorSteps: StepMachine<PourStepRow, FloorActionInput, MadePiece, FloorActionResult> = {
@@ -152,10 +169,11 @@ const floorSteps: StepMachine<PourStepRow, FloorActionInput, MadePiece, FloorAct
   async answer(trx, actor, pourId, piece) {
     const [card] = await floorCards(trx, actor.workshopId, [pourId])
     return {
-      result: { card: card!, piece },
+      // `piece` is the first of the pour's pieces (one per cavity), `pieces` all of them
+      result: { card: card!, piece: piece?.[0] ?? null, pieces: piece ?? [] },
       after: () => {
         emitToWorkshop(actor.workshopId, { type: 'pour.updated', id: pourId, version: card!.pour.version, row: card!.pour })
-        if (piece) emitToWorkshop(actor.workshopId, { type: 'piece.created', id: piece.id, row: { ...piece, pourId } })
+        for (const p of piece ?? []) emitToWorkshop(actor.workshopId, { type: 'piece.created', id: p.id, row: { ...p, pourId } })
       },
     }
   },

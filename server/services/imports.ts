@@ -10,6 +10,7 @@
 // row is checked (shared/utils/units-display.ts, NIST SP 811 factors), so the preview shows
 // the row as it will be stored. The kinds Setline had no export for (grades, benches,
 // clients, sites, open jobs) export through `exportKind` with the very columns they import.
+import { shellLitres } from '#shared/utils/plaster-fibrous'
 import type { Knex } from 'knex'
 import { profilesRepo } from '../repos/profiles'
 import type { ZodType } from 'zod'
@@ -39,7 +40,7 @@ import { contactCreateSchema, siteCreateSchema } from '#shared/utils/client-sche
  * quantity (cavity (L)); the imperial export's header (cavity (US gal)) is read too and its
  * figures converted. `list`: figures separated by spaces or + (a run's walls).
  */
-interface Column { header: string; field?: string; number?: boolean; required?: boolean; quantity?: 'volume' | 'length' | 'mass'; list?: boolean }
+interface Column { header: string; field?: string; number?: boolean; required?: boolean; quantity?: 'volume' | 'length' | 'mass' | 'area' | 'thickness'; list?: boolean }
 type Cells = Record<string, string | number | boolean | null>
 
 interface KindSpec<V> {
@@ -107,10 +108,13 @@ function numbers(columns: Column[], cells: Record<string, string>, problems: Imp
 const MOULD_COLUMNS: Column[] = [
   { header: 'code', field: 'code', required: true }, { header: 'casts', field: 'casts', required: true },
   { header: 'material', field: 'material', required: true }, { header: 'bench', field: 'benchId' },
-  { header: 'cavity (L)', field: 'cavityLitres', number: true, required: true, quantity: 'volume' }, { header: 'cast length (m)', field: 'castLengthM', number: true, quantity: 'length' },
+  { header: 'cavity (L)', field: 'cavityLitres', number: true, quantity: 'volume' }, { header: 'cast length (m)', field: 'castLengthM', number: true, quantity: 'length' },
   { header: 'prep (min)', field: 'prepMinutes', number: true }, { header: 'clean-out (min)', field: 'cleanMinutes', number: true },
   { header: 'maximum dwell (min)', field: 'maxDwellMinutes', number: true }, { header: 'pulls', field: 'pulls', number: true },
   { header: 'expected pulls', field: 'expectedPulls', number: true }, { header: 'state', field: 'state' }, { header: 'state reason', field: 'stateReason' },
+  // a multi-cavity mould and a fibrous one (plaster-fibrous.ts); a fibrous row may leave the cavity empty
+  { header: 'cavities', field: 'cavities', number: true }, { header: 'cast', field: 'castType' },
+  { header: 'face area (m²)', field: 'surfaceAreaM2', number: true, quantity: 'area' }, { header: 'shell thickness (mm)', field: 'shellThicknessMm', number: true, quantity: 'thickness' },
 ]
 type MouldValue = MouldCreateInput & { state: string; stateReason: string | null }
 const materialByWord = new Map<string, string>([
@@ -120,7 +124,7 @@ const materialByWord = new Map<string, string>([
 
 const moulds: KindSpec<MouldValue> = {
   columns: MOULD_COLUMNS,
-  example: { 'code': 'CR-101', 'casts': 'Egg-and-dart cornice, 150 mm', 'material': 'silicone', 'bench': '', 'cavity (L)': '4.2', 'cast length (m)': '1.2', 'prep (min)': '10', 'clean-out (min)': '10', 'maximum dwell (min)': '120', 'pulls': '0', 'expected pulls': '150', 'state': 'ready', 'state reason': '' },
+  example: { 'code': 'CR-101', 'casts': 'Egg-and-dart cornice, 150 mm', 'material': 'silicone', 'bench': '', 'cavity (L)': '4.2', 'cast length (m)': '1.2', 'prep (min)': '10', 'clean-out (min)': '10', 'maximum dwell (min)': '120', 'pulls': '0', 'expected pulls': '150', 'state': 'ready', 'state reason': '', 'cavities': '1', 'cast': 'solid', 'face area (m²)': '', 'shell thickness (mm)': '' },
   async check(workshopId, rows) {
     const db = useDb()
     const [taken, benches] = await Promise.all([mouldsRepo.codes(db, workshopId), benchesRepo.list(db, workshopId)])
@@ -147,12 +151,16 @@ const moulds: KindSpec<MouldValue> = {
       const input = {
         code, casts: cells.casts ?? '', material, benchId, cavityLitres: n.cavityLitres ?? undefined, castLengthM: n.castLengthM ?? null,
         prepMinutes: n.prepMinutes ?? 10, cleanMinutes: n.cleanMinutes ?? 10, maxDwellMinutes: n.maxDwellMinutes ?? 120, pulls: n.pulls ?? 0, expectedPulls: n.expectedPulls ?? null,
+        cavities: n.cavities ?? 1, castType: (cells.cast || 'solid').toLowerCase(), surfaceAreaM2: n.surfaceAreaM2 ?? null, shellThicknessMm: n.shellThicknessMm ?? null,
       }
       // a cell already refused as a number is not reported twice
       const said = new Set(problems.map(p => p.column))
       problems.push(...schemaProblems(mouldCreateSchema, input, MOULD_COLUMNS).filter(p => !said.has(p.column)))
       if (problems.length) return { problems }
-      return { value: { ...mouldCreateSchema.parse(input), state, stateReason }, problems }
+      const parsed = mouldCreateSchema.parse(input)
+      // a fibrous mould's cavity column holds its shell's litres (services/catalogue.ts castColumns)
+      const cavityLitres = parsed.castType === 'fibrous' ? Math.round(shellLitres({ surfaceAreaM2: parsed.surfaceAreaM2!, shellThicknessMm: parsed.shellThicknessMm! }) * 1000) / 1000 : parsed.cavityLitres
+      return { value: { ...parsed, cavityLitres, state, stateReason }, problems }
     })
   },
   write: (trx, workshopId, actorId, values) => mouldsRepo.insertMany(trx, workshopId, actorId, values),

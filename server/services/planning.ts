@@ -12,6 +12,7 @@ import { plannerCalendars } from './calendars'
 import { boardDayStart } from '#shared/utils/board-rules'
 import { planPours } from '#shared/utils/planner'
 import { plannedCastReadyHours } from '#shared/utils/client-completion'
+import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
 import { mouldWorksRepo } from '../repos/mould-works'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import { appliedSetFactor, calibrationNote } from '#shared/utils/plaster-set'
@@ -42,7 +43,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
   const items: PlannerItem[] = []
   for (const r of rows) {
     const grade = gradeById.get(r.grade_id) ?? grades.find(g => !g.archived_at)
-    const remaining = r.pieces_needed - r.pours
+    const remaining = r.pieces_needed - r.pieces_counted
     if (!grade || remaining <= 0) continue
     const model = plasterGradeFromRow(grade)
     descriptions.set(String(r.id), r.description)
@@ -56,7 +57,8 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
       sampleReleased: !r.sample_required || r.sample_state === 'approved', depositReleased: r.deposit_released, piecesRemaining: remaining,
       mouldIds: r.mould_id ? [String(r.mould_id)] : [], profileId: r.profile_id ? String(r.profile_id) : null, grade: model,
       consistency,
-      readyHours: castIn ? plannedCastReadyHours({ cavityLitres: Number(castIn.cavity_litres), consistency, grade: model, room }) : 0,
+      // one piece's cavity or fibrous shell, drying through its own section
+      readyHours: castIn ? plannedCastReadyHours({ cavityLitres: Number(castIn.cavity_litres), consistency, grade: model, room, thicknessMm: dryingThicknessMm(mouldCastFromRow(castIn)) }) : 0,
       // the grade's applied calibration (1 until a lead applies one)
       setFactor: appliedSetFactor(gradeCalibrationFromRow(grade)),
     })
@@ -66,7 +68,7 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
     moulds: moulds.map(m => ({
       id: String(m.id), code: m.code, benchId: m.bench_id ? String(m.bench_id) : null, state: m.state, prepMinutes: m.prep_minutes,
       cleanMinutes: m.clean_minutes, maxDwellMinutes: m.max_dwell_minutes, pulls: m.pulls, expectedPulls: m.expected_pulls,
-      profileId: m.profile_id ? String(m.profile_id) : null, availableFrom: availableFrom.get(Number(m.id)) ?? null,
+      profileId: m.profile_id ? String(m.profile_id) : null, availableFrom: availableFrom.get(Number(m.id)) ?? null, cavities: Number(m.cavities),
     })),
     existingPours: pours.map(p => ({ mouldId: String(p.mould_id), slotStart: p.slot_start, slotEnd: p.slot_end, casterId: p.caster_id ? String(p.caster_id) : null, mixAt: p.mix_at })),
     shopTempByDay: Object.fromEntries(days.map(d => [d.day, Number(d.temp_c)])),

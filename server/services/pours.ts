@@ -11,6 +11,7 @@ import { shopDaysRepo } from '../repos/shop-days'
 import type { WorkshopRow } from '../repos/workshops'
 import { loadWorkshop, workshopCalendar } from './workshop'
 import { batchForCavity } from '#shared/utils/plaster'
+import { mouldCastFromRow, pourLitres } from '#shared/utils/plaster-fibrous'
 import { pourTimingFromSlotStart } from '#shared/utils/pour-timing'
 import { missedStartWarning, pourSituation } from '#shared/utils/pour-status'
 import { inUnits } from '#shared/utils/units-display'
@@ -101,7 +102,8 @@ async function timingAndBatch(trx: Knex, ws: WorkshopRow, named: Named, p: PourP
     slotStart: p.slotStart, grade: gradeModel, consistency, slurryTempC, setFactor,
     mould: { prepMinutes: mould.prep_minutes, cleanMinutes: mould.clean_minutes, maxDwellMinutes: mould.max_dwell_minutes },
   })
-  const batch = batchForCavity({ cavityLitres: Number(mould.cavity_litres), consistency, grade: gradeModel, wastePct: POUR_WASTE_PCT })
+  // one pour fills every cavity, with the shell (fibrous) or the cavity (solid) of each
+  const batch = batchForCavity({ cavityLitres: pourLitres(mouldCastFromRow(mould)), consistency, grade: gradeModel, wastePct: POUR_WASTE_PCT })
   return { t, batch, consistency, setFactor }
 }
 

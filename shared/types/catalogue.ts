@@ -1,6 +1,7 @@
 // What the catalogue routes send (camelCase on the wire): plaster grades, lots, benches, moulds.
 import type { LotStock, MouldLife } from '../utils/catalogue'
 import type { PlasterGrade } from '../utils/plaster-core'
+import type { CastType, ConsumableUnit } from '../utils/plaster-fibrous'
 
 /** A plaster grade as GET /api/grades lists it and POST / PATCH /api/grades answer: the
  *  plaster model's values (`plaster`), the shop's bag mass and the register's calibration. */
@@ -86,6 +87,34 @@ export interface Mould {
   life: MouldLife
   /** the profile it casts: the planner may use any ready mould of an item's profile */
   profile: string | null
+  /** pieces one pour makes */
+  cavities: number
+  /** solid fills the cavity; fibrous lays a shell over the face (plaster-fibrous.ts) */
+  castType: CastType
+  surfaceAreaM2: number | null
+  shellThicknessMm: number | null
+  /** what one cast uses of the workshop's consumables */
+  consumables: MouldConsumable[]
+}
+
+/** A line of a mould's consumables list. */
+export interface MouldConsumable {
+  consumableId: number
+  name: string
+  unit: ConsumableUnit
+  quantityPerCast: number
+  kgPerUnit: number | null
+}
+
+/** A consumable as GET /api/consumables lists it, with its stock on hand in its unit. */
+export interface Consumable {
+  id: number
+  name: string
+  unit: ConsumableUnit
+  kgPerUnit: number | null
+  onHand: number
+  archivedAt: string | null
+  version: number
 }
 
 /** A profile as GET /api/profiles lists it: how many moulds cast it, how many are ready. */

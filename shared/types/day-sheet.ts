@@ -1,6 +1,7 @@
 // GET /api/day-sheet: the paper a caster pins at the bench.
 import type { RequisitionLine } from '#shared/utils/board-rules'
 import type { UnitSystem } from '../utils/units-display'
+import type { ConsumableUnit } from '../utils/plaster-fibrous'
 
 export interface DaySheetPour {
   id: number
@@ -16,6 +17,8 @@ export interface DaySheetPour {
   consistency: number
   plasterKg: number
   waterKg: number
+  /** pieces the pour makes (its mould's cavities): the weights cover them all */
+  cavities: number
 }
 
 export interface DaySheetRequisition extends RequisitionLine {
@@ -32,4 +35,15 @@ export interface DaySheetDto {
   shopTemp: { tempC: number; usual: boolean }
   benches: { benchId: number | null; benchName: string | null; pours: DaySheetPour[] }[]
   requisition: DaySheetRequisition[]
+  /** the day's consumables (scrim, laths, …) beside the plaster: per cast × cavities of each pour, and what is on hand */
+  consumables: DaySheetConsumable[]
+}
+
+export interface DaySheetConsumable {
+  consumableId: number
+  name: string
+  /** m2, m or each (the stored unit; shown in the workshop's) */
+  unit: ConsumableUnit
+  quantity: number
+  onHand: number
 }

@@ -32,7 +32,8 @@ export interface FinishingPieceDto {
   state: FinishingPieceState
   job: { id: number; code: string; title: string; dueOn: string | null } | null
   item: { id: number; description: string } | null
-  mould: { code: string; casts: string; cavityLitres: number }
+  /** thicknessMm: the section the piece dries through (a fibrous shell's, plaster-fibrous.ts) */
+  mould: { code: string; casts: string; cavityLitres: number; thicknessMm: number }
   dryMassKg: number
   wetMassKg: number
   /** the weight to lift it at (finishingHandlingKg) */

@@ -25,6 +25,8 @@ export interface PlannerMould {
    * repair with a return date is planned from it; one in repair without is not planned.
    */
   availableFrom?: Date | null
+  /** pieces one pour makes (a multi-cavity mould); default 1 */
+  cavities?: number
 }
 
 /** A non-void pour already on the board. mixAt lets a caster's existing mixes block them. */
@@ -140,6 +142,8 @@ export interface ProposedPour {
   setFactor: number
   /** the window opens after the shift; the mould holds the cast until the next shift starts */
   overnight: boolean
+  /** pieces this pour counts toward its item (the mould's cavities, at most what was left) */
+  pieces: number
   warnings: string[]
 }
 

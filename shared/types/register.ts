@@ -7,12 +7,15 @@ export type RegisterRow = {
   pourId: number
   state: string
   isSample: boolean
+  /** every piece's mark, space-separated, in cavity order */
   mark: string | null
   /** the piece's id, for its page (the CSV leaves it out) */
   pieceId: number | null
   pieceState: string | null
   item: string
   mould: string
+  /** pieces the pour makes (its mould's cavities) */
+  cavities: number
   grade: string
   lot: string | null
   consistency: number

@@ -4,6 +4,7 @@ import { z } from 'zod'
 import { plasterGradeSchema } from './plaster-schema'
 import { CALENDAR_YEARS, PG_INTEGER_MAX, isCalendarDay } from './input-fields'
 import { MAX_MINOR } from './money'
+import { CAST_TYPES, CONSUMABLE_UNITS, FIBROUS_LIMITS } from './plaster-fibrous'
 
 export const MOULD_MATERIALS = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine'] as const
 export const MOULD_STATES = ['ready', 'in_use', 'cleaning', 'repair', 'retired'] as const
@@ -105,9 +106,47 @@ export const mouldFields = z.object({
   pulls: numberIn('pulls', 0, 100000, 'pulls', { int: true }),
   expectedPulls: numberIn('expectedPulls', 1, 100000, 'pulls', { int: true }).nullable().optional(),
   profile: optionalText('profile', 120),
+  cavities: numberIn('cavities', 1, FIBROUS_LIMITS.cavities.max, 'cavities', { int: true }).optional(),
+  castType: z.enum(CAST_TYPES, { error: 'castType must be solid or fibrous' }).optional(),
+  surfaceAreaM2: numberIn('surfaceAreaM2', 0, FIBROUS_LIMITS.surfaceAreaM2.max, 'm²', { exclusive: true }).nullable().optional(),
+  shellThicknessMm: numberIn('shellThicknessMm', 0, FIBROUS_LIMITS.shellThicknessMm.max, 'mm', { exclusive: true }).nullable().optional(),
+  /** what one cast uses of the workshop's consumables (replaces the mould's list when given) */
+  consumables: z.array(z.object({
+    consumableId: z.number({ error: 'consumableId must be a consumable' }).int().positive().max(Number.MAX_SAFE_INTEGER),
+    quantityPerCast: numberIn('quantityPerCast', 0, FIBROUS_LIMITS.quantityPerCast.max, 'per cast', { exclusive: true }),
+  }), { error: 'consumables must be a list' }).max(20, 'consumables must list at most 20').optional(),
 })
-export const mouldCreateSchema = mouldFields
+
+/**
+ * A fibrous mould needs its face's area and shell thickness (its plaster comes from them); a
+ * solid one its cavity. For a fibrous mould the cavity may be left out: it is the shell's litres.
+ */
+function castNeeds(v: { castType?: string; cavityLitres?: number; surfaceAreaM2?: number | null; shellThicknessMm?: number | null }, ctx: z.RefinementCtx) {
+  if (v.castType === 'fibrous') {
+    if (v.surfaceAreaM2 == null) ctx.addIssue({ code: 'custom', path: ['surfaceAreaM2'], message: 'surfaceAreaM2 is required for a fibrous mould' })
+    if (v.shellThicknessMm == null) ctx.addIssue({ code: 'custom', path: ['shellThicknessMm'], message: 'shellThicknessMm is required for a fibrous mould' })
+  }
+  else if (v.cavityLitres === undefined) ctx.addIssue({ code: 'custom', path: ['cavityLitres'], message: 'cavityLitres is required' })
+}
+export const mouldCreateSchema = mouldFields.extend({ cavityLitres: mouldFields.shape.cavityLitres.optional() }).superRefine(castNeeds)
 export const mouldPatchSchema = mouldFields.partial().extend({ version: versionField })
+
+/** A consumable kept in stock (hessian scrim, timber laths, …). */
+export const consumableFields = z.object({
+  name: requiredText('name', 80),
+  unit: z.enum(CONSUMABLE_UNITS, { error: 'unit must be m2, m or each' }),
+  kgPerUnit: numberIn('kgPerUnit', 0, FIBROUS_LIMITS.kgPerUnit.max, 'kg').nullable().optional(),
+})
+export const consumableCreateSchema = consumableFields
+export const consumablePatchSchema = consumableFields.partial().extend({
+  archived: z.boolean({ error: 'archived must be true or false' }).optional(),
+  version: versionField,
+})
+/** Stock received: a positive quantity in the consumable's unit, with an optional note. */
+export const consumableReceiveSchema = z.object({
+  quantity: numberIn('quantity', 0, 1e6, '', { exclusive: true }),
+  note: optionalText('note', 500),
+})
 
 export const profileCreateSchema = z.object({ name: requiredText('name', 120) })
 

@@ -33,19 +33,22 @@ const HOUR_MS = 3_600_000
  * drying estimate (finishingDryBy) in the room's conditions; null when it would never dry.
  * The one rule behind the client's date (jobCompletion) and the planner's (services/planning.ts).
  */
-export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavityLitres: number }, room: { tempC: number; humidityPct: number }): number | null {
+export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavityLitres: number; thicknessMm?: number }, room: { tempC: number; humidityPct: number }): number | null {
   const dry = finishingDryBy({
-    from: new Date(0), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres,
+    from: new Date(0), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres, thicknessMm: c.thicknessMm,
     airTempC: room.tempC, relHumidityPct: room.humidityPct,
   })
   return Number.isFinite(dry.hours) ? FETTLING_ALLOWANCE_HOURS + dry.hours : null
 }
 
-/** castReadyHours of a cast not made yet: its masses from the batch that fills the cavity (no waste). */
-export function plannedCastReadyHours(input: { cavityLitres: number; consistency: number; grade: PlasterGrade; room: { tempC: number; humidityPct: number } }): number | null {
+/**
+ * castReadyHours of a cast not made yet: its masses from the batch that fills one piece's
+ * cavity or shell (no waste), drying through `thicknessMm` (a fibrous shell's; default solid).
+ */
+export function plannedCastReadyHours(input: { cavityLitres: number; consistency: number; grade: PlasterGrade; room: { tempC: number; humidityPct: number }; thicknessMm?: number }): number | null {
   const batch = batchForCavity({ cavityLitres: input.cavityLitres, consistency: input.consistency, grade: input.grade })
   const cast = castFromBatch({ plasterKg: batch.plasterKg, waterKg: batch.waterKg, grade: input.grade })
-  return castReadyHours({ wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg, cavityLitres: input.cavityLitres }, input.room)
+  return castReadyHours({ wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg, cavityLitres: input.cavityLitres, thicknessMm: input.thicknessMm }, input.room)
 }
 
 export interface CompletionCast {
@@ -56,7 +59,10 @@ export interface CompletionCast {
   demouldOpenAt: Date
   wetMassKg: number
   dryMassKg: number
+  /** one piece's cavity (or fibrous shell), L */
   cavityLitres: number
+  /** the section it dries through, mm (a fibrous shell's); the usual solid section when absent */
+  thicknessMm?: number
 }
 
 export interface CompletionInput {

@@ -26,10 +26,11 @@ const HOUR_MS = 3_600_000
  * cavity), times the falling-rate factor (dryingEstimate). `dryBy` is null when the air is
  * saturated (the cast will not dry). Warnings come from the estimate and the 49 °C guard.
  */
-export function finishingDryBy(input: { from: Date; wetMassKg: number; dryMassKg: number; cavityLitres: number; airTempC: number; relHumidityPct: number; fallingRateFactor?: number }) {
+export function finishingDryBy(input: { from: Date; wetMassKg: number; dryMassKg: number; cavityLitres: number; airTempC: number; relHumidityPct: number; thicknessMm?: number; fallingRateFactor?: number }) {
   const est = dryingEstimate({
     freeWaterKg: Math.max(0, input.wetMassKg - input.dryMassKg),
-    exposedAreaM2: castExposedAreaM2({ volumeLitres: input.cavityLitres }),
+    // a fibrous shell dries through its own thickness (plaster-fibrous.ts dryingThicknessMm)
+    exposedAreaM2: castExposedAreaM2({ volumeLitres: input.cavityLitres, thicknessMm: input.thicknessMm }),
     airTempC: input.airTempC,
     relHumidityPct: input.relHumidityPct,
     airSpeedMs: FINISHING_AIR_SPEED_MS,

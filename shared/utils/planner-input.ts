@@ -36,6 +36,7 @@ function checkMould(m: PlannerMould, i: number): void {
   plannerNumber(m.maxDwellMinutes, `${f}.maxDwellMinutes`, 0, 10080)
   plannerNumber(m.pulls, `${f}.pulls`, 0, 1e9, true)
   if (m.expectedPulls !== null) plannerNumber(m.expectedPulls, `${f}.expectedPulls`, 0, 1e9, true)
+  if (m.cavities !== undefined) plannerNumber(m.cavities, `${f}.cavities`, 1, 100, true)
   if (m.profileId != null) plannerString(m.profileId, `${f}.profileId`)
   if (m.availableFrom != null) assertPlanningDate(m.availableFrom, `${f}.availableFrom`)
 }

@@ -1,7 +1,9 @@
 /**
  * The planner: fills the pour board from open job items ("fill from open items").
  *
- * Greedy, earliest due date first, one piece per pour. Every mould keeps a free-time cursor
+ * Greedy, earliest due date first, one pour per mould filling: a pour makes as many pieces as the
+ * mould has cavities (plaster-fibrous.ts), so an item of 10 pieces on a 4-cavity mould takes 3
+ * pours and counts 10 pieces planned (the 2 over are spares, not counted toward the item). Every mould keeps a free-time cursor
  * (the end of its last proposed pour) and its existing pours as a sorted interval list, so a
  * placement looks only forward from the cursor and never scans all pours: the run is about
  * O(pieces × moulds per item) plus the calendar. Rules, in the order they bite:
@@ -103,6 +105,8 @@ interface Placement {
   benchLane: number | null
   timing: PourTimingMinutes
   slurryTempC: number
+  /** pieces this pour counts toward its item: the mould's cavities, at most what was left */
+  pieces: number
 }
 
 interface Ctx {
@@ -390,7 +394,7 @@ function earliestOnLane(ctx: Ctx, lane: Lane, item: PlannerItem, itemIndex: numb
       continue
     }
     const casterId = caster.lane === null ? null : ctx.casters!.idOf(caster.lane)
-    return { ...fit, lane, dayIndex: d, casterId, casterLane: caster.lane, benchLane: bench.lane, timing: m, slurryTempC }
+    return { ...fit, lane, dayIndex: d, casterId, casterLane: caster.lane, benchLane: bench.lane, timing: m, slurryTempC, pieces: 0 }
   }
   return null
 }
@@ -445,6 +449,7 @@ function toProposedPour(ctx: Ctx, item: PlannerItem, p: Placement): ProposedPour
     consistency: item.consistency,
     setFactor: item.setFactor ?? ctx.setFactor,
     overnight: p.overnight,
+    pieces: p.pieces,
     warnings,
   }
 }
@@ -501,8 +506,7 @@ function forgetSpoiled(ctx: Ctx, known: Map<Lane, Placement | null>, done: Place
 function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]): ItemRun {
   const placed: Placement[] = []
   const known = new Map<Lane, Placement | null>()
-  for (let n = 0; n < item.piecesRemaining; n++) {
-    const left = item.piecesRemaining - n
+  for (let left = item.piecesRemaining; left > 0;) {
     let best: Placement | null = null
     let usable = 0
     ctx.casterShort = false
@@ -527,7 +531,10 @@ function placeItem(ctx: Ctx, item: PlannerItem, itemIndex: number, lanes: Lane[]
       return { item, placed, unplaced: unplacedOf(item, 'no-slot-in-horizon', left, msg) }
     }
     commitPlacement(ctx, best)
-    placed.push(best)
+    // one pour fills every cavity of its mould
+    const pieces = Math.min(left, best.lane.mould.cavities ?? 1)
+    left -= pieces
+    placed.push({ ...best, pieces })
     forgetSpoiled(ctx, known, best)
   }
   return { item, placed, unplaced: null }
@@ -651,7 +658,7 @@ function summariseJobs(ctx: Ctx, runs: ItemRun[], zone: string): PlannerJobOutco
     if (unplaced) j.complete = false
     if (item.readyHours === null && placed.length) j.neverDries = true
     for (const p of placed) {
-      if (p.slotStart < ctx.to) j.out.piecesPlanned++
+      if (p.slotStart < ctx.to) j.out.piecesPlanned += p.pieces
       else j.inRange = false
       const demouldAt = p.slotEnd - p.timing.cleanMinutes * MINUTE_MS
       const ready = demouldAt + (item.readyHours ?? 0) * HOUR_MS

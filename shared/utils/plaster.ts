@@ -36,6 +36,7 @@ export * from './plaster-set'
 export * from './plaster-drying'
 export * from './plaster-cutlist'
 export * from './plaster-units'
+export * from './plaster-fibrous'
 
 /** Strength–porosity exponent n in σ ∝ (1 − p)^n: 3, mid of the 2.5–3.5 Sattler (ZKG Int. 50, 1997) reports. */
 export const STRENGTH_POROSITY_EXPONENT = 3

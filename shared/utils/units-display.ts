@@ -5,14 +5,16 @@ import { cToF, fToC, kgToLb, lbToKg, litresToUsGallons, usGallonsToLitres, LITRE
 
 export type UnitSystem = 'metric' | 'imperial'
 
-export const UNIT_LABELS: Record<UnitSystem, { mass: string; temp: string; volume: string; length: string; density: string; tempDelta: string }> = {
-  metric: { mass: 'kg', temp: '°C', volume: 'L', length: 'm', density: 'kg/L', tempDelta: 'K' },
-  imperial: { mass: 'lb', temp: '°F', volume: 'US gal', length: 'in', density: 'lb/US gal', tempDelta: '°F' },
+export const UNIT_LABELS: Record<UnitSystem, { mass: string; temp: string; volume: string; length: string; density: string; tempDelta: string; area: string; thickness: string }> = {
+  metric: { mass: 'kg', temp: '°C', volume: 'L', length: 'm', density: 'kg/L', tempDelta: 'K', area: 'm²', thickness: 'mm' },
+  imperial: { mass: 'lb', temp: '°F', volume: 'US gal', length: 'in', density: 'lb/US gal', tempDelta: '°F', area: 'ft²', thickness: 'in' },
 }
 
 export type Quantity = keyof typeof toDisplay
 
 const M_PER_IN = 0.0254
+/** m per international foot, exact (NIST SP 811): 0.3048; a square foot is 0.09290304 m². */
+export const M_PER_FT = 0.3048
 
 /** A metric value in the display system (numbers, for inputs and charts). */
 export const toDisplay = {
@@ -23,6 +25,10 @@ export const toDisplay = {
   length: (m: number, u: UnitSystem) => (u === 'imperial' ? m / M_PER_IN : m),
   /** kg/L → lb/US gal: (1 / 0.45359237) × 3.785411784 = 8.3454 lb/US gal per kg/L. */
   density: (kgPerL: number, u: UnitSystem) => (u === 'imperial' ? kgToLb(kgPerL) * LITRES_PER_US_GALLON : kgPerL),
+  /** m² → ft² (1 ft = 0.3048 m exactly, NIST SP 811) */
+  area: (m2: number, u: UnitSystem) => (u === 'imperial' ? m2 / (M_PER_FT * M_PER_FT) : m2),
+  /** mm → in (a fibrous shell's thickness) */
+  thickness: (mm: number, u: UnitSystem) => (u === 'imperial' ? mm / 25.4 : mm),
 }
 
 /** A display-system value back to metric (what an input in °F or lb means). */
@@ -33,6 +39,8 @@ export const fromDisplay = {
   length: (v: number, u: UnitSystem) => (u === 'imperial' ? v * M_PER_IN : v),
   tempDelta: (v: number, u: UnitSystem) => (u === 'imperial' ? v / 1.8 : v),
   density: (v: number, u: UnitSystem) => (u === 'imperial' ? lbToKg(v) / LITRES_PER_US_GALLON : v),
+  area: (v: number, u: UnitSystem) => (u === 'imperial' ? v * M_PER_FT * M_PER_FT : v),
+  thickness: (v: number, u: UnitSystem) => (u === 'imperial' ? v * 25.4 : v),
 }
 
 function fixed(v: number, digits: number) {
@@ -95,4 +103,22 @@ export function inUnits(sentence: string, u: UnitSystem): string {
     const q = unit === 'kg' ? 'mass' : 'temp'
     return `${toDisplay[q](Number(figure), u).toFixed(digits)} ${UNIT_LABELS[u][q]}`
   })
+}
+
+/** Consumables' units as people read them: m², m or each (metric); ft², ft or each (imperial). */
+export const CONSUMABLE_UNIT_LABELS: Record<UnitSystem, Record<'m2' | 'm' | 'each', string>> = {
+  metric: { m2: 'm²', m: 'm', each: 'each' },
+  imperial: { m2: 'ft²', m: 'ft', each: 'each' },
+}
+
+/** A consumable's quantity (stored in m², m or a count) in the display system. */
+export function consumableToDisplay(quantity: number, unit: 'm2' | 'm' | 'each', u: UnitSystem): number {
+  if (u === 'metric' || unit === 'each') return quantity
+  return unit === 'm2' ? quantity / (M_PER_FT * M_PER_FT) : quantity / M_PER_FT
+}
+
+/** A typed consumable quantity back to its stored unit (m², m or a count). */
+export function consumableFromDisplay(typed: number, unit: 'm2' | 'm' | 'each', u: UnitSystem): number {
+  if (u === 'metric' || unit === 'each') return typed
+  return unit === 'm2' ? typed * M_PER_FT * M_PER_FT : typed * M_PER_FT
 }

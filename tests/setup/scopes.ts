@@ -29,6 +29,7 @@ export const KINDS = {
   clientOrg: 'client_orgs', contact: 'client_contacts', site: 'client_sites', newContact: 'client_contacts',
   label: 'piece_labels',
   crate: 'crates', delivery: 'deliveries', newDelivery: 'deliveries', feed: 'calendar_feeds',
+  consumable: 'consumables',
 } as const
 export type Kind = keyof typeof KINDS
 
@@ -170,6 +171,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     depositJob: await jobRow(ws, tags.own, { deposit_minor: 5000 }, client1), payment: await paymentRow(ws, job), invoice: await invoiceRow(ws, job),
     clientOrg: ownOrg, contact: await contactRow(ws, ownOrg, tags.own), site: await siteRow(ws, ownOrg, tags.own), label: '',
     crate: await crateRow(ws, job), delivery: await deliveryRow(ws, job), feed: await feedRow(ws),
+    consumable: await insert('consumables', { workshop_id: ws, name: `Scrim ${tags.own}`, unit: 'm2' }),
   }
   own.label = await labelRow(ws, own.piece)
 
@@ -212,6 +214,7 @@ export async function makeScopes(lead: string): Promise<Scopes> {
     depositJob: await jobRow(ow, tags.other, { deposit_minor: 5000 }, oClient), payment: 0, invoice: 0,
     clientOrg: 0, contact: 0, site: 0, label: '',
     crate: await crateRow(ow, oJob), delivery: await deliveryRow(ow, oJob), feed: await feedRow(ow),
+    consumable: await insert('consumables', { workshop_id: ow, name: `Scrim ${tags.other}`, unit: 'm2' }),
   }
   otherRows.clientOrg = await orgRow(ow, tags.other)
   otherRows.contact = await contactRow(ow, otherRows.clientOrg as number, tags.other)

@@ -189,3 +189,19 @@ describe('planPours: input', () => {
     expect(fieldOf(() => planPours(baseInput({ shopTempByDay: { '2026-12-07': 80 } })))).toBe('shopTempByDay.2026-12-07')
   })
 })
+
+describe('multi-cavity moulds in the planner', () => {
+  it('one pour on a 4-cavity mould makes 4 pieces toward the item: 10 pieces take 3 pours', () => {
+    const result = planPours(baseInput({ moulds: [mould('1', { cavities: 4 })], items: [item('i1', { piecesRemaining: 10 })] }))
+    expect(result.pours).toHaveLength(3)
+    expect(result.pours.map(p => p.pieces)).toEqual([4, 4, 2])
+    expect(result.jobs[0]!.piecesPlanned).toBe(10)
+    expect(result.unplaced).toEqual([])
+  })
+
+  it('a single-cavity mould still takes a pour per piece', () => {
+    const result = planPours(baseInput({ items: [item('i1', { piecesRemaining: 3 })] }))
+    expect(result.pours).toHaveLength(3)
+    expect(result.pours.every(p => p.pieces === 1)).toBe(true)
+  })
+})

@@ -5,8 +5,8 @@ import { registerExport } from '../../../../queries/register'
 import { UNIT_LABELS, displayNumber, type UnitSystem } from '#shared/utils/units-display'
 
 const COLUMNS: [string, string][] = [
-  ['pourId', 'pour'], ['state', 'pour state'], ['isSample', 'sample'], ['mark', 'piece mark'], ['pieceState', 'piece state'],
-  ['item', 'item'], ['mould', 'mould'], ['grade', 'grade'], ['lot', 'lot'], ['consistency', 'consistency (water per 100 plaster)'],
+  ['pourId', 'pour'], ['state', 'pour state'], ['isSample', 'sample'], ['mark', 'piece marks'], ['pieceState', 'piece state'],
+  ['item', 'item'], ['mould', 'mould'], ['cavities', 'pieces per pour'], ['grade', 'grade'], ['lot', 'lot'], ['consistency', 'consistency (water per 100 plaster)'],
   ['plasterKgActual', 'plaster mass'], ['waterKgActual', 'water mass'], ['waterTempC', 'water temp'], ['powderTempC', 'powder temp'],
   ['shopTempC', 'shop temp'], ['slurryTempC', 'slurry temp'], ['mixPlanned', 'mix planned'], ['mixingAt', 'mixing'],
   ['pouredAt', 'poured'], ['demouldOpen', 'demould window opens'], ['demouldClose', 'demould window closes'],
@@ -16,7 +16,7 @@ const COLUMNS: [string, string][] = [
 
 const TIMES = new Set(['mixPlanned', 'mixingAt', 'pouredAt', 'demouldOpen', 'demouldClose', 'demouldedAt'])
 /** Figures: a negative temperature stays a number in the spreadsheet (server/utils/csv.ts). */
-const FIGURES = new Set(['pourId', 'consistency', 'plasterKgActual', 'waterKgActual', 'waterTempC', 'powderTempC', 'shopTempC', 'slurryTempC', 'photos'])
+const FIGURES = new Set(['pourId', 'cavities', 'consistency', 'plasterKgActual', 'waterKgActual', 'waterTempC', 'powderTempC', 'shopTempC', 'slurryTempC', 'photos'])
 
 const MASSES = ['plasterKgActual', 'waterKgActual'] as const
 const TEMPS = ['waterTempC', 'powderTempC', 'shopTempC', 'slurryTempC'] as const
