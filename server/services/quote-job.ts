@@ -67,6 +67,7 @@ export async function makeJobFromQuote(actor: Actor, quoteId: number, input: Quo
         profile_id: await profilesRepo.find(trx, ws, item.profile),
         quantity: item.quantity, run_m: item.walls ? item.walls.reduce((m, w) => m + w.lengthM, 0) : null,
         walls: item.walls ? JSON.stringify(item.walls) : null, min_piece_m: item.minPieceM, spares_pct: item.sparesPct,
+        projection_m: item.projectionM, saw_cut_m: item.sawCutM, corner_block_leg_m: item.cornerBlockLegM,
         pieces_needed: item.pieces, grade_id: null, consistency: null, sort_order: order++,
       }, item.estimateMinor)
     }

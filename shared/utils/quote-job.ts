@@ -21,6 +21,10 @@ export interface QuoteJobItem {
   /** a run's walls, corners and returns as the take-off gave them */
   walls: PlasterRunWall[] | null
   minPieceM: number | null
+  /** a run's projection, saw cut and corner-block leg, m, as the take-off gave them (null for an ornament) */
+  projectionM: number | null
+  sawCutM: number | null
+  cornerBlockLegM: number | null
   sparesPct: number
   /** pieces to cast: the run calculator's lengths for a run, the count for an ornament */
   pieces: number
@@ -59,10 +63,12 @@ export function quoteToJobItems(takeOffInput: { rooms: TakeOffRoom[]; bagKg: num
     ...t.runs.map((r, n): QuoteJobItem => ({
       kind: 'run', description: `${r.profile}, ${r.room}`, profile: r.profile, walls: runs[n]!.walls,
       minPieceM: runs[n]!.minPieceM, sparesPct: runs[n]!.sparesPct, pieces: r.lengths, quantity: null,
+      projectionM: runs[n]!.projectionM ?? null, sawCutM: runs[n]!.sawCutM ?? null, cornerBlockLegM: runs[n]!.cornerBlockLegM ?? null,
       estimateMinor: castLengths[n]?.estimate ?? 0,
     })),
     ...t.ornaments.map((o, n): QuoteJobItem => ({
       kind: 'pieces', description: `${o.name}, ${o.room}`, profile: o.name, walls: null, minPieceM: null, sparesPct: 0,
+      projectionM: null, sawCutM: null, cornerBlockLegM: null,
       pieces: o.count, quantity: o.count, estimateMinor: castPieces[n]?.estimate ?? 0,
     })),
   ]
