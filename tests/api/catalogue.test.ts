@@ -106,7 +106,7 @@ describe('plaster lots', () => {
     expect(r.status).toBe(200)
     expect(r.headers.get('content-type')).toMatch(/text\/csv/)
     expect(r.headers.get('content-disposition')).toMatch(/attachment; filename="setline-lots.csv"/)
-    expect(String(r.data).split('\n')[0]).toBe('lot code,grade,bags received,bag (kg),received on,use by,on hand (kg),on hand (bags),warnings,archived,notes')
+    expect(String(r.data).split('\n')[0]).toBe('lot code,grade,bags received,bag (kg),received on,use by,on hand (kg),on hand (bags),warnings,archived,notes,price per bag')
     expect(String(r.data)).toMatch(/FC-2611-A,Fine casting \(beta\),40,25\.00,/)
     // stock on hand as the Lots page works it out (the same service), in the same row
     const page = (await call('/api/lots', { cookie: lead })).data as { lotCode: string; stock: { onHandKg: number; onHandBags: number } }[]

@@ -68,7 +68,7 @@ describe('the piece page', () => {
     expect((await act(p.id, { kind: 'repair', version: 1, reason: 'chipped enrichment' })).status).toBe(200)
     const r = await call(`/api/pieces/${p.id}`, { cookie: finisher })
     expect(r.data.history).toEqual([expect.objectContaining({ kind: 'created', by: fx.casterName }), expect.objectContaining({ kind: 'repair', note: 'chipped enrichment' })])
-    expect(r.data.nextSteps).toEqual(['repaired', 'rejected'])
+    expect(r.data.nextSteps).toEqual(['repaired', 'rejected', 'repair_start', 'repair_stop'])
   })
 
   it('is a 404 to another workshop and a 403 to a client', async () => {

@@ -76,7 +76,7 @@ describe('a clash names the other pour as the board shows it', () => {
     const r = await call('/api/pours', { method: 'POST', cookie: lead, body: { mouldId: p.mouldId, slotStart: '2028-05-04T09:10:00Z' } })
     expect(r.status).toBe(409)
     expect(r.data.statusMessage).toBe('Conflict')
-    expect(r.data.message).toMatch(new RegExp(`by the ${jobCode} pour on ${p.mouldCode} mixing at 2028-05-04 \\d\\d:\\d\\d$`))
+    expect(r.data.message).toMatch(new RegExp(`by the ${jobCode} pour on ${p.mouldCode} mixing at Thu 4 May 2028 \\d\\d:\\d\\d$`))
     expect(r.data.message).not.toContain(`pour ${p.id}`)
   })
 })
