@@ -37,7 +37,10 @@ export function backup(url: string, dir = resolve(root, '.data/backups'), photos
   const stamp = new Date().toISOString().replace(/[-:]/g, '').replace(/\..*$/, '')
   const file = join(dir, `setline-${stamp}.dump`)
   const c = connection(url)
-  run(pgBin('pg_dump'), ['-Fc', '--no-owner', '-f', file, ...c.args], c.env)
+  // The background queue's own schema (pg-boss, made by db:migrate) is left out: its rows are
+  // work in flight that the app schedules again, and its partitioned tables cannot be dropped
+  // and restored by pg_restore --clean (the partitions' inherited keys refuse it).
+  run(pgBin('pg_dump'), ['-Fc', '--no-owner', '--exclude-schema=pgboss', '-f', file, ...c.args], c.env)
   if (existsSync(photos)) run('tar', ['-C', resolve(photos, '..'), '-cf', file.replace(/\.dump$/, '.photos.tar'), photos.split('/').pop()!], process.env)
   return file
 }

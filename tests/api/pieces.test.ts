@@ -101,7 +101,7 @@ describe('labels', () => {
     const scan = await call(`/api/labels/${token}`, { cookie: finisher })
     expect(scan.status).toBe(200)
     expect(scan.data.piece).toMatchObject({ id: p.id, mark: p.mark, state: 'to_fettle' })
-    expect(scan.data.nextSteps).toEqual(['fettled', 'repair', 'rejected'])
+    expect(scan.data.nextSteps).toEqual(['fettled', 'repair', 'rejected', 'fettle_start', 'fettle_stop'])
 
     expect((await call(`/api/pieces/${p.id}/label/revoke`, { method: 'POST', cookie: finisher })).status).toBe(403)
     const revoked = await call(`/api/pieces/${p.id}/label/revoke`, { method: 'POST', cookie: lead })
