@@ -59,7 +59,7 @@ describe('lead sets up a mould and a job', () => {
 
     await page.getByRole('button', { name: 'Add an item' }).click()
     await page.getByLabel('A run in metres, from walls').check()
-    await page.getByLabel('Description').fill('Library cornice run')
+    await page.getByRole('form', { name: 'Job item' }).getByLabel('Description').fill('Library cornice run')
     await page.getByLabel('Mould', { exact: true }).selectOption({ label: `${code} · Bead cornice, 1.5 m length` })
     await page.getByLabel('Plaster grade').selectOption({ label: 'Fine casting (beta)' })
     await page.getByLabel('Wall 1 (m)').fill('6.2')
