@@ -122,3 +122,17 @@ export function consumableFromDisplay(typed: number, unit: 'm2' | 'm' | 'each', 
   if (u === 'metric' || unit === 'each') return typed
   return unit === 'm2' ? typed * M_PER_FT * M_PER_FT : typed * M_PER_FT
 }
+
+/**
+ * A consumable's weight per unit (stored kg per m², per m or each) in the display system:
+ * lb per ft², per ft or each on imperial. One display unit is consumableFromDisplay(1, …)
+ * stored units, so it weighs that many times the stored figure.
+ */
+export function consumableWeightToDisplay(kgPerUnit: number, unit: 'm2' | 'm' | 'each', u: UnitSystem): number {
+  return toDisplay.mass(kgPerUnit * consumableFromDisplay(1, unit, u), u)
+}
+
+/** A typed weight per display unit back to kg per stored unit. */
+export function consumableWeightFromDisplay(typed: number, unit: 'm2' | 'm' | 'each', u: UnitSystem): number {
+  return fromDisplay.mass(typed, u) / consumableFromDisplay(1, unit, u)
+}

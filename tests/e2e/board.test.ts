@@ -9,6 +9,8 @@ import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
 import { formatDay } from '#shared/utils/workshop-format'
+import { boardFixture } from '../setup/board-fixtures'
+import { closeTestDb } from '../setup/fixtures'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -17,6 +19,7 @@ beforeAll(async () => {
 })
 afterAll(async () => {
   await browser?.close()
+  await closeTestDb()
 })
 // each journey signs in afresh: a session left from the one before would skip the sign-in form
 afterEach(async () => {
@@ -199,6 +202,9 @@ describe('pour board', () => {
   }, 120_000)
   it('plans a week: working days in shift hours, kept in the URL, planner accepted after paging', async () => {
     const monday = addDays(quietMonday(), 7)
+    // work of its own for the week: the day's plan above may have placed every demo item
+    const fx = await boardFixture('week')
+    await fx.item(await fx.job(), await fx.mould(), { pieces_needed: 12 })
     const page = await signedInBoard(`view=week&date=${monday}`)
     await page.setViewportSize({ width: 1280, height: 900 })
     await page.locator(`.fc-timeline-slot-lane[data-date^="${monday}"]`).first().waitFor()

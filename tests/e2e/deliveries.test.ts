@@ -45,7 +45,7 @@ describe('pack, deliver, sign, follow', () => {
     await page.getByTestId('pack').click()
     const crate = page.locator('[data-crate]').first()
     await crate.waitFor()
-    const kg = (a.dryMassKg + b.dryMassKg).toFixed(1)
+    const kg = (a.dryMassKg + b.dryMassKg).toFixed(2) // masses in the house style: two decimals
     await expect.poll(() => crate.getByTestId('crate-kg').textContent()).toContain(kg)
     expect(await seriousAxeViolations(page)).toEqual([])
     await screenshot(page, 'loads-packed')

@@ -2,7 +2,7 @@
 // 1 US gal = 3.785411784 L, °F = 1.8 °C + 32) and round trips back to metric.
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { displayNumber, formatUnits, fromDisplay, inUnits, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
+import { consumableWeightFromDisplay, consumableWeightToDisplay, displayNumber, formatUnits, fromDisplay, inUnits, inputValue, metricValue, tempLabel, toDisplay } from '#shared/utils/units-display'
 
 describe('display units', () => {
   it('formats metric and imperial with their units', () => {
@@ -69,5 +69,22 @@ describe('stored sentences in the display units', () => {
   it('leaves other figures and units alone', () => {
     const s = 'Mould M-1 reaches its expected life (96 pulls + 4 planned ≥ 100); 0.72 kg/L; 5–99 %; kgs'
     expect(inUnits(s, 'imperial')).toBe(s)
+  })
+})
+
+describe('a consumable weight per unit', () => {
+  it('reads per square foot, per foot or each on imperial (NIST SP 811 Appendix B)', () => {
+    // 1 lb/ft² = 4.882428 kg/m² and 1 lb/ft = 1.488164 kg/m (NIST SP 811, B.9 factors)
+    expect(consumableWeightToDisplay(4.882428, 'm2', 'imperial')).toBeCloseTo(1, 6)
+    expect(consumableWeightToDisplay(1.488164, 'm', 'imperial')).toBeCloseTo(1, 6)
+    expect(consumableWeightToDisplay(0.45359237, 'each', 'imperial')).toBeCloseTo(1, 12)
+    expect(consumableWeightFromDisplay(1, 'm2', 'imperial')).toBeCloseTo(4.882428, 5)
+    expect(consumableWeightToDisplay(0.35, 'm2', 'metric')).toBe(0.35)
+  })
+
+  it('round-trips', () => {
+    fc.assert(fc.property(fc.double({ min: 0, max: 100, noNaN: true }), fc.constantFrom('m2' as const, 'm' as const, 'each' as const), fc.constantFrom('metric' as const, 'imperial' as const), (v, unit, u) => {
+      expect(consumableWeightFromDisplay(consumableWeightToDisplay(v, unit, u), unit, u)).toBeCloseTo(v, 9)
+    }))
   })
 })
