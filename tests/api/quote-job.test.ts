@@ -107,15 +107,18 @@ describe('an accepted quote becomes a job', () => {
     const jobCode = code()
     const body = (c: string) => ({ jobCode: c, newSite: { name: `Twice ${randomUUID().slice(0, 6)}`, address: '4 Example Row' } })
     // two clicks at once make one job
-    const both = await Promise.all([call(`/api/quotes/${id}/job`, { method: 'POST', cookie: lead, body: body(jobCode) }), call(`/api/quotes/${id}/job`, { method: 'POST', cookie: lead, body: body(code()) })])
+    const codes = [jobCode, code()]
+    const both = await Promise.all(codes.map(c => call(`/api/quotes/${id}/job`, { method: 'POST', cookie: lead, body: body(c) })))
     expect(both.map(r => r.status).sort()).toEqual([201, 409])
+    // the code the winning click made the job with
+    const made = codes[both.findIndex(r => r.status === 201)]!
     const again = await call(`/api/quotes/${id}/job`, { method: 'POST', cookie: lead, body: body(code()) })
     expect(again.status).toBe(409)
     expect(again.data.message).toMatch(/has already been made into job/)
     expect(await testDb()('jobs').where({ notes: `From quote ${(await call(`/api/quotes/${id}`, { cookie: lead })).data.number}, revision 1` }).count('* as n').first()).toMatchObject({ n: '1' })
 
     const other = await quote()
-    const taken = await call(`/api/quotes/${other}/job`, { method: 'POST', cookie: lead, body: body(jobCode) })
+    const taken = await call(`/api/quotes/${other}/job`, { method: 'POST', cookie: lead, body: body(made) })
     expect([taken.status, taken.data.message]).toEqual([409, 'A job with this code already exists'])
     expect((await call(`/api/quotes/${other}`, { cookie: lead })).data.jobId).toBeNull()
   })

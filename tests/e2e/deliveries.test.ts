@@ -52,7 +52,7 @@ describe('pack, deliver, sign, follow', () => {
 
     await page.getByTestId('delivery-day').fill('2031-07-20')
     await page.getByTestId('vehicle').fill('Flatbed 2')
-    await page.getByLabel(/^Crate C1/).check()
+    await page.getByRole('checkbox', { name: /Crate C1/ }).check()
     await page.getByTestId('book').click()
     const link = page.getByRole('link', { name: /Flatbed 2/ })
     await link.waitFor()

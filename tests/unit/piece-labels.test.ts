@@ -21,7 +21,7 @@ describe('pieceRunPlace', () => {
 
 describe('pieceNextSteps', () => {
   it('follows FINISHING_STEPS', () => {
-    expect(pieceNextSteps('to_fettle')).toEqual(['fettled', 'repair', 'rejected'])
+    expect(pieceNextSteps('to_fettle')).toEqual(['fettled', 'repair', 'rejected', 'fettle_start', 'fettle_stop'])
     expect(pieceNextSteps('ready')).toEqual(['packed'])
     expect(pieceNextSteps('dispatched')).toEqual([])
   })
