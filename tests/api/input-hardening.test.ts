@@ -245,5 +245,5 @@ describe('the database briefly gone', () => {
     expect(app.proc.exitCode).toBeNull()
     expect(back.status).toBe(200)
     expect(await back.json()).toEqual({ ok: true })
-  }, 120_000)
+  }, 300_000)
 })

@@ -190,9 +190,28 @@ function slowestFiles(n = 10) {
   for (const f of files.sort((a, b) => b.seconds - a.seconds).slice(0, n)) console.log(`  ${f.seconds.toFixed(1).padStart(6)} s  ${f.name}`)
 }
 
+/** The failed tests by file and name, from vitest's JSON reports: CI shows only the tail of a run. */
+function listFailedTests() {
+  const failed: string[] = []
+  for (const f of existsSync(outDir) ? readdirSync(outDir) : []) {
+    if (!/^vitest-.*\.json$/.test(f)) continue
+    const j = JSON.parse(readFileSync(join(outDir, f), 'utf8'))
+    for (const r of j.testResults ?? []) {
+      const file = String(r.name).replace(`${root}/`, '')
+      const tests = (r.assertionResults ?? []).filter((a: { status: string }) => a.status === 'failed')
+      for (const a of tests) failed.push(`  ${file} › ${a.fullName ?? a.title}\n      ${String(a.failureMessages?.[0] ?? '').split('\n')[0].slice(0, 300)}`)
+      if (!tests.length && r.status === 'failed') failed.push(`  ${file} (the file failed outside a test)\n      ${String(r.message ?? '').split('\n')[0].slice(0, 300)}`)
+    }
+  }
+  if (!failed.length) return
+  console.log(`\nFailed tests (${failed.length}):`)
+  for (const line of failed) console.log(line)
+}
+
 function summary(t0: number, exitCode: number) {
   listScreenshots()
   slowestFiles()
+  listFailedTests()
   console.log('\n── summary ──')
   for (const r of results) {
     const counts = r.passed || r.failed ? ` (${r.passed} passed, ${r.failed} failed${r.skipped ? `, ${r.skipped} skipped` : ''})` : ''

@@ -20,7 +20,7 @@ declare module 'vitest' {
  * SETLINE_BUILD_DIR names another copy of a build to start instead of .output (a benchmark of an
  * older build while the tree is rebuilt). `startLimitMs`: how long it may take to answer GET /api/health.
  */
-export async function startAppServer(env: Record<string, string>, output?: string[], echo = true, startLimitMs = 60_000) {
+export async function startAppServer(env: Record<string, string>, output?: string[], echo = true, startLimitMs = 150_000) {
   const root = resolve(import.meta.dirname, '../..')
   const entry = resolve(root, process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error(`No build in ${entry}: run npm test (it builds first)`)
