@@ -20,7 +20,7 @@ interface BoardContextRow {
   default_shop_temp_c: number
   default_humidity_pct: number
   benches: { id: number; name: string; sort_order: number }[]
-  moulds: { id: number; code: string; casts: string; bench_id: number | null; bench_name: string | null; state: string; pulls: number; expected_pulls: number | null }[]
+  moulds: { id: number; code: string; casts: string; bench_id: number | null; bench_name: string | null; state: string; pulls: number; expected_pulls: number | null; cavities: number }[]
   shop_days: { day: string; temp_c: number; humidity_pct: number }[]
   job_items: { id: number; job_id: number; job_code: string; description: string; mould_id: number | null; pieces_needed: number; pieces_planned: number; released: boolean; deposit_waiting: boolean }[]
   deposit_waiting_jobs: number[]
@@ -39,7 +39,7 @@ SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.worki
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
      FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,
   (SELECT coalesce(json_agg(json_build_object('id', m.id, 'code', m.code, 'casts', m.casts, 'bench_id', m.bench_id, 'bench_name', b.name,
-       'state', m.state, 'pulls', m.pulls, 'expected_pulls', m.expected_pulls) ORDER BY b.sort_order NULLS LAST, m.code), '[]')
+       'state', m.state, 'pulls', m.pulls, 'expected_pulls', m.expected_pulls, 'cavities', m.cavities) ORDER BY b.sort_order NULLS LAST, m.code), '[]')
      FROM moulds m LEFT JOIN benches b ON b.id = m.bench_id AND b.workshop_id = w.id
      WHERE m.workshop_id = w.id AND m.state <> 'retired') AS moulds,
   (SELECT coalesce(json_agg(json_build_object('day', s.day, 'temp_c', s.temp_c, 'humidity_pct', s.humidity_pct) ORDER BY s.day), '[]')
@@ -86,7 +86,7 @@ export async function boardData(workshopId: number, from: string, to: string): P
     benches: ctx.benches.map(b => ({ id: Number(b.id), name: b.name, sortOrder: b.sort_order })),
     moulds: ctx.moulds.map(m => ({
       id: Number(m.id), code: m.code, casts: m.casts, benchId: m.bench_id === null ? null : Number(m.bench_id), benchName: m.bench_name,
-      state: m.state, pulls: m.pulls, expectedPulls: m.expected_pulls, lifeFlag: mouldLifeFlag(m.pulls, m.expected_pulls),
+      state: m.state, pulls: m.pulls, expectedPulls: m.expected_pulls, lifeFlag: mouldLifeFlag(m.pulls, m.expected_pulls), cavities: Number(m.cavities ?? 1),
     })),
     pours: ctx.pours,
     lookups: ctx.lookups,

@@ -50,6 +50,8 @@ export interface BoardMould {
   pulls: number
   expectedPulls: number | null
   lifeFlag: boolean
+  /** casts one pour fills (a gang mould has several): its bars read "× N" */
+  cavities: number
 }
 
 /**

@@ -77,6 +77,13 @@ describe('a multi-cavity mould', () => {
     expect(reg.status).toBe(200)
     const line = reg.data.rows.find((r: { pourId: number }) => Number(r.pourId) === p.id)
     expect(line).toMatchObject({ cavities: 4, mark: marks.join(' ') })
+    // the board names the mould's cavities beside its lane, so its bars read × 4
+    const board = await call('/api/board?from=2028-05-03&to=2028-05-03', { cookie: lead })
+    expect(board.status).toBe(200)
+    const lane = board.data.moulds.find((m: { id: number }) => m.id === mould.id)
+    expect(lane).toMatchObject({ code: mould.code, cavities: 4 })
+    expect(board.data.pours.some((x: { id: number; mouldId: number }) => x.id === p.id && x.mouldId === mould.id)).toBe(true)
+    expect(board.data.moulds.find((m: { id: number }) => m.id !== mould.id)?.cavities).toBeGreaterThanOrEqual(1)
   })
 })
 
@@ -110,6 +117,17 @@ describe('consumables and a fibrous mould', () => {
     expect(line).toMatchObject({ unit: 'm2', onHand: 20 })
     expect(line.quantity).toBeCloseTo(1.188, 6)
     expect(sheet.data.requisition.length).toBeGreaterThan(0)
+    // the CSV lists the same consumables after the requisition, each in its own unit
+    const csv = await call('/api/day-sheet/export?day=2028-05-04', { cookie: lead })
+    expect(csv.status).toBe(200)
+    const lines = String(csv.data).replace(/^\uFEFF/, '').trim().split(/\r?\n/)
+    const header = lines[0]!.split(',')
+    const row = (name: string) => {
+      const cells = lines.find(l => l.includes(name))!.split(',')
+      return Object.fromEntries(header.map((h, i) => [h, cells[i]]))
+    }
+    expect(row(`Hessian ${fx.tag}`)).toMatchObject({ section: 'consumable', quantity: '1.19', on_hand: '20', unit: 'm²' })
+    expect(row(`Laths ${fx.tag}`)).toMatchObject({ section: 'consumable', quantity: '3', on_hand: '30', unit: 'each' })
 
     expect((await act(p.data.id, { kind: 'start_mixing', version: 1, waterTempC: 18 })).status).toBe(200)
     const list = async () => (await call('/api/consumables', { cookie: lead })).data as { id: number; onHand: number }[]

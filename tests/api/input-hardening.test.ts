@@ -82,7 +82,7 @@ describe('CSV exports cannot carry a formula', () => {
     expect(items.text).toContain(',\'=1+1,')
     const sheet = await download('/api/day-sheet/export?day=2027-04-21')
     expect([...sheet.bytes.slice(0, 3)]).toEqual(BOM)
-    expect(sheet.text.slice(1).split('\n')[0]).toBe('section,bench,mould,casts,job,item,caster,mix,demould_open,demould_close,grade,consistency,plaster_kg,water_kg,water_L,bags,bag_kg,lot_to_open')
+    expect(sheet.text.slice(1).split('\n')[0]).toBe('section,bench,mould,casts,job,item,caster,mix,demould_open,demould_close,grade,consistency,plaster_kg,water_kg,water_L,bags,bag_kg,lot_to_open,consumable,quantity,on_hand,unit')
   })
 })
 
