@@ -8,6 +8,7 @@ import { photosRepo } from '../repos/photos'
 import { progressRepo } from '../repos/progress'
 import { toClientPhotoDto } from './photos'
 import { loadWorkshop } from './workshop'
+import { shopFallingRate } from '../queries/finishing-queue'
 import { jobCompletion, type Completion } from '#shared/utils/client-completion'
 import type { ClientProgressDto } from '#shared/types/photos'
 import type { WorkshopLocale } from '#shared/utils/workshop-format'
@@ -33,16 +34,18 @@ export async function clientProgress(actor: Actor, jobId: number): Promise<Clien
   const db = useDb()
   const job = await jobsRepo.byId(db, actor.workshopId, jobId)
   if (!job || !(await jobsRepo.isMember(db, actor.workshopId, jobId, actor.id))) notFound('Job')
-  const [items, casts, ws, photos] = await Promise.all([
+  const [items, casts, ws, photos, fallingRate] = await Promise.all([
     progressRepo.items(db, actor.workshopId, jobId),
     progressRepo.casts(db, actor.workshopId, jobId),
     loadWorkshop(db, actor.workshopId),
     photosRepo.forJob(db, actor.workshopId, jobId, true),
+    shopFallingRate(db, actor.workshopId),
   ])
   const completion = jobCompletion({
     items: items.map(i => ({ piecesNeeded: i.pieces_needed, planned: i.planned })),
-    // the drying room at the workshop's usual conditions: a plan days ahead has no shop day yet
-    room: { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct) },
+    // the drying room at the workshop's usual conditions (a plan days ahead has no shop day yet)
+    // and the shop's own falling-rate factor, as a piece put to dry gets for its dry-by
+    room: { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct), fallingRateFactor: fallingRate.factor },
     casts: casts.map((c) => {
       // a pour not yet demoulded: each of its pieces is its share of the batch (one per cavity)
       const mould = mouldCastFromRow(c)

@@ -14,6 +14,7 @@ import { planPours } from '#shared/utils/planner'
 import { plannedCastReadyHours } from '#shared/utils/client-completion'
 import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
 import { mouldWorksRepo } from '../repos/mould-works'
+import { shopFallingRate } from '../queries/finishing-queue'
 import { gradeCalibrationFromRow } from '#shared/utils/catalogue'
 import { appliedSetFactor, calibrationNote } from '#shared/utils/plaster-set'
 import type { PlanPoursInput, PlannerItem } from '#shared/types/planner'
@@ -24,15 +25,16 @@ const nextDay = (day: string) => new Date(Date.parse(`${day}T00:00:00Z`) + DAY_M
 async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string) {
   const start = boardDayStart(from, ws.timezone)
   const end = boardDayStart(nextDay(to), ws.timezone)
-  const [moulds, rows, grades, pours, days, casters, calendars, benchLimits, works] = await Promise.all([
+  const [moulds, rows, grades, pours, days, casters, calendars, benchLimits, works, fallingRate] = await Promise.all([
     planningRepo.moulds(db, ws.id), planningRepo.openItems(db, ws.id), planningRepo.grades(db, ws.id),
     planningRepo.pours(db, ws.id, start), planningRepo.shopDays(db, ws.id, from), planningRepo.casters(db, ws.id),
     plannerCalendars(db, ws.id, from), planningRepo.benchLimits(db, ws.id), mouldWorksRepo.openAvailability(db, ws.id),
+    shopFallingRate(db, ws.id),
   ])
   // open mould work: the mould takes no pour before the start of its available-from day
   const availableFrom = new Map(works.map(w => [Number(w.mould_id), boardDayStart(w.available_from, ws.timezone)]))
-  // the drying room at the workshop's usual conditions, as the client's date takes it
-  const room = { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct) }
+  // the drying room at the workshop's usual conditions and the shop's falling-rate factor, as the client's date takes them
+  const room = { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct), fallingRateFactor: fallingRate.factor }
   const mouldById = new Map(moulds.map(m => [Number(m.id), m]))
   const profileMould = new Map<number, (typeof moulds)[number]>()
   for (const m of moulds) if (m.profile_id && !profileMould.has(Number(m.profile_id))) profileMould.set(Number(m.profile_id), m)

@@ -11,7 +11,10 @@
  *                                                    + drying hours (finishingDryBy: the drying
  *                                                      estimate of plaster-drying.ts, Carrier's
  *                                                      equation as in the ASHRAE Handbook, at the
- *                                                      workshop's usual temperature and humidity)
+ *                                                      workshop's usual temperature and humidity,
+ *                                                      times the shop's own falling-rate factor
+ *                                                      once it has weighed enough pieces to
+ *                                                      constant weight: finishingFallingRate)
  *
  * Pure: the server gathers the facts.
  */
@@ -29,14 +32,21 @@ export const FETTLING_ALLOWANCE_HOURS = 2
 const HOUR_MS = 3_600_000
 
 /**
+ * The drying room a date is worked out for: its air, and the shop's falling-rate factor (from
+ * its own weighings, shared/utils/finishing.ts finishingFallingRate; 1 until it has enough), the
+ * same factor a piece put to dry gets for its dry-by.
+ */
+export interface DryingRoom { tempC: number; humidityPct: number; fallingRateFactor?: number }
+
+/**
  * Hours from a cast's demould until it is ready to dispatch: FETTLING_ALLOWANCE_HOURS, then the
  * drying estimate (finishingDryBy) in the room's conditions; null when it would never dry.
  * The one rule behind the client's date (jobCompletion) and the planner's (services/planning.ts).
  */
-export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavityLitres: number; thicknessMm?: number }, room: { tempC: number; humidityPct: number }): number | null {
+export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavityLitres: number; thicknessMm?: number }, room: DryingRoom): number | null {
   const dry = finishingDryBy({
     from: new Date(0), wetMassKg: c.wetMassKg, dryMassKg: c.dryMassKg, cavityLitres: c.cavityLitres, thicknessMm: c.thicknessMm,
-    airTempC: room.tempC, relHumidityPct: room.humidityPct,
+    airTempC: room.tempC, relHumidityPct: room.humidityPct, fallingRateFactor: room.fallingRateFactor,
   })
   return Number.isFinite(dry.hours) ? FETTLING_ALLOWANCE_HOURS + dry.hours : null
 }
@@ -45,7 +55,7 @@ export function castReadyHours(c: { wetMassKg: number; dryMassKg: number; cavity
  * castReadyHours of a cast not made yet: its masses from the batch that fills one piece's
  * cavity or shell (no waste), drying through `thicknessMm` (a fibrous shell's; default solid).
  */
-export function plannedCastReadyHours(input: { cavityLitres: number; consistency: number; grade: PlasterGrade; room: { tempC: number; humidityPct: number }; thicknessMm?: number }): number | null {
+export function plannedCastReadyHours(input: { cavityLitres: number; consistency: number; grade: PlasterGrade; room: DryingRoom; thicknessMm?: number }): number | null {
   const batch = batchForCavity({ cavityLitres: input.cavityLitres, consistency: input.consistency, grade: input.grade })
   const cast = castFromBatch({ plasterKg: batch.plasterKg, waterKg: batch.waterKg, grade: input.grade })
   return castReadyHours({ wetMassKg: cast.wetMassKg, dryMassKg: cast.dryMassKg, cavityLitres: input.cavityLitres, thicknessMm: input.thicknessMm }, input.room)
@@ -69,7 +79,7 @@ export interface CompletionInput {
   /** per item: pieces ordered and pieces planned (non-void pours not rejected) */
   items: { piecesNeeded: number; planned: number }[]
   casts: CompletionCast[]
-  room: { tempC: number; humidityPct: number }
+  room: DryingRoom
 }
 
 export type Completion

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { FETTLING_ALLOWANCE_HOURS, jobCompletion, type CompletionCast } from '#shared/utils/client-completion'
+import { FETTLING_ALLOWANCE_HOURS, castReadyHours, jobCompletion, type CompletionCast } from '#shared/utils/client-completion'
 import { finishingDryBy } from '#shared/utils/finishing'
 
 // The drying hours come from finishingDryBy (Carrier's equation as in the ASHRAE Handbook,
@@ -28,6 +28,19 @@ describe('jobCompletion', () => {
     const r = jobCompletion({ items: [{ piecesNeeded: 2, planned: 2 }], casts: [cast({ pieceState: 'drying', dryBy: at(500), demouldedAt: at(1) }), cast({ pieceState: 'ready', demouldedAt: at(900) })], room })
     expect(r).toEqual({ kind: 'ready_by', at: at(500) })
     expect(jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [cast({ pieceState: 'packed' })], room })).toEqual({ kind: 'all_ready' })
+  })
+
+  it('stretches the drying by the shop\'s own falling-rate factor, as a piece put to dry gets it; fettling stays as it is', () => {
+    const items = [{ piecesNeeded: 1, planned: 1 }]
+    const base = jobCompletion({ items, casts: [cast()], room })
+    const slow = jobCompletion({ items, casts: [cast()], room: { ...room, fallingRateFactor: 1.6 } })
+    if (base.kind !== 'ready_by' || slow.kind !== 'ready_by') throw new Error('expected dates')
+    // the drying hours after fettling scale by the factor (ready = demould + 2 h + drying × factor)
+    const dryingHours = (d: Date) => (d.getTime() - at(0).getTime()) / 3_600_000 - FETTLING_ALLOWANCE_HOURS
+    expect(dryingHours(slow.at)).toBeCloseTo(dryingHours(base.at) * 1.6, 6)
+    const withFactor = finishingDryBy({ from: at(FETTLING_ALLOWANCE_HOURS), wetMassKg: 4.4, dryMassKg: 3.4, cavityLitres: 2.5, airTempC: 18, relHumidityPct: 60, fallingRateFactor: 1.6 })
+    expect(slow.at).toEqual(withFactor.dryBy)
+    expect(castReadyHours(cast(), { ...room, fallingRateFactor: 1.6 })).toBeCloseTo(FETTLING_ALLOWANCE_HOURS + dryingHours(base.at) * 1.6, 6)
   })
 
   it('says it cannot tell in saturated air', () => {
