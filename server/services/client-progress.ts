@@ -7,7 +7,8 @@ import { jobsRepo } from '../repos/jobs'
 import { photosRepo } from '../repos/photos'
 import { progressRepo } from '../repos/progress'
 import { toClientPhotoDto } from './photos'
-import { loadWorkshop } from './workshop'
+import { loadWorkshop, workshopCalendar } from './workshop'
+import { calendarsRepo } from '../repos/calendars'
 import { shopFallingRate } from '../queries/finishing-queue'
 import { jobCompletion, type Completion } from '#shared/utils/client-completion'
 import type { ClientProgressDto } from '#shared/types/photos'
@@ -15,7 +16,7 @@ import type { WorkshopLocale } from '#shared/utils/workshop-format'
 import { castFromBatch } from '#shared/utils/plaster'
 import { dryingThicknessMm, mouldCastFromRow, pieceMasses } from '#shared/utils/plaster-fibrous'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
-import { POUR_WASTE_PCT } from '#shared/utils/board-rules'
+import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
 
 /** A cast not yet out of the mould: its masses from the batch (less the board's waste allowance), as the demould step will. */
 function plannedCast(c: { plaster_kg_planned: string | number; water_kg_planned: string | number; plaster_kg_actual: string | number | null; water_kg_actual: string | number | null } & Parameters<typeof plasterGradeFromRow>[0]) {
@@ -41,11 +42,14 @@ export async function clientProgress(actor: Actor, jobId: number): Promise<Clien
     photosRepo.forJob(db, actor.workshopId, jobId, true),
     shopFallingRate(db, actor.workshopId),
   ])
+  const closures = await calendarsRepo.closures(db, actor.workshopId, boardLocalDay(new Date(), ws.timezone))
   const completion = jobCompletion({
     items: items.map(i => ({ piecesNeeded: i.pieces_needed, planned: i.planned })),
     // the drying room at the workshop's usual conditions (a plan days ahead has no shop day yet)
     // and the shop's own falling-rate factor, as a piece put to dry gets for its dry-by
     room: { tempC: Number(ws.default_shop_temp_c), humidityPct: Number(ws.default_humidity_pct), fallingRateFactor: fallingRate.factor },
+    // fettling waits for people on shift: the workshop's days and hours, less its closures
+    calendar: workshopCalendar(ws), closures: closures.map(c => ({ fromDay: c.from_day, toDay: c.to_day })),
     casts: casts.map((c) => {
       // a pour not yet demoulded: each of its pieces is its share of the batch (one per cavity)
       const mould = mouldCastFromRow(c)

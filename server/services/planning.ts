@@ -11,7 +11,7 @@ import { loadWorkshop, workshopCalendar } from './workshop'
 import { plannerCalendars } from './calendars'
 import { boardDayStart } from '#shared/utils/board-rules'
 import { planPours } from '#shared/utils/planner'
-import { plannedCastReadyHours } from '#shared/utils/client-completion'
+import { FETTLING_ALLOWANCE_HOURS, plannedCastReadyHours } from '#shared/utils/client-completion'
 import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
 import { mouldWorksRepo } from '../repos/mould-works'
 import { shopFallingRate } from '../queries/finishing-queue'
@@ -61,6 +61,8 @@ async function plannerInput(db: Knex, ws: WorkshopRow, from: string, to: string)
       consistency,
       // one piece's cavity or fibrous shell, drying through its own section
       readyHours: castIn ? plannedCastReadyHours({ cavityLitres: Number(castIn.cavity_litres), consistency, grade: model, room, thicknessMm: dryingThicknessMm(mouldCastFromRow(castIn)) }) : 0,
+      // its fettling is people's work, counted in the shop's shift time
+      fettleShiftHours: castIn ? FETTLING_ALLOWANCE_HOURS : 0,
       // the grade's applied calibration (1 until a lead applies one)
       setFactor: appliedSetFactor(gradeCalibrationFromRow(grade)),
     })

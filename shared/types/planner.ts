@@ -68,6 +68,12 @@ export interface PlannerItem {
    * drying room (default 0: the demould itself); null when the room would never dry it.
    */
   readyHours?: number | null
+  /**
+   * The first hours of readyHours that are people's work (fettling), counted in the shop's
+   * shift time (working days and hours less breaks and closures) rather than round the clock;
+   * the rest (drying) runs round the clock. Default 0.
+   */
+  fettleShiftHours?: number
 }
 
 /** A span of local days, both ends included ('YYYY-MM-DD'): a shop closure or an absence. */

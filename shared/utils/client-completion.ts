@@ -7,7 +7,10 @@
  *   a piece already dry (ready, packed, dispatched)  no wait
  *   a piece put to dry with a dry-by                 its dry-by
  *   any other cast                                   demoulded (or the plan's demould opening)
- *                                                    + FETTLING_ALLOWANCE_HOURS
+ *                                                    + FETTLING_ALLOWANCE_HOURS of shift time
+ *                                                      (addShiftHours: the workshop's working
+ *                                                      days and hours, less breaks and closures,
+ *                                                      when the calendar is given)
  *                                                    + drying hours (finishingDryBy: the drying
  *                                                      estimate of plaster-drying.ts, Carrier's
  *                                                      equation as in the ASHRAE Handbook, at the
@@ -21,11 +24,12 @@
 import { finishingDryBy } from './finishing'
 import { batchForCavity, castFromBatch } from './plaster'
 import type { PlasterGrade } from './plaster-core'
+import { addShiftHours, type WorkshopShiftCalendar } from './workshop-calendar'
 
 /**
- * Hours from demoulding until a cast is fettled and racked to dry: 2 (common practice for
- * cast ornament fettled the day it comes out; a repair takes longer, and the weighing decides
- * when it is dry in any case).
+ * Hours of shift time from demoulding until a cast is fettled and racked to dry: 2 (common
+ * practice for cast ornament fettled the day it comes out; a repair takes longer, and the
+ * weighing decides when it is dry in any case). People fettle, so these hours wait for the shift.
  */
 export const FETTLING_ALLOWANCE_HOURS = 2
 
@@ -80,6 +84,9 @@ export interface CompletionInput {
   items: { piecesNeeded: number; planned: number }[]
   casts: CompletionCast[]
   room: DryingRoom
+  /** the workshop's shift and its closures: fettling waits for people on shift (round the clock when left out) */
+  calendar?: WorkshopShiftCalendar
+  closures?: readonly { fromDay: string; toDay: string }[]
 }
 
 export type Completion
@@ -104,7 +111,9 @@ export function jobCompletion(input: CompletionInput): Completion {
     }
     const hours = castReadyHours(c, input.room)
     if (hours === null) return { kind: 'never_dries' }
-    last = Math.max(last, (c.demouldedAt ?? c.demouldOpenAt).getTime() + hours * HOUR_MS)
+    const out = c.demouldedAt ?? c.demouldOpenAt
+    const fettled = input.calendar ? addShiftHours(input.calendar, out, FETTLING_ALLOWANCE_HOURS, input.closures) : new Date(out.getTime() + FETTLING_ALLOWANCE_HOURS * HOUR_MS)
+    last = Math.max(last, fettled.getTime() + (hours - FETTLING_ALLOWANCE_HOURS) * HOUR_MS)
   }
   return last ? { kind: 'ready_by', at: new Date(last) } : { kind: 'all_ready' }
 }

@@ -58,6 +58,7 @@ function checkItem(it: PlannerItem, i: number): void {
   if (it.setFactor !== undefined) plannerNumber(it.setFactor, `${f}.setFactor`, 1e-3, 10)
   if (it.profileId != null) plannerString(it.profileId, `${f}.profileId`)
   if (it.readyHours != null) plannerNumber(it.readyHours, `${f}.readyHours`, 0, 24 * 365)
+  if (it.fettleShiftHours !== undefined) plannerNumber(it.fettleShiftHours, `${f}.fettleShiftHours`, 0, 24 * 30)
 }
 
 function checkExisting(p: PlannerExistingPour, i: number): void {

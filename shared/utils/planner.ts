@@ -36,7 +36,8 @@
  * - a mould under mould work (being made, or away for repair with a return date) takes no pour
  *   before its available-from instant; a job that casts in it on that day says it waits for it;
  * - a job's date is when its last piece is ready to dispatch: the last demould plus the item's
- *   readyHours (fettling and drying from the drying model, given by the caller), not the demould.
+ *   readyHours (fettling and drying from the drying model, given by the caller), not the demould;
+ *   its fettleShiftHours (people's work) count in shift time (afterShiftTime), the drying round the clock.
  * The schedule runs on past `to` for `projectionDays` (default 365) to tell when late jobs
  * would finish; only pours starting before `to` are returned.
  *
@@ -58,7 +59,7 @@ import {
 } from './pour-timing'
 import { assertPlanPoursInput } from './planner-input'
 import { PLASTER_FREEZE_WARN_C } from './plaster-drying'
-import { PlanningInputError, shiftWindows, type ShiftWindow } from './workshop-calendar'
+import { PlanningInputError, afterShiftTime, shiftWindows, type ShiftWindow } from './workshop-calendar'
 
 const MINUTE_MS = 60_000
 const DAY_MS = 86_400_000
@@ -661,7 +662,10 @@ function summariseJobs(ctx: Ctx, runs: ItemRun[], zone: string): PlannerJobOutco
       if (p.slotStart < ctx.to) j.out.piecesPlanned += p.pieces
       else j.inRange = false
       const demouldAt = p.slotEnd - p.timing.cleanMinutes * MINUTE_MS
-      const ready = demouldAt + (item.readyHours ?? 0) * HOUR_MS
+      // fettling waits for the shift; past the horizon's windows it counts round the clock
+      const fettleMs = Math.min(item.fettleShiftHours ?? 0, item.readyHours ?? 0) * HOUR_MS
+      const fettled = afterShiftTime(ctx.wins, demouldAt, fettleMs) ?? demouldAt + fettleMs
+      const ready = fettled + (item.readyHours ?? 0) * HOUR_MS - fettleMs
       if (ready > j.readyAt) j.readyAt = ready
       // the job waits for mould work when a cast goes in on the day its mould becomes free
       const free = p.lane.availableFrom

@@ -214,3 +214,49 @@ export function nextShiftStart(calendar: WorkshopShiftCalendar, at: Date): Date 
   if (!next) throw new PlanningInputError('workingDays', 'no shift starts within 14 days')
   return next.start
 }
+
+/** A shift window as epoch milliseconds (the planner's own form): its breaks as [start, end) pairs. */
+export interface ShiftSpan { start: number; end: number; breaks: [number, number][] }
+
+/**
+ * The instant `ms` of shift time after `t`, counting only inside the windows (in time order)
+ * and outside their breaks; null when the windows run out first. Work done by people (fettling
+ * a cast) waits for the shift: two hours of it from a demould at 15:30 in a shift ending at
+ * 16:00 end at 09:00 the next working morning when the shift starts at 07:30.
+ */
+export function afterShiftTime(windows: readonly ShiftSpan[], t: number, ms: number): number | null {
+  if (!(ms > 0)) return t
+  let left = ms
+  for (const w of windows) {
+    if (w.end <= t) continue
+    // the window less its breaks, as working spans in order
+    let from = w.start
+    const spans: [number, number][] = []
+    for (const [bs, be] of [...w.breaks].sort((a, b) => a[0] - b[0])) {
+      if (bs > from) spans.push([from, Math.min(bs, w.end)])
+      from = Math.max(from, be)
+    }
+    if (from < w.end) spans.push([from, w.end])
+    for (const [s, e] of spans) {
+      const begin = Math.max(s, t)
+      if (e <= begin) continue
+      if (e - begin >= left) return begin + left
+      left -= e - begin
+    }
+  }
+  return null
+}
+
+/**
+ * afterShiftTime on the workshop's calendar, less `closedDays` (holidays: local days, both ends
+ * of each span included), looking up to 60 days ahead.
+ */
+export function addShiftHours(calendar: WorkshopShiftCalendar, at: Date, hours: number, closedDays: readonly { fromDay: string; toDay: string }[] = []): Date {
+  const t = assertPlanningDate(at, 'at').getTime()
+  const spans = shiftWindows({ ...calendar, from: new Date(t - DAY_MS), to: new Date(t + 60 * DAY_MS) })
+    .filter(w => !closedDays.some(c => c.fromDay <= w.day && w.day <= c.toDay))
+    .map(w => ({ start: w.start.getTime(), end: w.end.getTime(), breaks: w.breaks.map((b): [number, number] => [b.start.getTime(), b.end.getTime()]) }))
+  const end = afterShiftTime(spans, t, hours * 3_600_000)
+  if (end === null) throw new PlanningInputError('workingDays', `no ${hours} h of shift within 60 days`)
+  return new Date(end)
+}

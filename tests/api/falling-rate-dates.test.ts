@@ -1,7 +1,8 @@
 // The shop's own falling-rate factor reaches the dates people are given, not only a piece's
 // dry-by: once five pieces have been weighed to constant weight (shared/utils/finishing.ts
 // finishingFallingRate), the client's ready-by date and the planner's projected ready time
-// stretch their drying by the factor the finishing tablet reports. The file's database is its
+// stretch their drying (after fettling, counted in shift time) by the factor the finishing
+// tablet reports. The file's database is its
 // own, so the shop starts with no weighed pieces (factor 1, the default).
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -10,6 +11,7 @@ import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
 import { FETTLING_ALLOWANCE_HOURS } from '#shared/utils/client-completion'
 import { PLASTER_FALLING_RATE_MIN_PIECES } from '#shared/utils/plaster-drying'
+import { addShiftHours, type WorkshopShiftCalendar } from '#shared/utils/workshop-calendar'
 
 const HOUR = 3_600_000
 const range = { from: '2030-01-07', to: '2030-01-18' }
@@ -36,11 +38,12 @@ describe('the shop\'s falling-rate factor in the dates it gives', () => {
       await fx.k('job_items').where({ id: p.itemId }).update({ pieces_needed: 1 })
       pieces.push(p)
     }
-    // the client's job: one piece planned, not cast yet
+    // the client's job: one piece planned, not cast yet, late in the shift (14:30 in London's
+    // summer time, the demo's 07:30–16:00 shift), so its fettling waits for the next morning
     const clientJob = await fx.job()
     await fx.k('job_members').insert({ workshop_id: fx.workshopId, job_id: clientJob, user_id: (await fx.k('users').where({ email: demo.client1.email }).first('id')).id })
     const clientItem = await fx.item(clientJob, null, { pieces_needed: 1 })
-    const planned = await call('/api/pours', { method: 'POST', cookie: fx.lead, body: { mouldId: await fx.mould(), slotStart: '2030-06-04T09:00:00Z', jobItemId: clientItem, casterId: fx.casterId } })
+    const planned = await call('/api/pours', { method: 'POST', cookie: fx.lead, body: { mouldId: await fx.mould(), slotStart: '2030-06-04T13:30:00Z', jobItemId: clientItem, casterId: fx.casterId } })
     expect(planned.status, JSON.stringify(planned.data)).toBe(201)
     const openAt = Date.parse(planned.data.demouldOpenAt)
     // the planner's job: one piece to plan
@@ -61,6 +64,11 @@ describe('the shop\'s falling-rate factor in the dates it gives', () => {
       // the cast comes out at the slot's end less the fixture mould's 10 min clean-out
       return { demouldAt: Date.parse(pour.slotEnd) - 10 * 60_000, readyAt: Date.parse(job.readyAt) }
     }
+    // fettling counts in the shop's shift time, from the cast's demould
+    const ws = await fx.k('workshops').where({ id: fx.workshopId }).first()
+    const calendar: WorkshopShiftCalendar = { timezone: ws.timezone, shiftStart: ws.shift_start, shiftEnd: ws.shift_end, workingDays: ws.working_days.map(Number), breaks: ws.shift_breaks }
+    const fettled = (out: number) => addShiftHours(calendar, new Date(out), FETTLING_ALLOWANCE_HOURS).getTime()
+    expect(fettled(openAt) - openAt).toBeGreaterThan(12 * HOUR)
     const factorNow = async () => (await call('/api/finishing', { cookie: finisher })).data.room.fallingRate as { factor: number; source: string; count: number }
 
     expect(await factorNow()).toMatchObject({ factor: 1, source: 'default' })
@@ -85,14 +93,14 @@ describe('the shop\'s falling-rate factor in the dates it gives', () => {
 
     // the client's date: demould + fettling + drying, the drying now × the factor
     const clientAfter = await clientDate()
-    const drying = (t: number) => (t - openAt) / HOUR - FETTLING_ALLOWANCE_HOURS
+    const drying = (t: number) => (t - fettled(openAt)) / HOUR
     expect(drying(clientBefore)).toBeGreaterThan(1)
     expect(drying(clientAfter) / drying(clientBefore)).toBeCloseTo(shop.factor, 2)
 
     // the planner's: the same cast planned in the same slot, its ready time stretched alike
     const planAfter = await plannerReady()
     expect(planAfter.demouldAt).toBe(planBefore.demouldAt)
-    const planDrying = (x: { demouldAt: number; readyAt: number }) => (x.readyAt - x.demouldAt) / HOUR - FETTLING_ALLOWANCE_HOURS
+    const planDrying = (x: { demouldAt: number; readyAt: number }) => (x.readyAt - fettled(x.demouldAt)) / HOUR
     expect(planDrying(planBefore)).toBeGreaterThan(1)
     expect(planDrying(planAfter) / planDrying(planBefore)).toBeCloseTo(shop.factor, 2)
   })

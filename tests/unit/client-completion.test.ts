@@ -43,6 +43,22 @@ describe('jobCompletion', () => {
     expect(castReadyHours(cast(), { ...room, fallingRateFactor: 1.6 })).toBeCloseTo(FETTLING_ALLOWANCE_HOURS + dryingHours(base.at) * 1.6, 6)
   })
 
+  it('counts fettling in the shift\'s hours when given the calendar: a cast out at 15:30 is fettled by 09:00 next morning', () => {
+    const calendar = { timezone: 'UTC', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
+    const late = cast({ demouldOpenAt: new Date('2027-05-03T15:30:00Z') }) // a Monday
+    const r = jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [late], room, calendar })
+    const dry = finishingDryBy({ from: new Date('2027-05-04T09:00:00Z'), wetMassKg: 4.4, dryMassKg: 3.4, cavityLitres: 2.5, airTempC: 18, relHumidityPct: 60 })
+    expect(r).toEqual({ kind: 'ready_by', at: dry.dryBy })
+    // round the clock without the calendar: 17:30 the same day, then the drying
+    const plain = jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [late], room })
+    if (plain.kind !== 'ready_by') throw new Error('expected a date')
+    expect(dry.dryBy!.getTime() - plain.at.getTime()).toBe(15.5 * 3_600_000)
+    // a closure on the Tuesday moves it a day on
+    const closed = jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [late], room, calendar, closures: [{ fromDay: '2027-05-04', toDay: '2027-05-04' }] })
+    if (closed.kind !== 'ready_by') throw new Error('expected a date')
+    expect(closed.at.getTime() - dry.dryBy!.getTime()).toBe(24 * 3_600_000)
+  })
+
   it('says it cannot tell in saturated air', () => {
     expect(jobCompletion({ items: [{ piecesNeeded: 1, planned: 1 }], casts: [cast()], room: { tempC: 18, humidityPct: 100 } })).toEqual({ kind: 'never_dries' })
   })

@@ -274,6 +274,18 @@ describe('honest finish dates', () => {
     expect(late.jobs[0]!.onTime).toBe(false)
   })
 
+  it('counts the fettling hours in the shop\'s shift time, the drying round the clock', () => {
+    const bare = planPours(baseInput({ items: [item('i1', { piecesRemaining: 1 })] }))
+    const demouldAt = bare.jobs[0]!.readyAt!.getTime()
+    // our own check: the fettling fits the shift after a morning demould, so 2 h of it plus 70 h
+    // of drying is 72 h as before; 8.5 h of fettling (a whole shift) ends at the same clock the
+    // next working day, 24 h on, then the 70 h of drying
+    const twoHours = planPours(baseInput({ items: [item('i1', { piecesRemaining: 1, readyHours: 72, fettleShiftHours: 2 })] }))
+    expect(twoHours.jobs[0]!.readyAt!.getTime()).toBe(demouldAt + 72 * 3_600_000)
+    const shift = planPours(baseInput({ items: [item('i1', { piecesRemaining: 1, readyHours: 78.5, fettleShiftHours: 8.5 })] }))
+    expect(shift.jobs[0]!.readyAt!.getTime()).toBe(demouldAt + (24 + 70) * 3_600_000)
+  })
+
   it('gives no date when the drying room would never dry the casts, and says why', () => {
     const result = planPours(baseInput({ items: [item('i1', { readyHours: null })] }))
     expect(result.jobs[0]!.projectedDate).toBeNull()

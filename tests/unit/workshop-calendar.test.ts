@@ -3,6 +3,8 @@ import { DateTime } from 'luxon'
 import { PlasterInputError } from '#shared/utils/plaster'
 import {
   PlanningInputError,
+  addShiftHours,
+  afterShiftTime,
   isInsideShift,
   nextShiftStart,
   shiftWindows,
@@ -98,5 +100,39 @@ describe('isInsideShift and nextShiftStart', () => {
     expect(iso(nextShiftStart(london, new Date('2026-12-07T07:31:00Z')))).toBe('2026-12-08T07:30:00.000Z')
     // Friday 2026-10-23 after work (BST) → Monday 2026-10-26, now GMT.
     expect(iso(nextShiftStart(london, new Date('2026-10-23T16:00:00Z')))).toBe('2026-10-26T07:30:00.000Z')
+  })
+})
+
+// Shift time for people's work (fettling): our own worked examples on London's 07:30–16:00
+// weekday shift (December: GMT, so local and UTC clocks agree), with a 12:00–12:30 break.
+describe('addShiftHours and afterShiftTime', () => {
+  const withBreak = { ...london, breaks: [{ start: '12:00', end: '12:30' }] }
+  it('counts inside the shift only: 2 h from 15:30 end at 09:00 the next working morning', () => {
+    expect(iso(addShiftHours(london, new Date('2026-12-07T15:30:00Z'), 2))).toBe('2026-12-08T09:00:00.000Z')
+    // from Friday 15:00: one hour on Friday, one on Monday from 07:30
+    expect(iso(addShiftHours(london, new Date('2026-12-11T15:00:00Z'), 2))).toBe('2026-12-14T08:30:00.000Z')
+    // from before the shift: it starts at 07:30
+    expect(iso(addShiftHours(london, new Date('2026-12-07T05:00:00Z'), 2))).toBe('2026-12-07T09:30:00.000Z')
+    // inside a shift with room to spare: plain addition
+    expect(iso(addShiftHours(london, new Date('2026-12-07T08:00:00Z'), 2))).toBe('2026-12-07T10:00:00.000Z')
+  })
+
+  it('skips the breaks and the closed days', () => {
+    // 11:00 + 2 h of work: 11:00–12:00, break, 12:30–13:30
+    expect(iso(addShiftHours(withBreak, new Date('2026-12-07T11:00:00Z'), 2))).toBe('2026-12-07T13:30:00.000Z')
+    // from inside the break: the work starts when it ends
+    expect(iso(addShiftHours(withBreak, new Date('2026-12-07T12:10:00Z'), 1))).toBe('2026-12-07T13:30:00.000Z')
+    // Thursday 24 December after 15:00, the 25th and 28th closed: the rest on Tuesday 29th
+    const closed = [{ fromDay: '2026-12-25', toDay: '2026-12-25' }, { fromDay: '2026-12-28', toDay: '2026-12-28' }]
+    expect(iso(addShiftHours(london, new Date('2026-12-24T15:00:00Z'), 2, closed))).toBe('2026-12-29T08:30:00.000Z')
+  })
+
+  it('answers the instant itself for no time, and null when the windows run out', () => {
+    const spans = [{ start: 0, end: 100, breaks: [[40, 60]] as [number, number][] }]
+    expect(afterShiftTime(spans, 10, 0)).toBe(10)
+    expect(afterShiftTime(spans, 10, 30)).toBe(40)
+    expect(afterShiftTime(spans, 10, 31)).toBe(61)
+    expect(afterShiftTime(spans, 10, 70)).toBe(100)
+    expect(afterShiftTime(spans, 10, 71)).toBeNull()
   })
 })
