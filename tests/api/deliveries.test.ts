@@ -70,6 +70,32 @@ describe('crates', () => {
     expect(label.data).toMatchObject({ job: { code: jobCode, site: `Site ${fx.tag}` }, crate: { label: r.data.label } })
   })
 
+  it('flags a crate over the heaviest crate the lead sets in the workshop settings, on the packing screen and the crate label', async () => {
+    const [a, b] = [await next('ready'), await next('ready')]
+    // cast heavier than the fixture's pours, so two of them pass a limit the settings accept (10 kg at least)
+    await fx.k('pieces').whereIn('id', [a.id, b.id]).update({ dry_mass_kg: 7.25, wet_mass_kg: 8.5 })
+    const settings = (await call('/api/workshop', { cookie: fx.lead })).data
+    const set = await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...settings, crateMaxKg: 14 } })
+    expect(set.status, JSON.stringify(set.data)).toBe(200)
+    try {
+      const crate = await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [a.id, b.id] } })
+      expect(crate.status).toBe(201)
+      expect(crate.data).toMatchObject({ totalKg: 14.5, overWeight: true })
+      const screen = await call(`/api/jobs/${jobId}/crates`, { cookie: fx.lead })
+      expect(screen.data.crateMaxKg).toBe(14)
+      expect(screen.data.crates.find((c: { id: number }) => c.id === crate.data.id).overWeight).toBe(true)
+      expect((await call(`/api/crates/${crate.data.id}`, { cookie: finisher })).data).toMatchObject({ crateMaxKg: 14, crate: { overWeight: true } })
+      // raised past its weight, the same crate is no longer flagged
+      const raised = await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...set.data, crateMaxKg: 14.5 } })
+      expect(raised.status).toBe(200)
+      expect((await call(`/api/crates/${crate.data.id}`, { cookie: finisher })).data).toMatchObject({ crateMaxKg: 14.5, crate: { overWeight: false } })
+    }
+    finally {
+      const now = (await call('/api/workshop', { cookie: fx.lead })).data
+      await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...now, crateMaxKg: 250 } })
+    }
+  })
+
   it('refuses a piece that is not ready, naming it, and packs nothing', async () => {
     const [ok, wet] = [await next('ready'), await next('drying')]
     const r = await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [ok.id, wet.id] } })
