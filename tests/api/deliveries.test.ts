@@ -188,6 +188,52 @@ describe('deliveries and the proof of delivery', () => {
     expect(JSON.stringify(r.data)).toContain('Signature')
     expect((await fx.k('deliveries').where({ id: booked.data.id }).first()).state).toBe('booked')
   })
+  it('refuses crates and loose pieces of another job and an empty crate, naming each in the form\'s words, and a crate booked twice', async () => {
+    const otherJob = await fx.job()
+    const otherItem = await fx.item(otherJob, null)
+    const [theirs, stray, ours] = [await next('ready'), await next('packed'), await next('packed')]
+    await fx.k('pieces').whereIn('id', [theirs.id, stray.id]).update({ job_item_id: otherItem })
+    const theirCrate = (await call(`/api/jobs/${otherJob}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [theirs.id] } })).data
+    const empty = (await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: {} })).data
+    const full = (await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [ours.id] } })).data
+    const book = (body: Record<string, unknown>) => call(`/api/jobs/${jobId}/deliveries`, { method: 'POST', cookie: fx.lead, body: { deliveryDay: '2031-05-12', vehicle: 'Van 5', ...body } })
+    const refused = async (body: Record<string, unknown>) => {
+      const r = await book(body)
+      expect(r.status, JSON.stringify(r.data)).toBe(422)
+      return r.data.data.problems
+    }
+    // crates are named by the label on them (C1…), never by an id
+    expect(await refused({ crateIds: [theirCrate.id] })).toEqual([{ field: 'crateIds', message: `Crates of another job than ${jobCode}: ${theirCrate.label}` }])
+    expect(await refused({ pieceIds: [stray.id] })).toEqual([{ field: 'pieceIds', message: `Pieces of another job than ${jobCode}: ${stray.mark}` }])
+    expect(await refused({ crateIds: [empty.id] })).toEqual([{ field: 'crateIds', message: `Crates with nothing packed in them cannot be delivered: ${empty.label}` }])
+    expect(await fx.k('deliveries').where({ job_id: jobId, vehicle: 'Van 5' })).toHaveLength(0)
+    // packing another job's piece into this job's crate is refused the same way
+    const packed = await call(`/api/crates/${full.id}/pieces`, { method: 'POST', cookie: finisher, body: { pieceIds: [stray.id] } })
+    expect(packed.data.data.problems).toEqual([{ field: 'pieceIds', message: `Pieces of another job: ${stray.mark}` }])
+
+    expect((await book({ crateIds: [full.id] })).status).toBe(201)
+    const twice = await book({ crateIds: [full.id] })
+    expect(twice.status).toBe(409)
+    expect(twice.data.message).toBe(`Already on a delivery: ${full.label}`)
+    expect(await fx.k('deliveries').where({ job_id: jobId, vehicle: 'Van 5' })).toHaveLength(1)
+  })
+
+  it('refuses a proof with a photo of another job or a broken piece not on the delivery, in the form\'s words, and signs nothing', async () => {
+    const [p, elsewhere] = [await next('packed'), await next('packed')]
+    const booked = await call(`/api/jobs/${jobId}/deliveries`, { method: 'POST', cookie: fx.lead, body: { deliveryDay: '2031-05-14', vehicle: 'Van 6', pieceIds: [p.id] } })
+    expect(booked.status).toBe(201)
+    const photo = await call(`/api/jobs/${await fx.job()}/photos`, { method: 'POST', cookie: finisher, form: photoForm([{ name: 'elsewhere.jpg', data: await jpegWithGps(64, 48) }]) })
+    expect(photo.status).toBe(201)
+    const sign = (extra: Record<string, unknown>) => call(`/api/deliveries/${booked.data.id}/proof`, { method: 'POST', cookie: finisher, body: { actionId: randomUUID(), receiverName: 'Petra Site-Manager', signature: SIGNATURE, ...extra } })
+    const wrongPhoto = await sign({ photoId: photo.data[0].id })
+    expect(wrongPhoto.status).toBe(422)
+    expect(wrongPhoto.data.data.problems).toEqual([{ field: 'photoId', message: 'Photo must be a photo of this job' }])
+    const wrongPiece = await sign({ broken: [{ pieceId: elsewhere.id, note: 'cracked in the yard' }] })
+    expect(wrongPiece.status).toBe(422)
+    expect(wrongPiece.data.data.problems).toEqual([{ field: 'broken', message: 'Broken pieces may only list pieces on this delivery' }])
+    expect((await fx.k('deliveries').where({ id: booked.data.id }).first()).state).toBe('booked')
+    expect((await fx.k('pieces').whereIn('id', [p.id, elsewhere.id]).select('state')).map(r => r.state)).toEqual(['packed', 'packed'])
+  })
 })
 
 describe('calendar feeds', () => {
