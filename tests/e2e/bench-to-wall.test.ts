@@ -152,6 +152,9 @@ describe('from the bench to the wall', () => {
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD)
     await page.goto(`${base}/loads/${jobId}`)
     await page.locator('html[data-hydrated]').waitFor()
+    // the heaviest crate the workshop set (the column's default, 250 kg), and where a lead changes it
+    expect(await page.getByTestId('crate-max').textContent()).toContain('250.00 kg')
+    expect(await page.getByTestId('crate-max').getByRole('link', { name: 'change it in the settings' }).getAttribute('href')).toBe('/lead/settings')
     await page.getByLabel(piece.mark, { exact: false }).check()
     await page.getByTestId('pack').click()
     const crate = page.locator('[data-crate]').first()
