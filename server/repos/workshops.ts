@@ -16,13 +16,15 @@ export interface WorkshopRow {
   default_shop_temp_c: number
   default_humidity_pct: number
   locale: WorkshopLocale
+  /** the heaviest crate it packs, kg (numeric, parsed to a number: server/utils/db.ts) */
+  crate_max_kg: number
   version: number
 }
 
-/** What a set-up or a save writes; a save without a locale keeps the workshop's own. */
-type WorkshopWrite = Omit<WorkshopRow, 'id' | 'version' | 'locale'> & { locale?: WorkshopLocale }
+/** What a set-up or a save writes; a save without a locale or heaviest crate keeps the workshop's own. */
+type WorkshopWrite = Omit<WorkshopRow, 'id' | 'version' | 'locale' | 'crate_max_kg'> & { locale?: WorkshopLocale; crate_max_kg?: number }
 
-const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'shift_breaks', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'locale', 'version']
+const COLUMNS = ['id', 'name', 'units', 'timezone', 'shift_start', 'shift_end', 'shift_breaks', 'working_days', 'default_shop_temp_c', 'default_humidity_pct', 'locale', 'crate_max_kg', 'version']
 
 // the driver writes a JS array as a PostgreSQL array: the jsonb column gets its JSON text
 const asColumns = <T extends { shift_breaks: ShiftBreak[] }>(row: T) => ({ ...row, shift_breaks: JSON.stringify(row.shift_breaks) })
@@ -56,7 +58,7 @@ export const workshopsRepo = {
 }
 
 /** GET / PATCH /api/workshop: the settings as the settings form edits them (times as HH:MM). */
-export function workshopDto(row: WorkshopRow): WorkshopSettings & { locale: WorkshopLocale } {
+export function workshopDto(row: WorkshopRow): WorkshopSettings & { locale: WorkshopLocale; crateMaxKg: number } {
   return {
     name: row.name,
     units: row.units,
@@ -68,6 +70,7 @@ export function workshopDto(row: WorkshopRow): WorkshopSettings & { locale: Work
     defaultShopTempC: row.default_shop_temp_c,
     defaultHumidityPct: row.default_humidity_pct,
     locale: row.locale,
+    crateMaxKg: Number(row.crate_max_kg),
     version: row.version,
   }
 }

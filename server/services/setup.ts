@@ -75,6 +75,7 @@ export async function setUpWorkshop(event: H3Event, input: SetupInput) {
       name: input.name, units: input.units, timezone, shift_start: input.shiftStart, shift_end: input.shiftEnd, shift_breaks: input.shiftBreaks,
       working_days: [...new Set(input.workingDays)].sort(), default_shop_temp_c: input.defaultShopTempC, default_humidity_pct: input.defaultHumidityPct,
       ...(input.locale ? { locale: input.locale } : {}),
+      ...(input.crateMaxKg !== undefined ? { crate_max_kg: input.crateMaxKg } : {}),
     })
     const lead = await usersRepo.insert(trx, { workshop_id: ws.id, email: input.leadEmail, name: input.leadName, role: 'lead', password_hash: passwordHash })
     await setupCodesRepo.useAll(trx)

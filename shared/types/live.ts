@@ -28,6 +28,8 @@ export interface LiveWorkshop {
   defaultHumidityPct: number
   /** how days and numbers are written (shared/utils/workshop-format.ts) */
   locale: 'en-GB' | 'en-US'
+  /** the heaviest crate it packs, kg (over it a crate is flagged) */
+  crateMaxKg: number
   version: number
 }
 

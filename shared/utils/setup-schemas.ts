@@ -1,7 +1,7 @@
 // First-run set-up (the /setup page and POST /api/setup): the one-time code printed on the
 // server's console, the workshop's settings, and its first lead.
 import { z } from 'zod'
-import { checkShiftBreaks, workshopFields } from './workshop-schemas'
+import { checkCrateMax, checkShiftBreaks, workshopFields } from './workshop-schemas'
 import { PASSWORD_MIN } from './auth-schemas'
 
 /** Code letters without 0/O and 1/I/L, so a code read off a console is typed right. */
@@ -24,5 +24,6 @@ export const setupSchema = z.object({
     .max(200, { error: 'Password must be at most 200 characters' }),
 }).refine(v => v.shiftStart < v.shiftEnd, { path: ['shiftEnd'], error: 'shiftEnd must be after shiftStart' })
   .superRefine(checkShiftBreaks)
+  .superRefine(checkCrateMax)
 
 export type SetupInput = z.infer<typeof setupSchema>

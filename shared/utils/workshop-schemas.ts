@@ -1,7 +1,9 @@
 // The workshop's own settings (lead): display units, timezone, shift hours and breaks, working
-// days, and the usual shop conditions that drive demould windows when a day has none entered.
+// days, the usual shop conditions that drive demould windows when a day has none entered, and
+// the heaviest crate it packs (stored in kg, typed in the units chosen beside it).
 import { z } from 'zod'
 import { PG_INTEGER_MAX } from './input-fields'
+import { UNIT_LABELS, toDisplay, type UnitSystem } from './units-display'
 import type { WorkshopLocale } from './workshop-format'
 
 const hhmm = (field: string) => z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { error: `${field} must be a time as HH:MM` })
@@ -37,6 +39,28 @@ export function checkShiftBreaks(v: { shiftStart: string; shiftEnd: string; shif
   })
 }
 
+/**
+ * The heaviest crate a workshop may set, kg: from 10 (below that a crate holds hardly one cast
+ * and the team-lift mark at 25 kg already speaks for it) to 2000 (a common counterbalance
+ * forklift's rated load; heavier loads are a haulier's plan, not a crate). Our choice, no source.
+ * Packing over it warns and refuses nothing (server/services/deliveries.ts).
+ */
+export const CRATE_MAX_KG_RANGE = { min: 10, max: 2000 } as const
+
+/**
+ * The heaviest crate within CRATE_MAX_KG_RANGE, refused in the units the form shows (the body's
+ * `units`): the bounds in lb are rounded inwards to one decimal, so a figure typed at the bound
+ * shown is accepted.
+ */
+export function checkCrateMax(v: { units: UnitSystem; crateMaxKg?: number }, ctx: z.RefinementCtx) {
+  if (v.crateMaxKg === undefined) return
+  const { min, max } = CRATE_MAX_KG_RANGE
+  if (v.crateMaxKg >= min && v.crateMaxKg <= max) return
+  const lo = Math.ceil(toDisplay.mass(min, v.units) * 10) / 10
+  const hi = Math.floor(toDisplay.mass(max, v.units) * 10) / 10
+  ctx.addIssue({ code: 'custom', path: ['crateMaxKg'], message: `crateMaxKg must be between ${lo} and ${hi} ${UNIT_LABELS[v.units].mass}` })
+}
+
 /** The settings a workshop is created with (first-run set-up) and later edited with. */
 export const workshopFields = {
   name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' }),
@@ -51,6 +75,8 @@ export const workshopFields = {
   defaultHumidityPct: z.number({ error: 'defaultHumidityPct must be a percentage' }).min(0, { error: 'defaultHumidityPct must be between 0 and 100' }).max(100, { error: 'defaultHumidityPct must be between 0 and 100' }),
   /** How days and numbers are written (shared/utils/workshop-format.ts); left out, a save keeps the workshop's own. */
   locale: z.enum(['en-GB', 'en-US'] as const satisfies readonly WorkshopLocale[], { error: 'locale must be English (UK) or English (US)' }).optional(),
+  /** kg (the form converts from lb); its range in checkCrateMax; left out, a save keeps the workshop's own (250 kg when set up). */
+  crateMaxKg: z.number({ error: 'crateMaxKg must be a number' }).optional(),
 }
 
 export const workshopSettingsSchema = z.object({
@@ -58,5 +84,6 @@ export const workshopSettingsSchema = z.object({
   ...workshopFields,
 }).refine(v => v.shiftStart < v.shiftEnd, { path: ['shiftEnd'], error: 'shiftEnd must be after shiftStart' })
   .superRefine(checkShiftBreaks)
+  .superRefine(checkCrateMax)
 
 export type WorkshopSettings = z.infer<typeof workshopSettingsSchema>

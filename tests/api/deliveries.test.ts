@@ -70,6 +70,32 @@ describe('crates', () => {
     expect(label.data).toMatchObject({ job: { code: jobCode, site: `Site ${fx.tag}` }, crate: { label: r.data.label } })
   })
 
+  it('flags a crate over the heaviest crate the lead sets in the workshop settings, on the packing screen and the crate label', async () => {
+    const [a, b] = [await next('ready'), await next('ready')]
+    // cast heavier than the fixture's pours, so two of them pass a limit the settings accept (10 kg at least)
+    await fx.k('pieces').whereIn('id', [a.id, b.id]).update({ dry_mass_kg: 7.25, wet_mass_kg: 8.5 })
+    const settings = (await call('/api/workshop', { cookie: fx.lead })).data
+    const set = await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...settings, crateMaxKg: 14 } })
+    expect(set.status, JSON.stringify(set.data)).toBe(200)
+    try {
+      const crate = await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [a.id, b.id] } })
+      expect(crate.status).toBe(201)
+      expect(crate.data).toMatchObject({ totalKg: 14.5, overWeight: true })
+      const screen = await call(`/api/jobs/${jobId}/crates`, { cookie: fx.lead })
+      expect(screen.data.crateMaxKg).toBe(14)
+      expect(screen.data.crates.find((c: { id: number }) => c.id === crate.data.id).overWeight).toBe(true)
+      expect((await call(`/api/crates/${crate.data.id}`, { cookie: finisher })).data).toMatchObject({ crateMaxKg: 14, crate: { overWeight: true } })
+      // raised past its weight, the same crate is no longer flagged
+      const raised = await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...set.data, crateMaxKg: 14.5 } })
+      expect(raised.status).toBe(200)
+      expect((await call(`/api/crates/${crate.data.id}`, { cookie: finisher })).data).toMatchObject({ crateMaxKg: 14.5, crate: { overWeight: false } })
+    }
+    finally {
+      const now = (await call('/api/workshop', { cookie: fx.lead })).data
+      await call('/api/workshop', { method: 'PATCH', cookie: fx.lead, body: { ...now, crateMaxKg: 250 } })
+    }
+  })
+
   it('refuses a piece that is not ready, naming it, and packs nothing', async () => {
     const [ok, wet] = [await next('ready'), await next('drying')]
     const r = await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [ok.id, wet.id] } })
@@ -161,6 +187,52 @@ describe('deliveries and the proof of delivery', () => {
     expect(r.status).toBe(422)
     expect(JSON.stringify(r.data)).toContain('Signature')
     expect((await fx.k('deliveries').where({ id: booked.data.id }).first()).state).toBe('booked')
+  })
+  it('refuses crates and loose pieces of another job and an empty crate, naming each in the form\'s words, and a crate booked twice', async () => {
+    const otherJob = await fx.job()
+    const otherItem = await fx.item(otherJob, null)
+    const [theirs, stray, ours] = [await next('ready'), await next('packed'), await next('packed')]
+    await fx.k('pieces').whereIn('id', [theirs.id, stray.id]).update({ job_item_id: otherItem })
+    const theirCrate = (await call(`/api/jobs/${otherJob}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [theirs.id] } })).data
+    const empty = (await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: {} })).data
+    const full = (await call(`/api/jobs/${jobId}/crates`, { method: 'POST', cookie: finisher, body: { pieceIds: [ours.id] } })).data
+    const book = (body: Record<string, unknown>) => call(`/api/jobs/${jobId}/deliveries`, { method: 'POST', cookie: fx.lead, body: { deliveryDay: '2031-05-12', vehicle: 'Van 5', ...body } })
+    const refused = async (body: Record<string, unknown>) => {
+      const r = await book(body)
+      expect(r.status, JSON.stringify(r.data)).toBe(422)
+      return r.data.data.problems
+    }
+    // crates are named by the label on them (C1…), never by an id
+    expect(await refused({ crateIds: [theirCrate.id] })).toEqual([{ field: 'crateIds', message: `Crates of another job than ${jobCode}: ${theirCrate.label}` }])
+    expect(await refused({ pieceIds: [stray.id] })).toEqual([{ field: 'pieceIds', message: `Pieces of another job than ${jobCode}: ${stray.mark}` }])
+    expect(await refused({ crateIds: [empty.id] })).toEqual([{ field: 'crateIds', message: `Crates with nothing packed in them cannot be delivered: ${empty.label}` }])
+    expect(await fx.k('deliveries').where({ job_id: jobId, vehicle: 'Van 5' })).toHaveLength(0)
+    // packing another job's piece into this job's crate is refused the same way
+    const packed = await call(`/api/crates/${full.id}/pieces`, { method: 'POST', cookie: finisher, body: { pieceIds: [stray.id] } })
+    expect(packed.data.data.problems).toEqual([{ field: 'pieceIds', message: `Pieces of another job: ${stray.mark}` }])
+
+    expect((await book({ crateIds: [full.id] })).status).toBe(201)
+    const twice = await book({ crateIds: [full.id] })
+    expect(twice.status).toBe(409)
+    expect(twice.data.message).toBe(`Already on a delivery: ${full.label}`)
+    expect(await fx.k('deliveries').where({ job_id: jobId, vehicle: 'Van 5' })).toHaveLength(1)
+  })
+
+  it('refuses a proof with a photo of another job or a broken piece not on the delivery, in the form\'s words, and signs nothing', async () => {
+    const [p, elsewhere] = [await next('packed'), await next('packed')]
+    const booked = await call(`/api/jobs/${jobId}/deliveries`, { method: 'POST', cookie: fx.lead, body: { deliveryDay: '2031-05-14', vehicle: 'Van 6', pieceIds: [p.id] } })
+    expect(booked.status).toBe(201)
+    const photo = await call(`/api/jobs/${await fx.job()}/photos`, { method: 'POST', cookie: finisher, form: photoForm([{ name: 'elsewhere.jpg', data: await jpegWithGps(64, 48) }]) })
+    expect(photo.status).toBe(201)
+    const sign = (extra: Record<string, unknown>) => call(`/api/deliveries/${booked.data.id}/proof`, { method: 'POST', cookie: finisher, body: { actionId: randomUUID(), receiverName: 'Petra Site-Manager', signature: SIGNATURE, ...extra } })
+    const wrongPhoto = await sign({ photoId: photo.data[0].id })
+    expect(wrongPhoto.status).toBe(422)
+    expect(wrongPhoto.data.data.problems).toEqual([{ field: 'photoId', message: 'Photo must be a photo of this job' }])
+    const wrongPiece = await sign({ broken: [{ pieceId: elsewhere.id, note: 'cracked in the yard' }] })
+    expect(wrongPiece.status).toBe(422)
+    expect(wrongPiece.data.data.problems).toEqual([{ field: 'broken', message: 'Broken pieces may only list pieces on this delivery' }])
+    expect((await fx.k('deliveries').where({ id: booked.data.id }).first()).state).toBe('booked')
+    expect((await fx.k('pieces').whereIn('id', [p.id, elsewhere.id]).select('state')).map(r => r.state)).toEqual(['packed', 'packed'])
   })
 })
 

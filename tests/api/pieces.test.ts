@@ -89,6 +89,11 @@ describe('labels', () => {
     const token = url.searchParams.get('label')!
     expect(token).toMatch(LABEL_TOKEN_PATTERN)
     expect(first.data).toMatchObject({ pieceId: p.id, mark: p.mark, teamLift: false })
+    // what the label prints beside the code: its job, its item and the weight to lift it at
+    // (a cast not yet fettled at its wet mass, finishingHandlingKg)
+    const made = await fx.k('job_items').join('jobs', 'jobs.id', 'job_items.job_id').where('job_items.id', p.itemId).first('jobs.code', 'jobs.title', 'job_items.description')
+    expect(first.data).toMatchObject({ job: { code: made.code, title: made.title }, item: made.description })
+    expect(first.data.kg).toBeCloseTo(p.wetMassKg, 2)
     expect(await readQr(first.data.qrSvg)).toBe(first.data.url)
     const again = await call(`/api/pieces/${p.id}/label`, { cookie: finisher })
     expect(again.data.url).toBe(first.data.url)

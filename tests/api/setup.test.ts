@@ -8,7 +8,8 @@ import { startEmptyServer } from '../setup/empty-server'
 
 const SHOP = {
   name: 'Quarry Lane Mouldings', units: 'imperial', timezone: 'America/Chicago', shiftStart: '06:30', shiftEnd: '15:00',
-  workingDays: [2, 1, 3, 4], defaultShopTempC: 20, defaultHumidityPct: 45,
+  // 450 lb typed on the imperial form: 450 × 0.45359237 = 204.117 kg to the column's three decimals (NIST SP 811)
+  workingDays: [2, 1, 3, 4], defaultShopTempC: 20, defaultHumidityPct: 45, crateMaxKg: 204.117,
   leadName: 'Ada Lead', leadEmail: 'Ada.Lead@quarry.example.test', leadPassword: 'first-lead-pass-1',
 }
 
@@ -45,6 +46,10 @@ describe('on an empty database', () => {
     const badField = await call('/api/setup', { method: 'POST', body: { ...SHOP, code: first, leadPassword: 'short' } })
     expect(badField.status).toBe(422)
     expect(JSON.stringify(badField.data)).toMatch(/Password must be at least 10 characters/)
+    // the heaviest crate's bounds in the units chosen on the same form (lb here)
+    const lightCrate = await call('/api/setup', { method: 'POST', body: { ...SHOP, code: first, crateMaxKg: 5 } })
+    expect(lightCrate.status).toBe(422)
+    expect(lightCrate.data.data.problems).toEqual([{ field: 'crateMaxKg', message: 'Heaviest crate must be between 22.1 and 4409.2 lb' }])
 
     // the code expires: the set-up page then prints a new one, and only the new one works
     await testDb()('setup_codes').update({ expires_at: testDb().raw('now() - interval \'1 second\'') })
@@ -63,7 +68,7 @@ describe('on an empty database', () => {
 
     const settings = await call('/api/workshop', { cookie: done.cookie })
     expect(settings.status).toBe(200)
-    expect(settings.data).toMatchObject({ name: 'Quarry Lane Mouldings', units: 'imperial', timezone: 'America/Chicago', shiftStart: '06:30', shiftEnd: '15:00', workingDays: [1, 2, 3, 4], defaultShopTempC: 20, defaultHumidityPct: 45 })
+    expect(settings.data).toMatchObject({ name: 'Quarry Lane Mouldings', units: 'imperial', timezone: 'America/Chicago', shiftStart: '06:30', shiftEnd: '15:00', workingDays: [1, 2, 3, 4], defaultShopTempC: 20, defaultHumidityPct: 45, crateMaxKg: 204.117 })
 
     const db = testDb()
     expect(await db('workshops').count('* as n').first()).toEqual({ n: '1' })

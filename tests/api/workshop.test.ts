@@ -1,4 +1,5 @@
-// Workshop settings: validation naming the field, versioned saves, tenancy.
+// Workshop settings: validation naming the field, versioned saves, tenancy, the heaviest crate
+// in the workshop's mass units.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
@@ -34,12 +35,43 @@ describe('workshop settings', () => {
       [{ ...s, workingDays: [0] }, 'workingDays.0'],
       [{ ...s, defaultShopTempC: 90 }, 'defaultShopTempC'],
       [{ ...s, name: '' }, 'name'],
+      [{ ...s, crateMaxKg: 'heavy' }, 'crateMaxKg'],
+      [{ ...s, crateMaxKg: 2500 }, 'crateMaxKg'],
     ]
     for (const [body, field] of cases) {
       const r = await call('/api/workshop', { method: 'PATCH', cookie: lead, body })
       expect(r.status, field).toBe(422)
       expect(r.data.data.problems[0].field).toBe(field)
     }
+  })
+
+  it('sets the heaviest crate in kg, and refuses one out of range in the units the form shows', async () => {
+    const s = (await call('/api/workshop', { cookie: lead })).data
+    // the demo workshop keeps the column's default (db/migrations/20261206070000_crates_deliveries.ts)
+    expect(s.crateMaxKg).toBe(250)
+    const saved = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...s, crateMaxKg: 180.5 } })
+    expect(saved.status).toBe(200)
+    expect(saved.data.crateMaxKg).toBe(180.5)
+    expect((await call('/api/workshop', { cookie: lead })).data.crateMaxKg).toBe(180.5)
+    // a save that leaves it out (an older form) keeps it
+    const { crateMaxKg: _left, ...without } = saved.data
+    const kept = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: without })
+    expect(kept.status).toBe(200)
+    expect(kept.data.crateMaxKg).toBe(180.5)
+
+    const metric = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...kept.data, crateMaxKg: 9.5 } })
+    expect(metric.status).toBe(422)
+    expect(metric.data.data.problems).toEqual([{ field: 'crateMaxKg', message: 'Heaviest crate must be between 10 and 2000 kg' }])
+    // on imperial the bounds are read in lb, rounded inwards (1 lb = 0.45359237 kg, NIST SP 811):
+    // 10 kg = 22.05 lb → 22.1, 2000 kg = 4409.25 lb → 4409.2
+    const imperial = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...kept.data, units: 'imperial', crateMaxKg: 2000.5 } })
+    expect(imperial.status).toBe(422)
+    expect(imperial.data.message).toBe('Heaviest crate must be between 22.1 and 4409.2 lb')
+    const notNumber = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...kept.data, crateMaxKg: '200' } })
+    expect(notNumber.data.data.problems[0]).toEqual({ field: 'crateMaxKg', message: 'Heaviest crate must be a number' })
+    const after = (await call('/api/workshop', { cookie: lead })).data
+    expect(after).toMatchObject({ crateMaxKg: 180.5, units: 'metric', version: kept.data.version })
+    expect((await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...after, crateMaxKg: 250 } })).status).toBe(200)
   })
 
   it('a lead sees and changes only their own workshop', async () => {

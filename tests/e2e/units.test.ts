@@ -75,7 +75,7 @@ describe('a workshop on imperial', () => {
       { workshop_id: workshopId, grade_id: gradeId, lot_code: 'UNITS-STALE', bags_received: 10, bag_kg: 25, received_on: '2026-01-01', use_by: '2026-01-02' },
     ])
     const paths = ['/lead', '/lead/jobs', `/lead/jobs/${job.id}`, `/lead/jobs/${job.id}/register`, '/lead/moulds', `/lead/moulds/${mould.id}`,
-      '/lead/plasters', '/lead/lots', '/lead/quality', '/lead/settings', '/day-sheet?day=2027-04-21', '/day-sheet', '/mix', '/cautions', '/account',
+      '/lead/plasters', '/lead/lots', '/lead/quality', '/lead/settings', `/loads/${job.id}`, '/day-sheet?day=2027-04-21', '/day-sheet', '/mix', '/cautions', '/account',
       ...(dispatch ? [`/dispatches/${dispatch.id}`] : [])]
     const found = await walk(page, paths)
     await screenshot(page, 'units-imperial-last-lead-page')
@@ -87,7 +87,7 @@ describe('a workshop on imperial', () => {
     await page.getByText('Lot UNITS-STALE is past its use-by date (Fri 2 Jan 2026)').waitFor()
   }, 240_000)
 
-  it('takes the usual temperature in °F and labels the mix card\'s cavity in US gal', async () => {
+  it('takes the usual temperature and the heaviest crate in imperial units and labels the mix card\'s cavity in US gal', async () => {
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.goto(`${base}/lead/settings`)
@@ -96,6 +96,21 @@ describe('a workshop on imperial', () => {
     const shown = Number(await temp.inputValue())
     const stored = (await call('/api/workshop', { cookie: leadCookie })).data.defaultShopTempC
     expect(shown).toBeCloseTo(stored * 1.8 + 32, 1) // °F = 1.8 × °C + 32 (NIST SP 811)
+    // the heaviest crate typed in lb, kept in kg (1 lb = 0.45359237 kg exactly, NIST SP 811)
+    const crate = page.getByLabel('Heaviest crate (lb)')
+    const crateKg = (await call('/api/workshop', { cookie: leadCookie })).data.crateMaxKg
+    expect(Number(await crate.inputValue())).toBeCloseTo(crateKg / 0.45359237, 1)
+    const save = page.getByRole('button', { name: 'Save settings' })
+    // refused in the browser in the form's words, its bounds in lb: 10 kg = 22.05 lb, shown rounded inwards
+    await crate.fill('20')
+    await save.click()
+    await expect(page.locator('form').getByRole('alert').textContent()).resolves.toBe('Heaviest crate must be between 22.1 and 4409.2 lb')
+    await crate.fill('400')
+    await save.click()
+    await page.getByText('Settings saved').waitFor()
+    // 400 lb × 0.45359237 = 181.436948 kg, kept to the column's three decimals
+    expect((await call('/api/workshop', { cookie: leadCookie })).data.crateMaxKg).toBe(181.437)
+    expect(Number(await crate.inputValue())).toBe(400)
     await page.goto(`${base}/mix`)
     await page.getByLabel('Cavity (US gal)').waitFor()
 

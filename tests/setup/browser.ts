@@ -98,3 +98,43 @@ export async function signInThroughForm(page: Page, base: string, email: string,
   if (home) await page.waitForURL(`${base}${home}`)
   else await page.waitForURL(u => !u.pathname.startsWith('/login'))
 }
+
+/**
+ * The camera this page gets: a canvas showing `png` (a data: URL, e.g. a screenshot of a label's
+ * QR code as the print view rendered it), repainted so the stream keeps sending frames. The run's
+ * one chromium is shared by every browser file and launched once, so its fake-camera flags
+ * (--use-file-for-fake-video-capture) cannot carry a test's own picture; the scanner's own path
+ * (video → canvas → jsQR) still reads it, nothing of the decoding is skipped. Call before the
+ * page's first navigation.
+ */
+export async function fakeCamera(page: Page, png: string) {
+  await page.addInitScript((src: string) => {
+    const getUserMedia = async () => {
+      const img = new Image()
+      img.src = src
+      await img.decode()
+      const canvas = document.createElement('canvas')
+      canvas.width = 640
+      canvas.height = 480
+      const ctx = canvas.getContext('2d')!
+      const draw = () => {
+        ctx.fillStyle = '#fff'
+        ctx.fillRect(0, 0, 640, 480)
+        ctx.drawImage(img, 140, 60, 360, 360)
+      }
+      draw()
+      setInterval(draw, 100)
+      return canvas.captureStream(10)
+    }
+    Object.defineProperty(navigator, 'mediaDevices', { configurable: true, value: { getUserMedia } })
+  }, png)
+}
+
+/** Draws a zigzag across a signature pad (the element with `testId`) with the mouse, as a finger would. */
+export async function drawSignature(page: Page, testId: string) {
+  const pad = (await page.getByTestId(testId).boundingBox())!
+  await page.mouse.move(pad.x + 30, pad.y + pad.height / 2)
+  await page.mouse.down()
+  for (let i = 1; i <= 12; i++) await page.mouse.move(pad.x + 30 + i * 25, pad.y + pad.height / 2 + (i % 2 ? -30 : 30), { steps: 3 })
+  await page.mouse.up()
+}

@@ -13,6 +13,7 @@ export default defineEventHandler(async (event) => {
     name: s.name, units: s.units, timezone, shift_start: s.shiftStart, shift_end: s.shiftEnd, shift_breaks: s.shiftBreaks,
     working_days: [...new Set(s.workingDays)].sort(), default_shop_temp_c: s.defaultShopTempC, default_humidity_pct: s.defaultHumidityPct,
     ...(s.locale ? { locale: s.locale } : {}),
+    ...(s.crateMaxKg !== undefined ? { crate_max_kg: s.crateMaxKg } : {}),
   })
   if (!row) conflict('The settings were changed by someone else; reload to see them')
   const dto = workshopDto(row)
