@@ -199,8 +199,8 @@ function listFailedTests() {
     for (const r of j.testResults ?? []) {
       const file = String(r.name).replace(`${root}/`, '')
       const tests = (r.assertionResults ?? []).filter((a: { status: string }) => a.status === 'failed')
-      for (const a of tests) failed.push(`  ${file} › ${a.fullName ?? a.title}\n      ${String(a.failureMessages?.[0] ?? '').split('\n')[0].slice(0, 300)}`)
-      if (!tests.length && r.status === 'failed') failed.push(`  ${file} (the file failed outside a test)\n      ${String(r.message ?? '').split('\n')[0].slice(0, 300)}`)
+      for (const a of tests) failed.push(`  ${file} › ${a.fullName ?? a.title}\n      ${String(a.failureMessages?.[0] ?? '').split('\n')[0]?.slice(0, 300)}`)
+      if (!tests.length && r.status === 'failed') failed.push(`  ${file} (the file failed outside a test)\n      ${String(r.message ?? '').split('\n')[0]?.slice(0, 300)}`)
     }
   }
   if (!failed.length) return
