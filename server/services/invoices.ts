@@ -32,7 +32,7 @@ export function toInvoice(r: InvoiceRow): Invoice {
 }
 
 /** What the invoice is for, in the words of its PDF and mail. */
-const invoiceSubject = (row: InvoiceRow) => (row.note_no ? `dispatch note ${row.note_no}` : row.stage ?? 'the job')
+const invoiceFor = (row: InvoiceRow) => (row.note_no ? `dispatch note ${row.note_no}` : row.stage ?? 'the job')
 
 export async function listInvoices(workshopId: number): Promise<Invoice[]> {
   return (await invoicesRepo.list(useDb(), workshopId)).map(toInvoice)
@@ -81,7 +81,7 @@ export async function issueInvoice(actor: Actor, jobId: number, input: { dispatc
     const row = (await invoicesRepo.byId(trx, ws, id))!
     // the client's contacts with invoice mail on get it with its PDF, queued in this transaction
     await notifyInvoiceIssued(trx, ws, {
-      id, number: invoiceNumber(row.number), jobId, what: invoiceSubject(row), total: formatMoney(total, rates.currency),
+      id, number: invoiceNumber(row.number), jobId, what: invoiceFor(row), total: formatMoney(total, rates.currency),
       amountDue: formatMoney(row.amount_due, rates.currency), pdf: await invoicePdf(ws, row, trx),
     })
     return toInvoice(row)
@@ -111,7 +111,7 @@ export async function invoicePdf(workshopId: number, row: InvoiceRow, db: Knex =
   const number = invoiceNumber(row.number)
   const money = (minor: number) => formatMoney(minor, row.currency)
   const pdf = await renderPdf({ title: `Invoice ${number}`, author: ws.name }, (doc) => {
-    const what = invoiceSubject(row)
+    const what = invoiceFor(row)
     pdfHeader(doc, ws.name, `Invoice ${number}`, `Job ${row.job_code} · ${what} · ${formatDay(row.issued_at, ws.timezone)}`)
     if (row.status === 'void') doc.font('Helvetica-Bold').fontSize(10).fillColor(PDF_COLOURS.kiln).text(`VOID: ${row.void_reason}`).moveDown(0.5)
     pdfTable(doc, [
