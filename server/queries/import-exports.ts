@@ -2,7 +2,7 @@
 // client contacts, client sites and the open jobs with their items, each scoped to the workshop.
 import type { Knex } from 'knex'
 
-export interface ContactExportRow { client: string; client_notes: string | null; name: string | null; email: string | null; phone: string | null; role: string | null; mail_progress: boolean | null; mail_samples: boolean | null; mail_dispatch: boolean | null }
+export interface ContactExportRow { client: string; client_notes: string | null; name: string | null; email: string | null; phone: string | null; role: string | null; mail_progress: boolean | null; mail_samples: boolean | null; mail_dispatch: boolean | null; mail_invoices: boolean | null }
 export interface SiteExportRow { client: string; name: string; address: string; postcode: string | null; opening_hours: string | null; parking: string | null; lifting: string | null }
 export interface OpenJobItemExportRow {
   code: string
@@ -29,7 +29,7 @@ export function contactsExport(db: Knex, workshopId: number): Promise<ContactExp
   return db('client_orgs as o').leftJoin('client_contacts as c', function () {
     this.on('c.client_org_id', 'o.id').andOn('c.workshop_id', 'o.workshop_id')
   }).where('o.workshop_id', workshopId)
-    .select('o.name as client', 'o.notes as client_notes', 'c.name', 'c.email', 'c.phone', 'c.role', 'c.mail_progress', 'c.mail_samples', 'c.mail_dispatch')
+    .select('o.name as client', 'o.notes as client_notes', 'c.name', 'c.email', 'c.phone', 'c.role', 'c.mail_progress', 'c.mail_samples', 'c.mail_dispatch', 'c.mail_invoices')
     .orderBy(['o.name', 'c.name'])
 }
 

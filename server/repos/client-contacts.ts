@@ -1,10 +1,10 @@
 // Every knex call for client_contacts: the people of a client organisation and which job mails
-// each receives (progress, samples, dispatch and delivery). The recipients of a job's client
+// each receives (progress, samples, dispatch and delivery, invoices). The recipients of a job's client
 // mail are read here (server/services/notify.ts).
 import type { Knex } from 'knex'
 import { UNIQUE_LABELS, updateVersioned } from './versioned'
 
-export const CONTACT_COLUMNS = ['id', 'client_org_id', 'name', 'email', 'phone', 'role', 'mail_progress', 'mail_samples', 'mail_dispatch', 'version'] as const
+export const CONTACT_COLUMNS = ['id', 'client_org_id', 'name', 'email', 'phone', 'role', 'mail_progress', 'mail_samples', 'mail_dispatch', 'mail_invoices', 'version'] as const
 export interface ContactRow {
   id: number
   client_org_id: number
@@ -15,6 +15,7 @@ export interface ContactRow {
   mail_progress: boolean
   mail_samples: boolean
   mail_dispatch: boolean
+  mail_invoices: boolean
   version: number
 }
 export interface ContactInput {
@@ -25,15 +26,16 @@ export interface ContactInput {
   mailProgress?: boolean
   mailSamples?: boolean
   mailDispatch?: boolean
+  mailInvoices?: boolean
 }
-export type ContactMail = 'mail_progress' | 'mail_samples' | 'mail_dispatch'
+export type ContactMail = 'mail_progress' | 'mail_samples' | 'mail_dispatch' | 'mail_invoices'
 
 /** A contact who gets a job mail; user_id and notify_prefs when the contact is also a user of the workshop. */
 export interface ContactRecipientRow { id: number; name: string; email: string; user_id: number | null; user_role: string | null; notify_prefs: unknown }
 
 export function contactColumns(i: ContactInput) {
   const map: [keyof ContactInput, string][] = [['name', 'name'], ['email', 'email'], ['phone', 'phone'], ['role', 'role'],
-    ['mailProgress', 'mail_progress'], ['mailSamples', 'mail_samples'], ['mailDispatch', 'mail_dispatch']]
+    ['mailProgress', 'mail_progress'], ['mailSamples', 'mail_samples'], ['mailDispatch', 'mail_dispatch'], ['mailInvoices', 'mail_invoices']]
   return Object.fromEntries(map.filter(([k]) => i[k] !== undefined).map(([k, c]) => [c, i[k]]))
 }
 

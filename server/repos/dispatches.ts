@@ -20,6 +20,15 @@ export interface DispatchPieceRow {
   weighed_kg: string | null
 }
 
+export interface DispatchInvoicePieceRow {
+  mark: string
+  item_id: number | null
+  item_description: string | null
+  pieces_needed: number | null
+  price_minor: number | null
+  mould_code: string
+}
+
 const SUMMARY_COLUMNS = ['d.id', 'd.job_id', 'd.note_no', 'd.dispatched_at', 'd.notes', 'u.name as dispatched_by_name']
 
 export const dispatchesRepo = {
@@ -68,6 +77,24 @@ export const dispatchesRepo = {
         ORDER BY w.weighed_at DESC, w.id DESC LIMIT 1) lw ON true
       WHERE c.workshop_id = ? AND c.dispatch_id = ? ORDER BY c.mark`, [workshopId, dispatchId])
     return r.rows.map((x: DispatchPieceRow) => ({ ...x, id: Number(x.id) }))
+  },
+  /**
+   * The note's pieces with the item each was cast for: its description, the pieces it needs and
+   * the client's price of it (an invoice's lines, shared/utils/invoice-lines.ts), in the job's
+   * item order, then by mark.
+   */
+  async invoicePieces(db: Knex, workshopId: number, dispatchId: number): Promise<DispatchInvoicePieceRow[]> {
+    const r = await db.raw(`SELECT c.mark, i.id AS item_id, i.description AS item_description, i.pieces_needed, i.price_minor, m.code AS mould_code
+      FROM pieces c
+      JOIN pours p ON p.id = c.pour_id AND p.workshop_id = c.workshop_id
+      JOIN moulds m ON m.id = p.mould_id AND m.workshop_id = c.workshop_id
+      LEFT JOIN job_items i ON i.id = c.job_item_id AND i.workshop_id = c.workshop_id
+      WHERE c.workshop_id = ? AND c.dispatch_id = ?
+      ORDER BY i.sort_order NULLS LAST, i.id NULLS LAST, m.code, c.mark`, [workshopId, dispatchId])
+    return r.rows.map((x: DispatchInvoicePieceRow) => ({
+      ...x, item_id: x.item_id === null ? null : Number(x.item_id), price_minor: x.price_minor === null ? null : Number(x.price_minor),
+      pieces_needed: x.pieces_needed === null ? null : Number(x.pieces_needed),
+    }))
   },
   /** The job's heading on the note: client organisation and site. */
   jobHeading(db: Knex, workshopId: number, jobId: number) {

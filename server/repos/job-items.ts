@@ -54,9 +54,9 @@ export const jobItemsRepo = {
     const [row] = await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols }).returning(ITEM_COLUMNS)
     return row
   },
-  /** An item made from an accepted quote, with the shop's estimate for it (minor units). */
-  async insertFromQuote(db: Knex, workshopId: number, jobId: number, cols: ItemColumns, estimateMinor: number): Promise<void> {
-    await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols, estimate_minor: estimateMinor })
+  /** An item made from an accepted quote, with the shop's estimate for it and the client's price (minor units). */
+  async insertFromQuote(db: Knex, workshopId: number, jobId: number, cols: ItemColumns, estimateMinor: number, priceMinor: number): Promise<void> {
+    await db('job_items').insert({ workshop_id: workshopId, job_id: jobId, ...cols, estimate_minor: estimateMinor, price_minor: priceMinor })
   },
   /** Many items at once (an import), each naming its job. */
   async insertMany(db: Knex, workshopId: number, rows: (ItemColumns & { job_id: number })[]) {

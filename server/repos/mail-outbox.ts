@@ -11,9 +11,13 @@ export interface OutboxInsert {
   subject: string
   text: string
   dedupe_key: string | null
+  /** at most one attachment: its file name, media type and bytes (an invoice's PDF) */
+  attachment_name?: string | null
+  attachment_type?: string | null
+  attachment?: Buffer | null
 }
 
-export interface DueMailRow { id: number; workshop_id: number | null; to_email: string; subject: string; text: string; html: string | null; attempts: number; message_token: string }
+export interface DueMailRow { id: number; workshop_id: number | null; to_email: string; subject: string; text: string; html: string | null; attempts: number; message_token: string; attachment_name: string | null; attachment_type: string | null; attachment: Buffer | null }
 
 /** A pour the lead has not been mailed about yet (an overdue demould or a missed start), with what the mail names. */
 export interface LatePourRow { id: number; workshop_id: number; code: string; state: string; mix_at: Date; demould_close_at: Date; timezone: string; locale: string; job_code: string | null }
@@ -35,7 +39,7 @@ export const mailOutboxRepo = {
         SELECT id FROM mail_outbox
         WHERE (status = 'queued' AND next_attempt_at <= now()) OR (status = 'sending' AND claimed_until < now())
         ORDER BY id LIMIT ? FOR UPDATE SKIP LOCKED)
-      RETURNING id, workshop_id, to_email, subject, text, html, attempts, message_token`, [claimSeconds, limit])
+      RETURNING id, workshop_id, to_email, subject, text, html, attempts, message_token, attachment_name, attachment_type, attachment`, [claimSeconds, limit])
     return (rows as DueMailRow[]).sort((a, b) => a.id - b.id)
   },
   markSent(db: Knex, id: number) {

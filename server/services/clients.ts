@@ -16,7 +16,7 @@ const toOrg = (r: ClientOrgRow): ClientOrg => ({ id: r.id, name: r.name, notes: 
 
 export const toContact = (r: ContactRow): ClientContact => ({
   id: r.id, clientOrgId: r.client_org_id, name: r.name, email: r.email, phone: r.phone, role: r.role,
-  mailProgress: r.mail_progress, mailSamples: r.mail_samples, mailDispatch: r.mail_dispatch, version: r.version,
+  mailProgress: r.mail_progress, mailSamples: r.mail_samples, mailDispatch: r.mail_dispatch, mailInvoices: r.mail_invoices, version: r.version,
 })
 
 export const toSite = (r: SiteRow): ClientSite => ({

@@ -339,12 +339,13 @@ const CLIENT_COLUMNS: Column[] = [
   { header: 'client', required: true }, { header: 'client notes', field: 'notes' },
   { header: 'contact', field: 'name' }, { header: 'e-mail', field: 'email' }, { header: 'phone', field: 'phone' }, { header: 'role', field: 'role' },
   { header: 'progress mail', field: 'mailProgress' }, { header: 'sample mail', field: 'mailSamples' }, { header: 'dispatch mail', field: 'mailDispatch' },
+  { header: 'invoice mail', field: 'mailInvoices' },
 ]
 interface ClientValue { client: string; notes: string | null; newClient: boolean; contact: ContactCreateInput | null }
 
 const clients: KindSpec<ClientValue> = {
   columns: CLIENT_COLUMNS,
-  example: { 'client': 'Thornbury Builders', 'client notes': '', 'contact': 'Nell Thornbury', 'e-mail': 'nell@thornbury.example.test', 'phone': '+44 1632 960123', 'role': 'Site manager', 'progress mail': 'yes', 'sample mail': 'yes', 'dispatch mail': 'yes' },
+  example: { 'client': 'Thornbury Builders', 'client notes': '', 'contact': 'Nell Thornbury', 'e-mail': 'nell@thornbury.example.test', 'phone': '+44 1632 960123', 'role': 'Site manager', 'progress mail': 'yes', 'sample mail': 'yes', 'dispatch mail': 'yes', 'invoice mail': 'yes' },
   async check(workshopId, rows) {
     const db = useDb()
     const [orgs, emails] = await Promise.all([clientOrgsRepo.idsByName(db, workshopId), clientContactsRepo.emailsByOrg(db, workshopId)])
@@ -361,7 +362,7 @@ const clients: KindSpec<ClientValue> = {
       if (client) seen.add(key)
       const notes = cells['client notes'] || null
       if (notes && notes.length > 4000) problems.push({ column: 'client notes', message: 'client notes must be at most 4000 characters' })
-      const flags = { mailProgress: yesNo(cells, 'progress mail', true, problems), mailSamples: yesNo(cells, 'sample mail', true, problems), mailDispatch: yesNo(cells, 'dispatch mail', true, problems) }
+      const flags = { mailProgress: yesNo(cells, 'progress mail', true, problems), mailSamples: yesNo(cells, 'sample mail', true, problems), mailDispatch: yesNo(cells, 'dispatch mail', true, problems), mailInvoices: yesNo(cells, 'invoice mail', true, problems) }
       const hasContact = ['contact', 'e-mail', 'phone', 'role'].some(h => cells[h])
       let contact: ContactCreateInput | null = null
       if (hasContact) {
@@ -390,7 +391,7 @@ const clients: KindSpec<ClientValue> = {
     const word = (b: boolean | null) => (b === null ? '' : b ? 'yes' : 'no')
     return (await contactsExport(db, workshopId)).map(r => ({
       'client': r.client, 'client notes': r.client_notes ?? '', 'contact': r.name ?? '', 'e-mail': r.email ?? '', 'phone': r.phone ?? '', 'role': r.role ?? '',
-      'progress mail': word(r.mail_progress), 'sample mail': word(r.mail_samples), 'dispatch mail': word(r.mail_dispatch),
+      'progress mail': word(r.mail_progress), 'sample mail': word(r.mail_samples), 'dispatch mail': word(r.mail_dispatch), 'invoice mail': word(r.mail_invoices),
     }))
   },
   unique: {

@@ -1,7 +1,10 @@
 // Invoices for a job: per stage or per dispatch note, numbered per workshop (INV-0001), lines at
 // the lead's unit prices, tax at the workshop's rate on the sum (money.ts: exact, rounded once),
 // and the deposit paid credited once across the job's invoices. Issued is final: a mistake is
-// voided with its reason and a new invoice issued. The client's people see their jobs' invoices.
+// voided with its reason and a new invoice issued. The client's people see their jobs' invoices;
+// the job's client contacts with invoice mail on are mailed the PDF when it is issued (notify.ts),
+// and a void mails nothing.
+import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
 import { invoicesRepo, type InvoiceRow } from '../repos/invoices'
 import { jobsRepo } from '../repos/jobs'
@@ -9,12 +12,14 @@ import { ratesRepo } from '../repos/rates'
 import { paymentsRepo } from '../repos/payments'
 import { dispatchesRepo } from '../repos/dispatches'
 import { recordEvent } from '../repos/events'
+import { notifyInvoiceIssued } from './notify'
 import { isoOrNull } from './catalogue'
 import { workshopsRepo } from '../repos/workshops'
 import { renderPdf, pdfHeader, pdfTable, PDF_COLOURS } from '../utils/pdf'
 import { formatDay } from '#shared/utils/workshop-format'
 import { formatMoney, lineAmount, shareOf } from '#shared/utils/money'
-import type { Invoice } from '#shared/types/invoices'
+import type { DispatchInvoiceLines, Invoice } from '#shared/types/invoices'
+import { invoiceLinesFromDispatch } from '#shared/utils/invoice-lines'
 
 export const invoiceNumber = (n: number) => `INV-${String(n).padStart(4, '0')}`
 
@@ -26,6 +31,9 @@ export function toInvoice(r: InvoiceRow): Invoice {
   }
 }
 
+/** What the invoice is for, in the words of its PDF and mail. */
+const invoiceFor = (row: InvoiceRow) => (row.note_no ? `dispatch note ${row.note_no}` : row.stage ?? 'the job')
+
 export async function listInvoices(workshopId: number): Promise<Invoice[]> {
   return (await invoicesRepo.list(useDb(), workshopId)).map(toInvoice)
 }
@@ -34,6 +42,18 @@ export async function getInvoice(workshopId: number, id: number): Promise<Invoic
   const row = await invoicesRepo.byId(useDb(), workshopId, id)
   if (!row) notFound('Invoice')
   return toInvoice(row)
+}
+
+/** A dispatch note's pieces as invoice lines priced from their items (shared/utils/invoice-lines.ts); another workshop's note is a 404. */
+export async function dispatchInvoiceLines(workshopId: number, dispatchId: number): Promise<DispatchInvoiceLines> {
+  const db = useDb()
+  const note = await dispatchesRepo.byId(db, workshopId, dispatchId)
+  if (!note) notFound('Dispatch note')
+  const [pieces, rates] = await Promise.all([dispatchesRepo.invoicePieces(db, workshopId, dispatchId), ratesRepo.get(db, workshopId)])
+  const lines = invoiceLinesFromDispatch(pieces.map(p => ({
+    mark: p.mark, itemId: p.item_id, itemDescription: p.item_description, itemPieces: p.pieces_needed, itemPriceMinor: p.price_minor, mouldCode: p.mould_code,
+  })))
+  return { dispatchId, noteNo: note.note_no, jobId: note.job_id, currency: rates.currency, lines }
 }
 
 export async function issueInvoice(actor: Actor, jobId: number, input: { dispatchId?: number | null; stage?: string | null; lines: { description: string; quantity: number; unitPrice: number }[] }): Promise<Invoice> {
@@ -58,7 +78,13 @@ export async function issueInvoice(actor: Actor, jobId: number, input: { dispatc
       net, tax, total, deposit_credit: credit, amount_due: total - credit, issued_by: actor.id,
     })
     await recordEvent(trx, { workshopId: ws, entity: 'job', entityId: jobId, type: 'invoice.issued', actorId: actor.id, data: { invoiceId: id, total, depositCredit: credit } })
-    return toInvoice((await invoicesRepo.byId(trx, ws, id))!)
+    const row = (await invoicesRepo.byId(trx, ws, id))!
+    // the client's contacts with invoice mail on get it with its PDF, queued in this transaction
+    await notifyInvoiceIssued(trx, ws, {
+      id, number: invoiceNumber(row.number), jobId, what: invoiceFor(row), total: formatMoney(total, rates.currency),
+      amountDue: formatMoney(row.amount_due, rates.currency), pdf: await invoicePdf(ws, row, trx),
+    })
+    return toInvoice(row)
   })
 }
 
@@ -79,13 +105,13 @@ export async function clientInvoices(actor: Actor): Promise<Invoice[]> {
 }
 
 /** The invoice as a PDF: the workshop's name, lines, tax, the deposit credited and what is due. */
-export async function invoicePdf(workshopId: number, row: InvoiceRow): Promise<{ filename: string; pdf: Buffer }> {
-  const ws = await workshopsRepo.get(useDb(), workshopId)
+export async function invoicePdf(workshopId: number, row: InvoiceRow, db: Knex = useDb()): Promise<{ filename: string; pdf: Buffer }> {
+  const ws = await workshopsRepo.get(db, workshopId)
   if (!ws) notFound('Invoice')
   const number = invoiceNumber(row.number)
   const money = (minor: number) => formatMoney(minor, row.currency)
   const pdf = await renderPdf({ title: `Invoice ${number}`, author: ws.name }, (doc) => {
-    const what = row.note_no ? `dispatch note ${row.note_no}` : row.stage
+    const what = invoiceFor(row)
     pdfHeader(doc, ws.name, `Invoice ${number}`, `Job ${row.job_code} · ${what} · ${formatDay(row.issued_at, ws.timezone)}`)
     if (row.status === 'void') doc.font('Helvetica-Bold').fontSize(10).fillColor(PDF_COLOURS.kiln).text(`VOID: ${row.void_reason}`).moveDown(0.5)
     pdfTable(doc, [

@@ -5,7 +5,7 @@
 // and a workshop several leads: the mail_outbox.dedupe_key column is unique across all rows.
 // Call these inside the transaction that causes the mail, never queueMail directly. A new kind
 // goes into NOTIFY_KINDS / NOTIFY_KIND_INFO (shared/utils/notify-schemas.ts); /account lists it.
-// A job's client mail (samples, progress photos, ready for dispatch) goes to the contacts of the
+// A job's client mail (samples, progress photos, ready for dispatch, deliveries, invoices) goes to the contacts of the
 // job's client organisation who have that mail on (client_contacts: the lead's choice per
 // contact); a contact who is also a user of the workshop keeps their own settings from /account
 // on top, and a disabled user's contact gets nothing. A job without a client organisation mails
@@ -24,6 +24,7 @@ import { mailOutboxRepo } from '../repos/mail-outbox'
 import { clientContactsRepo, type ContactMail } from '../repos/client-contacts'
 import { formatDateTime, formatDay, workshopLocale } from '#shared/utils/workshop-format'
 import { MISSED_START_GRACE_MINUTES } from '#shared/utils/pour-status'
+import type { OutgoingMail } from '../utils/mail'
 
 /** A user, or a client contact (key c<contactId>; userId when the contact is also a user). */
 type Recipient = RecipientRow & { key?: string; userId?: number | null; opensJob?: boolean }
@@ -32,18 +33,18 @@ type JobRef = Pick<JobRow, 'id' | 'code' | 'title'>
 const link = (path: string) => `${appEnv().APP_URL}${path}`
 
 /** Queues one mail per recipient who has `kind` on; returns how many were queued (or deduped). */
-async function send(trx: Knex, workshopId: number, kind: NotifyKind, to: Recipient[], mail: (r: Recipient) => { subject: string; lines: string[]; dedupeKey: string }) {
+async function send(trx: Knex, workshopId: number, kind: NotifyKind, to: Recipient[], mail: (r: Recipient) => { subject: string; lines: string[]; dedupeKey: string; attachment?: OutgoingMail['attachment'] }) {
   let queued = 0
   for (const r of to) {
     if (!notifyPrefsOf(r.notify_prefs)[kind]) continue
     const m = mail(r)
-    await queueMail(trx, { workshopId, userId: r.key ? (r.userId ?? null) : r.id, to: r.email, kind, subject: m.subject, text: [`Hello ${r.name},`, '', ...m.lines].join('\n'), dedupeKey: m.dedupeKey })
+    await queueMail(trx, { workshopId, userId: r.key ? (r.userId ?? null) : r.id, to: r.email, kind, subject: m.subject, text: [`Hello ${r.name},`, '', ...m.lines].join('\n'), dedupeKey: m.dedupeKey, attachment: m.attachment })
     queued++
   }
   return queued
 }
 
-const CONTACT_MAIL: Partial<Record<NotifyKind, ContactMail>> = { sample_ready: 'mail_samples', photos_shared: 'mail_progress', job_ready: 'mail_dispatch', delivery: 'mail_dispatch' }
+const CONTACT_MAIL: Partial<Record<NotifyKind, ContactMail>> = { sample_ready: 'mail_samples', photos_shared: 'mail_progress', job_ready: 'mail_dispatch', delivery: 'mail_dispatch', invoice: 'mail_invoices' }
 
 /** Who gets a job's client mail of `kind`: its client's contacts with that mail on, or its members when it has no client. */
 async function jobClientRecipients(trx: Knex, workshopId: number, jobId: number, kind: NotifyKind): Promise<Recipient[]> {
@@ -127,6 +128,24 @@ export async function notifyDeliverySigned(trx: Knex, workshopId: number, d: { i
       ...(d.broken.length ? [`Noted broken on arrival: ${d.broken.join(', ')}. The workshop will cast replacements.`] : []),
       'The signed delivery note (PDF):', link(`/api/client/deliveries/${d.id}/note`), 'Your job page:', link(`/client/jobs/${job.id}`)],
     dedupeKey: `delivery-signed:${d.id}:${rid(r)}`,
+  }))
+}
+
+/**
+ * To the job's client contacts with invoice mail on: an invoice was issued, its PDF attached (the
+ * bytes made once, when it is issued, and kept in the outbox: a retry sends the same document).
+ * One mail per invoice and contact (key invoice:<invoiceId>:<recipient>); a void sends nothing.
+ */
+export async function notifyInvoiceIssued(trx: Knex, workshopId: number, inv: { id: number; number: string; jobId: number; what: string; total: string; amountDue: string; pdf: { filename: string; pdf: Buffer } }) {
+  const job = await jobsRepo.byId(trx, workshopId, inv.jobId)
+  if (!job) return 0
+  return send(trx, workshopId, 'invoice', await jobClientRecipients(trx, workshopId, inv.jobId, 'invoice'), r => ({
+    subject: `Invoice ${inv.number}: ${job.code} ${job.title}`,
+    lines: [`Our invoice ${inv.number} for ${job.code} (${job.title}), ${inv.what}, comes to ${inv.total} with tax; ${inv.amountDue} is due.`,
+      `The invoice is attached as a PDF (${inv.pdf.filename}).`,
+      ...jobPageLines(r, job.id, 'You can also download it from your job page:', 'Please reply to the workshop with any question about it.')],
+    dedupeKey: `invoice:${inv.id}:${rid(r)}`,
+    attachment: { name: inv.pdf.filename, type: 'application/pdf', content: inv.pdf.pdf },
   }))
 }
 

@@ -1,6 +1,7 @@
 // An accepted quote becomes a job in one step, in one transaction: the job for the quote's client
 // at a site of theirs (picked or made here), one item per run and per ornament of the accepted
-// revision's take-off (shared/utils/quote-job.ts: each with its share of the shop's estimate;
+// revision's take-off (shared/utils/quote-job.ts: each with its share of the shop's estimate and
+// of the client's price, from which a dispatch note's invoice lines are priced;
 // fixing and delivery stay on the quote), the quote's deposit asked before the moulds start, the
 // client organisation's people made members so they follow it and can pay the deposit, and the
 // quote linked to its job. A quote not accepted, or already made into a job, is refused (409).
@@ -69,7 +70,7 @@ export async function makeJobFromQuote(actor: Actor, quoteId: number, input: Quo
         walls: item.walls ? JSON.stringify(item.walls) : null, min_piece_m: item.minPieceM, spares_pct: item.sparesPct,
         projection_m: item.projectionM, saw_cut_m: item.sawCutM, corner_block_leg_m: item.cornerBlockLegM,
         pieces_needed: item.pieces, grade_id: null, consistency: null, sort_order: order++,
-      }, item.estimateMinor)
+      }, item.estimateMinor, item.priceMinor)
     }
     for (const person of await usersRepo.orgRecipients(trx, ws, q.client_org_id)) await jobsRepo.addMember(trx, ws, job.id, person.id)
     await quotesRepo.setJob(trx, ws, quoteId, job.id)

@@ -13,6 +13,8 @@ export interface OutgoingMail {
   subject: string
   text: string
   dedupeKey?: string
+  /** one file sent with the mail (an invoice's PDF), kept in the outbox so a retry sends the same bytes */
+  attachment?: { name: string; type: string; content: Buffer }
 }
 
 let transport: Transporter | undefined
@@ -42,6 +44,9 @@ export async function queueMail(db: Knex, mail: OutgoingMail) {
     subject: mail.subject,
     text: mail.text,
     dedupe_key: mail.dedupeKey ?? null,
+    attachment_name: mail.attachment?.name ?? null,
+    attachment_type: mail.attachment?.type ?? null,
+    attachment: mail.attachment?.content ?? null,
   })
   afterCommit(db, kickMailDelivery)
 }
@@ -103,6 +108,7 @@ export async function deliverMailBatch(db: Knex = useDb()): Promise<number> {
       await mailer().sendMail({
         from: appEnv().MAIL_FROM, to: m.to_email, subject: m.subject, text: m.text, html: m.html ?? undefined,
         messageId: messageId(m.message_token),
+        attachments: m.attachment ? [{ filename: m.attachment_name ?? 'attachment', contentType: m.attachment_type ?? 'application/octet-stream', content: m.attachment }] : undefined,
         // whose mail this is, for the SMTP fake's per-workshop view (server/utils/smtp-fake.ts)
         headers: m.workshop_id == null ? {} : { [MAIL_WORKSHOP_HEADER]: String(m.workshop_id) },
       })

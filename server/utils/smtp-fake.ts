@@ -72,6 +72,7 @@ export async function startSmtpFake(port: number, host = '127.0.0.1'): Promise<S
           html: typeof parsed.html === 'string' ? parsed.html : null,
           messageId: parsed.messageId ?? null,
           receivedAt: new Date().toISOString(),
+          attachments: parsed.attachments.map(a => ({ name: a.filename ?? '', type: a.contentType, size: a.content.length, base64: a.content.toString('base64') })),
         })
         if (messages.length > KEEP) messages.splice(0, messages.length - KEEP)
         callback()

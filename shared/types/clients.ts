@@ -22,6 +22,7 @@ export interface ClientContact {
   mailProgress: boolean
   mailSamples: boolean
   mailDispatch: boolean
+  mailInvoices: boolean
   version: number
 }
 

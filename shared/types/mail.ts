@@ -10,4 +10,13 @@ export interface CapturedMail {
   /** the Message-ID the outbox gave the mail, the same on a resend (server/utils/mail.ts) */
   messageId: string | null
   receivedAt: string
+  /** the files sent with it (an invoice's PDF), bytes as base64: a development aid, like the whole message */
+  attachments: CapturedAttachment[]
+}
+
+export interface CapturedAttachment {
+  name: string
+  type: string
+  size: number
+  base64: string
 }

@@ -11,11 +11,12 @@ export const clientOrgCreateSchema = clientOrgFields
 export const clientOrgPatchSchema = clientOrgFields.partial().extend({ version: versionField })
 
 /** The job mails a contact may receive, and what each covers (the contact form's words). */
-export const CONTACT_MAILS = ['mailProgress', 'mailSamples', 'mailDispatch'] as const
+export const CONTACT_MAILS = ['mailProgress', 'mailSamples', 'mailDispatch', 'mailInvoices'] as const
 export const CONTACT_MAIL_LABELS: Record<(typeof CONTACT_MAILS)[number], string> = {
   mailProgress: 'Progress (new photos of the work)',
   mailSamples: 'Samples (a sample is ready for approval)',
   mailDispatch: 'Dispatch and delivery (the job is ready to go)',
+  mailInvoices: 'Invoices (each invoice of the job, with its PDF)',
 }
 
 const mailFlag = (field: string) => z.boolean({ error: `${field} must be true or false` }).optional()
@@ -28,6 +29,7 @@ export const contactFields = z.object({
   mailProgress: mailFlag('mailProgress'),
   mailSamples: mailFlag('mailSamples'),
   mailDispatch: mailFlag('mailDispatch'),
+  mailInvoices: mailFlag('mailInvoices'),
 })
 export const contactCreateSchema = contactFields
 export const contactPatchSchema = contactFields.partial().extend({ version: versionField })

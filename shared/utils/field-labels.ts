@@ -101,6 +101,7 @@ export const FIELD_LABELS: Record<string, string> = {
   mailProgress: 'Progress mail',
   mailSamples: 'Sample mail',
   mailDispatch: 'Dispatch mail',
+  mailInvoices: 'Invoice mail',
   shiftBreaks: 'Breaks',
   maxMixes: 'Mixes at once',
   leadDays: 'Lead time',

@@ -3,7 +3,7 @@
 import { z } from 'zod'
 import type { Role } from '#shared/types/auth'
 
-export const NOTIFY_KINDS = ['sample_ready', 'photos_shared', 'job_ready', 'quote_sent', 'sample_decision', 'demould_overdue', 'quote_decision', 'delivery'] as const
+export const NOTIFY_KINDS = ['sample_ready', 'photos_shared', 'job_ready', 'quote_sent', 'sample_decision', 'demould_overdue', 'quote_decision', 'delivery', 'invoice'] as const
 export type NotifyKind = (typeof NOTIFY_KINDS)[number]
 
 /** What each kind is about and who receives it (clients the first four, leads the last three). */
@@ -16,6 +16,7 @@ export const NOTIFY_KIND_INFO: Record<NotifyKind, { label: string; roles: Role[]
   quote_decision: { label: 'A client accepts a quote or asks for changes', roles: ['lead'] },
   demould_overdue: { label: 'An overdue demould (a cast past its window) or a missed start (a pour never mixed)', roles: ['lead'] },
   delivery: { label: 'A delivery of my job is booked, or signed for on site', roles: ['client'] },
+  invoice: { label: 'An invoice of my job is issued (its PDF attached)', roles: ['client'] },
 }
 
 export type NotifyPrefs = Record<NotifyKind, boolean>

@@ -10,6 +10,9 @@
  * quote. Shares are split in integers by the largest remainder, so the items' estimates and the
  * job-wide lines add up to the quote's estimate to the minor unit (Hamilton's method of
  * apportionment, the usual way to split an integer total exactly).
+ * The client's price of each item (the lines' amounts, margin included) is shared out the same
+ * way, so the items' prices and the job-wide lines add up to the quote's net: a dispatch note's
+ * invoice lines are priced from it (invoice-lines.ts).
  */
 import { takeOff, type QuoteLine, type TakeOffRoom } from './quote-pricing'
 import type { PlasterRunWall } from './plaster-cutlist'
@@ -30,12 +33,16 @@ export interface QuoteJobItem {
   pieces: number
   quantity: number | null
   estimateMinor: number
+  /** the client's price for the item (margin included, before tax), shared out like the estimate */
+  priceMinor: number
 }
 
 export interface QuoteJob {
   items: QuoteJobItem[]
   /** the estimate of the lines that stay with the whole job (fixing, delivery) */
   jobWideEstimate: number
+  /** the client's price of those lines */
+  jobWidePrice: number
 }
 
 /** Splits an integer total by integer weights, exactly: floors, then the largest remainders get one more. */
@@ -64,26 +71,38 @@ export function quoteToJobItems(takeOffInput: { rooms: TakeOffRoom[]; bagKg: num
       kind: 'run', description: `${r.profile}, ${r.room}`, profile: r.profile, walls: runs[n]!.walls,
       minPieceM: runs[n]!.minPieceM, sparesPct: runs[n]!.sparesPct, pieces: r.lengths, quantity: null,
       projectionM: runs[n]!.projectionM ?? null, sawCutM: runs[n]!.sawCutM ?? null, cornerBlockLegM: runs[n]!.cornerBlockLegM ?? null,
-      estimateMinor: castLengths[n]?.estimate ?? 0,
+      estimateMinor: castLengths[n]?.estimate ?? 0, priceMinor: castLengths[n]?.amount ?? 0,
     })),
     ...t.ornaments.map((o, n): QuoteJobItem => ({
       kind: 'pieces', description: `${o.name}, ${o.room}`, profile: o.name, walls: null, minPieceM: null, sparesPct: 0,
       projectionM: null, sawCutM: null, cornerBlockLegM: null,
-      pieces: o.count, quantity: o.count, estimateMinor: castPieces[n]?.estimate ?? 0,
+      pieces: o.count, quantity: o.count, estimateMinor: castPieces[n]?.estimate ?? 0, priceMinor: castPieces[n]?.amount ?? 0,
     })),
   ]
   const kg = [...t.runs.map(r => r.plasterKg), ...t.ornaments.map(o => o.plasterKg)]
-  const add = (amounts: number[]) => amounts.forEach((a, i) => (items[i]!.estimateMinor += a))
+  const add = (amounts: number[], price: number[]) => amounts.forEach((a, i) => {
+    items[i]!.estimateMinor += a
+    items[i]!.priceMinor += price[i]!
+  })
   for (const line of lines) {
     if (line.kind === 'mould') {
       const name = line.description.replace(/^New mould: /, '')
       const first = items.findIndex(i => i.profile === name)
-      if (first >= 0) items[first]!.estimateMinor += line.estimate
+      if (first >= 0) {
+        items[first]!.estimateMinor += line.estimate
+        items[first]!.priceMinor += line.amount
+      }
     }
-    else if (line.kind === 'fettle') add(apportion(line.estimate, items.map(i => i.pieces)))
-    // grams as integer weights: kilograms to three places are exact enough to split pence
-    else if (line.kind === 'plaster') add(apportion(line.estimate, kg.map(k => Math.round(k * 1000))))
+    else if (line.kind === 'fettle') {
+      const w = items.map(i => i.pieces)
+      add(apportion(line.estimate, w), apportion(line.amount, w))
+    }
+    else if (line.kind === 'plaster') {
+      // grams as integer weights: kilograms to three places are exact enough to split pence
+      const w = kg.map(k => Math.round(k * 1000))
+      add(apportion(line.estimate, w), apportion(line.amount, w))
+    }
   }
-  const jobWideEstimate = lines.filter(l => l.kind === 'fixing' || l.kind === 'delivery').reduce((a, l) => a + l.estimate, 0)
-  return { items, jobWideEstimate }
+  const jobWide = lines.filter(l => l.kind === 'fixing' || l.kind === 'delivery')
+  return { items, jobWideEstimate: jobWide.reduce((a, l) => a + l.estimate, 0), jobWidePrice: jobWide.reduce((a, l) => a + l.amount, 0) }
 }

@@ -5,7 +5,7 @@
 // imperial workshop's headers are read and converted to metric.
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
 
 let lead = ''
@@ -102,6 +102,23 @@ describe('clients, contacts and sites', () => {
     // the same contact again is now "already in Setline"
     const again = await post('clients', 'preview', [head, `Client ${t},,Una One,una-${t}@c.example.test,,,,,`].join('\n'))
     expect(again.data.rows[0].problems[0].message).toMatch(/already has a contact with the e-mail/)
+    // a file without the invoice mail column leaves it on
+    expect(una.mail_invoices).toBe(true)
+  })
+
+  it('reads the invoice mail column (yes or no, on when empty) and exports it back', async () => {
+    const t = tag()
+    const head = 'client,contact,e-mail,invoice mail'
+    const csv = [head, `Inv ${t},Ida Off,ida-${t}@c.example.test,no`, `Inv ${t},Ian On,ian-${t}@c.example.test,`, `Inv ${t},Ivo Odd,ivo-${t}@c.example.test,maybe`].join('\n')
+    const p = await post('clients', 'preview', csv)
+    expect(lines(p.data.rows)[4]).toEqual([{ column: 'invoice mail', message: 'invoice mail must be yes or no' }])
+    expect((await post('clients', 'confirm', csv.split('\n').slice(0, 3).join('\n'))).status).toBe(201)
+    const org = await testDb()('client_orgs').where({ workshop_id: ws, name: `Inv ${t}` }).first()
+    const flags = await testDb()('client_contacts').where({ client_org_id: org.id }).orderBy('name').select('name', 'mail_invoices')
+    expect(flags).toEqual([{ name: 'Ian On', mail_invoices: true }, { name: 'Ida Off', mail_invoices: false }])
+    const exported = (await (await fetch(`${baseUrl()}/api/import/clients/export`, { headers: { cookie: lead } })).text()).replace(/^\uFEFF/, '').trim().split(/\r?\n/)
+    expect(exported[0]).toMatch(/,dispatch mail,invoice mail$/)
+    expect(exported.find(r => r.includes(`ida-${t.toLowerCase()}@c.example.test`))).toMatch(/,no$/)
   })
 
   it('sites name an existing client; an unknown client or a duplicate site is named', async () => {

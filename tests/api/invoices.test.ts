@@ -1,10 +1,11 @@
 // Invoices: per stage or per dispatch note, numbered per workshop one after another (also when
 // issued at once), tax on the sum, the deposit paid credited once, never edited (voided with a
-// reason), as PDF, in the client's portal for their own jobs only, and as CSV for the accounts.
+// reason), as PDF, mailed with the PDF to the client's contacts who have invoice mail on, in the
+// client's portal for their own jobs only, and as CSV for the accounts.
 // Figures are our own worked example, by hand beside them (rates invented; tax 20 %).
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { baseUrl, call, signIn } from '../setup/http'
+import { baseUrl, call, capturedMails, signIn, waitForMail } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop, testDb } from '../setup/fixtures'
 import { pdfText } from '../setup/pdf-text'
 
@@ -118,5 +119,44 @@ describe('invoices', () => {
     expect(rows.find(r => r.startsWith(`${inv.number},`))).toMatch(/,issued,GBP,100\.00,20\.00,120\.00,/)
     expect(rows.some(r => r.includes('Wrong stage named') && r.includes(',void,'))).toBe(true)
     expect(body).not.toContain('7777.77')
+  })
+
+  it('mails the PDF to the client\'s contacts with invoice mail on, once; a void mails nothing', async () => {
+    const tag = randomUUID().slice(0, 6)
+    const org = (await call('/api/clients', { method: 'POST', cookie: lead, body: { name: `Invoice mail ${tag}` } })).data
+    const on = `accounts-${tag}@vane.example.test`
+    const off = `site-${tag}@vane.example.test`
+    const made = await call(`/api/clients/${org.id}/contacts`, { method: 'POST', cookie: lead, body: { name: 'Una Accounts', email: on } })
+    expect(made.data).toMatchObject({ mailInvoices: true })
+    const offContact = await call(`/api/clients/${org.id}/contacts`, { method: 'POST', cookie: lead, body: { name: 'Sid Site', email: off, mailInvoices: false } })
+    expect(offContact.data).toMatchObject({ mailInvoices: false, mailDispatch: true })
+    expect((await call(`/api/clients/${org.id}/contacts`, { method: 'POST', cookie: lead, body: { name: 'Bad', email: `bad-${tag}@vane.example.test`, mailInvoices: 'yes' } })).data.message).toMatch(/Invoice mail/)
+    const job = (await call('/api/jobs', { method: 'POST', cookie: lead, body: { code: `IM-${tag}`, title: 'Invoice mail', clientOrgId: org.id } })).data
+
+    const inv = (await issue({ stage: 'Mailed stage', lines: stageLines }, job.id)).data
+    const mail = await waitForMail(lead, on, `Invoice ${inv.number}`)
+    expect(mail.text).toContain('£183.54') // the worked example's total, with tax
+    expect(mail.attachments).toHaveLength(1)
+    expect(mail.attachments[0]).toMatchObject({ name: `${inv.number}.pdf`, type: 'application/pdf' })
+    const text = (await pdfText(mail.attachments[0]!.bytes)).join(' ')
+    expect(text).toContain(`Invoice ${inv.number}`)
+    expect(text).toContain('Egg-and-dart 150, Drawing room')
+    expect(text).toContain('£183.54')
+
+    // the contact with invoice mail off gets none; one mail per contact and invoice in the outbox
+    const k = testDb()
+    const queued = await k('mail_outbox').where({ kind: 'invoice' }).andWhere('dedupe_key', 'like', `invoice:${inv.id}:%`).select('to_email', 'attachment_name')
+    expect(queued).toEqual([{ to_email: on, attachment_name: `${inv.number}.pdf` }])
+    expect((await capturedMails(lead)).filter(m => m.to.includes(off))).toEqual([])
+
+    // voided: nothing new is mailed
+    expect((await call(`/api/invoices/${inv.id}/void`, { method: 'POST', cookie: lead, body: { reason: 'Wrong stage' } })).status).toBe(200)
+    expect(await k('mail_outbox').where({ kind: 'invoice' }).andWhere('dedupe_key', 'like', `invoice:${inv.id}:%`).count('* as n').first()).toEqual({ n: '1' })
+
+    // the contact turned on later gets the next invoice; the PDF is the same the lead downloads
+    await call(`/api/contacts/${offContact.data.id}`, { method: 'PATCH', cookie: lead, body: { mailInvoices: true, version: offContact.data.version } })
+    const next = (await issue({ stage: 'Mailed again', lines: tripLines }, job.id)).data
+    const second = await waitForMail(lead, off, `Invoice ${next.number}`)
+    expect((await pdfText(second.attachments[0]!.bytes)).join(' ')).toContain('£120.00')
   })
 })

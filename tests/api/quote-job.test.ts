@@ -69,6 +69,9 @@ describe('an accepted quote becomes a job', () => {
     // our own worked example split by hand: £579.24, £51.13, £582.13; fixing and delivery (£161.25) stay on the quote
     const estimates = await testDb()('job_items').where({ job_id: r.data.jobId }).orderBy('sort_order').pluck('estimate_minor')
     expect(estimates.map(Number)).toEqual([57924, 5113, 58213])
+    // and the client's price of each, margin included (split by hand there too): £666.14, £58.80, £669.45
+    const prices = await testDb()('job_items').where({ job_id: r.data.jobId }).orderBy('sort_order').pluck('price_minor')
+    expect(prices.map(Number)).toEqual([66614, 5880, 66945])
     expect((await call(`/api/jobs/${r.data.jobId}/payments`, { cookie: lead })).data).toMatchObject({ depositMinor: 56875, paidMinor: 0, released: false })
 
     const linked = (await call(`/api/quotes/${id}`, { cookie: lead })).data

@@ -137,6 +137,7 @@ export const ROUTES: RouteRow[] = [
   { route: 'POST /api/jobs/[id]/dispatches', roles: LEAD, ids: { id: 'job' }, body: async s => ({ actionId: randomUUID(), pieceIds: [await s.id('newPackedPiece')] }) },
   { route: 'GET /api/jobs/[id]/dispatches', roles: ['lead', 'finisher'], ids: { id: 'job' } },
   { route: 'GET /api/dispatches/[id]', roles: ['lead', 'finisher'], ids: { id: 'dispatch' } },
+  { route: 'GET /api/dispatches/[id]/invoice-lines', roles: LEAD, ids: { id: 'dispatch' } },
   // the piece page, labels and scans
   { route: 'GET /api/pieces/[id]', roles: STAFF, ids: { id: 'piece' } },
   { route: 'GET /api/pieces/[id]/label', roles: STAFF, ids: { id: 'piece' } },

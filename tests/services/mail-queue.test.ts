@@ -92,6 +92,29 @@ describe('claim, commit, then send', () => {
     }, { timeout: 10_000, interval: 300 }).toEqual({ status: 'sent', attempts: 2 })
     expect(sentTo(to!)).toBe(1)
   })
+
+  it('sends a mail\'s attachment with it, the same bytes after a refused first attempt', async () => {
+    const workshopId = Number((await testDb()('workshops').first('id')).id)
+    const pdf = Buffer.concat([Buffer.from('%PDF-1.7\n'), Buffer.from([0, 1, 2, 254, 255])])
+    const { mailOutboxRepo } = await import('../../server/repos/mail-outbox')
+    const to = 'attached@example.test'
+    await mailOutboxRepo.insert(testDb(), {
+      workshop_id: workshopId, user_id: null, to_email: to, kind: 'invoice', subject: 'Invoice INV-0042', text: 'x', dedupe_key: 'attached:1',
+      attachment_name: 'INV-0042.pdf', attachment_type: 'application/pdf', attachment: pdf,
+    })
+    fake.refuseNext(workshopId, 1)
+    await deliverMailBatch(pool())
+    expect(sentTo(to)).toBe(0)
+    await expect.poll(async () => {
+      await deliverMailBatch(pool())
+      return sentTo(to)
+    }, { timeout: 10_000, interval: 300 }).toBe(1)
+    const [file] = fake.messages.find(m => m.to.includes(to))!.attachments
+    expect(file).toMatchObject({ name: 'INV-0042.pdf', type: 'application/pdf', size: pdf.length })
+    expect(Buffer.from(file!.base64, 'base64').equals(pdf)).toBe(true)
+    // an attachment needs its name and type: the table refuses a half one
+    await expect(testDb()('mail_outbox').insert({ workshop_id: workshopId, to_email: to, kind: 'invoice', subject: 's', text: 'x', attachment: pdf })).rejects.toThrow(/mail_outbox_attachment_check/)
+  })
 })
 
 describe('two queue workers on one database', () => {

@@ -60,12 +60,21 @@ export async function freshSession(email: string, password: string): Promise<str
   return r.cookie
 }
 
+/** A captured mail as the tests read it: its attachments with their bytes decoded. */
+export interface TestMail { to: string[]; subject: string; text: string; attachments: { name: string; type: string; bytes: Buffer }[] }
+
+/** Every mail the server's SMTP fake captured for the lead's workshop, newest first, attachments decoded. */
+export async function capturedMails(leadCookie: string): Promise<TestMail[]> {
+  const r = await call<{ to: string[]; subject: string; text: string; attachments: { name: string; type: string; base64: string }[] }[]>('/api/dev/mails', { cookie: leadCookie })
+  if (r.status !== 200) throw new Error(`captured mail: ${r.status} ${JSON.stringify(r.data)}`)
+  return r.data.map(m => ({ ...m, attachments: m.attachments.map(a => ({ name: a.name, type: a.type, bytes: Buffer.from(a.base64, 'base64') })) }))
+}
+
 /** Waits for captured mail to a recipient in the server's SMTP fake (read as a lead). */
-export async function waitForMail(leadCookie: string, to: string, subjectPart: string, timeoutMs = 15_000) {
+export async function waitForMail(leadCookie: string, to: string, subjectPart: string, timeoutMs = 15_000): Promise<TestMail> {
   const until = Date.now() + timeoutMs
   while (Date.now() < until) {
-    const r = await call<{ to: string[]; subject: string; text: string }[]>('/api/dev/mails', { cookie: leadCookie })
-    const m = r.data?.find?.(x => x.to.includes(to) && x.subject.includes(subjectPart))
+    const m = (await capturedMails(leadCookie)).find(x => x.to.includes(to) && x.subject.includes(subjectPart))
     if (m) return m
     await new Promise(res => setTimeout(res, 250))
   }

@@ -53,7 +53,7 @@ describe('qualityFigures', () => {
 
 describe('notification preferences', () => {
   it('treats every kind as on unless stored as false', () => {
-    expect(notifyPrefsOf({ photos_shared: false, stale: false })).toEqual({ sample_ready: true, photos_shared: false, job_ready: true, quote_sent: true, sample_decision: true, demould_overdue: true, quote_decision: true, delivery: true })
+    expect(notifyPrefsOf({ photos_shared: false, stale: false })).toEqual({ sample_ready: true, photos_shared: false, job_ready: true, quote_sent: true, sample_decision: true, demould_overdue: true, quote_decision: true, delivery: true, invoice: true })
     expect(notifyPrefsOf(null).job_ready).toBe(true)
   })
   it('accepts known kinds with boolean flags only', () => {

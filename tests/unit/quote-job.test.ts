@@ -57,4 +57,21 @@ describe('an accepted quote as job items: our own worked example', () => {
     expect(job.jobWideEstimate).toBe(0)
     expect(job.items.map(i => i.estimateMinor)).toEqual([57924, 5113, 58213])
   })
+
+  it('shares the client\'s price out to the items the same way, adding up to the quote\'s net', () => {
+    // Our own worked example, by hand: margin 15 % on each rate, rounded once (money.ts):
+    //   cast per length 35.00 → 40.25; new mould 420.00 → 483.00; fettling 9.00 → 10.35;
+    //   plaster per bag 18.50 → 21.275 → 21.28; cast per piece 28.00 → 32.20
+    //   run: 3 × 40.25 = 120.75 + mould 483.00 + fettling 3/8 of 8 × 10.35 = 31.05
+    //     + plaster 27/55 of 3 bags × 21.28 = 63.84 → 31.3396… → 31.34 → £666.14
+    //   ceiling centre: 32.20 + 10.35 + 14/55 of 63.84 = 16.2501… → 16.25 → £58.80
+    //   corbels: 4 × 32.20 = 128.80 + 483.00 + 41.40 + 16.25 → £669.45
+    //   plaster floors 31.33 + 16.25 + 16.25 leave 1p: the run's remainder (0.96…) is the largest.
+    //   Fixing 8.1 m × 14.38 (12.50 → 14.375 → 14.38) = 116.478 → 116.48, delivery 69.00: £185.48.
+    const quote = priceQuote(takeOff(rooms, 25), rates, { deliveries: 1, fixing: true })
+    const job = quoteToJobItems({ rooms, bagKg: 25 }, quote.lines)
+    expect(job.items.map(i => i.priceMinor)).toEqual([66614, 5880, 66945])
+    expect(job.jobWidePrice).toBe(18548)
+    expect(job.items.reduce((a, i) => a + i.priceMinor, 0) + job.jobWidePrice).toBe(quote.net)
+  })
 })

@@ -30,6 +30,21 @@ describe('SMTP fake', () => {
     expect(fake.messages.find(m => m.subject === 'for no one')?.workshopId).toBeNull()
   })
 
+  it('keeps an attachment\'s name, media type and bytes', async () => {
+    const transport = nodemailer.createTransport({ host: '127.0.0.1', port: fake.port, secure: false, ignoreTLS: true })
+    const bytes = Buffer.from([0x25, 0x50, 0x44, 0x46, 0x2d, 0x00, 0xff, 0x0a]) // "%PDF-", a NUL, a high byte
+    await transport.sendMail({
+      from: 'a@example.test', to: 'b@example.test', subject: 'with a file', text: 'x', headers: { [MAIL_WORKSHOP_HEADER]: '3' },
+      attachments: [{ filename: 'INV-0001.pdf', contentType: 'application/pdf', content: bytes }],
+    })
+    const [m] = fake.messagesFor(3)
+    expect(m!.attachments.map(a => ({ ...a, bytes: Buffer.from(a.base64, 'base64') }))).toEqual([
+      { name: 'INV-0001.pdf', type: 'application/pdf', size: 8, base64: bytes.toString('base64'), bytes },
+    ])
+    await send('no file', 3)
+    expect(fake.messagesFor(3)[0]!.attachments).toEqual([])
+  })
+
   it('refuses only the named workshop\'s next messages', async () => {
     fake.refuseNext(1, 1)
     await send('2 goes through', 2)
