@@ -148,5 +148,5 @@ describe('go live from nothing', () => {
     await page.getByRole('link', { name: 'WJ-2 Hall corbels' }).waitFor()
     expect(await seriousAxeViolations(page)).toEqual([])
     await screenshot(page, 'go-live-client')
-  })
+  }, 240_000)
 })
