@@ -57,9 +57,19 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
     throw new Error(`the job queue is not ready (${message}): run \`npm run db:migrate\``)
   }
   const every = repeats()
+  /**
+   * Repeating jobs whose next run could not be queued (the database was away when a run put in
+   * its successor): the chain would end there, and with it the mail sweep's retries, until the
+   * process restarted. Their worker queues a run again once the database answers.
+   */
+  const unchained = new Set<JobName>()
   const send = (name: JobName, startAfter?: Date) =>
-    boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: name === 'cleanup' ? 15 * 60 : 120 }).catch((err: Error) => {
+    boss.send(name, {}, { startAfter, retryLimit: 0, expireInSeconds: name === 'cleanup' ? 15 * 60 : 120 }).then((id) => {
+      unchained.delete(name)
+      return id
+    }, (err: Error) => {
       log.error({ job: name, err: { message: err.message } }, 'job not queued')
+      if (every[name]) unchained.add(name)
       return null
     })
   /** One run of a job, every step caught: a failed run is logged and recorded, never thrown. */
@@ -95,6 +105,7 @@ export async function startBackgroundWork(connectionString: string, handlers: Jo
    */
   async function worker(name: JobName, pollMs: number) {
     while (!stopped) {
+      if (unchained.has(name)) await send(name)
       let job: { id: string } | undefined
       try {
         [job] = await boss.fetch(name)
