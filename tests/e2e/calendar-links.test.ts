@@ -113,7 +113,7 @@ describe('calendar links', () => {
     expect((await subscribe(jobAddress)).status).toBe(200)
 
     await revokeFirst(job)
-    await job.getByText('No calendar links yet.').waitFor()
+    await job.getByText('No calendar links in use.').waitFor()
     await job.getByText('Revoked links (1)').waitFor()
     expect(await seriousAxeViolations(page)).toEqual([])
     expect((await subscribe(jobAddress)).status).toBe(404)
@@ -126,6 +126,7 @@ describe('calendar links', () => {
     await expect(shop.getByTestId('feed-address').count()).resolves.toBe(0)
     await revokeFirst(shop)
     await shop.getByText('Revoked links (2)').waitFor()
+    await shop.getByText('No calendar links in use.').waitFor()
     expect((await subscribe(shopAddress)).status).toBe(404)
     expect(await fx.k('calendar_feeds').where({ workshop_id: fx.workshopId }).whereNull('revoked_at').count('* as n').first()).toMatchObject({ n: '0' })
     await screenshot(page, 'calendar-links-revoked')
