@@ -41,6 +41,7 @@ export const FIELD_LABELS: Record<string, string> = {
   mouldId: 'Mould',
   profile: 'Profile',
   jobItemId: 'Job item',
+  jobId: 'Job',
   casterId: 'Caster',
   benchId: 'Bench',
   slotStart: 'Start',
