@@ -26,7 +26,7 @@ afterAll(async () => {
 describe('client completion', () => {
   it('words while partly planned, the ready-to-dispatch day once all is planned', async () => {
     const lead = await signIn(demo.lead.email, DEMO_PASSWORD)
-    const jobId = await fx.job({ title: 'Library cornice' })
+    const jobId = await fx.job({ title: 'Library cornice', due_on: '2029-04-20' })
     const client = await fx.k('users').where({ email: demo.client1.email }).first('id')
     await fx.k('job_members').insert({ workshop_id: fx.workshopId, job_id: jobId, user_id: client.id })
     const mouldId = await fx.mould()
@@ -64,6 +64,9 @@ describe('client completion', () => {
     const day = formatDay(readyBy, progress.completion.timezone)
     await expect.poll(() => expected.textContent()).toBe(day)
     expect(await page.getByText('Ready to dispatch by:').count()).toBe(1)
+    // the due day in the house day style too, never the stored 2029-04-20
+    expect(await page.locator('main').textContent()).toContain(`Due: ${formatDay('2029-04-20', progress.completion.timezone)}`)
+    expect(await page.locator('main').textContent()).not.toContain('2029-04-20')
     await screenshot(page, 'client-fully-planned')
     expect(await seriousAxeViolations(page)).toEqual([])
     // a workshop in the US style writes the day the US way
