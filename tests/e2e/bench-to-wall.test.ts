@@ -15,7 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { VIEWPORTS, drawSignature, fakeCamera, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
-import { boardFixture } from '../setup/board-fixtures'
+import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
 import { jpegWithGps } from '../setup/photo-fixtures'
 import { seriousAxeViolations } from '../setup/axe'
@@ -25,13 +25,6 @@ const base = testContext().baseUrl
 let tablet: Awaited<ReturnType<typeof openBrowser>>
 let phone: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
-
-/** A zone where it is now between 04:00 and 20:00, so a pour of a few minutes ago is on the floor's local today. */
-function zoneAwayFromMidnight(now = new Date()): string {
-  const zones = ['Europe/London', 'America/New_York', 'America/Los_Angeles', 'Pacific/Honolulu', 'Asia/Kolkata', 'Asia/Tokyo', 'Australia/Brisbane']
-  const hour = (zone: string) => Number(new Intl.DateTimeFormat('en-GB', { hour: '2-digit', hourCycle: 'h23', timeZone: zone }).format(now))
-  return zones.find(z => hour(z) >= 4 && hour(z) < 20)!
-}
 
 beforeAll(async () => {
   tablet = await openBrowser(VIEWPORTS.tablet)

@@ -13,6 +13,7 @@ import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { seriousAxeViolations } from '../setup/axe'
+import { fillDrawingRoomTakeOff, saveJourneyRates } from '../setup/quote-journey'
 import { call, signIn, waitForMail } from '../setup/http'
 import { boardFixture } from '../setup/board-fixtures'
 import { pdfText } from '../setup/pdf-text'
@@ -42,24 +43,8 @@ describe('from enquiry to paid', () => {
     await lead.goto(`${base}/lead/quotes`)
     await lead.getByRole('heading', { level: 1, name: 'Quotes' }).waitFor()
     await lead.locator('html[data-hydrated]').waitFor()
-    await lead.getByRole('button', { name: 'Rates' }).click()
-    const rates: [string, string][] = [['Plaster, per bag', '18.50'], ['A new mould', '420'], ['Casting, per length', '35'], ['Casting, per piece', '28'],
-      ['Fettling, per piece', '9'], ['Fixing on site, per metre', '12.50'], ['Delivery, per trip', '60']]
-    for (const [label, value] of rates) await lead.getByLabel(label).fill(value)
-    await lead.getByLabel('Margin').fill('15')
-    await lead.getByLabel('Tax').fill('20')
-    await lead.getByLabel('Deposit asked').fill('30')
-    await lead.getByRole('button', { name: 'Save rates' }).click()
-    await lead.getByText(/Rates saved/).waitFor()
-    await lead.getByRole('button', { name: 'New quote' }).click()
-    await lead.getByLabel('Title').fill(`Drawing room cornice ${tag}`)
-    await lead.getByLabel('Client').selectOption({ label: 'Hollin Row Architects' })
-    await lead.getByLabel('Room', { exact: true }).fill('Drawing room')
-    await lead.getByLabel('Run profile').fill('Egg-and-dart 150')
-    await lead.getByLabel('Walls').fill('5.0, 3.1')
-    await lead.getByLabel('Spares').fill('0')
-    await lead.getByLabel('Plaster per length').fill('9')
-    await lead.getByLabel('Needs a new mould').check()
+    await saveJourneyRates(lead)
+    await fillDrawingRoomTakeOff(lead, `Drawing room cornice ${tag}`)
     await lead.getByRole('button', { name: 'Price this take-off' }).click()
     await lead.waitForURL(/\/lead\/quotes\/\d+$/)
     // by hand (tests/e2e/quotes.test.ts): net £862.84, tax £172.57, total £1,035.41

@@ -6,24 +6,13 @@ import type { Page } from 'playwright-core'
 import sharp from 'sharp'
 import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
-import { boardFixture } from '../setup/board-fixtures'
+import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
 import { seriousAxeViolations } from '../setup/axe'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
-/**
- * A timezone where it is now between 04:00 and 20:00: the pours below start up to 90 minutes
- * ago, and the floor shows the workshop's local today, so near midnight they would fall on
- * yesterday. One of these offsets (0, −5, −8, −10, +5:30, +9, +10) is always far from midnight.
- */
-function zoneAwayFromMidnight(now = new Date()): string {
-  const zones = ['Europe/London', 'America/New_York', 'America/Los_Angeles', 'Pacific/Honolulu', 'Asia/Kolkata', 'Asia/Tokyo', 'Australia/Brisbane']
-  const hour = (zone: string) => Number(new Intl.DateTimeFormat('en-GB', { hour: '2-digit', hourCycle: 'h23', timeZone: zone }).format(now))
-  return zones.find(z => hour(z) >= 4 && hour(z) < 20)!
-}
-
 beforeAll(async () => {
   browser = await openBrowser(VIEWPORTS.tablet)
   fx = await boardFixture('floor-e2e')

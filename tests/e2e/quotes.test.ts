@@ -5,6 +5,7 @@ import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { seriousAxeViolations } from '../setup/axe'
+import { fillDrawingRoomTakeOff, saveJourneyRates } from '../setup/quote-journey'
 
 const base = testContext().baseUrl
 let desk: Awaited<ReturnType<typeof openBrowser>>
@@ -28,26 +29,9 @@ describe('a quote from take-off to acceptance', () => {
     await lead.locator('html[data-hydrated]').waitFor()
 
     // rates: typed as money, kept in pence
-    await lead.getByRole('button', { name: 'Rates' }).click()
-    const rates: [string, string][] = [['Plaster, per bag', '18.50'], ['A new mould', '420'], ['Casting, per length', '35'], ['Casting, per piece', '28'],
-      ['Fettling, per piece', '9'], ['Fixing on site, per metre', '12.50'], ['Delivery, per trip', '60']]
-    for (const [label, value] of rates) await lead.getByLabel(label).fill(value)
-    await lead.getByLabel('Margin').fill('15')
-    await lead.getByLabel('Tax').fill('20')
-    await lead.getByLabel('Deposit asked').fill('30')
-    await lead.getByRole('button', { name: 'Save rates' }).click()
-    await lead.getByText(/Rates saved/).waitFor()
-
+    await saveJourneyRates(lead)
     // the take-off: one drawing room, walls 5.0 m and 3.1 m, 9 kg per length, a new mould
-    await lead.getByRole('button', { name: 'New quote' }).click()
-    await lead.getByLabel('Title').fill('Drawing room cornice')
-    await lead.getByLabel('Client').selectOption({ label: 'Hollin Row Architects' })
-    await lead.getByLabel('Room', { exact: true }).fill('Drawing room')
-    await lead.getByLabel('Run profile').fill('Egg-and-dart 150')
-    await lead.getByLabel('Walls').fill('5.0, 3.1')
-    await lead.getByLabel('Spares').fill('0')
-    await lead.getByLabel('Plaster per length').fill('9')
-    await lead.getByLabel('Needs a new mould').check()
+    await fillDrawingRoomTakeOff(lead, 'Drawing room cornice')
     expect(await seriousAxeViolations(lead)).toEqual([])
     await lead.getByRole('button', { name: 'Price this take-off' }).click()
     await lead.waitForURL(/\/lead\/quotes\/\d+$/)

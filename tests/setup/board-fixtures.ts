@@ -33,3 +33,14 @@ export async function boardFixture(label: string) {
     }),
   }
 }
+
+/**
+ * A timezone where it is now between 04:00 and 20:00: journeys whose pours start up to 90
+ * minutes ago see them on the floor's local today, which near midnight would be yesterday.
+ * One of these offsets (0, −5, −8, −10, +5:30, +9, +10) is always far from midnight.
+ */
+export function zoneAwayFromMidnight(now = new Date()): string {
+  const zones = ['Europe/London', 'America/New_York', 'America/Los_Angeles', 'Pacific/Honolulu', 'Asia/Kolkata', 'Asia/Tokyo', 'Australia/Brisbane']
+  const hour = (zone: string) => Number(new Intl.DateTimeFormat('en-GB', { hour: '2-digit', hourCycle: 'h23', timeZone: zone }).format(now))
+  return zones.find(z => hour(z) >= 4 && hour(z) < 20)!
+}
