@@ -6,15 +6,32 @@ import { createServer } from 'node:net'
 import { upCluster, downCluster, migrate, seedIfEmpty, type DbTarget } from '../../db/local/cluster'
 import { psql } from '../../db/local/pg'
 
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
+/**
+ * A port for a test server or cluster that nothing listens on now. Picked at random below
+ * Linux's ephemeral range (32768–60999), then checked by binding it: a port from listen(0) comes
+ * from that range, where the kernel hands it out again at once to another process's listen(0)
+ * or to an outgoing connection, so two lanes of one run once started two servers on one port
+ * (the second died of EADDRINUSE while its health check was answered by the first). Ports this
+ * process handed out are not handed out again.
+ */
+const handedOut = new Set<number>()
+export async function freePort(): Promise<number> {
+  for (let attempt = 0; attempt < 200; attempt++) {
+    const port = 20_000 + Math.floor(Math.random() * 12_000)
+    if (handedOut.has(port)) continue
+    if (await bindable(port)) {
+      handedOut.add(port)
+      return port
+    }
+  }
+  throw new Error('no free port between 20000 and 32000')
+}
+
+function bindable(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
     const srv = createServer()
-    srv.once('error', reject)
-    srv.listen(0, '127.0.0.1', () => {
-      const addr = srv.address()
-      const port = typeof addr === 'object' && addr ? addr.port : 0
-      srv.close(() => resolve(port))
-    })
+    srv.once('error', () => resolve(false))
+    srv.listen(port, '127.0.0.1', () => srv.close(() => resolve(true)))
   })
 }
 
