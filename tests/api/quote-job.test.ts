@@ -5,6 +5,7 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
+import { QUOTE_RATES, TWO_ROOM_TAKE_OFF } from '../setup/quote-fixtures'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 
 let lead = ''
@@ -12,23 +13,8 @@ let ada = ''
 let ravi = ''
 let clientOrgId = 0
 
-const rates = {
-  currency: 'GBP', plasterPerBag: 1850, mouldPerProfile: 42000, castPerLength: 3500, castPerPiece: 2800,
-  fettlePerPiece: 900, fixPerMetre: 1250, deliveryPerTrip: 6000, marginPct: 15, taxPct: 20, depositPct: 30,
-}
-const takeOff = {
-  rooms: [
-    {
-      name: 'Drawing room',
-      runs: [{ profile: 'Egg-and-dart 150', walls: [{ lengthM: 5.0, end: 'internal' }, { lengthM: 3.1 }], castLengthM: 3, minPieceM: 0.3, sparesPct: 0, plasterKgPerLength: 9, newMould: true }],
-      ornaments: [{ name: 'Ceiling centre 600', count: 1, plasterKgEach: 14, newMould: false }],
-    },
-    { name: 'Hall', runs: [], ornaments: [{ name: 'Corbel', count: 4, plasterKgEach: 3.5, newMould: true }] },
-  ],
-  bagKg: 25,
-  deliveries: 1,
-  fixing: true,
-}
+const rates = QUOTE_RATES
+const takeOff = TWO_ROOM_TAKE_OFF
 const code = () => `QJ-${randomUUID().slice(0, 6)}`
 
 /** A quote for ada's organisation, sent, and (unless `accept` is false) accepted by ada. */

@@ -3,6 +3,7 @@
 // hand there); here they show the route prices with the stored rates and freezes a sent revision.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn, baseUrl } from '../setup/http'
+import { QUOTE_RATES } from '../setup/quote-fixtures'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { pdfText } from '../setup/pdf-text'
 
@@ -12,10 +13,7 @@ let clientOrgId = 0
 let ada = ''
 let ravi = ''
 
-const rates = {
-  currency: 'GBP', plasterPerBag: 1850, mouldPerProfile: 42000, castPerLength: 3500, castPerPiece: 2800,
-  fettlePerPiece: 900, fixPerMetre: 1250, deliveryPerTrip: 6000, marginPct: 15, taxPct: 20, depositPct: 30,
-}
+const rates = QUOTE_RATES
 const takeOff = {
   rooms: [
     {
