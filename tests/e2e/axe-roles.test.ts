@@ -71,12 +71,18 @@ describe('axe on every page of every role', () => {
       const nav = await navPaths(page)
       expect(nav).toEqual(expect.arrayContaining(['/lead', '/lead/board', '/lead/settings', '/finishing']))
       expect(await axeWalk(page, [...nav.filter(p => p !== '/lead/board'), ...deeper.lead])).toEqual({})
-      // the pour board, once its timeline is drawn, in the day and the week view
-      for (const view of ['day', 'week']) {
-        await page.goto(`${base}/lead/board?view=${view}`)
-        await page.locator('html[data-hydrated]').waitFor()
-        await page.locator('.fc-scrollgrid').first().waitFor()
-        expect(await seriousAxeViolations(page), view).toEqual([])
+      // the pour board, once its timeline is drawn, in the day and the week view, on this
+      // desktop and at the tablet's and the phone's widths, where its timeline scrolls sideways
+      // and its scrollers take focus
+      for (const size of ['desktop', 'tablet', 'phone'] as const) {
+        await page.setViewportSize(VIEWPORTS[size])
+        for (const view of ['day', 'week']) {
+          await page.goto(`${base}/lead/board?view=${view}`)
+          await page.locator('html[data-hydrated]').waitFor()
+          await page.locator('.fc-scrollgrid').first().waitFor()
+          expect(await seriousAxeViolations(page), `${size} ${view}`).toEqual([])
+          if (size !== 'desktop') await expect(page.locator('.setline-board .fc-scroller[tabindex="0"][role="region"]').count(), `${size} ${view}: a focusable scroller`).resolves.toBeGreaterThan(0)
+        }
       }
     })
   }, 300_000)
