@@ -8,6 +8,7 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { scryptOptions } from '../../server/utils/password-policy'
 import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '#shared/utils/plaster'
 import { finishingDryBy } from '#shared/utils/finishing'
+import { mouldCastFromRow, pieceMasses, pourLitres, suggestedScrimM2 } from '#shared/utils/plaster-fibrous'
 import { DEMO_PASSWORD, DEMO_USERS } from './demo-people'
 
 const TZ = 'Europe/London'
@@ -69,8 +70,8 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
   const moulds: Ids = {
     cr101: await mould({ bench_id: benches.runs, code: 'CR-101', casts: 'Egg-and-dart cornice, 1.2 m length', material: 'silicone', cavity_litres: 6.5, cast_length_m: 1.2, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 240, pulls: 112, expected_pulls: 150 }),
     cr102: await mould({ bench_id: benches.runs, code: 'CR-102', casts: 'Egg-and-dart cornice, 1.2 m length (second copy)', material: 'silicone', cavity_litres: 6.5, cast_length_m: 1.2, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 240, pulls: 140, expected_pulls: 150 }),
-    cr115: await mould({ bench_id: benches.runs, code: 'CR-115', casts: 'Cornice internal corner block', material: 'polyurethane', cavity_litres: 1.4, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 180, pulls: 38, expected_pulls: 200 }),
-    cc210: await mould({ bench_id: benches.centres, code: 'CC-210', casts: 'Acanthus ceiling centre, 600 mm', material: 'polyurethane', cavity_litres: 4.2, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 180, pulls: 21, expected_pulls: 120 }),
+    cr115: await mould({ bench_id: benches.runs, code: 'CR-115', casts: 'Cornice internal corner block, gang of two', material: 'polyurethane', cavity_litres: 1.4, cavities: 2, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 180, pulls: 38, expected_pulls: 200 }),
+    cc210: await mould({ bench_id: benches.centres, code: 'CC-210', casts: 'Acanthus ceiling centre, 600 mm, cast fibrous', material: 'polyurethane', cavity_litres: 4.2, cast_type: 'fibrous', surface_area_m2: 0.42, shell_thickness_mm: 10, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 180, pulls: 21, expected_pulls: 120 }),
     cc240: await mould({ bench_id: benches.centres, code: 'CC-240', casts: 'Plain ribbed ceiling centre, 450 mm', material: 'grp_case', cavity_litres: 2.6, prep_minutes: 20, clean_minutes: 20, max_dwell_minutes: 60, pulls: 64, expected_pulls: 300 }),
     cb12: await mould({ bench_id: benches.small, code: 'CB-12', casts: 'Scroll corbel, 220 mm', material: 'silicone', cavity_litres: 1.9, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 240, pulls: 9, expected_pulls: 150 }),
     pm33: await mould({ bench_id: benches.small, code: 'PM-33', casts: 'Bead-and-reel panel moulding, 0.9 m', material: 'plaster_piece', cavity_litres: 0.8, cast_length_m: 0.9, prep_minutes: 20, clean_minutes: 15, max_dwell_minutes: 45, pulls: 55, expected_pulls: 80, state: 'repair', state_reason: 'Chipped key on the return; re-cast the piece' }),
@@ -88,6 +89,22 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
     stages: JSON.stringify([{ stage: 'model', leadDays: 1, done: true }, { stage: 'running', leadDays: 2, done: true }, { stage: 'case', leadDays: 2, done: false }, { stage: 'mould', leadDays: 3, done: false }]),
     notes: 'Squeeze taken from CB-12; silicone to go on after the case',
   })
+  // Consumables kept as stock: the fibrous centre is laid up with two layers of hessian scrim
+  // and timber laths across its back. Masses per unit are round figures of common practice
+  // (hessian about 0.3 kg/m², a 25 × 6 mm softwood lath about 0.08 kg/m), not measured ones.
+  const consumable = (row: Record<string, unknown>) => insertId(k, 'consumables', { workshop_id: workshopId, ...row })
+  const consumables: Ids = {
+    scrim: await consumable({ name: 'Hessian scrim', unit: 'm2', kg_per_unit: 0.3 }),
+    laths: await consumable({ name: 'Timber laths, 25 × 6 mm', unit: 'm', kg_per_unit: 0.08 }),
+  }
+  await k('consumable_moves').insert([
+    { workshop_id: workshopId, consumable_id: consumables.scrim, kind: 'received', quantity: 25, note: 'Roll, 1 m wide', actor_id: leadId },
+    { workshop_id: workshopId, consumable_id: consumables.laths, kind: 'received', quantity: 60, note: 'Bundle of 2.4 m lengths', actor_id: leadId },
+  ])
+  await k('mould_consumables').insert([
+    { workshop_id: workshopId, mould_id: moulds.cc210, consumable_id: consumables.scrim, quantity_per_cast: Math.round(suggestedScrimM2({ surfaceAreaM2: 0.42 }) * 100) / 100 },
+    { workshop_id: workshopId, mould_id: moulds.cc210, consumable_id: consumables.laths, quantity_per_cast: 1.8 },
+  ])
   return { grades, lots, benches, moulds, profiles }
 }
 
@@ -157,7 +174,8 @@ interface PourSeed {
 async function seedPour(k: Knex, workshopId: number, c: Ctx, p: PourSeed) {
   const m = await k('moulds').where({ id: c.moulds[p.mould] }).first()
   const grade = GRADE_PRESETS[p.grade]
-  const batch = batchForCavity({ cavityLitres: Number(m.cavity_litres), consistency: p.consistency, grade, wastePct: 5 })
+  const mouldCast = mouldCastFromRow(m)
+  const batch = batchForCavity({ cavityLitres: pourLitres(mouldCast), consistency: p.consistency, grade, wastePct: 5 })
   const win = demouldWindow({ grade, consistency: p.consistency, slurryTempC: 17, maxDwellMinutes: m.max_dwell_minutes, setFactor: 1 })
   const mixAt = localDay(p.day, p.hour, 15)
   const at = (min: number) => new Date(mixAt.getTime() + min * 60_000)
@@ -177,10 +195,19 @@ async function seedPour(k: Knex, workshopId: number, c: Ctx, p: PourSeed) {
   })
   await k('events').insert({ workshop_id: workshopId, entity: 'pour', entity_id: String(pourId), type: 'pour.planned', actor_id: c.users.lead, at: localDay(p.day - 1, 16), data: JSON.stringify({ mould: m.code }) })
   if (!done || !p.mark) return
+  // the mould's consumables left the stock at the poured step, per cast × cavities
+  const list = await k('mould_consumables as mc').join('consumables as cs', 'cs.id', 'mc.consumable_id')
+    .where('mc.mould_id', m.id).select('mc.consumable_id', 'mc.quantity_per_cast', 'cs.name', 'cs.unit', 'cs.kg_per_unit')
+  if (list.length) {
+    await k('consumable_moves').insert(list.map(r => ({
+      workshop_id: workshopId, consumable_id: r.consumable_id, kind: 'used', quantity: -Number(r.quantity_per_cast) * mouldCast.cavities, pour_id: pourId, actor_id: c.users[p.caster], at: at(4),
+    })))
+  }
   const cast = castFromBatch({ plasterKg: batch.plasterKg / 1.05, waterKg: batch.waterKg / 1.05, grade })
+  const masses = pieceMasses({ cast, mould: mouldCast, consumables: list.map(r => ({ consumableId: Number(r.consumable_id), name: r.name, unit: r.unit, quantityPerCast: Number(r.quantity_per_cast), kgPerUnit: r.kg_per_unit === null ? null : Number(r.kg_per_unit) })) })
   const pieceId = await insertId(k, 'pieces', {
     workshop_id: workshopId, pour_id: pourId, job_item_id: p.item, mark: p.mark, state: p.pieceState ?? 'to_fettle',
-    dry_mass_kg: cast.dryMassKg, wet_mass_kg: cast.wetMassKg,
+    dry_mass_kg: masses.dryMassKg, wet_mass_kg: masses.wetMassKg,
   })
   await k('moulds').where({ id: m.id }).increment('pulls', 1)
   await k('events').insert({ workshop_id: workshopId, entity: 'pour', entity_id: String(pourId), type: 'pour.demoulded', actor_id: c.users[p.caster], at: at(win.openMinutes + 6), data: JSON.stringify({ result: 'sound', piece: pieceId, mark: p.mark }) })

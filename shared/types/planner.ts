@@ -159,7 +159,8 @@ export interface ProposedPour {
  * some piece cannot be placed at all (e.g. a sample still awaiting approval) or would never dry.
  * projectedDate: readyAt's local date; finishesOn: the same when every piece is cast before
  * `to`. onTime: projectedDate ≤ dueOn (any date when dueOn is null); a job with nothing left to
- * cast is on time with no dates. waitsFor: the mould work its last piece waits for, in words;
+ * cast is on time with no dates. waitsFor: the mould work its last piece waits for (the mould's code
+ * and its available-from local day; the screen writes the day in the workshop's style);
  * note: why there is no date, in words.
  */
 export interface PlannerJobOutcome {
@@ -172,7 +173,7 @@ export interface PlannerJobOutcome {
   onTime: boolean
   projectedDate: string | null
   readyAt: Date | null
-  waitsFor: string | null
+  waitsFor: { mouldCode: string; availableOn: string } | null
   note: string | null
 }
 

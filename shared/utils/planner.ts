@@ -675,7 +675,7 @@ function summariseJobs(ctx: Ctx, runs: ItemRun[], zone: string): PlannerJobOutco
   return [...jobs.values()].map(({ out, readyAt, waits, complete, inRange, neverDries }) => {
     // Nothing left to cast: on time, with no dates to report.
     if (out.piecesRemaining === 0) return { ...out, onTime: true }
-    const waitsFor = waits ? `Waits for mould ${waits.code}, available from ${localDay(waits.at, zone)}.` : null
+    const waitsFor = waits ? { mouldCode: waits.code, availableOn: localDay(waits.at, zone) } : null
     if (neverDries) {
       return { ...out, waitsFor, note: 'The casts will not dry in the drying room\'s conditions: no date until the room is drier or warmer.' }
     }

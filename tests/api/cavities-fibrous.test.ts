@@ -166,3 +166,22 @@ describe('consumables and a fibrous mould', () => {
     expect(header).toContain('cavities,cast,face area (m²),shell thickness (mm)')
   })
 })
+
+describe('the demo workshop', () => {
+  it('has a fibrous ceiling centre laid up with scrim and laths, and a gang mould of two corner blocks', async () => {
+    const moulds = (await call('/api/moulds', { cookie: lead })).data as { id: number; code: string; castType: string; cavities: number; surfaceAreaM2: number | null }[]
+    const centre = moulds.find(m => m.code === 'CC-210')!
+    expect(centre).toMatchObject({ castType: 'fibrous', cavities: 1, surfaceAreaM2: 0.42 })
+    const detail = (await call(`/api/moulds/${centre.id}`, { cookie: lead })).data
+    expect(detail.consumables.map((c: { name: string }) => c.name).sort()).toEqual(['Hessian scrim', 'Timber laths, 25 × 6 mm'])
+    expect(moulds.find(m => m.code === 'CR-115')).toMatchObject({ castType: 'solid', cavities: 2 })
+    // the sample centre already cast took its scrim and laths from stock, and its piece carries them
+    const sample = await fx.k('pieces as pc').join('pours as p', 'p.id', 'pc.pour_id').where({ 'pc.mark': 'J-2602#001', 'p.workshop_id': fx.workshopId }).first('p.id', 'pc.dry_mass_kg', 'p.plaster_kg_actual', 'p.water_kg_actual')
+    const used = await fx.k('consumable_moves').where({ pour_id: sample.id, kind: 'used' }).select('quantity')
+    expect(used.map(u => Number(u.quantity)).sort((a, b) => a - b)).toEqual([-1.8, -0.92])
+    const grade = plasterGradeFromRow(await fx.k('plaster_grades').where({ workshop_id: fx.workshopId, preset_key: 'beta-fibrous' }).first())
+    const cast = castFromBatch({ plasterKg: Number(sample.plaster_kg_actual) / 1.05, waterKg: Number(sample.water_kg_actual) / 1.05, grade })
+    // 0.92 m² × 0.3 kg/m² + 1.8 m × 0.08 kg/m = 0.42 kg (the demo's round figures)
+    expect(Number(sample.dry_mass_kg)).toBeCloseTo(cast.dryMassKg + 0.42, 2)
+  })
+})

@@ -48,7 +48,7 @@ describe('mould work', () => {
     expect(mine.length).toBe(2)
     for (const p of mine) expect(p.day >= '2027-11-17').toBe(true)
     const outcome = r.data.jobs.find((j: { jobId: number }) => j.jobId === job)
-    expect(outcome.waitsFor).toContain('available from 2027-11-17')
+    expect(outcome.waitsFor).toEqual({ mouldCode: expect.any(String), availableOn: '2027-11-17' })
     // ready to dispatch only after fettling and drying: later than the day the casts come out
     expect(outcome.projectedDate > mine[mine.length - 1]!.day).toBe(true)
     expect(Date.parse(outcome.readyAt)).toBeGreaterThan(Date.parse(mine[mine.length - 1]!.slotStart) + 2 * 3_600_000)

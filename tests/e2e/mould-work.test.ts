@@ -46,12 +46,29 @@ describe('mould work', () => {
     expect(await seriousAxeViolations(page)).toEqual([])
 
     const range = { from: '2029-04-09', to: '2029-04-20' }
+    // the lead's preview on the board says which mould the job waits for and when its last
+    // piece is ready to dispatch, days in the workshop's style (other jobs of the shared demo
+    // workshop are in the preview too: only this job's line is read, and nothing is accepted here)
+    const { code: jobCode } = await fx.k('jobs').where({ id: jobId }).first('code')
+    const { code: mouldCode } = await fx.k('moulds').where({ id: mouldId }).first('code')
+    await page.goto(`${base}/lead/board?view=week`)
+    await page.locator('html[data-hydrated]').waitFor()
+    await page.locator('#plan-from').fill(range.from)
+    await page.locator('#plan-to').fill(range.to)
+    await page.getByRole('button', { name: 'Preview plan' }).click()
+    const line = page.locator('li', { has: page.locator('strong', { hasText: jobCode }) })
+    await line.getByTestId('plan-waits-for').waitFor({ timeout: 30_000 })
+    // (the client-completion journey switches the demo workshop to en-US for a moment: either style)
+    const styles = (['en-GB', 'en-US'] as const).map(l => `Waits for mould ${mouldCode}, available from ${formatDay('2029-04-11', 'UTC', l)}.`)
+    expect(styles).toContain(await line.getByTestId('plan-waits-for').textContent())
+    await expect(line.getByTestId('plan-ready-at').textContent()).resolves.toMatch(/^Last piece ready to dispatch about \w{3},? [\w ]+,? 2029 \d{2}:\d{2}\.$/)
+    await screenshot(page, 'mould-work-plan-preview')
     const preview = await call('/api/planner/preview', { method: 'POST', cookie: lead, body: range })
     const mine: Pour[] = preview.data.pours.filter((p: Pour) => p.jobItemId === itemId)
     expect(mine).toHaveLength(2)
     for (const p of mine) expect(p.day >= '2029-04-11').toBe(true)
     const projected = preview.data.jobs.find((j: { jobId: number }) => j.jobId === jobId)
-    expect(projected.waitsFor).toContain('available from 2029-04-11')
+    expect(projected.waitsFor).toEqual({ mouldCode, availableOn: '2029-04-11' })
     const accepted = await call('/api/planner/accept', { method: 'POST', cookie: lead, body: { ...range, pours: mine.map(p => ({ jobItemId: p.jobItemId, mouldId: p.mouldId, slotStart: p.slotStart, casterId: p.casterId })) } })
     expect(accepted.status, JSON.stringify(accepted.data)).toBe(201)
 

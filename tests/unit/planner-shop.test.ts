@@ -237,7 +237,7 @@ describe('mould work', () => {
     expect(result.pours.map(p => p.day)).toEqual(['2026-12-10', '2026-12-10'])
     const job = result.jobs[0]!
     expect(job.projectedDate).toBe('2026-12-10')
-    expect(job.waitsFor).toMatch(/mould M1, available from 2026-12-10/)
+    expect(job.waitsFor).toEqual({ mouldCode: 'M1', availableOn: '2026-12-10' })
   })
 
   it('plans a mould in repair from its return date, and not at all without one', () => {
