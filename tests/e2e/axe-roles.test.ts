@@ -84,6 +84,16 @@ describe('axe on every page of every role', () => {
           if (size !== 'desktop') await expect(page.locator('.setline-board .fc-scroller[tabindex="0"][role="region"]').count(), `${size} ${view}: a focusable scroller`).resolves.toBeGreaterThan(0)
         }
       }
+      // an address that leads nowhere keeps the signed-in shell and says so in plain words
+      await page.setViewportSize(VIEWPORTS.desktop)
+      await page.goto(`${base}/lead/no-such-page`)
+      await page.locator('html[data-hydrated]').waitFor()
+      await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Nothing here')
+      await expect(page.locator('nav[aria-label="Main"]').getByRole('link', { name: 'Pour board' }).isVisible()).resolves.toBe(true)
+      expect(await page.getByTestId('error-page').textContent()).not.toMatch(/no-such-page|Page not found/)
+      expect(await seriousAxeViolations(page), 'the page for an unknown address').toEqual([])
+      await page.getByRole('button', { name: 'Go to your start page' }).click()
+      await page.waitForURL(u => !u.pathname.includes('no-such-page'))
     })
   }, 300_000)
 
