@@ -95,7 +95,7 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
   const consumable = (row: Record<string, unknown>) => insertId(k, 'consumables', { workshop_id: workshopId, ...row })
   const consumables: Ids = {
     scrim: await consumable({ name: 'Hessian scrim', unit: 'm2', kg_per_unit: 0.3 }),
-    laths: await consumable({ name: 'Timber laths, 25 × 6 mm', unit: 'm', kg_per_unit: 0.08 }),
+    laths: await consumable({ name: 'Timber laths', unit: 'm', kg_per_unit: 0.08 }),
   }
   await k('consumable_moves').insert([
     { workshop_id: workshopId, consumable_id: consumables.scrim, kind: 'received', quantity: 25, note: 'Roll, 1 m wide', actor_id: leadId },

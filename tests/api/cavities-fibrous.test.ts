@@ -173,7 +173,7 @@ describe('the demo workshop', () => {
     const centre = moulds.find(m => m.code === 'CC-210')!
     expect(centre).toMatchObject({ castType: 'fibrous', cavities: 1, surfaceAreaM2: 0.42 })
     const detail = (await call(`/api/moulds/${centre.id}`, { cookie: lead })).data
-    expect(detail.consumables.map((c: { name: string }) => c.name).sort()).toEqual(['Hessian scrim', 'Timber laths, 25 × 6 mm'])
+    expect(detail.consumables.map((c: { name: string }) => c.name).sort()).toEqual(['Hessian scrim', 'Timber laths'])
     expect(moulds.find(m => m.code === 'CR-115')).toMatchObject({ castType: 'solid', cavities: 2 })
     // the sample centre already cast took its scrim and laths from stock, and its piece carries them
     const sample = await fx.k('pieces as pc').join('pours as p', 'p.id', 'pc.pour_id').where({ 'pc.mark': 'J-2602#001', 'p.workshop_id': fx.workshopId }).first('p.id', 'pc.dry_mass_kg', 'p.plaster_kg_actual', 'p.water_kg_actual')

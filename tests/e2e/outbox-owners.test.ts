@@ -81,12 +81,18 @@ describe('outbox on a shared tablet', () => {
   let page: Page
   /** POSTs to a pour's action route seen by the browser (aborted ones included). */
   const posts: Request[] = []
+  /** Native browser dialogs seen (there must be none: the app asks in its own). */
+  const native: string[] = []
 
   it('each person\'s steps go out under their own session; others\' wait, shown, for them', async () => {
     const pourA = await pourFor(ada.id)
     const pourB = await pourFor(tamsin.id)
     page = await browser.context.newPage()
-    page.on('dialog', d => void d.accept())
+    // the app asks in its own dialog: a native confirm() would be dismissed here and fail the journey
+    page.on('dialog', (d) => {
+      native.push(d.message())
+      void d.dismiss()
+    })
     page.on('request', (r) => {
       if (r.method() === 'POST' && ACTIONS.test(new URL(r.url()).pathname)) posts.push(r)
     })
@@ -237,10 +243,21 @@ describe('outbox on a shared tablet', () => {
     await page.waitForURL(`${base}/tablet`)
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
     await page.goto(`${base}/floor`)
+    // the app's own question first: "Not now" sends nothing; the lead then confirms
     await page.getByTestId('outbox-send-unowned').click()
+    const question = page.locator('[data-testid="ask-dialog"][open]')
+    await expect.poll(() => question.getByRole('heading').textContent()).toBe('Send it under your name?')
+    await expect(question.textContent()).resolves.toContain('The register will name you for it.')
+    await screenshot(page, 'outbox-owners-5-ask')
+    await question.getByRole('button', { name: 'Not now' }).click()
+    await expect.poll(() => question.count()).toBe(0)
+    expect(posts.length - before).toBe(0)
+    await page.getByTestId('outbox-send-unowned').click()
+    await question.getByRole('button', { name: 'Send it under my name' }).click()
     await expect.poll(() => stepsOf(pour)).toEqual([['pour.mixing', demo.lead.name]])
     await expect.poll(() => page.getByTestId('outbox-unowned').count()).toBe(0)
     expect(posts.length - before).toBe(1)
+    expect(native).toEqual([])
     await page.close()
   }, 180_000)
 })
