@@ -61,6 +61,10 @@ async function seed(url: string) {
       LATERAL (SELECT timestamptz '2027-03-01 07:30+00' + (n / 2) * interval '1 day' + (n % 2) * interval '4 hours' AS t) s
     WHERE m.workshop_id = ?`, [w, grade.id, w])
   const count = Number((await k('pours').where({ workshop_id: w }).count('* as n').first())!.n)
+  // the statistics a live database keeps (autovacuum's ANALYZE): without them PostgreSQL plans
+  // the board's piece count over freshly inserted tables as if they were empty (measured: the
+  // board's statement 57 → 35 ms p50 once analysed)
+  await k.raw('ANALYZE')
   await k.destroy()
   return { workshopId: Number(w), pours: count }
 }
