@@ -8,10 +8,12 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { scryptOptions } from '../../server/utils/password-policy'
 import { GRADE_PRESETS, batchForCavity, castFromBatch, demouldWindow } from '#shared/utils/plaster'
 import { finishingDryBy } from '#shared/utils/finishing'
-import { mouldCastFromRow, pieceMasses, pourLitres, suggestedScrimM2 } from '#shared/utils/plaster-fibrous'
+import { mouldCastFromRow, pieceMasses, pourLitres, shellLitres, suggestedScrimM2 } from '#shared/utils/plaster-fibrous'
 import { DEMO_PASSWORD, DEMO_USERS } from './demo-people'
 
 const TZ = 'Europe/London'
+/** The demo's fibrous ceiling centre: its face and shell (its cavity is the shell, as the mould form stores it). */
+const CC210_SHELL = { surface_area_m2: 0.42, shell_thickness_mm: 10 }
 type Ids = Record<string, number>
 
 function localDay(offsetDays: number, hour: number, minute = 0) {
@@ -71,7 +73,7 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
     cr101: await mould({ bench_id: benches.runs, code: 'CR-101', casts: 'Egg-and-dart cornice, 1.2 m length', material: 'silicone', cavity_litres: 6.5, cast_length_m: 1.2, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 240, pulls: 112, expected_pulls: 150 }),
     cr102: await mould({ bench_id: benches.runs, code: 'CR-102', casts: 'Egg-and-dart cornice, 1.2 m length (second copy)', material: 'silicone', cavity_litres: 6.5, cast_length_m: 1.2, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 240, pulls: 140, expected_pulls: 150 }),
     cr115: await mould({ bench_id: benches.runs, code: 'CR-115', casts: 'Cornice internal corner block, gang of two', material: 'polyurethane', cavity_litres: 1.4, cavities: 2, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 180, pulls: 38, expected_pulls: 200 }),
-    cc210: await mould({ bench_id: benches.centres, code: 'CC-210', casts: 'Acanthus ceiling centre, 600 mm', material: 'polyurethane', cavity_litres: 4.2, cast_type: 'fibrous', surface_area_m2: 0.42, shell_thickness_mm: 10, prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 180, pulls: 21, expected_pulls: 120 }),
+    cc210: await mould({ bench_id: benches.centres, code: 'CC-210', casts: 'Acanthus ceiling centre, 600 mm', material: 'polyurethane', ...CC210_SHELL, cavity_litres: shellLitres({ surfaceAreaM2: CC210_SHELL.surface_area_m2, shellThicknessMm: CC210_SHELL.shell_thickness_mm }), cast_type: 'fibrous', prep_minutes: 15, clean_minutes: 15, max_dwell_minutes: 180, pulls: 21, expected_pulls: 120 }),
     cc240: await mould({ bench_id: benches.centres, code: 'CC-240', casts: 'Plain ribbed ceiling centre, 450 mm', material: 'grp_case', cavity_litres: 2.6, prep_minutes: 20, clean_minutes: 20, max_dwell_minutes: 60, pulls: 64, expected_pulls: 300 }),
     cb12: await mould({ bench_id: benches.small, code: 'CB-12', casts: 'Scroll corbel, 220 mm', material: 'silicone', cavity_litres: 1.9, prep_minutes: 10, clean_minutes: 10, max_dwell_minutes: 240, pulls: 9, expected_pulls: 150 }),
     pm33: await mould({ bench_id: benches.small, code: 'PM-33', casts: 'Bead-and-reel panel moulding, 0.9 m', material: 'plaster_piece', cavity_litres: 0.8, cast_length_m: 0.9, prep_minutes: 20, clean_minutes: 15, max_dwell_minutes: 45, pulls: 55, expected_pulls: 80, state: 'repair', state_reason: 'Chipped key on the return; re-cast the piece' }),
@@ -102,7 +104,7 @@ async function seedCatalogue(k: Knex, workshopId: number, leadId: number) {
     { workshop_id: workshopId, consumable_id: consumables.laths, kind: 'received', quantity: 60, note: 'Bundle of 2.4 m lengths', actor_id: leadId },
   ])
   await k('mould_consumables').insert([
-    { workshop_id: workshopId, mould_id: moulds.cc210, consumable_id: consumables.scrim, quantity_per_cast: Math.round(suggestedScrimM2({ surfaceAreaM2: 0.42 }) * 100) / 100 },
+    { workshop_id: workshopId, mould_id: moulds.cc210, consumable_id: consumables.scrim, quantity_per_cast: Math.round(suggestedScrimM2({ surfaceAreaM2: CC210_SHELL.surface_area_m2 }) * 100) / 100 },
     { workshop_id: workshopId, mould_id: moulds.cc210, consumable_id: consumables.laths, quantity_per_cast: 1.8 },
   ])
   return { grades, lots, benches, moulds, profiles }

@@ -39,6 +39,16 @@ afterAll(async () => {
 const subscribe = (address: string) => fetch(`${base}${new URL(address).pathname}`)
 
 /** Makes a link in the section and answers its address as the screen shows it. */
+/** What a calendar reads at a live link: a 200 of text/calendar holding a VCALENDAR. */
+async function calendarAt(address: string): Promise<string> {
+  const feed = await subscribe(address)
+  expect(feed.status).toBe(200)
+  expect(feed.headers.get('content-type')).toContain('text/calendar')
+  const ics = await feed.text()
+  expect(ics).toContain('BEGIN:VCALENDAR')
+  return ics
+}
+
 async function newLink(section: Locator): Promise<string> {
   const before = await section.getByTestId('feed-address').count()
   await section.getByRole('button', { name: 'New link' }).click()
@@ -78,11 +88,7 @@ describe('calendar links', () => {
     expect(await seriousAxeViolations(page)).toEqual([])
     await screenshot(page, 'calendar-links-workshop')
 
-    const shopFeed = await subscribe(shopAddress)
-    expect(shopFeed.status).toBe(200)
-    expect(shopFeed.headers.get('content-type')).toContain('text/calendar')
-    const shopIcs = await shopFeed.text()
-    expect(shopIcs).toContain('BEGIN:VCALENDAR')
+    const shopIcs = await calendarAt(shopAddress)
     expect(shopIcs).toContain(`Delivery ${jobCode}`)
     expect(shopIcs).toContain('DTSTART;VALUE=DATE:20310603')
     expect(shopIcs).toContain(`Fixing ${jobCode}`)
@@ -98,11 +104,7 @@ describe('calendar links', () => {
     await expect(job.getByTestId('feed-link').first().textContent()).resolves.toContain(`Job ${jobCode}`)
     expect(await seriousAxeViolations(page)).toEqual([])
     await screenshot(page, 'calendar-links-job')
-    const jobFeed = await subscribe(jobAddress)
-    expect(jobFeed.status).toBe(200)
-    expect(jobFeed.headers.get('content-type')).toContain('text/calendar')
-    const jobIcs = await jobFeed.text()
-    expect(jobIcs).toContain('BEGIN:VCALENDAR')
+    const jobIcs = await calendarAt(jobAddress)
     expect(jobIcs).toContain(`Delivery ${jobCode}`)
     expect(jobIcs).toContain('DTSTART;VALUE=DATE:20310604')
 
