@@ -31,6 +31,8 @@ export function useFinishingQueue() {
   async function load() {
     try {
       const r = await readQueue()
+      const held = all.value
+      for (const list of ['toFettle', 'repair', 'drying', 'ready', 'packed'] as const) r[list] = keepNewerRows(held, r[list], p => p.id, p => p.version)
       queue.value = r
       offlineCopy.value = false
       await outbox.cachePut(cacheKey.value, r)

@@ -26,6 +26,7 @@ export function useFloorToday() {
   async function load() {
     try {
       const r = await readToday()
+      r.cards = keepNewerRows(today.value?.cards, r.cards, c => c.pour.id, c => c.pour.version)
       today.value = r
       offlineCopy.value = false
       await outbox.cachePut(cacheKey.value, r)

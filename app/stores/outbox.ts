@@ -158,8 +158,11 @@ export const useOutboxStore = defineStore('outbox', () => {
   async function settle(e: OutboxEntry, status: OutboxStatus, patch: Partial<OutboxEntry>) {
     // an answered photo entry needs its files no longer: the tablet's storage is not a photo store
     Object.assign(e, patch, { status, settledAt: new Date().toISOString() }, e.files ? { files: undefined } : {})
-    await save(e)
+    // the pages take the answer in the same tick as the entry leaves "pending": notified after
+    // the save, a card showed the server's old state for a moment, and an action form open on it
+    // turned back into the previous step's form (a tap then sent that step again)
     settled.forEach(fn => fn(e))
+    await save(e)
   }
 
   /**
