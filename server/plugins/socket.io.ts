@@ -11,18 +11,14 @@ import pg from 'pg'
 import { parse as parseCookies } from 'cookie-es'
 import { liveRooms } from '#shared/types/live'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
-import type { SealedSession } from '../utils/auth'
 import { jobsRepo } from '../repos/jobs'
+import { dropReads, workshopOfRoom } from '../utils/read-cache'
+import { READS_CHANGED } from '../utils/realtime'
 
 async function authenticate(socket: Socket) {
-  const name = (useRuntimeConfig().session as { name?: string }).name ?? 'nuxt-session'
   const cookies = parseCookies(socket.request.headers.cookie ?? '')
-  const sealed = cookies[name]
-  if (!sealed) return undefined
-  const password = process.env.NUXT_SESSION_PASSWORD ?? ''
   try {
-    const session = await unsealSession(undefined as never, { password, maxAge: sessionMaxAge() }, sealed)
-    const data = session.data as SealedSession
+    const data = await unsealedCookie(cookies[sessionCookieName()])
     const user = data.user
     // the same checks as requireRole: a live server-side record, an enabled user, the same session version
     const row = await liveSessionUser(data)
@@ -82,6 +78,31 @@ function adapterPool() {
   return pool
 }
 
+/** The cluster adapter's message types this instance acts on (socket.io-adapter's ClusterAdapter, MessageType). */
+const BROADCAST = 3
+
+/**
+ * Kept answers (server/utils/read-cache.ts) follow what the other instances do: an event
+ * broadcast by another instance drops its workshop's answers here before this instance hands
+ * it to its sockets (the adapter's onMessage, wrapped: one message, in order, so a tablet that
+ * reads again on the event reads after the drop), and a write elsewhere drops them on its
+ * READS_CHANGED message.
+ */
+function dropReadsAhead(io: Server) {
+  const adapter = io.of('/').adapter as unknown as { onMessage: (message: { type: number; data?: { opts?: { rooms?: string[] } } }, offset?: string) => unknown }
+  const deliver = adapter.onMessage.bind(adapter)
+  adapter.onMessage = (message, offset) => {
+    if (message.type === BROADCAST) {
+      for (const room of message.data?.opts?.rooms ?? []) {
+        const workshopId = workshopOfRoom(room)
+        if (workshopId !== undefined) dropReads(workshopId)
+      }
+    }
+    return deliver(message, offset)
+  }
+  io.on(READS_CHANGED, (workshopId: number | null) => dropReads(workshopId ?? undefined))
+}
+
 export default defineNitroPlugin((nitroApp) => {
   // allowRequest covers the polling transport; the websocket upgrade reaches engine.io
   // without it (engine.onWebSocket below), so the io.use check is the one that holds for both
@@ -95,6 +116,7 @@ export default defineNitroPlugin((nitroApp) => {
   const io = new Server({ serveClient: false })
   const pool = adapterPool()
   io.adapter(createAdapter(pool, { errorHandler: err => useLogger().error({ err: { message: err.message } }, 'socket.io adapter') }))
+  dropReadsAhead(io)
   io.bind(engine)
   io.use(async (socket, next) => {
     // a page of another site must not open a live connection with the user's cookie

@@ -11,6 +11,7 @@ import { markRange } from '#shared/utils/piece-marks'
 import type { PourDto } from '#shared/types/board'
 import { pourDto } from '../services/pours'
 import { loadWorkshop } from '../services/workshop'
+import { cachedRead } from '../utils/read-cache'
 
 export type { FloorCardDto }
 
@@ -128,21 +129,30 @@ async function cardsOf(db: Knex, workshopId: number, rows: PourDtoRow[]): Promis
  * A pour whose prep starts today, plus any earlier pour still mixing or setting (a cast left
  * overnight must still be demoulded), in slot order.
  *
- * The busiest read of the app (every tablet refreshes it), so it reads little: today's pours
- * come as DTO rows at once and only the overnight ones are read again, the two lists are read
- * side by side, and another caster's pours are left out before their cards are built.
+ * The busiest read of the app: every tablet reads it again on every live event of its
+ * workshop. So the workshop's whole day is read once and shared for a moment
+ * (server/utils/read-cache.ts, dropped on every change), and each person gets their own cards
+ * out of it.
  */
 export async function floorToday(actor: Actor, casterId?: number) {
+  const day = await cachedRead(actor.workshopId, 'floor-today', () => workshopFloorToday(actor.workshopId))
+  const who = actor.role === 'caster' ? actor.id : casterId
+  return who === undefined ? day : { ...day, cards: day.cards.filter(c => c.pour.casterId === who) }
+}
+
+/**
+ * Every card of the workshop's day: today's pours come as DTO rows at once and only the
+ * overnight ones are read again, and the two lists are read side by side.
+ */
+async function workshopFloorToday(workshopId: number) {
   const db = useDb()
-  const ws = await loadWorkshop(db, actor.workshopId)
+  const ws = await loadWorkshop(db, workshopId)
   const day = boardLocalDay(new Date(), ws.timezone)
   const [today, open] = await Promise.all([poursRepo.startingOn(db, ws.id, day), floorFacts.openBefore(db, ws.id, day)])
-  const who = actor.role === 'caster' ? actor.id : casterId
   const todayById = new Map(today.map(r => [Number(r.id), r]))
   const overnight = await poursRepo.dtos(db, ws.id, open.filter(id => !todayById.has(id)))
   const overnightById = new Map(overnight.map(r => [Number(r.id), r]))
   const ids = [...open, ...today.map(r => Number(r.id))].filter((id, i, all) => all.indexOf(id) === i)
-  const rows = ids.map(id => todayById.get(id) ?? overnightById.get(id))
-    .filter(r => !!r && (who === undefined || r.caster_id === who)) as PourDtoRow[]
+  const rows = ids.map(id => todayById.get(id) ?? overnightById.get(id)).filter(r => !!r)
   return { day, timezone: ws.timezone, cards: await cardsOf(db, ws.id, rows) }
 }

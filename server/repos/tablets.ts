@@ -23,6 +23,12 @@ export const tabletsRepo = {
     const [created] = await db('tablet_devices').insert(row).returning(COLUMNS)
     return created
   },
+  /** byTokenHash for many tokens in one query, answers in the order asked (server/utils/session-checks.ts). */
+  async byTokenHashes(db: Knex, tokenHashes: readonly string[]): Promise<(TabletRow | undefined)[]> {
+    const rows: (TabletRow & { token_hash: string })[] = await db('tablet_devices').whereIn('token_hash', [...new Set(tokenHashes)]).select([...COLUMNS, 'token_hash'])
+    const byHash = new Map(rows.map(({ token_hash, ...row }) => [token_hash, row]))
+    return tokenHashes.map(h => byHash.get(h))
+  },
   /** The device a cookie token belongs to, revoked or not (any workshop: the token is the key). */
   async byTokenHash(db: Knex, tokenHash: string): Promise<TabletRow | undefined> {
     const row: TabletRow | undefined = await db('tablet_devices').where({ token_hash: tokenHash }).first(COLUMNS)

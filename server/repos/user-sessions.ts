@@ -21,20 +21,22 @@ export const userSessionsRepo = {
     return Number(created.id)
   },
   /**
-   * The user of a request and whether its session is live, in one indexed query (this runs
-   * on every request): the user row joined with the record that is not ended, not expired
-   * and belongs to this very user and workshop.
+   * The users of requests and whether their sessions are live, in one indexed query (this runs
+   * for every request; server/utils/session-checks.ts sends the requests of one turn of the
+   * event loop together): each (workshop, user, token) key's user row joined with the record
+   * that is not ended, not expired and belongs to this very user and workshop. Answers in the
+   * order asked; undefined where no such user is.
    */
-  async userOfSession(db: Knex, workshopId: number, userId: number, tokenHash: string): Promise<SessionUserRow | undefined> {
-    const row: SessionUserRow | undefined = await db('users as u')
-      .leftJoin('user_sessions as s', function () {
-        this.on('s.user_id', 'u.id').andOn('s.workshop_id', 'u.workshop_id')
-          .andOnVal('s.token_hash', tokenHash).andOnNull('s.ended_at')
-          .andOn('s.expires_at', '>', db.raw('now()'))
-      })
-      .where({ 'u.workshop_id': workshopId, 'u.id': userId })
-      .first([...USER_COLUMNS, 's.id as session_id', 's.expires_at as session_expires_at'])
-    return row
+  async usersOfSessions(db: Knex, keys: readonly { workshopId: number; userId: number; tokenHash: string }[]): Promise<(SessionUserRow | undefined)[]> {
+    const r = await db.raw(`SELECT k.i, ${USER_COLUMNS.join(', ')}, s.id AS session_id, s.expires_at AS session_expires_at
+      FROM unnest(?::bigint[], ?::bigint[], ?::text[]) WITH ORDINALITY AS k(workshop_id, user_id, token_hash, i)
+      JOIN users u ON u.workshop_id = k.workshop_id AND u.id = k.user_id
+      LEFT JOIN user_sessions s ON s.user_id = u.id AND s.workshop_id = u.workshop_id AND s.token_hash = k.token_hash
+        AND s.ended_at IS NULL AND s.expires_at > now()`,
+    [keys.map(k => k.workshopId), keys.map(k => k.userId), keys.map(k => k.tokenHash)])
+    const byIndex = new Map<number, SessionUserRow>()
+    for (const { i, ...row } of r.rows as (SessionUserRow & { i: number | string })[]) byIndex.set(Number(i), row)
+    return keys.map((_, n) => byIndex.get(n + 1))
   },
   /** Ends one session by its cookie id; the ended record (undefined when none was live). */
   async end(db: Knex, tokenHash: string): Promise<{ id: number; user_id: number } | undefined> {

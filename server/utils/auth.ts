@@ -12,8 +12,13 @@ import type { Role, SessionUserData } from '#shared/types/auth'
 import { userSessionsRepo } from '../repos/user-sessions'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
 import { tabletOfSession } from './tablet'
+import { checkSessionUser } from './session-checks'
 
 export type Actor = SessionUserData
+
+declare module 'h3' {
+  interface H3EventContext { workshopId?: number }
+}
 
 /** What the sealed cookie holds: the user, and the server-only random id of its session record. */
 export interface SealedSession { user?: SessionUserData; secure?: { sid?: string } }
@@ -26,15 +31,49 @@ export function sessionMaxAge() {
 /**
  * The user row of a sealed session when everything still lets it in: its server-side record
  * is live (not signed out, not expired), the user is enabled and their session version has
- * not moved on. One query (the user joined with the record). Undefined otherwise.
+ * not moved on. One query (the user joined with the record), shared with the checks of the
+ * same turn (server/utils/session-checks.ts). Undefined otherwise.
  */
 export async function liveSessionUser(session: SealedSession) {
   const user = session.user
   const sid = session.secure?.sid
   if (!user?.id || !sid || sid.length > 128) return undefined
-  const row = await userSessionsRepo.userOfSession(useDb(), user.workshopId, user.id, hashLinkToken(sid))
+  const row = await checkSessionUser({ workshopId: user.workshopId, userId: user.id, tokenHash: hashLinkToken(sid) })
   if (!row?.session_id || !row.session_expires_at || row.disabled_at || row.session_version !== user.sv) return undefined
   return { ...row, session_id: row.session_id, session_expires_at: row.session_expires_at }
+}
+
+/** The session cookie's name (nuxt.config.ts runtimeConfig.session). */
+export function sessionCookieName() {
+  return (useRuntimeConfig().session as { name?: string }).name ?? 'nuxt-session'
+}
+
+/**
+ * Unsealed cookies by their sealed text, each until its session's age limit. Unsealing is a
+ * pure function of the cookie and the server's secret, and it costs a few WebCrypto calls per
+ * request (a quarter of the floor read's time under load, measured by tests/bench/readers.ts);
+ * what a session may do is still checked in the database on every request (liveSessionUser).
+ * At most UNSEALED_KEPT cookies, the oldest dropped first.
+ */
+const unsealedCookies = new Map<string, { session: SealedSession; until: number }>()
+const UNSEALED_KEPT = 5000
+
+/** A sealed session cookie's contents; empty when it is missing, forged, or past its age. */
+export async function unsealedCookie(sealed: string | undefined): Promise<SealedSession> {
+  if (!sealed || sealed.length > 8192) return {}
+  const kept = unsealedCookies.get(sealed)
+  if (kept && Date.now() < kept.until) return kept.session
+  try {
+    const maxAgeS = sessionMaxAge()
+    const unsealed = await unsealSession(undefined as never, { password: process.env.NUXT_SESSION_PASSWORD ?? '', maxAge: maxAgeS }, sealed)
+    const session = unsealed.data as SealedSession
+    if (unsealedCookies.size >= UNSEALED_KEPT) unsealedCookies.delete(unsealedCookies.keys().next().value!)
+    unsealedCookies.set(sealed, { session, until: (unsealed.createdAt ?? 0) + maxAgeS * 1000 })
+    return session
+  }
+  catch {
+    return {}
+  }
 }
 
 /**
@@ -44,7 +83,7 @@ export async function liveSessionUser(session: SealedSession) {
  * A role outside `roles` gets 403. Returns the actor whose workshopId scopes every query.
  */
 export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Actor> {
-  const session = await getUserSession(event) as SealedSession
+  const session = await unsealedCookie(getCookie(event, sessionCookieName()))
   const user = session.user as Actor | undefined
   if (!user?.id) throw createError({ statusCode: 401, message: 'Please sign in' })
   // a PIN session lives only on its tablet, and only while a lead has not revoked it (checked
@@ -58,6 +97,8 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Act
     await endSession(event)
     throw createError({ statusCode: 401, message: 'Your session has ended; please sign in again' })
   }
+  // the workshop a write changes: its kept answers are dropped as it answers (server/plugins/read-cache.ts)
+  event.context.workshopId = user.workshopId
   if (roles.length && !roles.includes(row.role)) {
     throw createError({ statusCode: 403, message: `This needs the ${roles.join(' or ')} role` })
   }

@@ -32,6 +32,8 @@ const envSchema = z.object({
   SETUP_CODE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(60),
   // Setline sits behind a reverse proxy that sets X-Forwarded-For / -Host / -Proto (README, "Behind a TLS proxy")
   TRUST_PROXY: flag.default(false),
+  // how long the busiest reads (a tablet's day) are shared between readers: server/utils/read-cache.ts; 0 turns it off
+  READ_CACHE_MS: z.coerce.number().int().min(0).max(60_000).default(1000),
   LOGIN_MAX_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),
   PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(15 * 1024 * 1024),
   PHOTO_MAX_PIXELS: z.coerce.number().int().min(1_000_000).max(268_402_689).default(50_000_000),

@@ -3,6 +3,10 @@
 import type { Server } from 'socket.io'
 import type { LiveEvent } from '#shared/types/live'
 import { liveRooms } from '#shared/types/live'
+import { dropReads } from './read-cache'
+
+/** The server-side message that tells the other instances a workshop's data changed (server/utils/read-cache.ts). */
+export const READS_CHANGED = 'setline:reads-changed'
 
 let io: Server | undefined
 
@@ -16,11 +20,14 @@ export function realtimeServer() {
 
 /** Sends an event to everyone of a workshop (staff rooms; clients join job rooms only). */
 export function emitToWorkshop(workshopId: number, event: LiveEvent) {
+  // before the event goes out: a page that reads again on it must not get the answer from before
+  dropReads(workshopId)
   io?.to(liveRooms.workshop(workshopId)).emit('live', event)
 }
 
 /** Sends an event to a job's room: its client members and the workshop's staff. */
 export function emitToJob(workshopId: number, jobId: number, event: LiveEvent) {
+  dropReads(workshopId)
   io?.to(liveRooms.job(jobId)).to(liveRooms.workshop(workshopId)).emit('live', event)
 }
 
@@ -41,4 +48,13 @@ export function disconnectSession(sessionId: number) {
 /** A client taken off a job stops hearing its room at once; their other jobs stay. */
 export function leaveJob(userId: number, jobId: number) {
   io?.in(liveRooms.user(userId)).socketsLeave(liveRooms.job(jobId))
+}
+
+/**
+ * A write of a workshop (undefined: of no known workshop) ended: its kept answers go here and on
+ * the other instances, where no live event may follow (a lot received, a mould edited).
+ */
+export function readsChanged(workshopId: number | undefined) {
+  dropReads(workshopId)
+  io?.serverSideEmit(READS_CHANGED, workshopId ?? null)
 }

@@ -5,7 +5,8 @@
 import type { H3Event } from 'h3'
 import type { SessionUserData } from '#shared/types/auth'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
-import { tabletsRepo, type TabletRow } from '../repos/tablets'
+import type { TabletRow } from '../repos/tablets'
+import { checkTablet } from './session-checks'
 
 /**
  * A year: a workshop tablet stays a tablet until a lead revokes it. Chromium caps a cookie's
@@ -27,7 +28,7 @@ export function clearTabletCookie(event: H3Event) {
 /** The live (not revoked) tablet a device token belongs to. */
 export async function liveTablet(token: string | undefined): Promise<TabletRow | undefined> {
   if (!token || token.length > 128) return undefined
-  const row = await tabletsRepo.byTokenHash(useDb(), hashLinkToken(token))
+  const row = await checkTablet(hashLinkToken(token))
   return row && !row.revoked_at ? row : undefined
 }
 

@@ -2,13 +2,15 @@
 // cookie, one room per workshop, a websocket-only first connection, and two app instances
 // on one PostgreSQL passing events to each other (@socket.io/postgres-adapter): a pour moved
 // through one reaches a tablet connected to the other, and a session from either works on both.
+// The floor's kept answers (server/utils/read-cache.ts) follow a change made on the other
+// instance at once: on its live event, and after a write that sends none.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import type { ChildProcess } from 'node:child_process'
 import { call, signIn } from '../setup/http'
 import { startAppServer } from '../setup/server'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
-import { boardFixture } from '../setup/board-fixtures'
+import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
 
 const sockets: Socket[] = []
@@ -53,7 +55,8 @@ async function touchSettings(cookie: string, base?: string) {
 
 /** The second app instance on the same database and session secret, started once for the file. */
 async function secondInstance() {
-  second ??= await startAppServer({ DATABASE_URL: testContext().databaseUrl, NUXT_SESSION_PASSWORD: testContext().sessionPassword, MAIL_FAKE: '0' })
+  // answers kept for a minute there: a floor read that follows a change sooner shows the change was dropped, not timed out
+  second ??= await startAppServer({ DATABASE_URL: testContext().databaseUrl, NUXT_SESSION_PASSWORD: testContext().sessionPassword, MAIL_FAKE: '0', READ_CACHE_MS: '60000' })
   return second
 }
 
@@ -140,5 +143,56 @@ describe('live updates', () => {
     expect(r.status).toBe(200)
     const e = await moved
     expect(e).toMatchObject({ version: pour.version + 1, row: { id: pour.id, mouldId, slotStart: '2027-06-01T11:00:00.000Z' } })
+  }, 90_000)
+
+  it('a caster\'s floor read on one instance shows a change made on the other at once: on its live event, and after a write that sends none', async () => {
+    const b = await secondInstance()
+    const a = testContext().baseUrl
+    const fx = await boardFixture('floor-kept')
+    // before any floor read of this file: pours starting now are on the workshop's today
+    await fx.k('workshops').where({ id: fx.workshopId }).update({ timezone: zoneAwayFromMidnight() })
+    const caster = await signInAt(b.url, demo.caster1.email)
+    const other = await signInAt(b.url, demo.caster2.email)
+    const floorOnB = async (cookie = caster) => {
+      const r = await fetch(`${b.url}/api/floor/today`, { headers: { cookie } })
+      expect(r.status).toBe(200)
+      return await r.json() as { cards: { pour: { id: number; slotStart: string }; lots: { lotCode: string }[] }[] }
+    }
+    await floorOnB() // kept on B from now on (READ_CACHE_MS there is a minute)
+    const tablet = await connect(b.url, caster)
+    const json = { 'cookie': lead, 'content-type': 'application/json' }
+    const mouldId = await fx.mould()
+    const itemId = await fx.item(await fx.job(), mouldId)
+    const slotStart = new Date(Math.floor(Date.now() / 60_000) * 60_000).toISOString()
+
+    // planned on A: the caster's tablet on B reads again on the event, and sees it
+    const created = nextLive(tablet, 'pour.created')
+    const planned = await fetch(`${a}/api/pours`, { method: 'POST', headers: json, body: JSON.stringify({ mouldId, slotStart, jobItemId: itemId, casterId: fx.casterId }) })
+    expect(planned.status).toBe(201)
+    const pour = await planned.json()
+    await created
+    expect((await floorOnB()).cards.map(c => c.pour.id)).toContain(pour.id)
+    // and only the caster it is for
+    expect((await floorOnB(other)).cards.map(c => c.pour.id)).not.toContain(pour.id)
+
+    // moved on A: read again on the event, the card has the new slot
+    const later = new Date(Date.parse(slotStart) + 30 * 60_000).toISOString()
+    const moved = nextLive(tablet, 'pour.updated')
+    const r = await fetch(`${a}/api/pours/${pour.id}`, { method: 'PATCH', headers: json, body: JSON.stringify({ version: pour.version, slotStart: later }) })
+    expect(r.status).toBe(200)
+    await moved
+    expect((await floorOnB()).cards.find(c => c.pour.id === pour.id)?.pour.slotStart).toBe(later)
+
+    // the control: a lot put straight into the database (no request, so nothing is dropped) is not
+    // seen on B yet, which shows B answers from what it kept
+    const lotsOf = async () => (await floorOnB()).cards.find(c => c.pour.id === pour.id)!.lots.map(l => l.lotCode)
+    const quiet = `${fx.tag}-QUIET`
+    await fx.lot({ lot_code: quiet })
+    expect(await lotsOf()).not.toContain(quiet)
+    // a lot received on A sends no live event; its write drops the kept answers on B too
+    const received = `${fx.tag}-RECEIVED`
+    const lot = await fetch(`${a}/api/lots`, { method: 'POST', headers: json, body: JSON.stringify({ gradeId: fx.gradeId, lotCode: received, bagsReceived: 4, bagKg: 25, receivedOn: '2026-01-02' }) })
+    expect(lot.status).toBe(201)
+    await expect.poll(lotsOf, { timeout: 10_000 }).toEqual(expect.arrayContaining([quiet, received]))
   }, 90_000)
 })
