@@ -33,7 +33,7 @@ interface BoardContextRow {
 const DAYS = `tstzrange((:from::date)::timestamp AT TIME ZONE w.timezone, ((:to::date) + 1)::timestamp AT TIME ZONE w.timezone)`
 const MS = (x: string) => `floor(extract(epoch FROM ${x}) * 1000)::bigint`
 
-const SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
+export const BOARD_SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
   rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
 SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
@@ -74,7 +74,7 @@ SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.worki
 
 /** The board for the local days from..to; 404 when the workshop is gone. */
 export async function boardData(workshopId: number, from: string, to: string): Promise<BoardData> {
-  const ctx: BoardContextRow | undefined = (await useDb().raw(SQL, { workshopId, from, to })).rows[0]
+  const ctx: BoardContextRow | undefined = (await useDb().raw(BOARD_SQL, { workshopId, from, to })).rows[0]
   if (!ctx) notFound('Workshop')
   return {
     now: Date.now(),
