@@ -55,12 +55,20 @@ export interface BoardMould {
 }
 
 /**
- * A pour on the board's wire form: ids only (names come once each from BoardData.lookups and
- * the moulds and casters lists) and its instants once, as epoch milliseconds in `t`:
- * [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt]. shared/utils/board-lean.ts
- * expands it into a PourDto.
+ * A pour on the board's wire form: one array of values in this order (no key repeated 1,500
+ * times), ids only (names come once each from BoardData.lookups and the moulds and casters
+ * lists) and its five instants as epoch milliseconds. shared/utils/board-lean.ts reads it
+ * (leanPour names its fields; expandPour makes the PourDto every board component reads).
  */
-export interface BoardPourRow {
+export type BoardPourRow = [
+  id: number, version: number, mouldId: number, jobItemId: number | null, casterId: number | null, gradeId: number, lotId: number | null,
+  state: PourState, isSample: boolean, consistency: number, setFactor: number,
+  slotStart: number, slotEnd: number, mixAt: number, demouldOpenAt: number, demouldCloseAt: number,
+  plasterKg: number, waterKg: number, warnings: string[],
+]
+
+/** A board pour's fields by name (shared/utils/board-lean.ts leanPour), instants in `t` as epoch ms: [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt]. */
+export interface BoardPourFields {
   id: number
   version: number
   mouldId: number

@@ -1,15 +1,22 @@
 // The board's lean wire form (GET /api/board) and its expansion into the PourDto every board
-// component reads. On the wire a pour carries ids only; names come once each from the lookup
-// tables (the moulds list; jobs, items, grades and people), and its five instants come once, as epoch
-// milliseconds in one array `t`: [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt].
-import type { BoardData, BoardPourRow, PourDto } from '../types/board'
+// component reads. On the wire a pour is one array of values (shared/types/board.ts
+// BoardPourRow gives the order) carrying ids only; names come once each from the lookup tables
+// (the moulds list; jobs, items, grades and people), and its five instants as epoch ms.
+import type { BoardData, BoardPourFields, BoardPourRow, PourDto } from '../types/board'
 import { missedStartWarning, pourSituation } from './pour-status'
 import { inUnits } from './units-display'
 
 const iso = (ms: number) => new Date(ms).toISOString()
 
+/** A wire row's fields by name. */
+export function leanPour(row: BoardPourRow): BoardPourFields {
+  const [id, version, mouldId, jobItemId, casterId, gradeId, lotId, state, isSample, consistency, setFactor, t0, t1, t2, t3, t4, plasterKg, waterKg, warnings] = row
+  return { id, version, mouldId, jobItemId, casterId, gradeId, lotId, state, isSample, consistency, setFactor, t: [t0, t1, t2, t3, t4], plasterKg, waterKg, warnings }
+}
+
 /** One lean row as the PourDto the routes that write pours answer with. */
-export function expandPour(data: Pick<BoardData, 'moulds' | 'lookups' | 'now' | 'workshop'>, p: BoardPourRow, names = boardNames(data)): PourDto {
+export function expandPour(data: Pick<BoardData, 'moulds' | 'lookups' | 'now' | 'workshop'>, row: BoardPourRow, names = boardNames(data)): PourDto {
+  const p = leanPour(row)
   // the one classification (pour-status.ts), as the write routes' pourDto applies it
   const situation = pourSituation({ state: p.state, mixAt: iso(p.t[2]), demouldOpenAt: iso(p.t[3]), demouldCloseAt: iso(p.t[4]) }, data.now)
   const item = p.jobItemId === null ? undefined : data.lookups.items[p.jobItemId]

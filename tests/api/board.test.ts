@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
-import { expandBoardPours } from '#shared/utils/board-lean'
+import { expandBoardPours, leanPour } from '#shared/utils/board-lean'
 
 // April 2027 is BST (UTC+1): local 09:00 is 08:00Z. Days far from the demo's and other files'.
 const local = (day: string, hhmm: string) => `${day}T${hhmm}:00+01:00`
@@ -17,10 +17,10 @@ beforeAll(async () => {
 afterAll(closeTestDb)
 
 const post = (body: Record<string, unknown>) => call('/api/pours', { method: 'POST', cookie: lead, body })
-/** GET /api/board with its lean pours kept as `wire` and expanded as the board page does into `pours`. */
+/** GET /api/board with its lean pours kept as `rows`, named as `wire` (leanPour) and expanded as the board page does into `pours`. */
 const board = async (from: string, to: string, cookie = lead) => {
   const r = await call(`/api/board?from=${from}&to=${to}`, { cookie })
-  if (r.status === 200) r.data = { ...r.data, wire: r.data.pours, pours: expandBoardPours(r.data) }
+  if (r.status === 200) r.data = { ...r.data, rows: r.data.pours, wire: r.data.pours.map(leanPour), pours: expandBoardPours(r.data) }
   return r
 }
 
@@ -46,7 +46,10 @@ describe('GET /api/board', () => {
     expect(mine.map((p: { id: number }) => p.id)).toEqual([inside.id])
     // the expanded lean row is exactly the pour the write route answered with
     expect(mine[0]).toEqual({ ...inside, overdue: false, situation: 'waiting' })
-    // on the wire: ids and one array of epoch ms, the names once in the lookups
+    // on the wire: one array of values per pour, ids and epoch ms, the names once in the lookups
+    const row = r.data.rows.find((p: unknown[]) => p[0] === inside.id)
+    expect(row).toHaveLength(19)
+    expect(row.filter((v: unknown) => typeof v === 'string')).toEqual(['planned'])
     const wire = r.data.wire.find((p: { id: number }) => p.id === inside.id)
     expect(wire).not.toHaveProperty('mouldCode')
     expect(wire).not.toHaveProperty('jobCode')

@@ -9,6 +9,8 @@ import { seriousAxeViolations } from '../setup/axe'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { call, signIn } from '../setup/http'
+import { leanPour } from '#shared/utils/board-lean'
+import type { BoardPourRow } from '#shared/types/board'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -48,10 +50,10 @@ async function plannedPour(slotStart: string) {
   return r.data as { id: number; mouldId: number; jobCode: string }
 }
 
-/** Where the server says a pour starts (the board's wire form: t[0] in epoch ms). */
+/** Where the server says a pour starts (the board's wire row by name: t[0] in epoch ms). */
 async function serverStart(id: number, from: string, to: string) {
-  const board = (await call(`/api/board?from=${from}&to=${to}`, { cookie: leadCookie })).data as { pours: { id: number; mouldId: number; t: number[] }[] }
-  const p = board.pours.find(x => x.id === id)
+  const board = (await call(`/api/board?from=${from}&to=${to}`, { cookie: leadCookie })).data as { pours: BoardPourRow[] }
+  const p = board.pours.map(leanPour).find(x => x.id === id)
   return p ? new Date(p.t[0]!).toISOString() : null
 }
 

@@ -11,6 +11,8 @@ import { testContext } from '../setup/context'
 import { formatDay } from '#shared/utils/workshop-format'
 import { boardFixture } from '../setup/board-fixtures'
 import { closeTestDb } from '../setup/fixtures'
+import { leanPour } from '#shared/utils/board-lean'
+import type { BoardPourRow } from '#shared/types/board'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -239,9 +241,9 @@ describe('pour board', () => {
     await expectMessage(page, new RegExp(`Plan accepted: ${proposals.length} pours written`))
 
     // every previewed pour landed where it was previewed
-    // (the board's wire form: t[0] is the slot's start in epoch ms)
-    const board = await (await page.request.get(`${base}/api/board?from=${monday}&to=${addDays(monday, 7)}`)).json() as { pours: { jobItemId: number; mouldId: number; t: number[] }[] }
-    const landed = new Set(board.pours.map(p => `${p.jobItemId}/${p.mouldId}/${p.t[0]}`))
+    // (the board's wire rows by name: t[0] is the slot's start in epoch ms)
+    const board = await (await page.request.get(`${base}/api/board?from=${monday}&to=${addDays(monday, 7)}`)).json() as { pours: BoardPourRow[] }
+    const landed = new Set(board.pours.map(leanPour).map(p => `${p.jobItemId}/${p.mouldId}/${p.t[0]}`))
     expect(proposals.filter(p => !landed.has(`${p.jobItemId}/${p.mouldId}/${Date.parse(p.slotStart)}`))).toEqual([])
     await screenshot(page, 'board-week-planned')
 

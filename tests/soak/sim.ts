@@ -29,6 +29,8 @@ import { startAppServer } from '../setup/server'
 import { procKb } from '../bench/lib/app'
 import { percentile } from '../bench/lib/stats'
 import { prng, type Prng } from './prng'
+import { leanPour } from '#shared/utils/board-lean'
+import type { BoardPourFields, BoardPourRow } from '#shared/types/board'
 
 export interface SoakOptions {
   seed: number
@@ -661,8 +663,10 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
       }
       // what the planner left out goes on by hand, after the day's last pour on the mould
       const ourItems = new Set(items.map(it => Number(it.id)))
-      // the board's wire form: t is [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt] in ms
-      const board = async () => ((await sh.steady('B', lead, 'GET', `/api/board?from=${date}&to=${date}`)).data?.pours ?? []) as { id: number; version: number; jobItemId: number; mouldId: number; state: string; t: number[]; plasterKg: number; waterKg: number }[]
+      // the board's wire rows by name (leanPour): t is [slotStart, slotEnd, mixAt, demouldOpenAt, demouldCloseAt] in ms
+      const board = async () => (((await sh.steady('B', lead, 'GET', `/api/board?from=${date}&to=${date}`)).data?.pours ?? []) as BoardPourRow[]).map(leanPour)
+        // only pours of job items are the soak's own
+        .filter((p): p is BoardPourFields & { jobItemId: number } => p.jobItemId !== null)
       let pours = (await board()).filter(p => ourItems.has(p.jobItemId))
       const planOne = async (itemId: number, mouldId: number) => {
         const onMould = (await board()).filter(p => p.mouldId === mouldId)

@@ -47,7 +47,8 @@ describe('expandBoardPours', () => {
       workshop: { timezone: 'UTC' },
       moulds: [{ id: 3, code: 'CB-12' }],
       lookups: { jobs: { 7: 'J-1' }, items: { 9: { jobId: 7, description: 'Corbel' } }, grades: { 2: 'Casting' }, people: { 5: 'Ada' } },
-      pours: [{ id: 1, version: 2, mouldId: 3, jobItemId: 9, casterId: 5, gradeId: 2, lotId: null, state: 'planned', isSample: false, consistency: 70, setFactor: 1, t, plasterKg: 3, waterKg: 2.1, warnings: [] }],
+      // the wire's order: id, version, mould, item, caster, grade, lot, state, sample, consistency, set factor, five instants, plaster, water, warnings
+      pours: [[1, 2, 3, 9, 5, 2, null, 'planned', false, 70, 1, ...t, 3, 2.1, []]],
     } as unknown as BoardData
     expect(expandBoardPours(data)[0]).toEqual({
       id: 1, version: 2, mouldId: 3, mouldCode: 'CB-12', jobItemId: 9, jobId: 7, jobCode: 'J-1', itemDescription: 'Corbel',
@@ -59,7 +60,7 @@ describe('expandBoardPours', () => {
     expect(late).toMatchObject({ situation: 'missed_start', overdue: false })
     expect(late.warnings[0]).toMatch(/^Missed start: never mixed/)
     // poured and left past its window: an overdue demould
-    const setting = { ...data.pours[0]!, state: 'setting' as const }
+    const setting = data.pours[0]!.map((v, i) => (i === 7 ? 'setting' : v)) as BoardData['pours'][number]
     expect(expandBoardPours({ ...data, pours: [setting], now: Date.parse(pour.demouldCloseAt) + 60_000 })[0]).toMatchObject({ situation: 'overdue_demould', overdue: true })
   })
 })
