@@ -5,7 +5,7 @@
 // 08:00–11:00 slot in London, mixing from 08:15, demould window 09:00–10:30).
 import { describe, expect, it } from 'vitest'
 import type { PourDto } from '#shared/types/board'
-import { markPhase, pourBarElement, type PourBarInput } from '../../app/utils/board-dom'
+import { markPhase, NodeCache, pourBarElement, type PourBarInput } from '../../app/utils/board-dom'
 import { formatTime } from '#shared/utils/workshop-format'
 
 const pour: PourDto = {
@@ -57,5 +57,20 @@ describe('a pour bar (board-dom)', () => {
     expect(bar.dataset.phase).toBe('clean')
     expect([...bar.querySelectorAll('.phase-now')].map(s => (s as HTMLElement).dataset.phaseOf)).toEqual(['clean'])
     expect(title(bar)).toContain('now clean-out')
+  })
+
+  it('hands the calendar the very same nodes while a cell\'s content stays the same, and new ones after a clear', () => {
+    const cells = new NodeCache()
+    let built = 0
+    const build = () => {
+      built++
+      return [pourBarElement(input)]
+    }
+    const first = cells.get('bar|7|1', build)
+    expect(cells.get('bar|7|1', build)[0]).toBe(first[0])
+    expect(cells.get('bar|7|2', build)[0]).not.toBe(first[0])
+    cells.clear()
+    expect(cells.get('bar|7|1', build)[0]).not.toBe(first[0])
+    expect(built).toBe(3)
   })
 })
