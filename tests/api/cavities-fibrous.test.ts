@@ -9,6 +9,8 @@ import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fi
 import { boardFixture } from '../setup/board-fixtures'
 import { batchForCavity, castFromBatch } from '#shared/utils/plaster'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
+import { leanPour } from '#shared/utils/board-lean'
+import type { BoardPourRow } from '#shared/types/board'
 
 let lead = ''
 let caster = ''
@@ -82,7 +84,7 @@ describe('a multi-cavity mould', () => {
     expect(board.status).toBe(200)
     const lane = board.data.moulds.find((m: { id: number }) => m.id === mould.id)
     expect(lane).toMatchObject({ code: mould.code, cavities: 4 })
-    expect(board.data.pours.some((x: { id: number; mouldId: number }) => x.id === p.id && x.mouldId === mould.id)).toBe(true)
+    expect((board.data.pours as BoardPourRow[]).map(leanPour).some(x => x.id === p.id && x.mouldId === mould.id)).toBe(true)
     expect(board.data.moulds.find((m: { id: number }) => m.id !== mould.id)?.cavities).toBeGreaterThanOrEqual(1)
   })
 })
