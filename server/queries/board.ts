@@ -33,7 +33,7 @@ const DAYS = `tstzrange((:from::date)::timestamp AT TIME ZONE w.timezone, ((:to:
 /** An instant as epoch ms, a float8 the driver reads as a number (extract's numeric is slower). */
 const MS = (x: string) => `round(date_part('epoch', ${x}) * 1000)`
 
-export const BOARD_CONTEXT_SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
+const BOARD_CONTEXT_SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
   rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
 SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
@@ -72,7 +72,7 @@ SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.worki
  * p50), while the driver reads plain rows in a few; the two statements run side by side on two
  * connections. Keep the columns in BoardPourRow's order.
  */
-export const BOARD_POURS_SQL = `SELECT p.id, p.version, p.mould_id, p.job_item_id, p.caster_id, p.grade_id, p.lot_id, p.state, p.is_sample,
+const BOARD_POURS_SQL = `SELECT p.id, p.version, p.mould_id, p.job_item_id, p.caster_id, p.grade_id, p.lot_id, p.state, p.is_sample,
     p.consistency, p.set_factor, ${MS('lower(p.slot)')} AS t0, ${MS('upper(p.slot)')} AS t1, ${MS('p.mix_at')} AS t2,
     ${MS('p.demould_open_at')} AS t3, ${MS('p.demould_close_at')} AS t4, p.plaster_kg_planned, p.water_kg_planned, p.warnings
   FROM pours p JOIN workshops w ON w.id = p.workshop_id
