@@ -763,7 +763,10 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
     const memEndKb = sh.instances.B.proc?.pid ? procKb(sh.instances.B.proc.pid, 'VmRSS') : 0
     clearInterval(memWatch)
 
-    const invariants = await withDb(tgt.url, db => checkInvariants(db, s, tablets, [...finisherActions, ...leadActions], delivered, sh, { warmKb: memWarmKb, endKb: memEndKb }, finished))
+    // a run stopped at its deadline says what it was waiting for: the orders not sent, where
+    // their pours and pieces stand, and each tablet's work still open with its last answers
+    const left = finished ? [] : ['stopped at the deadline', ...await withDb(tgt.url, db => workLeft(db, jobsAll.filter(j => !j.dispatched), tablets))]
+    const invariants = await withDb(tgt.url, db => checkInvariants(db, s, tablets, [...finisherActions, ...leadActions], delivered, sh, { warmKb: memWarmKb, endKb: memEndKb }, left))
     const demouldedOnTablets = tablets.flatMap(t => [...t.view].filter(([, v]) => v.state === 'demoulded').map(([id]) => id))
     const withPhoto = new Set(photoCounts.map(c => Number(c.pour_id)))
     const noPhoto = demouldedOnTablets.filter(id => !withPhoto.has(id))
@@ -801,14 +804,33 @@ export async function runSoak(o: SoakOptions): Promise<SoakReport> {
   }
 }
 
+/** What a run stopped at its deadline was still waiting for, a line per order and per tablet. */
+async function workLeft(k: Knex, jobs: { id: number; code: string; pieces: number }[], tablets: CasterTablet[]): Promise<string[]> {
+  const out: string[] = []
+  for (const j of jobs) {
+    const pours = await k('pours as p').join('job_items as i', 'i.id', 'p.job_item_id').where('i.job_id', j.id)
+      .select('p.id', 'p.state', 'p.version', 'p.caster_id').orderBy('p.id')
+    const pieces = await k('pieces as pc').join('job_items as i', 'i.id', 'pc.job_item_id').where('i.job_id', j.id).select('pc.id', 'pc.state', 'pc.version').orderBy('pc.id')
+    out.push(`order ${j.code} (${j.pieces} pieces): pours ${pours.map(p => `${p.id} ${p.state} v${p.version} caster ${p.caster_id ?? '-'}`).join(', ') || 'none'}; `
+      + `pieces ${pieces.map(p => `${p.id} ${p.state} v${p.version}`).join(', ') || 'none'}`)
+  }
+  for (const t of tablets) {
+    if (!t.work.length && !t.queue.length) continue
+    const last = t.done.slice(-3).map(a => `${a.kind} ${a.entityId} v${a.version} → ${a.status}`).join(', ')
+    out.push(`${t.name}${t.online ? '' : ' (offline)'}: work ${t.work.map(id => `${id} ${t.view.get(id)?.state} v${t.view.get(id)?.version}`).join(', ')}; `
+      + `queued ${t.queue.map(a => `${a.kind} ${a.entityId} v${a.version} (${a.attempts} tries)`).join(', ') || 'nothing'}; last answers ${last || 'none'}`)
+  }
+  return out
+}
+
 // ── the invariants, from the database and the tablets' records ──
 
 async function checkInvariants(
   k: Knex, s: Setup, tablets: CasterTablet[], others: TabletAction[], delivered: Delivered[],
-  shop: Shop, mem: { warmKb: number; endKb: number }, finished: boolean,
+  shop: Shop, mem: { warmKb: number; endKb: number }, left: string[],
 ): Promise<Invariant[]> {
   const out: Invariant[] = []
-  const inv = (name: string, bad: string[], ok: string) => out.push({ name, held: bad.length === 0, detail: bad.length ? `${bad.length}: ${bad.slice(0, 5).join('; ')}` : ok })
+  const inv = (name: string, bad: string[], ok: string) => out.push({ name, held: bad.length === 0, detail: bad.length ? `${bad.length}: ${bad.slice(0, 8).join('; ')}` : ok })
   const floor = tablets.flatMap(t => [...t.done, ...t.queue])
   const all = [...floor, ...others]
 
@@ -913,6 +935,6 @@ async function checkInvariants(
   inv('server memory after the run within 20 % of after warm-up', Number.isFinite(growth) && growth <= 0.2 ? [] : [`${(mem.warmKb / 1024).toFixed(0)} MB → ${(mem.endKb / 1024).toFixed(0)} MB`],
     `${(mem.warmKb / 1024).toFixed(0)} MB → ${(mem.endKb / 1024).toFixed(0)} MB (${(growth * 100).toFixed(0)} %)`)
 
-  inv('the run finished its week within its time bound', finished ? [] : ['stopped at the deadline with work left'], 'every order dispatched')
+  inv('the run finished its week within its time bound', left, 'every order dispatched')
   return out
 }
