@@ -4,15 +4,17 @@
 // the workshop's (shared/utils/workshop-format.ts), the numbers in its units
 // (shared/utils/units-display.ts), the styles its locale's, so one change of the workshop's settings reaches every screen.
 import { UNIT_LABELS, displayNumber, formatUnits, inputValue, metricValue, type Quantity, type UnitSystem } from '#shared/utils/units-display'
-import { dayIn, formatDateTime, formatDay, formatNumber, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
+import { dayIn, formatDateTime, formatDay, formatNumber, formatTime, registerZoneOffsets, todayIn, workshopLocale, type WorkshopLocale, type ZoneOffsets } from '#shared/utils/workshop-format'
 
-interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: string; locale?: WorkshopLocale } | null }
+interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: string; locale?: WorkshopLocale; zoneOffsets?: ZoneOffsets } | null }
 
 export const WORKSHOP_ME_KEY = 'workshop-me'
 
 export function useWorkshopFormat() {
   const fetched = useFetch<MeWorkshop>('/api/auth/me', { key: WORKSHOP_ME_KEY, dedupe: 'defer', getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key] })
   const { data } = fetched
+  // the zone's offsets, so days and times are written without Intl (app/plugins/zone-offsets.client.ts)
+  watch(() => data.value?.workshop?.zoneOffsets, registerZoneOffsets, { immediate: true })
   const units = computed<UnitSystem>(() => data.value?.workshop?.units ?? 'metric')
   const zone = computed(() => data.value?.workshop?.timezone ?? 'UTC')
   const name = computed(() => data.value?.workshop?.name ?? '')

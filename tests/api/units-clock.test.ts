@@ -64,6 +64,13 @@ describe('today in a zone far from UTC', () => {
       expect(sheet.data.timezone).toBe(zone)
       const me = await call('/api/auth/me', { cookie: lead })
       expect(me.data.workshop.timezone).toBe(zone)
+      // the zone's offsets come with it, for the pages to write times without Intl: today's
+      // offset is the zone's own (UTC+14 or UTC−11 all year, IANA tz database) and spans today
+      const offsets = me.data.workshop.zoneOffsets
+      expect(offsets.zone).toBe(zone)
+      expect(offsets.from).toBeLessThan(Date.now())
+      expect(offsets.to).toBeGreaterThan(Date.now() + 300 * 86_400_000)
+      expect(offsets.offsets).toEqual([[offsets.from, zone === 'Pacific/Kiritimati' ? 14 * 60 : -11 * 60]])
     }
     finally {
       await settings({ timezone: 'Europe/London' })

@@ -18,6 +18,24 @@ import { testContext } from '../setup/context'
 const base = testContext().baseUrl
 afterAll(closeTestDb)
 
+// The pages a phone or tablet opens most call no Intl while they load: a page's first Intl call
+// loads ICU, 150-250 ms at 4x CPU (shared/utils/workshop-format.ts). Each document records the
+// calls made before the app marks itself hydrated, with the caller's frame.
+const ICU_WATCH = `
+  window.__icu = []
+  const note = (what) => { if (!document.documentElement.hasAttribute('data-hydrated')) window.__icu.push(what + ' at ' + ((new Error().stack || '').split('\\n')[3] || '').trim()) }
+  for (const name of ['DateTimeFormat', 'NumberFormat', 'Collator', 'PluralRules', 'RelativeTimeFormat', 'ListFormat', 'Segmenter']) {
+    const C = Intl[name]
+    if (C) Intl[name] = new Proxy(C, { construct(t, a) { note('Intl.' + name); return Reflect.construct(t, a) } })
+  }
+  for (const [o, m] of [[String.prototype, 'localeCompare'], [Date.prototype, 'toLocaleString'], [Date.prototype, 'toLocaleDateString'], [Date.prototype, 'toLocaleTimeString'], [Number.prototype, 'toLocaleString']]) {
+    const f = o[m]
+    o[m] = function (...a) { note(m); return f.apply(this, a) }
+  }`
+/** Intl calls made before hydration, by path, for the pages listed in NO_ICU. */
+const icuSeen: Record<string, string[]> = {}
+const NO_ICU = [/^\/lead$/, /^\/floor$/, /^\/finishing$/, /^\/mix$/, /^\/client\/jobs\/\d+$/]
+
 /** Opens each path after hydration and collects its serious and critical axe violations. */
 async function axeWalk(page: Page, paths: string[]) {
   const found: Record<string, string[]> = {}
@@ -25,6 +43,7 @@ async function axeWalk(page: Page, paths: string[]) {
     await page.goto(`${base}${path}`)
     await page.locator('html[data-hydrated]').waitFor()
     await page.locator('main').waitFor()
+    if (NO_ICU.some(rx => rx.test(path))) icuSeen[path] = await page.evaluate(() => (window as unknown as { __icu: string[] }).__icu)
     const v = await seriousAxeViolations(page)
     if (v.length) found[path] = v
   }
@@ -42,6 +61,7 @@ async function journey(viewport: { width: number; height: number }, email: strin
   const browser = await openBrowser(viewport)
   try {
     const page = await browser.context.newPage()
+    await page.addInitScript(ICU_WATCH)
     await signInThroughForm(page, base, email, DEMO_PASSWORD)
     await page.locator('html[data-hydrated]').waitFor()
     await run(page)
@@ -156,4 +176,10 @@ describe('axe on every page of every role', () => {
       expect(await axeWalk(page, ['/client', ...deeper.client])).toEqual({})
     })
   }, 180_000)
+
+  it('Today, the floor, the mix card, finishing and a client\'s job call no Intl before they hydrate', () => {
+    // filled by the walks above (this test runs after them, in file order)
+    expect(Object.keys(icuSeen).sort()).toEqual(['/finishing', '/floor', '/lead', '/mix', ...deeper.client.filter(p => p.startsWith('/client/jobs/'))].sort())
+    expect(Object.fromEntries(Object.entries(icuSeen).filter(([, calls]) => calls.length))).toEqual({})
+  })
 })
