@@ -169,16 +169,26 @@ describe('photo uploads are streamed and bounded', () => {
     const head = Buffer.from(`--slow\r\nContent-Disposition: form-data; name="files"; filename="slow.jpg"\r\nContent-Type: image/jpeg\r\n\r\n`)
     // four uploads that send their first bytes and then wait; what they hear, if anything, is
     // kept for the failure message (each must be signed in and reach the upload before it holds
-    // a place, which on a loaded two-lane run took longer than 15 s once)
+    // a place, which on a loaded two-lane run took longer than 15 s once). A probe below can
+    // hold a place for a moment while a slow one arrives, which then hears 503 itself: that one
+    // starts again, as a tablet would after Retry-After, until four hold their places.
     const heard: string[] = []
-    const slow = Array.from({ length: 4 }, (_, i) => {
+    const slow: ClientRequest[] = []
+    const open = (i: number) => {
       const url = new URL(baseUrl() + `/api/jobs/${jobId}/photos`)
       const req = request({ host: url.hostname, port: url.port, path: url.pathname, method: 'POST', headers: { 'cookie': lead, 'content-type': 'multipart/form-data; boundary=slow', 'transfer-encoding': 'chunked' } })
       req.on('error', err => heard.push(`upload ${i + 1}: ${err.message}`))
-      req.on('response', r => heard.push(`upload ${i + 1}: ${r.statusCode}`))
+      req.on('response', (r) => {
+        heard.push(`upload ${i + 1}: ${r.statusCode}`)
+        if (r.statusCode === 503 && slow[i] === req && !req.destroyed) {
+          req.destroy()
+          setTimeout(() => slow[i] === req && (slow[i] = open(i)), 100)
+        }
+      })
       req.write(Buffer.concat([head, jpeg.subarray(0, 1000)]))
       return req
-    })
+    }
+    for (let i = 0; i < 4; i++) slow.push(open(i))
     const empty = () => call(`/api/jobs/${jobId}/photos`, { method: 'POST', cookie: lead, form: photoForm([], { caption: 'no file' }) })
     try {
       let refused = await empty()
@@ -192,7 +202,9 @@ describe('photo uploads are streamed and bounded', () => {
       expect(refused.data.message).toMatch(/busy with other photo uploads/)
     }
     finally {
-      for (const req of slow) req.destroy()
+      const left = [...slow]
+      slow.length = 0
+      for (const req of left) req.destroy()
     }
     // the broken-off uploads gave their places back: the next one is read (and refused for having no file)
     await expect.poll(async () => (await empty()).status, { timeout: 15_000 }).toBe(422)
