@@ -113,10 +113,11 @@ function instantMs(at: Date | string | number): number {
   return at instanceof Date ? at.getTime() : typeof at === 'number' ? at : Date.parse(at)
 }
 
-/** The wall clock of an instant in the zone, as a Date whose UTC fields read it. */
+/** The wall clock of an instant in the zone, as a Date whose UTC fields read it (RangeError for no instant, as Intl's). */
 function wallClock(at: Date | string | number, zone: string): Date {
   const ms = instantMs(at)
-  return Number.isFinite(ms) ? new Date(ms + offsetAt(ms, zone) * 60_000) : new Date(Number.NaN)
+  if (!Number.isFinite(ms)) throw new RangeError('Invalid time value')
+  return new Date(ms + offsetAt(ms, zone) * 60_000)
 }
 
 const pad = (n: number, width = 2) => String(n).padStart(width, '0')
@@ -126,7 +127,6 @@ const isoDay = (w: Date) => `${pad(w.getUTCFullYear(), 4)}-${pad(w.getUTCMonth()
 export function dayIn(at: Date | string | number, timeZone: string): string {
   if (typeof at === 'string' && CALENDAR_DAY.test(at)) return at
   const w = wallClock(at, timeZone)
-  if (Number.isNaN(w.getTime())) throw new RangeError('Invalid time value')
   return isoDay(w)
 }
 
@@ -146,8 +146,8 @@ export function addCalendarDays(day: string, n: number): string {
  * string is taken as that calendar day (in every zone).
  */
 export function formatDay(at: Date | string | number, timeZone: string, locale: WorkshopLocale = WORKSHOP_LOCALE): string {
-  const w = typeof at === 'string' && CALENDAR_DAY.test(at) ? new Date(`${at}T12:00:00Z`) : wallClock(at, timeZone)
-  if (Number.isNaN(w.getTime())) throw new RangeError('Invalid time value')
+  // a calendar day is written as itself (noon UTC of it read in UTC); an instant in the zone
+  const w = typeof at === 'string' && CALENDAR_DAY.test(at) ? wallClock(`${at}T12:00:00Z`, 'UTC') : wallClock(at, timeZone)
   const [weekday, day, month, year] = [WEEKDAYS[w.getUTCDay()], w.getUTCDate(), MONTHS[w.getUTCMonth()], w.getUTCFullYear()]
   return locale === 'en-US' ? `${weekday}, ${month} ${day}, ${year}` : `${weekday} ${day} ${month} ${year}`
 }
@@ -155,7 +155,6 @@ export function formatDay(at: Date | string | number, timeZone: string, locale: 
 /** The time style, e.g. '07:05' or '19:40' (the house's 24-hour clock in every locale; '07:05 PM' where a locale reads 12 hours). */
 export function formatTime(at: Date | string | number, timeZone: string, locale: WorkshopLocale = WORKSHOP_LOCALE): string {
   const w = wallClock(at, timeZone)
-  if (Number.isNaN(w.getTime())) throw new RangeError('Invalid time value')
   const h = w.getUTCHours()
   const cycle = WORKSHOP_LOCALES[locale].hourCycle as 'h23' | 'h12'
   return cycle === 'h12' ? `${pad(h % 12 || 12)}:${pad(w.getUTCMinutes())} ${h < 12 ? 'AM' : 'PM'}` : `${pad(h)}:${pad(w.getUTCMinutes())}`
