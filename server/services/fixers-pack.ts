@@ -10,7 +10,7 @@
 // Cautions (common practice): plaster casts are heavy and brittle and are often fixed overhead.
 // Setline lists weights; it does not design fixings. How a piece is held, supported and lifted
 // is for a competent person to decide under local building codes and regulations.
-import sharp from 'sharp'
+import { loadSharp } from '../utils/photo-image'
 import type { Actor } from '../utils/auth'
 import { FINISHING_TEAM_LIFT_KG } from '#shared/utils/finishing'
 import { runCutList, type PlasterRunWall } from '#shared/utils/plaster-cutlist'
@@ -44,7 +44,7 @@ export async function fixersPackPdf(actor: Actor, jobId: number): Promise<{ file
     const stored = await photosRepo.byId(db, actor.workshopId, p.id)
     const file = stored ? await readPhotoFile(photoStorage(), stored.display_key) : null
     // stored as WebP (server/utils/photo-image.ts); PDFKit draws JPEG and PNG only
-    if (file) images.push({ caption: p.caption, jpeg: await sharp(file).jpeg({ quality: 80 }).toBuffer() })
+    if (file) images.push({ caption: p.caption, jpeg: await (await loadSharp())(file).jpeg({ quality: 80 }).toBuffer() })
   }
   const locale = workshopLocale(ws.locale)
   const m = (n: number) => `${formatNumber(n, 2, locale)} m`
