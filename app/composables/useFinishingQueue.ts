@@ -3,7 +3,7 @@
 // Every action goes through the outbox (app/stores/outbox.ts), so a Wi-Fi drop loses nothing:
 // the card moves at once ("sending…") and the server's answer replaces it. Live piece and
 // dispatch events read the queue again.
-import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingActionKind, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-schemas'
+import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingActionKind, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-steps'
 import { constantWeight, dryness } from '#shared/utils/plaster-drying'
 import type { ApiAnswer } from '~/utils/api-answer'
 

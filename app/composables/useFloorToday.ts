@@ -4,7 +4,7 @@
 // shows the step at once ("sending…") and the server's answer replaces it. Live pour and piece
 // events read the day again.
 import type { PourState } from '#shared/types/board'
-import { FLOOR_STEPS, type FloorActionKind } from '#shared/utils/floor-schemas'
+import { FLOOR_STEPS, type FloorActionKind } from '#shared/utils/floor-steps'
 import { pourWindowFromSteps } from '#shared/utils/pour-status'
 import type { ApiAnswer } from '~/utils/api-answer'
 

@@ -3,10 +3,10 @@
 // piece goes and the dispatch note it left on. Another workshop's piece is a 404.
 import type { Knex } from 'knex'
 import type { Actor } from '../utils/auth'
-import type { FinishingActionKind } from '#shared/utils/finishing-schemas'
+import type { FinishingActionKind } from '#shared/utils/finishing-steps'
 import type { PieceHistoryDto, PieceStoryDto } from '#shared/types/pieces'
 import type { FinishingPieceDto } from '#shared/types/finishing'
-import { FINISHING_ACTION_KINDS } from '#shared/utils/finishing-schemas'
+import { FINISHING_ACTION_KINDS } from '#shared/utils/finishing-steps'
 import { DEFAULT_MIN_PIECE_M } from '#shared/utils/job-schemas'
 import { dryness } from '#shared/utils/plaster-drying'
 import { pieceNextSteps, pieceRunCutList, pieceRunPlace, type PieceRunPlace } from '#shared/utils/piece-labels'

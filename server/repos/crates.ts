@@ -1,7 +1,7 @@
 // Every knex call for crates and crate_pieces: numbering a job's crates, packing pieces into
 // them, the crates of a job with their pieces' handling weights. Workshop in every WHERE.
 import type { Knex } from 'knex'
-import type { FinishingPieceState } from '#shared/utils/finishing-schemas'
+import type { FinishingPieceState } from '#shared/utils/finishing-steps'
 
 export interface CrateRow { id: number; job_id: number; crate_no: number; delivery_id: number | null; version: number }
 

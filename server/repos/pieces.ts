@@ -2,7 +2,7 @@
 // job, item, mould and the last weighing, and the job-ready count. Workshop in every WHERE.
 import type { Knex } from 'knex'
 import { dryingThicknessMm, mouldCastFromRow } from '#shared/utils/plaster-fibrous'
-import type { FinishingPieceState } from '#shared/utils/finishing-schemas'
+import type { FinishingPieceState } from '#shared/utils/finishing-steps'
 
 export interface PieceRow {
   id: number

@@ -22,7 +22,7 @@ import type {
   ClientDeliveryDto, CrateDto, CrateLabelDto, CratePieceDto, DeliveryBookedDto, DeliveryDto, DeliveryPieceDto, DeliveryProofDto, JobCratesDto,
 } from '#shared/types/deliveries'
 import { FINISHING_TEAM_LIFT_KG } from '#shared/utils/finishing'
-import { FINISHING_STATE_WORDS } from '#shared/utils/finishing-schemas'
+import { FINISHING_STATE_WORDS } from '#shared/utils/finishing-steps'
 import { DELIVERY_SIGNATURE_PREFIX, type DeliveryBookInput, type DeliveryCratePackInput, type DeliveryProofInput } from '#shared/utils/delivery-schemas'
 import { boardLocalDay } from '#shared/utils/board-rules'
 import { jobsRepo } from '../repos/jobs'

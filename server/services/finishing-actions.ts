@@ -20,7 +20,8 @@
 // start while someone else's clock runs takes the piece over, the finisher's own is refused.
 import type { Actor } from '../utils/auth'
 import type { FinishingActionResult } from '#shared/types/finishing'
-import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingActionInput, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-schemas'
+import type { FinishingActionInput } from '#shared/utils/finishing-schemas'
+import { FINISHING_STEPS, FINISHING_TIMER_STEPS, type FinishingPieceState, type FinishingTimerKind } from '#shared/utils/finishing-steps'
 import { dryness } from '#shared/utils/plaster-drying'
 import { finishingDryBy } from '#shared/utils/finishing'
 import { piecesRepo, type PieceRow } from '../repos/pieces'

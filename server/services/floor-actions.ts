@@ -3,7 +3,7 @@
 // the order of steps and of the version the tablet saw.
 import type { Actor } from '../utils/auth'
 import type { FloorActionInput } from '#shared/utils/floor-schemas'
-import { FLOOR_STEPS } from '#shared/utils/floor-schemas'
+import { FLOOR_STEPS } from '#shared/utils/floor-steps'
 import { poursRepo, pourFactsRepo, type PourStepRow } from '../repos/pours'
 import { mouldFloorRepo } from '../repos/moulds'
 import { piecesRepo } from '../repos/pieces'

@@ -1,5 +1,5 @@
 // What the crate, delivery and feed routes answer (server/services/deliveries.ts, feeds.ts).
-import type { FinishingPieceState } from '#shared/utils/finishing-schemas'
+import type { FinishingPieceState } from '#shared/utils/finishing-steps'
 
 /** A piece as a crate or a delivery lists it: its handling weight and whether it needs two people. */
 export interface CratePieceDto {

@@ -1,6 +1,6 @@
 // What the finishing routes return: pieces as cards on the finisher's tablet, the queue, an
 // action's answer, and dispatch notes.
-import type { FinishingPieceState } from '../utils/finishing-schemas'
+import type { FinishingPieceState } from '../utils/finishing-steps'
 
 export interface FinishingWeighingDto {
   kg: number

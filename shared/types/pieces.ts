@@ -1,5 +1,5 @@
 // What the piece page, the labels and a scan return.
-import type { FinishingActionKind } from '../utils/finishing-schemas'
+import type { FinishingActionKind } from '../utils/finishing-steps'
 import type { PieceRunPlace } from '../utils/piece-labels'
 import type { FinishingPieceDto } from './finishing'
 

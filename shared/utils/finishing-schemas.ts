@@ -1,60 +1,12 @@
 // Zod schemas of the finisher's piece actions (POST /api/pieces/:id/actions) and of a dispatch
 // note (POST /api/jobs/:id/dispatches), shared by the tablet's forms and the routes. Nuxt
-// auto-imports every export of shared/utils, so the names carry a finishing prefix.
+// auto-imports every export of shared/utils, so the names carry a finishing prefix. The piece
+// states, steps and words live in finishing-steps.ts, without zod, for the pages that only show them.
 import { z } from 'zod'
-import { CAST_DEFECTS } from './floor-schemas'
+import { FINISHING_ACTION_KINDS } from './finishing-steps'
 import { PLASTER_DRYING_MAX_C } from './plaster-drying'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
 import { CALENDAR_YEARS, isCalendarInstant } from './input-fields'
-
-export const FINISHING_PIECE_STATES = ['to_fettle', 'repair', 'drying', 'ready', 'packed', 'dispatched', 'rejected'] as const
-export type FinishingPieceState = (typeof FINISHING_PIECE_STATES)[number]
-
-/** The state words a finisher reads on a card. */
-export const FINISHING_STATE_WORDS: Record<FinishingPieceState, string> = {
-  to_fettle: 'To fettle', repair: 'In repair', drying: 'Drying', ready: 'Ready', packed: 'Packed', dispatched: 'Dispatched', rejected: 'Rejected',
-}
-
-/**
- * What is wrong with a cast when it goes to repair or is rejected: the same list the caster
- * picks from at demould (CAST_DEFECTS, floor-schemas.ts). The form offers these and free text beside them.
- */
-export const FINISHING_REASONS = CAST_DEFECTS
-
-export const FINISHING_ACTION_KINDS = ['fettled', 'weighed', 'ready', 'repair', 'repaired', 'rejected', 'packed',
-  'fettle_start', 'fettle_stop', 'repair_start', 'repair_stop'] as const
-export type FinishingActionKind = (typeof FINISHING_ACTION_KINDS)[number]
-
-/**
- * The states a piece may be in for each action, and the state it moves to. A weighing leaves a
- * drying piece drying (it still moves the piece's version on, like every action, so a tablet's
- * queued chain can name the versions it will meet). Dispatching is not here: it happens to
- * several pieces at once through a dispatch note.
- */
-export const FINISHING_STEPS: Record<FinishingActionKind, { from: readonly FinishingPieceState[]; to: FinishingPieceState }> = {
-  fettled: { from: ['to_fettle'], to: 'drying' },
-  weighed: { from: ['drying'], to: 'drying' },
-  ready: { from: ['drying'], to: 'ready' },
-  repair: { from: ['to_fettle', 'drying'], to: 'repair' },
-  repaired: { from: ['repair'], to: 'to_fettle' },
-  rejected: { from: ['repair', 'to_fettle', 'drying'], to: 'rejected' },
-  packed: { from: ['ready'], to: 'packed' },
-  // the finisher's clock for the job's cost: started and stopped on the piece, state unchanged
-  fettle_start: { from: ['to_fettle'], to: 'to_fettle' },
-  fettle_stop: { from: ['to_fettle'], to: 'to_fettle' },
-  repair_start: { from: ['repair'], to: 'repair' },
-  repair_stop: { from: ['repair'], to: 'repair' },
-}
-
-/** The timer steps: which work they time, and whether they start or stop it. */
-export const FINISHING_TIMER_STEPS = {
-  fettle_start: { work: 'fettle', start: true },
-  fettle_stop: { work: 'fettle', start: false },
-  repair_start: { work: 'repair', start: true },
-  repair_stop: { work: 'repair', start: false },
-} as const
-export type FinishingTimerKind = keyof typeof FINISHING_TIMER_STEPS
-export type FinishingTimerWork = 'fettle' | 'repair'
 
 const positiveId = (field: string) => z.number({ error: `${field} must be a positive whole number` })
   .int({ error: `${field} must be a positive whole number` }).positive({ error: `${field} must be a positive whole number` })

@@ -2,7 +2,7 @@
 // plaster model's drying estimate over the cast's estimated area) and the weight a piece is
 // handled at. Pure; the plaster arithmetic itself stays in plaster-drying.ts.
 import { castExposedAreaM2, constantWeightReachedAt, dryingEstimate, fallingRateFromWeighings, fallingRateNote } from './plaster-drying'
-import type { FinishingPieceState } from './finishing-schemas'
+import type { FinishingPieceState } from './finishing-steps'
 
 /**
  * Air speed over casts in a drying room with air moving, m/s: 0.3, a gentle draught from a

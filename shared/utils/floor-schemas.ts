@@ -1,28 +1,11 @@
 // Zod schemas of the floor's pour actions (start mixing, poured, demoulded), shared by the
 // tablet's forms and POST /api/pours/:id/actions. Names carry a floor prefix (auto-imports).
+// The steps and words the cards show live in floor-steps.ts, without zod: the floor page
+// renders with those, and its action form loads this module when it opens.
 import { z } from 'zod'
+import { FLOOR_ACTION_KINDS, FLOOR_DEFECTS } from './floor-steps'
 import { PLASTER_LIMITS, plasterRangeMessage } from './plaster-core'
 import { CALENDAR_YEARS, PG_INTEGER_MAX, idText, isCalendarInstant } from './input-fields'
-
-/**
- * The trade's words for what went wrong with a cast: one list for demoulding and finishing
- * (common practice in fibrous and solid plaster shops: an arris is a sharp edge, enrichment the
- * modelled ornament). Earlier demoulds may carry older words (chipped edge, distorted, soft cast).
- */
-export const CAST_DEFECTS = ['air holes', 'crack', 'short fill', 'soft or chalky', 'chipped arris', 'broken enrichment', 'warped', 'stuck in mould', 'damaged in handling'] as const
-/** What the caster picks at demould: the one list. */
-export const FLOOR_DEFECTS = CAST_DEFECTS
-export type FloorDefect = (typeof FLOOR_DEFECTS)[number]
-
-export const FLOOR_ACTION_KINDS = ['start_mixing', 'poured', 'demoulded'] as const
-export type FloorActionKind = (typeof FLOOR_ACTION_KINDS)[number]
-
-/** The state a pour must be in for each action, and the state it moves to. */
-export const FLOOR_STEPS: Record<FloorActionKind, { from: string; to: string }> = {
-  start_mixing: { from: 'planned', to: 'mixing' },
-  poured: { from: 'mixing', to: 'setting' },
-  demoulded: { from: 'setting', to: 'demoulded' },
-}
 
 const ranged = (field: string, limit: { min: number; max: number; unit: string; minExclusive?: boolean }) => {
   const message = plasterRangeMessage(field, limit)

@@ -1,20 +1,11 @@
-// Shared zod schemas for jobs, job items, client members and the sample decision.
+// Shared zod schemas for jobs, job items, client members and the sample decision. The job and
+// sample states and their words are in job-words.ts, without zod, for the pages that only show them.
 import { z } from 'zod'
 import { PLASTER_LIMITS } from './plaster-core'
 import { dayField, numberIn, optionalText, requiredText, versionField } from './catalogue-schemas'
 import { idText } from './input-fields'
 import { RUN_ENDS } from './plaster-cutlist'
-
-export const JOB_STATES = ['open', 'on_hold', 'done', 'cancelled'] as const
-export const SAMPLE_STATES = ['not_required', 'awaiting_cast', 'awaiting_approval', 'approved', 'changes_requested'] as const
-export const JOB_STATE_LABELS: Record<(typeof JOB_STATES)[number], string> = { open: 'Open', on_hold: 'On hold', done: 'Done', cancelled: 'Cancelled' }
-export const SAMPLE_STATE_LABELS: Record<(typeof SAMPLE_STATES)[number], string> = {
-  not_required: 'No sample needed',
-  awaiting_cast: 'Sample to be cast',
-  awaiting_approval: 'Sample awaiting approval',
-  approved: 'Sample approved',
-  changes_requested: 'Changes requested',
-}
+import { JOB_STATES } from './job-words'
 
 /** Default shortest piece in a run, m: shorter offcuts are hard to fix and to joint (common practice). */
 export const DEFAULT_MIN_PIECE_M = 0.3

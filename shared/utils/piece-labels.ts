@@ -4,8 +4,14 @@
 // back out of the address). Nuxt auto-imports every export of shared/utils, so names carry a
 // piece or label prefix.
 import { runCutList, type PlasterRunCutList } from './plaster-cutlist'
-import { LABEL_TOKEN_PATTERN } from './label-schemas'
-import { FINISHING_ACTION_KINDS, FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from './finishing-schemas'
+import { FINISHING_ACTION_KINDS, FINISHING_STEPS, type FinishingActionKind, type FinishingPieceState } from './finishing-steps'
+
+/**
+ * A label token: 16 random bytes in base64url (22 characters), short enough for a small QR code.
+ * Here rather than beside the route's schema (label-schemas.ts) so the tablet's scanner checks
+ * it without loading zod.
+ */
+export const LABEL_TOKEN_PATTERN = /^[\w-]{22}$/
 
 /**
  * Where a run piece goes: the `lengthNo`-th cast length of the item (1-based, in cast order,

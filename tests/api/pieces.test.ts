@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
-import { LABEL_TOKEN_PATTERN } from '#shared/utils/label-schemas'
+import { LABEL_TOKEN_PATTERN } from '#shared/utils/piece-labels'
 
 let fx: Awaited<ReturnType<typeof finishingFixture>>
 let finisher = ''

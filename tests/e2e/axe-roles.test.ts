@@ -36,6 +36,21 @@ const ICU_WATCH = `
 const icuSeen: Record<string, string[]> = {}
 const NO_ICU = [/^\/lead$/, /^\/floor$/, /^\/finishing$/, /^\/mix$/, /^\/client\/jobs\/\d+$/]
 
+// The same pages load no validation library: their forms load their zod schemas when they open
+// (shared/utils/floor-steps.ts and the like hold what the pages show). Checked on the scripts the
+// page's HTML names (its entry and the modulepreload links of its own chunks), by a string zod's
+// code carries, so a bundle that pulls zod in again under any chunk name is caught.
+const ZOD_MARK = '"ZodCustom"'
+const zodSeen: Record<string, string[]> = {}
+async function zodScripts(page: Page, path: string) {
+  const html = await (await page.request.get(`${base}${path}`)).text()
+  const srcs = [...html.matchAll(/<(?:link rel="modulepreload"[^>]*href|script[^>]*src)="([^"]+\.js)"/g)].map(m => m[1]!)
+  expect(srcs.length, `${path}: the scripts its HTML names`).toBeGreaterThan(0)
+  const withZod: string[] = []
+  for (const src of new Set(srcs)) if ((await (await page.request.get(new URL(src, base).href)).text()).includes(ZOD_MARK)) withZod.push(src)
+  return withZod
+}
+
 /** Opens each path after hydration and collects its serious and critical axe violations. */
 async function axeWalk(page: Page, paths: string[]) {
   const found: Record<string, string[]> = {}
@@ -43,7 +58,10 @@ async function axeWalk(page: Page, paths: string[]) {
     await page.goto(`${base}${path}`)
     await page.locator('html[data-hydrated]').waitFor()
     await page.locator('main').waitFor()
-    if (NO_ICU.some(rx => rx.test(path))) icuSeen[path] = await page.evaluate(() => (window as unknown as { __icu: string[] }).__icu)
+    if (NO_ICU.some(rx => rx.test(path))) {
+      icuSeen[path] = await page.evaluate(() => (window as unknown as { __icu: string[] }).__icu)
+      zodSeen[path] = await zodScripts(page, path)
+    }
     const v = await seriousAxeViolations(page)
     if (v.length) found[path] = v
   }
@@ -181,5 +199,10 @@ describe('axe on every page of every role', () => {
     // filled by the walks above (this test runs after them, in file order)
     expect(Object.keys(icuSeen).sort()).toEqual(['/finishing', '/floor', '/lead', '/mix', ...deeper.client.filter(p => p.startsWith('/client/jobs/'))].sort())
     expect(Object.fromEntries(Object.entries(icuSeen).filter(([, calls]) => calls.length))).toEqual({})
+  })
+
+  it('the same pages load no zod until a form opens', () => {
+    expect(Object.keys(zodSeen).sort()).toEqual(Object.keys(icuSeen).sort())
+    expect(Object.fromEntries(Object.entries(zodSeen).filter(([, scripts]) => scripts.length))).toEqual({})
   })
 })

@@ -3,7 +3,8 @@
 import { describe, expect, it } from 'vitest'
 import { PlasterInputError, castExposedAreaM2, dryingEstimate } from '#shared/utils/plaster'
 import { FINISHING_TEAM_LIFT_KG, finishingDryBy, finishingFallingRate, finishingHandlingKg } from '#shared/utils/finishing'
-import { FINISHING_STEPS, finishingActionSchema, finishingDispatchSchema } from '#shared/utils/finishing-schemas'
+import { finishingActionSchema, finishingDispatchSchema } from '#shared/utils/finishing-schemas'
+import { FINISHING_STEPS } from '#shared/utils/finishing-steps'
 
 const id = '0b7f6f0e-2f5b-4c1e-9a7e-5d2f3c4b1a09'
 const fields = (schema: typeof finishingActionSchema | typeof finishingDispatchSchema, v: unknown) => {

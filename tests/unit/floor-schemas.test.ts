@@ -1,6 +1,7 @@
 // The floor's action schema: the fields each step needs, named when wrong, and the order of steps.
 import { describe, expect, it } from 'vitest'
-import { FLOOR_DEFECTS, FLOOR_STEPS, floorActionSchema } from '#shared/utils/floor-schemas'
+import { floorActionSchema } from '#shared/utils/floor-schemas'
+import { FLOOR_DEFECTS, FLOOR_STEPS } from '#shared/utils/floor-steps'
 
 const id = '0b7f6f0e-2f5b-4c1e-9a7e-5d2f3c4b1a09'
 const fields = (v: unknown) => {
