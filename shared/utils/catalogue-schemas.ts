@@ -1,25 +1,14 @@
 // Shared zod schemas for the catalogue (plaster grades, lots, benches, moulds): the forms and
 // the routes validate with the same objects, so a field's message is the same on both sides.
+// A mould's materials and states with their words are in mould-words.ts, without zod (the board shows them).
 import { z } from 'zod'
 import { plasterGradeSchema } from './plaster-schema'
 import { CALENDAR_YEARS, PG_INTEGER_MAX, isCalendarDay } from './input-fields'
 import { MAX_MINOR } from './money'
 import { CAST_TYPES, CONSUMABLE_UNITS, FIBROUS_LIMITS } from './plaster-fibrous'
+import { MOULD_MATERIALS, MOULD_STATES } from './mould-words'
 
-export const MOULD_MATERIALS = ['silicone', 'polyurethane', 'grp_case', 'plaster_piece', 'gelatine'] as const
-export const MOULD_STATES = ['ready', 'in_use', 'cleaning', 'repair', 'retired'] as const
 export const GRADE_PRESET_KEYS = ['beta-casting', 'beta-fibrous', 'alpha-casting'] as const
-
-export const MOULD_MATERIAL_LABELS: Record<(typeof MOULD_MATERIALS)[number], string> = {
-  silicone: 'Silicone rubber',
-  polyurethane: 'Polyurethane rubber',
-  grp_case: 'Rigid glass-fibre case',
-  plaster_piece: 'Plaster piece mould',
-  gelatine: 'Gelatine',
-}
-export const MOULD_STATE_LABELS: Record<(typeof MOULD_STATES)[number], string> = {
-  ready: 'Ready', in_use: 'In use', cleaning: 'Cleaning', repair: 'Repair', retired: 'Retired',
-}
 
 /** A required trimmed text of at most `max` characters, with the field name in each message. */
 export function requiredText(field: string, max: number) {

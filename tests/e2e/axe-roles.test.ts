@@ -36,7 +36,7 @@ const ICU_WATCH = `
 const icuSeen: Record<string, string[]> = {}
 const NO_ICU = [/^\/lead$/, /^\/floor$/, /^\/finishing$/, /^\/mix$/, /^\/client\/jobs\/\d+$/]
 
-// The same pages load no validation library: their forms load their zod schemas when they open
+// The same pages and the board load no validation library: their forms load their zod schemas when they open
 // (shared/utils/floor-steps.ts and the like hold what the pages show). Checked on the scripts the
 // page's HTML names (its entry and the modulepreload links of its own chunks), by a string zod's
 // code carries, so a bundle that pulls zod in again under any chunk name is caught.
@@ -112,6 +112,7 @@ describe('axe on every page of every role', () => {
       // the pour board, once its timeline is drawn, in the day and the week view, on this
       // desktop and at the tablet's and the phone's widths, where its timeline scrolls sideways
       // and its scrollers take focus
+      zodSeen['/lead/board'] = await zodScripts(page, '/lead/board')
       for (const size of ['desktop', 'tablet', 'phone'] as const) {
         await page.setViewportSize(VIEWPORTS[size])
         for (const view of ['day', 'week']) {
@@ -201,8 +202,8 @@ describe('axe on every page of every role', () => {
     expect(Object.fromEntries(Object.entries(icuSeen).filter(([, calls]) => calls.length))).toEqual({})
   })
 
-  it('the same pages load no zod until a form opens', () => {
-    expect(Object.keys(zodSeen).sort()).toEqual(Object.keys(icuSeen).sort())
+  it('the same pages and the board load no zod until a form opens', () => {
+    expect(Object.keys(zodSeen).sort()).toEqual([...Object.keys(icuSeen), '/lead/board'].sort())
     expect(Object.fromEntries(Object.entries(zodSeen).filter(([, scripts]) => scripts.length))).toEqual({})
   })
 })
