@@ -2,10 +2,8 @@
 // PDFKit, a well-kept PDF library. One look for every document: the workshop's name on top in
 // Setline's kiln colour, plaster-line rules, the built-in Helvetica (its WinAnsi encoding covers
 // £, €, ° and the accents a British or European workshop writes), A4 with 20 mm margins.
-// PDFKit is loaded with the first document, not when the server starts: importing it costs
+// PDFKit is imported with the first document, not when the server starts: importing it costs
 // about 0.3 s of CPU (measured on this project's 2-core machine), and most starts print nothing.
-const loadPdfkit = () => import('pdfkit').then(m => m.default)
-let pdfkit: ReturnType<typeof loadPdfkit> | undefined
 
 export const PDF_COLOURS = { ink: '#2F2B27', muted: '#5E574F', line: '#D6CFC2', kiln: '#A6452B' } as const
 const MM = 72 / 25.4
@@ -14,7 +12,7 @@ export type Pdf = PDFKit.PDFDocument
 
 /** Builds a PDF in memory; `draw` writes the pages. */
 export async function renderPdf(meta: { title: string; author: string }, draw: (doc: Pdf) => void): Promise<Buffer> {
-  const PDFDocument = await (pdfkit ??= loadPdfkit())
+  const PDFDocument = (await import('pdfkit')).default
   const doc = new PDFDocument({ size: 'A4', margin: 20 * MM, info: { Title: meta.title, Author: meta.author, Creator: 'Setline' } })
   const chunks: Buffer[] = []
   return new Promise((resolve, reject) => {

@@ -5,14 +5,11 @@
 // output (sharp docs, "Output options: keepMetadata").
 import type { Metadata } from 'sharp'
 
-let sharpLoaded: Promise<typeof import('sharp')['default']> | undefined
 /**
- * sharp, loaded on first use rather than when the server starts: importing it (and its native
+ * sharp, imported on first use rather than when the server starts: importing it (and its native
  * libvips) costs about 0.25 s of CPU (measured on this project's 2-core machine).
  */
-export function loadSharp() {
-  return (sharpLoaded ??= import('sharp').then(m => m.default))
-}
+export const loadSharp = () => import('sharp').then(m => m.default)
 
 export interface PhotoLimits { maxBytes: number; maxPixels: number }
 export interface PhotoVariants {
