@@ -114,7 +114,7 @@ function instantMs(at: Date | string | number): number {
 }
 
 /** The wall clock of an instant in the zone, as a Date whose UTC fields read it (RangeError for no instant, as Intl's). */
-function wallClock(at: Date | string | number, zone: string): Date {
+export function wallClock(at: Date | string | number, zone: string): Date {
   const ms = instantMs(at)
   if (!Number.isFinite(ms)) throw new RangeError('Invalid time value')
   return new Date(ms + offsetAt(ms, zone) * 60_000)

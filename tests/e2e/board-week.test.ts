@@ -1,7 +1,8 @@
 // Browser journeys on the board's week: a pour dragged across days and one moved with the
 // keyboard alone (the server confirms where each landed), the shift's breaks drawn on the ruler
 // and down the lanes, job codes on one line at fit-to-width, the timeline's height held before
-// it mounts, no serious axe-core violation; and the board in the workshop's units (imperial).
+// it mounts, no serious axe-core violation; the week the server draws before any script runs
+// (the bars where the calendar then draws them); and the board in the workshop's units (imperial).
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
@@ -81,7 +82,7 @@ describe('the board\'s week', () => {
     // the height held for the timeline before it mounted is the height it drew (within 10 %)
     const heights = await page.getByTestId('board-frame').evaluate((el) => {
       const rem = Number.parseFloat(getComputedStyle(document.documentElement).fontSize)
-      return { held: Number.parseFloat((el as HTMLElement).style.minHeight) * rem, drawn: el.querySelector<HTMLElement>('.setline-board')!.offsetHeight }
+      return { held: Number.parseFloat((el as HTMLElement).style.minHeight) * rem, drawn: el.querySelector<HTMLElement>('.setline-board:not(.board-sketch)')!.offsetHeight }
     })
     expect(heights.held / heights.drawn).toBeGreaterThan(0.9)
     expect(heights.held / heights.drawn).toBeLessThan(1.1)
@@ -135,6 +136,41 @@ describe('the board\'s week', () => {
     await screenshot(page, 'board-week-moved')
     await page.close()
   }, 120_000)
+
+  it('draws the week on the server before any script runs, each bar where the calendar then draws it', async () => {
+    const week = addDays(MONDAY, 28)
+    const tue = await plannedPour(`${addDays(week, 1)}T09:00:00.000Z`)
+    const thu = await plannedPour(`${addDays(week, 3)}T13:00:00.000Z`)
+    const query = `view=week&date=${week}&zoom=1`
+    // no script at all: what the server sent is a board to read
+    const [name, value] = leadCookie.split(';')[0]!.split('=') as [string, string]
+    const bare = await browser.context.browser()!.newContext({ javaScriptEnabled: false, viewport: { width: 1280, height: 900 } })
+    await bare.addCookies([{ name, value, url: base }])
+    const still = await bare.newPage()
+    await still.goto(`${base}/lead/board?${query}`)
+    const sketched = await still.getByTestId('board-sketch').locator('[data-p]').evaluateAll(els => els.map((e) => {
+      const r = e.getBoundingClientRect()
+      return { id: Number((e as HTMLElement).dataset.p), text: e.textContent, x: r.x, width: r.width, planned: e.classList.contains('pour-planned') }
+    }))
+    expect(sketched.map(s => s.id).sort((a, b) => a - b)).toEqual([tue.id, thu.id].sort((a, b) => a - b))
+    for (const s of sketched) expect(s).toMatchObject({ text: '2603planned', planned: true })
+    // hidden from assistive technology: a picture of the board until the calendar comes
+    expect(await still.getByTestId('board-sketch').getAttribute('aria-hidden')).toBe('true')
+    await screenshot(still, 'board-week-sketch')
+    await bare.close()
+
+    // with scripts: the calendar draws each bar where the sketch had it, then the sketch goes
+    const page = await openBoard(query)
+    for (const s of sketched) {
+      const bar = page.locator(`[data-testid="pour-bar"][data-pour-id="${s.id}"]`)
+      await bar.waitFor()
+      const box = await bar.evaluate(el => el.closest('.fc-timeline-event')!.getBoundingClientRect().toJSON() as DOMRect)
+      expect(Math.abs(box.x - s.x), `bar ${s.id} at ${box.x}, sketched at ${s.x}`).toBeLessThan(3)
+      expect(Math.abs(box.width - s.width)).toBeLessThan(3)
+    }
+    await expect.poll(() => page.getByTestId('board-sketch').count()).toBe(0)
+    await page.close()
+  }, 60_000)
 
   it('plans no mix into a break of the shift', async () => {
     const day = addDays(MONDAY, 7)
