@@ -9,7 +9,7 @@
 // works it). All wall clocks are the workshop's zone (workshop-format.ts wallClock: the zone's
 // offsets registered from the server, else Intl's IANA rules).
 import type { BoardView } from '../types/board'
-import { addCalendarDays, wallClock } from './workshop-format'
+import { addCalendarDays, formatDay, wallClock, workshopLocale } from './workshop-format'
 
 export interface AxisWorkshop {
   timezone: string
@@ -80,6 +80,11 @@ export function viewHours(w: AxisWorkshop, pours: AxisPour[]) {
     /** the weekday a week starts on, 1 (Monday) to 7 (Sunday): the first shown day counted from Monday */
     firstDay: shown.length ? Math.min(...shown.map(d => (d + 6) % 7)) + 1 : 1,
   }
+}
+
+/** A day on the ruler of the week and fortnight: the house's day style without the year ('Mon 30 Nov', en-US 'Mon, Nov 30'). */
+export function rulerDayLabel(day: string, locale: string | null | undefined): string {
+  return formatDay(day, 'UTC', workshopLocale(locale)).replace(/,? \d{4}$/, '')
 }
 
 /** The weekday (0 Sunday to 6 Saturday) of a 'yyyy-MM-dd' day. */

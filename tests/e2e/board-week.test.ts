@@ -156,6 +156,8 @@ describe('the board\'s week', () => {
     for (const s of sketched) expect(s).toMatchObject({ text: '2603planned', planned: true })
     // hidden from assistive technology: a picture of the board until the calendar comes
     expect(await still.getByTestId('board-sketch').getAttribute('aria-hidden')).toBe('true')
+    const sketchDays = await still.locator('.sk-day-label').allTextContents()
+    expect(sketchDays[0]).toBe('Mon 3 Apr')
     await screenshot(still, 'board-week-sketch')
     await bare.close()
 
@@ -169,6 +171,9 @@ describe('the board\'s week', () => {
       expect(Math.abs(box.width - s.width)).toBeLessThan(3)
     }
     await expect.poll(() => page.getByTestId('board-sketch').count()).toBe(0)
+    // the calendar's ruler names the days as the sketch did (the house's day style)
+    const calendarDays = await page.locator('.setline-board .ruler-text').allTextContents()
+    expect(calendarDays.slice(0, sketchDays.length)).toEqual(sketchDays)
     await page.close()
   }, 60_000)
 

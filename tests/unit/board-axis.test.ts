@@ -4,7 +4,7 @@
 // outside them); the zone's offsets are the IANA rules Node's Intl carries (Europe/London: BST
 // from 01:00 UTC on the last Sunday of March, EU Directive 2000/84/EC).
 import { describe, expect, it } from 'vitest'
-import { benchOrder, boardAxis, firstScreenMoulds, FIRST_SCREEN_FROM_POURS, FIRST_SCREEN_ROWS, viewHours } from '#shared/utils/board-axis'
+import { benchOrder, boardAxis, firstScreenMoulds, FIRST_SCREEN_FROM_POURS, FIRST_SCREEN_ROWS, rulerDayLabel, viewHours } from '#shared/utils/board-axis'
 
 const shop = { timezone: 'Europe/London', shiftStart: '07:30', shiftEnd: '16:00', workingDays: [1, 2, 3, 4, 5] }
 const pour = (slotStart: string, slotEnd: string, state = 'planned') => ({ state, slotStart, slotEnd })
@@ -61,5 +61,12 @@ describe('the board\'s axis', () => {
     expect(firstScreenMoulds(moulds, FIRST_SCREEN_FROM_POURS - 1)).toBeNull()
     const many = Array.from({ length: 30 }, (_, i) => ({ id: i, code: `M-${String(i).padStart(2, '0')}`, benchName: 'Bench' }))
     expect([...firstScreenMoulds(many, FIRST_SCREEN_FROM_POURS)!]).toEqual(many.slice(0, FIRST_SCREEN_ROWS).map(m => m.id))
+  })
+
+  it('names the ruler\'s days in the house\'s day style, without the year', () => {
+    // 3 April 2028 is a Monday (ISO 8601 calendar)
+    expect(rulerDayLabel('2028-04-03', 'en-GB')).toBe('Mon 3 Apr')
+    expect(rulerDayLabel('2028-04-03', 'en-US')).toBe('Mon, Apr 3')
+    expect(rulerDayLabel('2028-04-03', null)).toBe('Mon 3 Apr')
   })
 })
