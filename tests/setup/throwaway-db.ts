@@ -1,5 +1,5 @@
 // A throwaway PostgreSQL for one test run: its own data folder under /tmp and its own port.
-import { mkdtempSync, chmodSync, rmSync } from 'node:fs'
+import { mkdtempSync, chmodSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { createServer } from 'node:net'
@@ -12,19 +12,59 @@ import { psql } from '../../db/local/pg'
  * from that range, where the kernel hands it out again at once to another process's listen(0)
  * or to an outgoing connection, so two lanes of one run once started two servers on one port
  * (the second died of EADDRINUSE while its health check was answered by the first). Ports this
- * process handed out are not handed out again.
+ * process handed out are not handed out again, and none is handed out that another live
+ * process holds (reserve, below): the api and e2e projects run side by side as two processes,
+ * and both once picked the same free port before either server had bound it (the e2e file's
+ * server failed to listen and its pages met a refused connection).
  */
 const handedOut = new Set<number>()
 export async function freePort(): Promise<number> {
   for (let attempt = 0; attempt < 200; attempt++) {
     const port = 20_000 + Math.floor(Math.random() * 12_000)
-    if (handedOut.has(port)) continue
-    if (await bindable(port)) {
-      handedOut.add(port)
-      return port
-    }
+    if (handedOut.has(port) || !reserve(port)) continue
+    handedOut.add(port)
+    if (await bindable(port)) return port
   }
   throw new Error('no free port between 20000 and 32000')
+}
+
+/**
+ * Claims a port for this process across the processes of a run: a file named by the port,
+ * created only if it does not exist (O_EXCL), holding the claimant's pid. A claim whose process
+ * has gone (an earlier run) is taken over.
+ */
+const PORT_CLAIMS = join(tmpdir(), 'setline-port-claims')
+function reserve(port: number): boolean {
+  mkdirSync(PORT_CLAIMS, { recursive: true })
+  const file = join(PORT_CLAIMS, String(port))
+  const claim = () => {
+    try {
+      writeFileSync(file, String(process.pid), { flag: 'wx' })
+      return true
+    }
+    catch {
+      return false
+    }
+  }
+  if (claim()) return true
+  let holder = 0
+  try {
+    holder = Number(readFileSync(file, 'utf8'))
+  }
+  catch { /* released meanwhile */ }
+  if (holder === process.pid || (holder > 0 && alive(holder))) return false
+  rmSync(file, { force: true })
+  return claim()
+}
+
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0)
+    return true
+  }
+  catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM'
+  }
 }
 
 function bindable(port: number): Promise<boolean> {
