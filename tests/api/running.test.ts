@@ -15,6 +15,25 @@ async function stop(proc: ChildProcess) {
   await exited
 }
 
+/** Starts the built server with exactly `env` and waits (30 s at most) for it to end: its exit code (null: still running, killed) and output. */
+async function exitOf(env: Record<string, string>) {
+  const proc = spawn(process.execPath, [resolve(import.meta.dirname, '../..', process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')], { env, stdio: ['ignore', 'pipe', 'pipe'] })
+  let text = ''
+  proc.stdout!.on('data', (d: Buffer) => (text += d))
+  proc.stderr!.on('data', (d: Buffer) => (text += d))
+  const code = await new Promise<number | null>((r) => {
+    const t = setTimeout(() => {
+      proc.kill('SIGKILL')
+      r(null)
+    }, 30_000)
+    proc.once('exit', (c) => {
+      clearTimeout(t)
+      r(c)
+    })
+  })
+  return { code, text }
+}
+
 const baseEnv = () => ({ DATABASE_URL: testContext().databaseUrl, NUXT_SESSION_PASSWORD: testContext().sessionPassword })
 
 describe('GET /api/ready', () => {
@@ -92,23 +111,21 @@ describe('a production start', () => {
     const env: Record<string, string> = { ...process.env as Record<string, string>, ...baseEnv(), NODE_ENV: 'production', MAIL_FAKE: '0', PORT: '0', HOST: '127.0.0.1' }
     delete env.SMTP_HOST
     delete env.SMTP_URL
-    const proc = spawn(process.execPath, [resolve(import.meta.dirname, '../..', process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')], { env, stdio: ['ignore', 'pipe', 'pipe'] })
-    let text = ''
-    proc.stdout!.on('data', (d: Buffer) => (text += d))
-    proc.stderr!.on('data', (d: Buffer) => (text += d))
-    const code = await new Promise<number | null>((r) => {
-      const t = setTimeout(() => {
-        proc.kill('SIGKILL')
-        r(null)
-      }, 30_000)
-      proc.once('exit', (c) => {
-        clearTimeout(t)
-        r(c)
-      })
-    })
+    const { code, text } = await exitOf(env)
     expect(code).not.toBe(0)
     expect(code).not.toBeNull()
     expect(text).toMatch(/no mail relay: set SMTP_URL/)
+  })
+
+  it('ends with a clear message when its port is taken, rather than running on unreachable', async () => {
+    // the file's own server holds this port: a second start on it must not stay up (on a database
+    // nobody answers at, so the short-lived second server touches nothing of the first's)
+    const port = new URL(testContext().baseUrl).port
+    const { code, text } = await exitOf({ ...process.env as Record<string, string>, ...baseEnv(), DATABASE_URL: 'postgres://nobody@127.0.0.1:1/none', PORT: port, HOST: '127.0.0.1', MAIL_FAKE: '0', SMTP_HOST: '', SMTP_URL: 'smtp://relay.example.test:587', LOG_LEVEL: 'warn' })
+    expect(code).toBe(1)
+    expect(text).toMatch(new RegExp(`could not listen: listen EADDRINUSE.*:${port}\\. Is another server already using this port\\?`))
+    // the first server still answers
+    expect((await call('/api/health')).status).toBe(200)
   })
 
   it('starts with a relay given as SMTP_URL', async () => {
