@@ -39,14 +39,16 @@ export async function call<T = any>(path: string, opts: { method?: string; body?
   return { status: res.status, data, cookie: sessionCookie(res.headers), headers: res.headers }
 }
 
+/** Session cookies by server and e-mail: a worker runs several files, each on a server of its own. */
 const cookies = new Map<string, string>()
 
 /** Signs in (once per e-mail and test file) and returns the session cookie. */
 export async function signIn(email: string, password: string, fresh = false): Promise<string> {
-  if (!fresh && cookies.has(email)) return cookies.get(email)!
+  const key = `${baseUrl()} ${email}`
+  if (!fresh && cookies.has(key)) return cookies.get(key)!
   const r = await call('/api/auth/login', { method: 'POST', body: { email, password } })
   if (r.status !== 200 || !r.cookie) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.data)}`)
-  cookies.set(email, r.cookie)
+  cookies.set(key, r.cookie)
   return r.cookie
 }
 

@@ -25,12 +25,15 @@ export async function startAppServer(env: Record<string, string>, output?: strin
   const entry = resolve(root, process.env.SETLINE_BUILD_DIR ?? '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error(`No build in ${entry}: run npm test (it builds first)`)
   const [port, smtpPort] = [await freePort(), await freePort()]
+  // background work at short intervals (a sweep every 2 s, the overdue check every 3 s), so a
+  // test waits seconds for a retry or an overdue mail; shorter, a file's idle servers (the pool
+  // keeps some started ahead) spent a core's tenth between them on sweeps that found nothing
   const proc = spawn(process.execPath, [entry], {
     cwd: root,
     env: {
       ...process.env, HOST: '127.0.0.1', PORT: String(port), APP_URL: `http://127.0.0.1:${port}`,
       MAIL_FAKE: '1', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort), LOG_LEVEL: 'warn', PAYMENTS_FAKE: '1',
-      MAIL_WORKER_INTERVAL_MS: '500', MAIL_RETRY_BASE_SECONDS: '1', OVERDUE_CHECK_INTERVAL_MS: '1000', ...env,
+      MAIL_WORKER_INTERVAL_MS: '2000', MAIL_RETRY_BASE_SECONDS: '1', OVERDUE_CHECK_INTERVAL_MS: '3000', ...env,
     },
     stdio: ['ignore', output ? 'pipe' : 'inherit', output ? 'pipe' : 'inherit'],
   })
