@@ -75,6 +75,9 @@ export default defineConfig({
         test: {
           name: 'api',
           include: ['tests/api/**/*.test.ts'],
+          // files run one after another in a worker without a fresh process each (each still has
+          // its own server and database): vitest, knex and playwright load once per worker
+          isolate: false,
           globalSetup: ['tests/setup/server.ts'],
           setupFiles: ['tests/setup/per-file.ts'],
           // a test signs in several people, each a scrypt hash of a few hundred ms on a quiet core
@@ -88,6 +91,9 @@ export default defineConfig({
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
+          // files run one after another in a worker without a fresh process each (each still has
+          // its own server and database): vitest, knex and playwright load once per worker
+          isolate: false,
           globalSetup: ['tests/setup/server.ts', 'tests/setup/chromium-server.ts'],
           setupFiles: ['tests/setup/per-file.ts'],
           testTimeout: 60_000,

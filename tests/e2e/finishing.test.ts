@@ -17,7 +17,7 @@ const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof finishingFixture>>
 beforeAll(async () => {
-  browser = await openBrowser(VIEWPORTS.tablet)
+  browser = await openBrowser(VIEWPORTS.tablet, { serviceWorkers: 'allow' })
   fx = await finishingFixture('finish-e2e')
 })
 afterAll(async () => {

@@ -14,7 +14,7 @@ const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
 beforeAll(async () => {
-  browser = await openBrowser(VIEWPORTS.tablet)
+  browser = await openBrowser(VIEWPORTS.tablet, { serviceWorkers: 'allow' })
   fx = await boardFixture('floor-e2e')
   await fx.k('workshops').where({ id: fx.workshopId }).update({ timezone: zoneAwayFromMidnight() })
 })

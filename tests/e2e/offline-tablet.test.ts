@@ -16,7 +16,7 @@ let browser: Awaited<ReturnType<typeof openBrowser>>
 let fx: Awaited<ReturnType<typeof boardFixture>>
 
 beforeAll(async () => {
-  browser = await openBrowser(VIEWPORTS.tablet)
+  browser = await openBrowser(VIEWPORTS.tablet, { serviceWorkers: 'allow' })
   fx = await boardFixture('offline-e2e')
   await fx.k('workshops').where({ id: fx.workshopId }).update({ timezone: zoneAwayFromMidnight() })
 })

@@ -23,7 +23,7 @@ const ada = { id: 0, name: 'Ada Marle', pin: '3958' }
 const tamsin = { id: 0, name: 'Tamsin Rowe', pin: '8163' }
 
 beforeAll(async () => {
-  browser = await openBrowser(VIEWPORTS.tablet)
+  browser = await openBrowser(VIEWPORTS.tablet, { serviceWorkers: 'allow' })
   fx = await boardFixture('outbox-owner')
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
   for (const p of [ada, tamsin]) {

@@ -46,11 +46,15 @@ async function sharedEndpoint(): Promise<string | undefined> {
  * A fresh browser context (its own cookies, storage, offline switch) with `viewport`: in the
  * run's shared chromium when there is one, else in a chromium launched for it. `close()` ends
  * the context and this file's connection (or its own chromium), never the shared one.
+ * In the browser tests the shop staff's service worker is blocked unless a file asks for it
+ * (`serviceWorkers: 'allow'`, the offline journeys): installed, it fetches the app's ~120 files
+ * into its cache in every fresh context, about 2 CPU-s of chromium's each time, for journeys that
+ * never go offline. A chromium launched here (the benchmarks) keeps it, as a tablet does.
  */
-export async function openBrowser(viewport = VIEWPORTS.desktop) {
+export async function openBrowser(viewport = VIEWPORTS.desktop, opts: { serviceWorkers?: 'allow' | 'block' } = {}) {
   const endpoint = await sharedEndpoint()
   const browser: Browser = endpoint ? await chromium.connect(endpoint) : await chromium.launch(LAUNCH)
-  const context: BrowserContext = await browser.newContext({ viewport })
+  const context: BrowserContext = await browser.newContext({ viewport, serviceWorkers: opts.serviceWorkers ?? (endpoint ? 'block' : 'allow') })
   const cspViolations: string[] = []
   await context.addInitScript(REPORT_CSP)
   context.on('console', (msg) => {
