@@ -1,10 +1,28 @@
 // What npm start and npm run two-instances share: waiting for a started app to answer, and
 // the demo sign-ins printed once it does.
+import { createServer } from 'node:net'
+import type { ChildProcess } from 'node:child_process'
 import { DEMO_PASSWORD, DEMO_USERS } from '../seeds/demo-people'
 
-export async function waitForHttp(url: string, timeoutMs: number) {
+/**
+ * Refuses to go on when something already listens on host:port (often a Setline started
+ * earlier): otherwise the health check below would hear that one and call the new start ready.
+ */
+export async function assertPortFree(host: string, port: number) {
+  const problem = await new Promise<string | null>((resolve) => {
+    const probe = createServer()
+    probe.once('error', (err: NodeJS.ErrnoException) => resolve(err.code === 'EADDRINUSE' ? 'in use' : err.message))
+    probe.listen(port, host, () => probe.close(() => resolve(null)))
+  })
+  if (problem === 'in use') throw new Error(`port ${port} on ${host} is already in use: is Setline already running at http://${host}:${port}? Stop it, or set PORT to start another`)
+  if (problem) throw new Error(`cannot listen on ${host}:${port}: ${problem}`)
+}
+
+/** Waits for `url` to answer 200; stops early, with its exit code, when `child` (the started app) ends. */
+export async function waitForHttp(url: string, timeoutMs: number, child?: ChildProcess) {
   const until = Date.now() + timeoutMs
   while (Date.now() < until) {
+    if (child && (child.exitCode !== null || child.signalCode !== null)) throw new Error(`the app stopped (exit ${child.exitCode ?? child.signalCode}) before it answered at ${url}`)
     try {
       const r = await fetch(url)
       if (r.ok) return

@@ -5,7 +5,7 @@ import { localDbSettings, root } from './config'
 import { upCluster, migrate, seedIfEmpty } from './cluster'
 import { buildIfStale } from './build'
 import { sessionSecret } from './session-secret'
-import { demoSignIns, waitForHttp } from './serve'
+import { assertPortFree, demoSignIns, waitForHttp } from './serve'
 
 const dev = process.argv.includes('--dev')
 // SETLINE_DEMO=0: no demo rows; an empty database gets the first-run set-up (/setup) instead
@@ -37,11 +37,12 @@ async function main() {
     PORT: port,
     APP_URL: process.env.APP_URL ?? `http://${host}:${port}`,
   }
+  await assertPortFree(host, Number(port))
   if (!dev) buildIfStale()
   const child = dev
     ? spawn('npx', ['nuxt', 'dev', '--host', host, '--port', port], { cwd: root, env, stdio: 'inherit' })
     : spawn(process.execPath, [join(root, '.output/server/index.mjs')], { cwd: root, env, stdio: 'inherit' })
-  await waitForHttp(`http://${host}:${port}/api/health`, 120_000)
+  await waitForHttp(`http://${host}:${port}/api/health`, 120_000, child)
   printWelcome(`http://${host}:${port}`)
   const stop = () => child.kill('SIGTERM')
   process.on('SIGINT', stop)

@@ -11,7 +11,7 @@ import { localDbSettings, root } from './config'
 import { upCluster, migrate, seedIfEmpty } from './cluster'
 import { buildIfStale } from './build'
 import { sessionSecret } from './session-secret'
-import { demoSignIns, waitForHttp } from './serve'
+import { assertPortFree, demoSignIns, waitForHttp } from './serve'
 
 const host = process.env.HOST ?? '127.0.0.1'
 const portA = Number(process.env.PORT ?? 3000)
@@ -40,6 +40,7 @@ async function main() {
   }
   await migrate(databaseUrl)
   if (await seedIfEmpty(databaseUrl)) console.log('setline: demo workshop seeded')
+  for (const port of [portA, portB]) await assertPortFree(host, port)
   buildIfStale()
   const common = { NUXT_TELEMETRY_DISABLED: '1', DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionSecret() }
   const useFake = !process.env.SMTP_HOST && !process.env.SMTP_URL
@@ -55,7 +56,7 @@ async function main() {
     process.exitCode = code ?? 0
   })
   const [urlA, urlB] = [`http://${host}:${portA}`, `http://${host}:${portB}`]
-  await Promise.all([waitForHttp(`${urlA}/api/health`, 120_000), waitForHttp(`${urlB}/api/health`, 120_000)])
+  await Promise.all([waitForHttp(`${urlA}/api/health`, 120_000, a), waitForHttp(`${urlB}/api/health`, 120_000, b)])
   console.log([
     '',
     'Setline is running twice on one database:',

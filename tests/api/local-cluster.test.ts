@@ -1,11 +1,15 @@
-// The start script's database steps are idempotent: a second run reuses the cluster and data.
+// The start script's database steps are idempotent: a second run reuses the cluster and data;
+// and it will not start on a port something already listens on.
 import { mkdtempSync, chmodSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import knex from 'knex'
 import { afterAll, describe, expect, it } from 'vitest'
 import { upCluster, downCluster, migrate, seedIfEmpty, type DbTarget } from '../../db/local/cluster'
+import { spawn } from 'node:child_process'
+import { assertPortFree, waitForHttp } from '../../db/local/serve'
 import { freePort } from '../setup/throwaway-db'
+import { testContext } from '../setup/context'
 
 const base = mkdtempSync(join(tmpdir(), 'setline-idem-'))
 chmodSync(base, 0o755)
@@ -43,4 +47,20 @@ describe('local cluster set-up (npm start)', () => {
     expect(third.created).toBe(false)
     expect(third.started).toBe(true)
   }, 120_000)
+})
+
+describe('npm start on a port already taken', () => {
+  it('refuses before starting anything, naming the address; a free port passes', async () => {
+    // the file's own app server holds this port, as an earlier npm start would
+    const taken = new URL(testContext().baseUrl)
+    await expect(assertPortFree(taken.hostname, Number(taken.port))).rejects.toThrow(`port ${taken.port} on ${taken.hostname} is already in use: is Setline already running at http://${taken.hostname}:${taken.port}?`)
+    await expect(assertPortFree('127.0.0.1', await freePort())).resolves.toBeUndefined()
+  })
+
+  it('stops waiting for the app as soon as the app has ended, whoever else answers on its port', async () => {
+    // another server answers the health check; the started app has already exited
+    const ended = spawn(process.execPath, ['-e', 'process.exit(3)'])
+    await new Promise(r => ended.once('exit', r))
+    await expect(waitForHttp(`${testContext().baseUrl}/api/health`, 10_000, ended)).rejects.toThrow(/the app stopped \(exit 3\)/)
+  })
 })
