@@ -1,5 +1,5 @@
-// What npm start and npm run two-instances share: waiting for a started app to answer, and
-// the demo sign-ins printed once it does.
+// What npm start and npm run two-instances share: a check that the port is free, waiting for a
+// started app to answer, and the demo sign-ins printed once it does.
 import { createServer } from 'node:net'
 import type { ChildProcess } from 'node:child_process'
 import { DEMO_PASSWORD, DEMO_USERS } from '../seeds/demo-people'

@@ -5,7 +5,7 @@
 // "EADDRINUSE"), which Nitro's node-server entry does not listen for, so it reaches Nitro's
 // trap for uncaught exceptions, which only logs: the process then ran on, its background work
 // and mail fake started, serving nobody.
-// While this listener is the only one (before Nitro installs its trap, after the plugins), an
+// While this listener is the only one (from this plugin until Nitro installs its trap), an
 // error is a failed start, and it ends the process as Node would without a listener: a listener
 // that returned would keep a half-started server running with exit code 0.
 function exitOnFailedStart(err: NodeJS.ErrnoException) {
