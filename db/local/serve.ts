@@ -4,16 +4,21 @@ import { createServer } from 'node:net'
 import type { ChildProcess } from 'node:child_process'
 import { DEMO_PASSWORD, DEMO_USERS } from '../seeds/demo-people'
 
+/** Why nothing could listen on host:port now ('in use', or the error's message), or null when it could. */
+export function listenProblem(host: string, port: number): Promise<string | null> {
+  return new Promise((resolve) => {
+    const probe = createServer()
+    probe.once('error', (err: NodeJS.ErrnoException) => resolve(err.code === 'EADDRINUSE' ? 'in use' : err.message))
+    probe.listen(port, host, () => probe.close(() => resolve(null)))
+  })
+}
+
 /**
  * Refuses to go on when something already listens on host:port (often a Setline started
  * earlier): otherwise the health check below would hear that one and call the new start ready.
  */
 export async function assertPortFree(host: string, port: number) {
-  const problem = await new Promise<string | null>((resolve) => {
-    const probe = createServer()
-    probe.once('error', (err: NodeJS.ErrnoException) => resolve(err.code === 'EADDRINUSE' ? 'in use' : err.message))
-    probe.listen(port, host, () => probe.close(() => resolve(null)))
-  })
+  const problem = await listenProblem(host, port)
   if (problem === 'in use') throw new Error(`port ${port} on ${host} is already in use: is Setline already running at http://${host}:${port}? Stop it, or set PORT to start another`)
   if (problem) throw new Error(`cannot listen on ${host}:${port}: ${problem}`)
 }

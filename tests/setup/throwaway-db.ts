@@ -2,9 +2,9 @@
 import { mkdtempSync, chmodSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { createServer } from 'node:net'
 import { upCluster, downCluster, migrate, seedIfEmpty, type DbTarget } from '../../db/local/cluster'
 import { psql } from '../../db/local/pg'
+import { listenProblem } from '../../db/local/serve'
 
 /**
  * A port for a test server or cluster that nothing listens on now. Picked at random below
@@ -67,13 +67,7 @@ function alive(pid: number): boolean {
   }
 }
 
-function bindable(port: number): Promise<boolean> {
-  return new Promise((resolve) => {
-    const srv = createServer()
-    srv.once('error', () => resolve(false))
-    srv.listen(port, '127.0.0.1', () => srv.close(() => resolve(true)))
-  })
-}
+const bindable = async (port: number) => (await listenProblem('127.0.0.1', port)) === null
 
 export async function startThrowawayDb() {
   const base = mkdtempSync(join(tmpdir(), 'setline-test-'))
