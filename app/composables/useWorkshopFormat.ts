@@ -11,7 +11,16 @@ interface MeWorkshop { workshop?: { name: string; units: UnitSystem; timezone: s
 export const WORKSHOP_ME_KEY = 'workshop-me'
 
 export function useWorkshopFormat() {
-  const fetched = useFetch<MeWorkshop>('/api/auth/me', { key: WORKSHOP_ME_KEY, dedupe: 'defer', getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key] })
+  // Read once per page render: a call after the first has its answer already (payload.data) asks
+  // again only on a refresh. Without `immediate: false` for those, each later call on the server
+  // fetched again (Nuxt's useAsyncData gives a key's later calls the first call's cached data,
+  // which there was none, then runs the handler; dedupe covers only a read still under way): the
+  // board's server render read /api/auth/me three times, one after another.
+  const known = useNuxtApp().payload.data[WORKSHOP_ME_KEY] !== undefined
+  const fetched = useFetch<MeWorkshop>('/api/auth/me', {
+    key: WORKSHOP_ME_KEY, dedupe: 'defer', immediate: !known,
+    getCachedData: (key, nuxt) => nuxt.payload.data[key] ?? nuxt.static.data[key],
+  })
   const { data } = fetched
   // the zone's offsets, so days and times are written without Intl (app/plugins/zone-offsets.client.ts)
   watch(() => data.value?.workshop?.zoneOffsets, registerZoneOffsets, { immediate: true })

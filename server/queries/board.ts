@@ -33,8 +33,10 @@ const DAYS = `tstzrange((:from::date)::timestamp AT TIME ZONE w.timezone, ((:to:
 /** An instant as epoch ms, a whole number (from date_part's float8; extract's numeric is slower). */
 const MS = (x: string) => `round(date_part('epoch', ${x}) * 1000)::int8`
 
+// rp: the ids the lookup tables need, each once, not the range's pour rows (the statement 5.4 →
+// 4.3 ms on the bench's 1,500 pours: four semi-joins hashed 1,500 wide rows each)
 const BOARD_CONTEXT_SQL = `WITH w AS (SELECT * FROM workshops WHERE id = :workshopId),
-  rp AS (SELECT p.* FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
+  rp AS (SELECT DISTINCT p.job_item_id, p.grade_id, p.caster_id FROM pours p, w WHERE p.workshop_id = w.id AND p.state <> 'void' AND p.slot && ${DAYS})
 SELECT w.timezone, w.locale, w.shift_start, w.shift_end, w.shift_breaks, w.working_days, w.units, w.default_shop_temp_c, w.default_humidity_pct,
   (SELECT coalesce(json_agg(json_build_object('id', b.id, 'name', b.name, 'sort_order', b.sort_order) ORDER BY b.sort_order, b.name), '[]')
      FROM benches b WHERE b.workshop_id = w.id AND b.archived_at IS NULL) AS benches,

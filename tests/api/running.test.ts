@@ -2,7 +2,7 @@
 // a cookie or a link's token, and a start without a mail relay refused with a clear message.
 import { spawn, type ChildProcess } from 'node:child_process'
 import { resolve } from 'node:path'
-import { describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { call } from '../setup/http'
 import { testContext } from '../setup/context'
 import { startAppServer } from '../setup/server'
@@ -75,34 +75,53 @@ describe('the installable app\'s files', () => {
 })
 
 describe('request logs', () => {
+  const output: string[] = []
+  let server: Awaited<ReturnType<typeof startAppServer>>
+  let cookie: string
+  beforeAll(async () => {
+    server = await startAppServer({ ...baseEnv(), LOG_LEVEL: 'info' }, output)
+  })
+  afterAll(async () => {
+    if (server) await stop(server.proc)
+  })
+  const logLines = () => output.join('').split('\n').filter(l => l.startsWith('{')).map(l => JSON.parse(l) as Record<string, unknown>)
+
   it('give each request a line with its id, and never the password, the session cookie or a link token', async () => {
-    const output: string[] = []
-    const { url, proc } = await startAppServer({ ...baseEnv(), LOG_LEVEL: 'info' }, output)
-    try {
-      const login = await fetch(`${url}/api/auth/login`, {
-        method: 'POST', headers: { 'content-type': 'application/json', 'accept': 'application/json' },
-        body: JSON.stringify({ email: demo.lead.email, password: DEMO_PASSWORD }),
-      })
-      expect(login.status).toBe(200)
-      const cookie = login.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
-      const me = await fetch(`${url}/api/auth/me`, { headers: { cookie, accept: 'application/json' } })
-      const id = me.headers.get('x-request-id')
-      expect(id).toMatch(/^[\w-]{8,64}$/)
-      const token = 'tok' + 'en-secret-'.repeat(3)
-      await fetch(`${url}/reset-password?token=${token}`)
-      await expect.poll(() => output.join('').includes(`/reset-password?token=`), { timeout: 10_000 }).toBe(true)
-      const lines = output.join('').split('\n').filter(l => l.startsWith('{')).map(l => JSON.parse(l))
-      expect(lines.find(l => l.reqId === id)).toMatchObject({ msg: 'request', method: 'GET', path: '/api/auth/me', status: 200 })
-      expect(lines.find(l => l.path === '/api/auth/login')).toMatchObject({ method: 'POST', status: 200 })
-      const all = output.join('')
-      expect(all).not.toContain(DEMO_PASSWORD)
-      expect(all).not.toContain(cookie.split('=')[1]!.slice(0, 40))
-      expect(all).not.toContain(token)
-      expect(all).toContain('token=%5Bredacted%5D')
-    }
-    finally {
-      await stop(proc)
-    }
+    const { url } = server
+    const login = await fetch(`${url}/api/auth/login`, {
+      method: 'POST', headers: { 'content-type': 'application/json', 'accept': 'application/json' },
+      body: JSON.stringify({ email: demo.lead.email, password: DEMO_PASSWORD }),
+    })
+    expect(login.status).toBe(200)
+    cookie = login.headers.getSetCookie().find(c => c.startsWith('setline-session='))!.split(';')[0]!
+    const me = await fetch(`${url}/api/auth/me`, { headers: { cookie, accept: 'application/json' } })
+    const id = me.headers.get('x-request-id')
+    expect(id).toMatch(/^[\w-]{8,64}$/)
+    const token = 'tok' + 'en-secret-'.repeat(3)
+    await fetch(`${url}/reset-password?token=${token}`)
+    await expect.poll(() => output.join('').includes(`/reset-password?token=`), { timeout: 10_000 }).toBe(true)
+    const lines = logLines()
+    expect(lines.find(l => l.reqId === id)).toMatchObject({ msg: 'request', method: 'GET', path: '/api/auth/me', status: 200 })
+    expect(lines.find(l => l.path === '/api/auth/login')).toMatchObject({ method: 'POST', status: 200 })
+    const all = output.join('')
+    expect(all).not.toContain(DEMO_PASSWORD)
+    expect(all).not.toContain(cookie.split('=')[1]!.slice(0, 40))
+    expect(all).not.toContain(token)
+    expect(all).toContain('token=%5Bredacted%5D')
+  })
+
+  it('show a page\'s server render reading the workshop once, however many parts of the page format with it', async () => {
+    // the board's layout, page and components each format days and units with the workshop
+    // (useWorkshopFormat); the server's render asks GET /api/auth/me for it once
+    expect(cookie).toBeTruthy()
+    const before = logLines().length
+    const page = await fetch(`${server.url}/lead/board`, { headers: { cookie, accept: 'text/html' } })
+    expect(page.status).toBe(200)
+    await page.text()
+    await expect.poll(() => logLines().slice(before).some(l => l.path === '/lead/board'), { timeout: 10_000 }).toBe(true)
+    const render = logLines().slice(before)
+    expect(render.filter(l => String(l.path).startsWith('/api/board')).length).toBe(1)
+    expect(render.filter(l => l.path === '/api/auth/me').length).toBe(1)
   })
 })
 
