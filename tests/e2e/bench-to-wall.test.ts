@@ -13,7 +13,7 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { VIEWPORTS, drawSignature, fakeCamera, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, drawSignature, fakeCamera, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
@@ -70,7 +70,7 @@ describe('from the bench to the wall', () => {
     // the caster demoulds on the floor (early: the card asks first) and prints the label
     const floor = await tablet.context.newPage()
     await signInThroughForm(floor, base, demo.caster1.email, DEMO_PASSWORD)
-    await floor.goto(`${base}/floor`)
+    await gotoHydrated(floor, `${base}/floor`)
     await floorCard(floor, pourId).waitFor()
     await floorStep(floor, pourId, () => floorCard(floor, pourId).getByLabel('Water °C').fill('18'))
     await expect.poll(() => floorCard(floor, pourId).getAttribute('data-state'), { timeout: 15_000 }).toBe('mixing')

@@ -5,7 +5,7 @@
 // reads the refusal that names the proposal which can no longer be placed.
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import type { Locator, Page } from 'playwright-core'
-import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
 import { formatDay } from '#shared/utils/workshop-format'
@@ -145,7 +145,7 @@ describe('pour board', () => {
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, lead.email, DEMO_PASSWORD)
     await page.getByRole('heading', { level: 1, name: /Today/ }).waitFor()
-    await page.goto(`${base}/lead/board`)
+    await gotoHydrated(page, `${base}/lead/board`)
     await page.getByRole('heading', { level: 1, name: 'Pour board' }).waitFor()
     const day = quietMonday()
     await page.locator('#board-date').fill(day)

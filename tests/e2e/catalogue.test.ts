@@ -2,7 +2,7 @@
 // item from walls; a client approves a sample; the catalogue pages show their warnings.
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, VIEWPORTS, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, demoWorkshopId, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 
@@ -87,12 +87,12 @@ describe('lead sets up a mould and a job', () => {
     await page.getByRole('heading', { level: 1, name: 'Plaster lots' }).waitFor()
     await page.getByText(/Past its use-by date/).first().waitFor()
     await screenshot(page, 'catalogue-lots')
-    await page.goto(`${base}/lead/plasters`)
+    await gotoHydrated(page, `${base}/lead/plasters`)
     await page.getByRole('heading', { level: 1, name: 'Plasters' }).waitFor()
     await page.getByRole('button', { name: 'New grade from a preset' }).click()
     await page.getByLabel('Powder density (g/cm³)').waitFor()
     await screenshot(page, 'catalogue-plasters')
-    await page.goto(`${base}/lead/moulds`)
+    await gotoHydrated(page, `${base}/lead/moulds`)
     await page.getByRole('heading', { level: 1, name: 'Moulds' }).waitFor()
     await page.getByLabel('Search').fill('CR-10')
     await page.getByText('2 of').waitFor()

@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, setPinDirect, testDb } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { signIn, waitForMail } from '../setup/http'
@@ -138,7 +138,7 @@ describe('a whole day', () => {
     expect(piece.state).toBe('to_fettle')
 
     // 4. the lead asks the client to approve the sample
-    await lead.goto(`${base}/lead/jobs/${jobId}`)
+    await gotoHydrated(lead, `${base}/lead/jobs/${jobId}`)
     await lead.getByRole('button', { name: 'Sample ready: ask the client to approve' }).click()
     await expect.poll(() => fx.k('jobs').where({ id: jobId }).first('sample_state').then(r => r.sample_state), { timeout: 15_000 }).toBe('awaiting_approval')
     await shot(lead, 'lead-sample-asked')
@@ -181,7 +181,7 @@ describe('a whole day', () => {
     await shot(tab, 'finisher-weighed')
     // constant weight needs a second weighing a day later, longer than this journey's day: the
     // lead passes the piece as dry (kept in the register as passed), and the finisher packs it
-    await lead.goto(`${base}/finishing`)
+    await gotoHydrated(lead, `${base}/finishing`)
     const leadCard = lead.locator(`[data-testid="piece-card"][data-piece-id="${piece.id}"]`)
     await lead.getByTestId('tab-drying').click()
     await leadCard.getByTestId('piece-more').click()
@@ -196,7 +196,7 @@ describe('a whole day', () => {
     await shot(tab, 'finisher-packed')
 
     // 7. the lead dispatches the job and reads the note
-    await lead.goto(`${base}/lead/jobs/${jobId}`)
+    await gotoHydrated(lead, `${base}/lead/jobs/${jobId}`)
     const panel = lead.getByTestId('dispatch-panel')
     await panel.getByText(piece.mark).waitFor()
     await panel.getByTestId('dispatch-make').click()

@@ -7,7 +7,7 @@
 // a lead. The register's events (who did each step) are read from the database.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page, Request } from 'playwright-core'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, makeUser, setPinDirect } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
@@ -242,7 +242,7 @@ describe('outbox on a shared tablet', () => {
     await page.getByTestId('switch-person').click()
     await page.waitForURL(`${base}/tablet`)
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/floor`)
+    await gotoHydrated(page, `${base}/floor`)
     // the app's own question first: "Not now" sends nothing; the lead then confirms
     await page.getByTestId('outbox-send-unowned').click()
     const question = page.locator('[data-testid="ask-dialog"][open]')

@@ -1,7 +1,7 @@
 // From enquiry to an accepted quote, in the browser: the lead sets the workshop's rates, prices
 // a take-off (our own worked example's drawing room), sends it; the client accepts it on a phone.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { seriousAxeViolations } from '../setup/axe'
@@ -54,7 +54,7 @@ describe('a quote from take-off to acceptance', () => {
     // the client, on a phone: the quote is listed, read, accepted
     const client = await phone.context.newPage()
     await signInThroughForm(client, base, demo.client1.email, DEMO_PASSWORD)
-    await client.goto(`${base}/client`)
+    await gotoHydrated(client, `${base}/client`)
     await client.getByRole('heading', { name: 'Quotes' }).waitFor()
     await client.getByRole('link', { name: /Drawing room cornice/ }).click()
     await client.getByRole('heading', { level: 1, name: /Drawing room cornice/ }).waitFor()

@@ -2,7 +2,7 @@
 // through the floor API (one sound, one cracked), filtered in the register, exported as
 // CSV with the same filter, and counted on the quality page with its charts drawn.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { downloadText, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { downloadText, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
 import { testContext } from '../setup/context'
@@ -35,7 +35,7 @@ describe('casting register and quality', () => {
 
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/jobs/${jobId}`)
+    await gotoHydrated(page, `${base}/lead/jobs/${jobId}`)
     await page.getByRole('link', { name: 'Casting register' }).click()
     await page.getByRole('heading', { level: 1, name: /Casting register/ }).waitFor()
     const table = page.getByRole('table', { name: 'Casting register' })

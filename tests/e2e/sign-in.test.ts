@@ -1,6 +1,6 @@
 // Browser journey: each demo role signs in through the form and lands on its own home.
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { openBrowser, screenshot, submitSignIn, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, submitSignIn, VIEWPORTS, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
 
@@ -39,7 +39,7 @@ describe('sign in as each role', () => {
       await page.locator('[data-testid="live-status"][data-status="online"]').waitFor()
       await screenshot(page, `sign-in-${h.key}-home`)
       // a page of another role sends this user back home
-      await page.goto(`${base}${h.key === 'lead' ? '/client' : '/lead'}`)
+      await gotoHydrated(page, `${base}${h.key === 'lead' ? '/client' : '/lead'}`)
       await page.waitForURL(`${base}${h.path}`)
       await page.getByRole('button', { name: 'Sign out' }).click()
       await page.waitForURL(/\/login/)

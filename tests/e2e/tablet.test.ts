@@ -4,7 +4,7 @@
 // axe on the picker, the keypad and every page of the caster switched in by PIN.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { call, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { seriousAxeViolations } from '../setup/axe'
@@ -123,7 +123,7 @@ describe('shared tablet', () => {
     await page.getByTestId('switch-person').click()
     await page.waitForURL(`${base}/tablet`)
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/people`)
+    await gotoHydrated(page, `${base}/lead/people`)
     await expect.poll(() => page.getByTestId('tablets').getByText('this device', { exact: true }).count()).toBe(1)
     await page.getByRole('button', { name: 'Sign out' }).click()
     await page.waitForURL(`${base}/tablet`)

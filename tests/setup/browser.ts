@@ -84,6 +84,17 @@ export async function screenshot(page: Page, name: string) {
   await page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true })
 }
 
+/**
+ * Opens a page and waits until Vue has taken over its server-rendered HTML (html[data-hydrated],
+ * set by app.vue): a click before then meets a button with no handler yet, and on a loaded
+ * machine the page's load event comes well before hydration (a full run lost a click on the lead's
+ * job page that way, and the same journey failed 2 of 3 times alone beside five busy loops).
+ */
+export async function gotoHydrated(page: Page, url: string) {
+  await page.goto(url)
+  await page.locator('html[data-hydrated]').waitFor()
+}
+
 /** Fills and submits the sign-in form without waiting for where it lands (a refusal stays on /login). */
 export async function submitSignIn(page: Page, base: string, email: string, password: string) {
   await page.goto(`${base}/login`)
