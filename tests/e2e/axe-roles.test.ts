@@ -10,7 +10,7 @@
 // success criterion 2.5.5, target size, enhanced), as the floor's are measured in floor.test.ts.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { seriousAxeViolations } from '../setup/axe'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
@@ -55,8 +55,7 @@ async function zodScripts(page: Page, path: string) {
 async function axeWalk(page: Page, paths: string[]) {
   const found: Record<string, string[]> = {}
   for (const path of paths) {
-    await page.goto(`${base}${path}`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}${path}`)
     await page.locator('main').waitFor()
     if (NO_ICU.some(rx => rx.test(path))) {
       icuSeen[path] = await page.evaluate(() => (window as unknown as { __icu: string[] }).__icu)
@@ -116,8 +115,7 @@ describe('axe on every page of every role', () => {
       for (const size of ['desktop', 'tablet', 'phone'] as const) {
         await page.setViewportSize(VIEWPORTS[size])
         for (const view of ['day', 'week']) {
-          await page.goto(`${base}/lead/board?view=${view}`)
-          await page.locator('html[data-hydrated]').waitFor()
+          await gotoHydrated(page, `${base}/lead/board?view=${view}`)
           await page.locator('.fc-scrollgrid').first().waitFor()
           expect(await seriousAxeViolations(page), `${size} ${view}`).toEqual([])
           if (size !== 'desktop') await expect(page.locator('.setline-board .fc-scroller[tabindex="0"][role="region"]').count(), `${size} ${view}: a focusable scroller`).resolves.toBeGreaterThan(0)
@@ -125,8 +123,7 @@ describe('axe on every page of every role', () => {
       }
       // an address that leads nowhere keeps the signed-in shell and says so in plain words
       await page.setViewportSize(VIEWPORTS.desktop)
-      await page.goto(`${base}/lead/no-such-page`)
-      await page.locator('html[data-hydrated]').waitFor()
+      await gotoHydrated(page, `${base}/lead/no-such-page`)
       await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Nothing here')
       await expect(page.locator('nav[aria-label="Main"]').getByRole('link', { name: 'Pour board' }).isVisible()).resolves.toBe(true)
       expect(await page.getByTestId('error-page').textContent()).not.toMatch(/no-such-page|Page not found/)
@@ -158,8 +155,7 @@ describe('axe on every page of every role', () => {
       expect(nav).toEqual(expect.arrayContaining(['/finishing', '/cautions']))
       expect(await axeWalk(page, [...nav, '/account'])).toEqual({})
 
-      await page.goto(`${base}/finishing`)
-      await page.locator('html[data-hydrated]').waitFor()
+      await gotoHydrated(page, `${base}/finishing`)
       const small = () => page.locator('main').evaluate((main) => {
         const controls = main.querySelectorAll('a, button, select, input:not([type=checkbox]):not([type=radio]), label:has(input[type=checkbox]), label:has(input[type=radio])')
         return Array.from(controls).map((el) => {

@@ -143,8 +143,7 @@ describe('from the bench to the wall', () => {
     const page = await tablet.context.newPage()
     await fakeCamera(page, png)
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD)
-    await page.goto(`${base}/loads/${jobId}`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/loads/${jobId}`)
     // the heaviest crate the workshop set (the column's default, 250 kg), and where a lead changes it
     expect(await page.getByTestId('crate-max').textContent()).toContain('250.00 kg')
     expect(await page.getByTestId('crate-max').getByRole('link', { name: 'change it in the settings' }).getAttribute('href')).toBe('/lead/settings')
@@ -198,8 +197,7 @@ describe('from the bench to the wall', () => {
     await mobile.close()
 
     // the label still opens the piece's story, now with the note it left on; the lead revokes it
-    await page.goto(url!)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, url!)
     const note = await fx.k('dispatches').where({ id: row.dispatch_id }).first('note_no')
     await expect(page.getByTestId('piece-dispatch').textContent()).resolves.toContain(note.note_no)
     await page.getByRole('button', { name: 'Revoke its label' }).click()

@@ -5,7 +5,7 @@
 // then answers 404. axe on both pages.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Locator } from 'playwright-core'
-import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { finishingFixture } from '../setup/finishing-fixtures'
 import { testContext } from '../setup/context'
@@ -75,8 +75,7 @@ describe('calendar links', () => {
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
 
     // the whole workshop, on the settings page
-    await page.goto(`${base}/lead/settings`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/settings`)
     const shop = page.getByTestId('feed-links')
     await shop.getByRole('heading', { name: 'Calendar links' }).waitFor()
     await shop.getByText('No calendar links yet.').waitFor()
@@ -94,8 +93,7 @@ describe('calendar links', () => {
     expect(shopIcs).toContain(`Fixing ${jobCode}`)
 
     // one job, on its page
-    await page.goto(`${base}/lead/jobs/${jobId}`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/jobs/${jobId}`)
     const job = page.getByTestId('feed-links')
     await job.getByRole('heading', { name: 'Calendar links' }).waitFor()
     // the workshop's link is listed on the settings page, not here
@@ -122,8 +120,7 @@ describe('calendar links', () => {
     expect((await subscribe(shopAddress)).status).toBe(200)
 
     // back on the settings page (a fresh load: the address is no longer shown, the link is)
-    await page.goto(`${base}/lead/settings`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/settings`)
     await shop.getByTestId('feed-link').first().getByText('If it is lost, make a new link and revoke this one.', { exact: false }).waitFor()
     await expect(shop.getByTestId('feed-address').count()).resolves.toBe(0)
     await revokeFirst(shop)

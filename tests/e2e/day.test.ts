@@ -96,8 +96,7 @@ describe('a whole day', () => {
     // 2. the lead makes the shop's tablet a shared tablet
     const tab = await tablet.context.newPage()
     await signInThroughForm(tab, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await tab.goto(`${base}/lead/people`)
-    await tab.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(tab, `${base}/lead/people`)
     await tab.getByLabel('Name for this device').fill('Casting bench tablet')
     await tab.getByRole('button', { name: 'Use this device as a shared tablet' }).click()
     await tab.getByRole('dialog', { name: 'Make this device a shared tablet?' }).getByRole('button', { name: 'Make it a shared tablet' }).click()

@@ -9,7 +9,7 @@
 // lead's captured-mail page); the lead reads the job's cost against its estimate.
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { seriousAxeViolations } from '../setup/axe'
@@ -106,8 +106,7 @@ describe('from enquiry to paid', () => {
     expect(refused.data.message).toMatch(new RegExp(`Job J-${tag} waits for its deposit`))
 
     // the client pays the deposit on the payment fake's own checkout page
-    await client.goto(`${base}/client/jobs/${jobId}`)
-    await client.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(client, `${base}/client/jobs/${jobId}`)
     const deposit = client.getByTestId('client-deposit')
     await deposit.getByText('The workshop starts making your moulds once the deposit is paid.').waitFor()
     expect(await seriousAxeViolations(client)).toEqual([])
@@ -135,8 +134,7 @@ describe('from enquiry to paid', () => {
     expect(pieces).toHaveLength(3)
 
     // the lead sends the three lengths on a dispatch note
-    await lead.goto(`${base}/lead/jobs/${jobId}`)
-    await lead.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(lead, `${base}/lead/jobs/${jobId}`)
     const dispatch = lead.getByTestId('dispatch-panel')
     for (const p of pieces) await dispatch.getByRole('checkbox', { name: new RegExp(p.mark) }).check()
     await dispatch.getByTestId('dispatch-make').click()
@@ -149,8 +147,7 @@ describe('from enquiry to paid', () => {
     // price by hand: 3 × 40.25 + new mould 483.00 + fettling 31.05 + plaster 42.56 = £677.36,
     // £225.786… → £225.79 a length; 3 × 225.79 = £677.37 net, tax 20 % £135.474 → £135.47,
     // total £812.84, less the deposit £310.62: £502.22 due
-    await lead.goto(`${base}/lead/jobs/${jobId}`)
-    await lead.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(lead, `${base}/lead/jobs/${jobId}`)
     const invoices = lead.getByTestId('invoices-panel')
     await invoices.getByLabel('Dispatch note').selectOption({ label: noteNo })
     await invoices.getByTestId('invoice-lines-filled').getByText(`Lines filled from ${noteNo}: 1 item.`, { exact: false }).waitFor()
@@ -174,8 +171,7 @@ describe('from enquiry to paid', () => {
     expect(invoiceText).toContain('£812.84')
     expect(invoiceText).toContain('£502.22')
     // the client finds it on their job page, on the phone, and its PDF is the one mailed
-    await client.goto(`${base}/client/jobs/${jobId}`)
-    await client.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(client, `${base}/client/jobs/${jobId}`)
     const clientInvoice = client.getByRole('link', { name: number })
     await clientInvoice.waitFor()
     await client.getByText(/total £812\.84 less your deposit £310\.62 · due £502\.22/).waitFor()
@@ -190,8 +186,7 @@ describe('from enquiry to paid', () => {
     // the cost against the estimate, by hand at the shop's own rates: the run's share is mould
     // 420.00 + 3 × 35.00 + fettling 27.00 + plaster 2 bags × 18.50 = £589.00; the quote's whole
     // estimate adds fixing 8.1 m × 12.50 = 101.25 and a delivery 60.00: £750.25
-    await lead.goto(`${base}/lead/jobs/${jobId}`)
-    await lead.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(lead, `${base}/lead/jobs/${jobId}`)
     // The actual cost so far is the plaster (no labour rate is set): each pour's 2.9 kg of a
     // 25 kg bag at £18.50 = £2.146 → £2.15, three pours £6.45, so £743.80 under the estimate
     const summary = lead.getByTestId('job-cost-summary')

@@ -4,7 +4,7 @@
 // imports its plaster grade and its open jobs with their items, and plans a first pour.
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, screenshot } from '../setup/browser'
+import { openBrowser, screenshot, gotoHydrated } from '../setup/browser'
 import { seriousAxeViolations } from '../setup/axe'
 import { startEmptyServer } from '../setup/empty-server'
 import { testDb } from '../setup/fixtures'
@@ -56,8 +56,7 @@ describe('go live from nothing', () => {
     await expect.poll(() => empty.codes().length, { timeout: 20_000 }).toBeGreaterThan(0)
     const page = await browser.context.newPage()
     // signed out on an empty database: /setup is open to anyone who has the code
-    await page.goto(`${empty.url}/setup`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${empty.url}/setup`)
     await page.getByRole('heading', { level: 1, name: 'Set up your workshop' }).waitFor()
     await page.getByLabel('Workshop name').fill('Wrenfield Plaster Studio')
     await page.getByLabel('Timezone').fill('Europe/Dublin')
@@ -124,8 +123,7 @@ describe('go live from nothing', () => {
 
     // the job's client and site, both new, added from the job form
     const wj2 = await testDb()('jobs').where({ code: 'WJ-2' }).first('id')
-    await page.goto(`${empty.url}/lead/jobs/${wj2.id}`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${empty.url}/lead/jobs/${wj2.id}`)
     await page.getByRole('button', { name: 'Edit job' }).click()
     await page.locator('#job-client').selectOption({ label: 'New client…' })
     const clientForm = page.getByRole('form', { name: 'Client' })

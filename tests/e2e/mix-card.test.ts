@@ -1,6 +1,6 @@
 // Browser journey: a caster opens the mix card, adds water, and sees the demould window move.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, screenshot, signInThroughForm, VIEWPORTS } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, VIEWPORTS, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, DEMO_USERS } from '../../db/seeds/demo-people'
 import { testContext } from '../setup/context'
 
@@ -39,8 +39,7 @@ describe('mix card', () => {
   it('on a phone, draws the set curve only when its place is scrolled near', async () => {
     const page = await browser.context.newPage()
     await page.setViewportSize(VIEWPORTS.phone)
-    await page.goto(`${base}/mix`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/mix`)
     await page.getByTestId('mix-window').waitFor()
     const box = page.getByTestId('mix-chart')
     // far below the first screen (useSeen loads it within 200 px of the viewport)

@@ -2,7 +2,7 @@
 // places the job's casts only from the mould's available-from day, and the client sees the
 // day the last piece is ready to dispatch, the same day the planner projects.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { VIEWPORTS, openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
@@ -35,8 +35,7 @@ describe('mould work', () => {
 
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/moulds/${mouldId}`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/moulds/${mouldId}`)
     await page.getByLabel('Started on').fill('2029-04-02')
     await page.getByLabel('Available from').fill('2029-04-11')
     await page.getByRole('button', { name: 'Save mould work' }).click()
@@ -51,8 +50,7 @@ describe('mould work', () => {
     // workshop are in the preview too: only this job's line is read, and nothing is accepted here)
     const { code: jobCode } = await fx.k('jobs').where({ id: jobId }).first('code')
     const { code: mouldCode } = await fx.k('moulds').where({ id: mouldId }).first('code')
-    await page.goto(`${base}/lead/board?view=week`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/board?view=week`)
     await page.locator('#plan-from').fill(range.from)
     await page.locator('#plan-to').fill(range.to)
     await page.getByRole('button', { name: 'Preview plan' }).click()

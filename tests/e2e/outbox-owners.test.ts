@@ -99,8 +99,7 @@ describe('outbox on a shared tablet', () => {
 
     // the lead makes this device a shared tablet
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/people`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/people`)
     await page.getByLabel('Name for this device').fill('Outbox owners tablet')
     await page.getByRole('button', { name: 'Use this device as a shared tablet' }).click()
     await page.getByRole('dialog', { name: 'Make this device a shared tablet?' }).getByRole('button', { name: 'Make it a shared tablet' }).click()

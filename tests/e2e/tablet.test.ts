@@ -51,8 +51,7 @@ describe('shared tablet', () => {
     })
 
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/people`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/people`)
     await page.getByLabel('Name for this device').fill('Casting shop tablet')
     await screenshot(page, 'tablet-1-lead-people')
     await page.getByRole('button', { name: 'Use this device as a shared tablet' }).click()
@@ -91,8 +90,7 @@ describe('shared tablet', () => {
     await screenshot(page, 'tablet-4-caster-floor')
     // the caster switched in by PIN walks their pages: axe finds nothing serious on any
     for (const path of ['/floor', '/day-sheet', '/mix', '/cautions', '/account', '/floor']) {
-      await page.goto(`${base}${path}`)
-      await page.locator('html[data-hydrated]').waitFor()
+      await gotoHydrated(page, `${base}${path}`)
       await page.locator('main').waitFor()
       expect(await seriousAxeViolations(page), path).toEqual([])
     }
@@ -135,8 +133,7 @@ describe('shared tablet', () => {
     const page = await browser.context.newPage()
     await browser.context.clearCookies()
     await signInThroughForm(page, base, demo.caster2.email, DEMO_PASSWORD, '/floor')
-    await page.goto(`${base}/account`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/account`)
     const form = page.getByTestId('pin-form')
     await form.getByLabel('PIN', { exact: true }).or(form.getByLabel('New PIN')).fill('1234')
     await form.getByLabel('PIN again').fill('1234')

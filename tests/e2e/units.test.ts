@@ -6,7 +6,7 @@
 // workshop's own day and prints with its name and shop temperature.
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
+import { openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
 import { call, signIn } from '../setup/http'
@@ -39,8 +39,7 @@ const METRIC = /\d\s?(kg|L|mm|m)\b|°C|\bkg\b|kg\/L|\(L\)|, L\b|\(m\)|, m\b|\(mm
 let ownWords: string[] = []
 
 async function metricOn(page: Page, path: string) {
-  await page.goto(`${base}${path}`)
-  await page.locator('html[data-hydrated]').waitFor()
+  await gotoHydrated(page, `${base}${path}`)
   await page.locator('main').waitFor()
   // the settings' choice between the two systems names both on purpose
   let text = (await page.locator('main').innerText()).replace(BOTH, '').replace('Metric (kg, L, °C, m)', '')
@@ -80,8 +79,7 @@ describe('a workshop on imperial', () => {
     const found = await walk(page, paths)
     await screenshot(page, 'units-imperial-last-lead-page')
     expect(found).toEqual({})
-    await page.goto(`${base}/lead`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead`)
     // 25 kg = 55 lb in whole pounds (NIST SP 811); 2 Jan 2026 is a Friday (Gregorian calendar)
     await page.getByText('Lot UNITS-SHORT is running short: 55 lb left').waitFor()
     await page.getByText('Lot UNITS-STALE is past its use-by date (Fri 2 Jan 2026)').waitFor()
@@ -90,8 +88,7 @@ describe('a workshop on imperial', () => {
   it('takes the usual temperature and the heaviest crate in imperial units and labels the mix card\'s cavity in US gal', async () => {
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/lead/settings`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/settings`)
     const temp = page.getByLabel('Usual shop temperature (°F)')
     const shown = Number(await temp.inputValue())
     const stored = (await call('/api/workshop', { cookie: leadCookie })).data.defaultShopTempC
@@ -115,8 +112,7 @@ describe('a workshop on imperial', () => {
     await page.getByLabel('Cavity (US gal)').waitFor()
 
     // the grade form's temperature factors: typed in °F, kept in °C
-    await page.goto(`${base}/lead/plasters`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/lead/plasters`)
     await page.getByRole('button', { name: 'Edit' }).first().click()
     const form = page.getByRole('form', { name: 'Plaster grade' })
     const name = (await form.getByRole('heading').innerText()).replace(/^Edit /, '')
@@ -145,8 +141,7 @@ describe('a workshop on imperial', () => {
   it('prints the day sheet with the workshop, its day and shop temperature, and boxes to write in', async () => {
     const page = await browser.context.newPage()
     await signInThroughForm(page, base, demo.lead.email, DEMO_PASSWORD, '/lead')
-    await page.goto(`${base}/day-sheet`)
-    await page.locator('html[data-hydrated]').waitFor()
+    await gotoHydrated(page, `${base}/day-sheet`)
     const head = await page.getByTestId('sheet-head').innerText()
     expect(head).toContain('Larkspur Ornamental Plaster')
     expect(head).toMatch(/shop \d+\.\d °F/)
