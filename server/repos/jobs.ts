@@ -93,6 +93,14 @@ export const jobsRepo = {
   async isMember(db: Knex, workshopId: number, jobId: number, userId: number) {
     return !!(await db('job_members').first('job_id').where({ workshop_id: workshopId, job_id: jobId, user_id: userId }))
   },
+  /** isMember for many (workshop, job, person) at once, in their order: one query. */
+  async areMembers(db: Knex, keys: readonly { workshopId: number; jobId: number; userId: number }[]): Promise<boolean[]> {
+    const r = await db.raw(`SELECT k.i FROM unnest(?::bigint[], ?::bigint[], ?::bigint[]) WITH ORDINALITY AS k(workshop_id, job_id, user_id, i)
+      JOIN job_members m ON m.workshop_id = k.workshop_id AND m.job_id = k.job_id AND m.user_id = k.user_id`,
+    [keys.map(k => k.workshopId), keys.map(k => k.jobId), keys.map(k => k.userId)])
+    const found = new Set((r.rows as { i: number | string }[]).map(row => Number(row.i)))
+    return keys.map((_, n) => found.has(n + 1))
+  },
   members(db: Knex, workshopId: number, jobId: number): Promise<JobMemberRow[]> {
     return db('job_members as m').join('users as u', function () {
       this.on('u.id', 'm.user_id').andOn('u.workshop_id', 'm.workshop_id')

@@ -17,6 +17,8 @@ import { castFromBatch } from '#shared/utils/plaster'
 import { dryingThicknessMm, mouldCastFromRow, pieceMasses } from '#shared/utils/plaster-fibrous'
 import { plasterGradeFromRow } from '#shared/utils/catalogue'
 import { POUR_WASTE_PCT, boardLocalDay } from '#shared/utils/board-rules'
+import { cachedRead } from '../utils/read-cache'
+import { checkJobMember } from '../utils/session-checks'
 
 /** A cast not yet out of the mould: its masses from the batch (less the board's waste allowance), as the demould step will. */
 function plannedCast(c: { plaster_kg_planned: string | number; water_kg_planned: string | number; plaster_kg_actual: string | number | null; water_kg_actual: string | number | null } & Parameters<typeof plasterGradeFromRow>[0]) {
@@ -31,18 +33,30 @@ function completionDto(c: Completion, timezone: string, locale: WorkshopLocale):
   return c.kind === 'ready_by' ? { kind: c.kind, readyBy: c.at.toISOString(), timezone, locale } : c
 }
 
+/**
+ * A client member's view of their job. The answer is the same for every member of the job, and
+ * each of them reads it again on every live event of the job: so it is read once and shared for
+ * a moment (server/utils/read-cache.ts, dropped on every change of the workshop), while whether
+ * this person is a member is asked on every request, before anything is answered (with the
+ * same turn's other checks, server/utils/session-checks.ts).
+ */
 export async function clientProgress(actor: Actor, jobId: number): Promise<ClientProgressDto> {
+  if (!(await checkJobMember({ workshopId: actor.workshopId, jobId, userId: actor.id }))) notFound('Job')
+  return cachedRead(actor.workshopId, `client-progress:${jobId}`, () => jobProgress(actor.workshopId, jobId))
+}
+
+async function jobProgress(workshopId: number, jobId: number): Promise<ClientProgressDto> {
   const db = useDb()
-  const job = await jobsRepo.byId(db, actor.workshopId, jobId)
-  if (!job || !(await jobsRepo.isMember(db, actor.workshopId, jobId, actor.id))) notFound('Job')
+  const job = await jobsRepo.byId(db, workshopId, jobId)
+  if (!job) notFound('Job')
   const [items, casts, ws, photos, fallingRate] = await Promise.all([
-    progressRepo.items(db, actor.workshopId, jobId),
-    progressRepo.casts(db, actor.workshopId, jobId),
-    loadWorkshop(db, actor.workshopId),
-    photosRepo.forJob(db, actor.workshopId, jobId, true),
-    shopFallingRate(db, actor.workshopId),
+    progressRepo.items(db, workshopId, jobId),
+    progressRepo.casts(db, workshopId, jobId),
+    loadWorkshop(db, workshopId),
+    photosRepo.forJob(db, workshopId, jobId, true),
+    shopFallingRate(db, workshopId),
   ])
-  const closures = await calendarsRepo.closures(db, actor.workshopId, boardLocalDay(new Date(), ws.timezone))
+  const closures = await calendarsRepo.closures(db, workshopId, boardLocalDay(new Date(), ws.timezone))
   const completion = jobCompletion({
     items: items.map(i => ({ piecesNeeded: i.pieces_needed, planned: i.planned })),
     // the drying room at the workshop's usual conditions (a plan days ahead has no shop day yet)

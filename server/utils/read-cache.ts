@@ -13,10 +13,14 @@
 //   here at once and on the other instances through the adapter (server/plugins/read-cache.ts):
 //   a lot received or a mould edited sends no event, but the next read sees it;
 // - a read that was under way when its workshop's answers were dropped is not kept.
-// Answers older than READ_CACHE_MS are replaced when next asked for; a workshop nobody reads
-// holds at most the few keys last read.
+// Answers older than READ_CACHE_MS are replaced when next asked for. A key per job (a client's
+// progress) would otherwise pile up in a workshop that changes seldom: past SWEEP_ABOVE keys, a
+// new answer first takes out the workshop's answers that are past their time.
 // Every answer is scoped by its workshop in the key, like the rows it comes from.
 import { appEnv } from './env'
+
+/** Keys of one workshop beyond which a new answer sweeps out the expired ones. */
+export const SWEEP_ABOVE = 64
 
 type Answers = Map<string, { at: number; value: Promise<unknown> }>
 
@@ -50,6 +54,9 @@ export function cachedRead<T>(workshopId: number, key: string, read: () => Promi
   const now = Date.now()
   const hit = answers.get(key)
   if (hit && now - hit.at < keep) return hit.value as Promise<T>
+  if (answers.size >= SWEEP_ABOVE) {
+    for (const [k, e] of answers) if (now - e.at >= keep) answers.delete(k)
+  }
   const value = read()
   const entry = { at: now, value }
   // a drop while it is being read takes it out of the map: it may hold the state before the
@@ -57,6 +64,11 @@ export function cachedRead<T>(workshopId: number, key: string, read: () => Promi
   answers.set(key, entry)
   value.catch(() => answers.get(key) === entry && answers.delete(key))
   return value
+}
+
+/** How many answers a workshop holds (expired ones included), for the tests. */
+export function keptCount(workshopId: number) {
+  return workshops.get(workshopId)?.size ?? 0
 }
 
 /** Drops a workshop's answers (undefined: every workshop's). */

@@ -8,6 +8,7 @@
 import DataLoader from 'dataloader'
 import { userSessionsRepo, type SessionUserRow } from '../repos/user-sessions'
 import { tabletsRepo, type TabletRow } from '../repos/tablets'
+import { jobsRepo } from '../repos/jobs'
 
 export interface SessionKey { workshopId: number; userId: number; tokenHash: string }
 
@@ -17,6 +18,9 @@ const options = { cache: false, maxBatchSize: MAX_BATCH, batchScheduleFn: (run: 
 
 let users: DataLoader<SessionKey, SessionUserRow | undefined> | undefined
 let tablets: DataLoader<string, TabletRow | undefined> | undefined
+let members: DataLoader<JobMemberKey, boolean> | undefined
+
+export interface JobMemberKey { workshopId: number; jobId: number; userId: number }
 
 /** The user of a session and whether the session is live (userSessionsRepo.usersOfSessions), checked with the turn's others. */
 export function checkSessionUser(key: SessionKey): Promise<SessionUserRow | undefined> {
@@ -28,4 +32,13 @@ export function checkSessionUser(key: SessionKey): Promise<SessionUserRow | unde
 export function checkTablet(tokenHash: string): Promise<TabletRow | undefined> {
   tablets ??= new DataLoader(hashes => tabletsRepo.byTokenHashes(useDb(), hashes), options)
   return tablets.load(tokenHash)
+}
+
+/**
+ * Whether a client is a member of a job (jobsRepo.areMembers), checked with the turn's others:
+ * every member of a job reads its progress again on each of the job's live events.
+ */
+export function checkJobMember(key: JobMemberKey): Promise<boolean> {
+  members ??= new DataLoader(keys => jobsRepo.areMembers(useDb(), keys), options)
+  return members.load(key)
 }

@@ -7,11 +7,12 @@
  * peak resident memory over the whole load run (VmHWM from /proc, reset before the run).
  * Targets: p95 under 100 ms, no errors, peak RSS under 350 MB. Beside them, the same loop
  * against GET /api/health (no session; one `select 1` per request) shows what the HTTP stack
- * and a database round trip cost here. The floor's read shares its work between readers (one
- * session query per turn of the event loop for every request of that turn,
- * server/utils/session-checks.ts; the workshop's day read once while nothing changes,
- * server/utils/read-cache.ts), so under this load it can answer more requests a second than
- * the health route, whose `select 1` goes out once per request.
+ * and a database round trip cost here. The floor's and the progress reads share their work
+ * between readers (one session query, and for progress one membership query, per turn of the
+ * event loop for every request of that turn, server/utils/session-checks.ts; the workshop's
+ * day and the job's progress read once while nothing changes, server/utils/read-cache.ts), so
+ * under this load they can answer more requests a second than the health route, whose
+ * `select 1` goes out once per request.
  *
  * With 200 readers always waiting, each request queues behind the others: p95 is about 200
  * divided by the requests per second the server manages (Little's law), so this loop measures

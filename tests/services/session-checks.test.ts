@@ -4,7 +4,7 @@
 import { createHash, randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { demo, testDb } from '../setup/fixtures'
-import { checkSessionUser, checkTablet } from '../../server/utils/session-checks'
+import { checkJobMember, checkSessionUser, checkTablet } from '../../server/utils/session-checks'
 import { userSessionsRepo } from '../../server/repos/user-sessions'
 import { closeDb, useDb } from '../../server/utils/db'
 
@@ -82,5 +82,32 @@ describe('session checks, batched per turn', () => {
     expect(result.map(r => r && { id: Number(r.id), revoked: r.revoked_at !== null })).toEqual([
       { id: Number(tb.id), revoked: true }, undefined, { id: Number(ta.id), revoked: false }, { id: Number(ta.id), revoked: false },
     ])
+  })
+
+  it('checks the job memberships of one turn in one query, each against its own workshop, job and person', async () => {
+    const k = testDb()
+    const client = await k('users').where({ email: demo.client1.email }).first('id', 'workshop_id')
+    const mine = k('job_members').where({ user_id: client.id }).select('job_id')
+    const member = (await k('jobs').whereIn('id', mine).orderBy('id').first('id')).id
+    const other = (await k('jobs').where({ workshop_id: client.workshop_id }).whereNotIn('id', mine).orderBy('id').first('id')).id
+    const key = (jobId: number, userId = Number(client.id), workshopId = Number(client.workshop_id)) => ({ workshopId, jobId: Number(jobId), userId })
+    try {
+      const { result, queries } = await countingQueries(() => Promise.all([
+        checkJobMember(key(member)),
+        checkJobMember(key(other)),
+        // the member's job asked for another person, and in another workshop
+        checkJobMember(key(member, lead.id)),
+        checkJobMember(key(member, Number(client.id), 987_654_321)),
+        checkJobMember(key(member)),
+      ]))
+      expect(queries).toBe(1)
+      expect(result).toEqual([true, false, false, false, true])
+      // nothing kept: taken off the job between two turns, the second check fails
+      await k('job_members').where({ job_id: member, user_id: client.id }).del()
+      expect(await checkJobMember(key(member))).toBe(false)
+    }
+    finally {
+      await k('job_members').insert({ workshop_id: client.workshop_id, job_id: member, user_id: client.id }).onConflict().ignore()
+    }
   })
 })

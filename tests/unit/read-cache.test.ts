@@ -82,6 +82,18 @@ describe('cachedRead', () => {
     expect(await cache.cachedRead(8, 'floor', async () => 'back')).toBe('back')
   })
 
+  it('past SWEEP_ABOVE keys, a new answer takes out the workshop\'s expired ones and keeps the fresh ones', async () => {
+    for (let i = 0; i < cache.SWEEP_ABOVE + 6; i++) await cache.cachedRead(9, `progress:${i}`, async () => i)
+    expect(cache.keptCount(9)).toBe(cache.SWEEP_ABOVE + 6)
+    await new Promise(r => setTimeout(r, TTL_MS + 20))
+    expect(await cache.cachedRead(9, 'progress:new', async () => 'new')).toBe('new')
+    expect(cache.keptCount(9)).toBe(1)
+    for (let i = 0; i < cache.SWEEP_ABOVE; i++) await cache.cachedRead(9, `fresh:${i}`, async () => i)
+    expect(cache.keptCount(9)).toBe(cache.SWEEP_ABOVE + 1)
+    expect(await cache.cachedRead(9, 'progress:new', async () => 'not asked')).toBe('new')
+    cache.dropReads(9)
+  })
+
   it('names the workshop of a workshop room, and no other room', () => {
     expect(cache.workshopOfRoom('workshop:12')).toBe(12)
     for (const room of ['job:12', 'user:12', 'session:3', 'tablet:4', 'workshop:', 'workshop:1x']) expect(cache.workshopOfRoom(room)).toBeUndefined()
