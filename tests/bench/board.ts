@@ -147,6 +147,10 @@ async function browserFigures(base: string, cookie: string, workshopId: number, 
     await browser.context.addCookies([{ name, value, url: base }])
     const firstBar: number[] = []
     const firstCalendarBar: number[] = []
+    // when the page's first byte came (Navigation Timing's responseStart): on this machine the
+    // server renders the page on the same two cores the browser is starting the page on, so a
+    // slow first bar is often a slow answer
+    const pageAnswer: number[] = []
     // one load first, not counted, as the data figure's warm-ups: the server's first render of
     // the page loads its code (a cold start the shop's running server has long paid)
     for (let i = -1; i < 3; i++) {
@@ -176,11 +180,13 @@ async function browserFigures(base: string, cookie: string, workshopId: number, 
       await page.waitForFunction(() => (window as unknown as { firstCalendarBar?: number }).firstCalendarBar !== undefined, undefined, { timeout: 60_000 })
       const stamps = await page.evaluate(() => {
         const w = window as unknown as { firstBar: number; firstCalendarBar: number }
-        return { firstBar: w.firstBar, firstCalendarBar: w.firstCalendarBar }
+        const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming | undefined
+        return { firstBar: w.firstBar, firstCalendarBar: w.firstCalendarBar, pageAnswer: nav?.responseStart ?? NaN }
       })
       if (i >= 0) {
         firstBar.push(stamps.firstBar)
         firstCalendarBar.push(stamps.firstCalendarBar)
+        pageAnswer.push(stamps.pageAnswer)
       }
       await page.close()
     }
@@ -195,8 +201,9 @@ async function browserFigures(base: string, cookie: string, workshopId: number, 
     const secs = (xs: number[]) => xs.map(x => (x / 1000).toFixed(2)).join(', ')
     const medCalendar = [...firstCalendarBar].sort((a, b) => a - b)[1]!
     console.log(`  first pour bar on /lead/board at 4x CPU slowdown: median ${(med / 1000).toFixed(2)} s of ${secs(firstBar)} s   (target ≤ 1.5 s)`)
+    console.log(`    the page's first byte in those loads: ${secs(pageAnswer)} s`)
     console.log(`  first bar of the calendar itself (draggable): median ${(medCalendar / 1000).toFixed(2)} s of ${secs(firstCalendarBar)} s`)
-    record({ name: 'first pour bar drawn, 4× CPU slowdown (median of 3)', value: `${(med / 1000).toFixed(2)} s`, target: '≤ 1.5 s', met: med <= 1500, note: `runs ${secs(firstBar)} s; the server's first screen of the board (BoardSketch)` })
+    record({ name: 'first pour bar drawn, 4× CPU slowdown (median of 3)', value: `${(med / 1000).toFixed(2)} s`, target: '≤ 1.5 s', met: med <= 1500, note: `runs ${secs(firstBar)} s (the page's first byte at ${secs(pageAnswer)} s); the server's first screen of the board (BoardSketch)` })
     record({ name: 'first bar of the calendar (draggable), 4× CPU slowdown (median of 3)', value: `${(medCalendar / 1000).toFixed(2)} s`, note: `runs ${secs(firstCalendarBar)} s; drawn under the first screen, which it then replaces` })
 
     // the live patch: a second board open on the week, one pour moved by PATCH
