@@ -180,7 +180,7 @@ async function browserFigures(base: string, cookie: string, workshopId: number, 
       await page.waitForFunction(() => (window as unknown as { firstCalendarBar?: number }).firstCalendarBar !== undefined, undefined, { timeout: 60_000 })
       const stamps = await page.evaluate(() => {
         const w = window as unknown as { firstBar: number; firstCalendarBar: number }
-        const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming | undefined
+        const nav = window.performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming | undefined
         return { firstBar: w.firstBar, firstCalendarBar: w.firstCalendarBar, pageAnswer: nav?.responseStart ?? NaN }
       })
       if (i >= 0) {
