@@ -47,15 +47,16 @@ export async function clientProgress(actor: Actor, jobId: number): Promise<Clien
 
 async function jobProgress(workshopId: number, jobId: number): Promise<ClientProgressDto> {
   const db = useDb()
-  const job = await jobsRepo.byId(db, workshopId, jobId)
-  if (!job) notFound('Job')
-  const [items, casts, ws, photos, fallingRate] = await Promise.all([
+  const [job, items, casts, ws, photos, fallingRate] = await Promise.all([
+    jobsRepo.byId(db, workshopId, jobId),
     progressRepo.items(db, workshopId, jobId),
     progressRepo.casts(db, workshopId, jobId),
     loadWorkshop(db, workshopId),
     photosRepo.forJob(db, workshopId, jobId, true),
     shopFallingRate(db, workshopId),
   ])
+  // a member's job exists unless it was deleted since the membership check
+  if (!job) notFound('Job')
   const closures = await calendarsRepo.closures(db, workshopId, boardLocalDay(new Date(), ws.timezone))
   const completion = jobCompletion({
     items: items.map(i => ({ piecesNeeded: i.pieces_needed, planned: i.planned })),
