@@ -2,7 +2,7 @@
 // and the workshop's locale setting (shared/utils/workshop-format.ts): Today's figures follow
 // the units, its days the locale, and a warning stored in kg reads in lb on imperial.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { call, saveWorkshopSettings, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { expandBoardPours } from '#shared/utils/board-lean'
@@ -15,12 +15,7 @@ beforeAll(async () => {
   fx = await boardFixture('locale')
 })
 
-async function settings(patch: Record<string, unknown>) {
-  const before = (await call('/api/workshop', { cookie: lead })).data
-  const saved = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...before, ...patch } })
-  expect(saved.status, JSON.stringify(saved.data)).toBe(200)
-  return saved.data
-}
+const settings = (patch: Record<string, unknown>) => saveWorkshopSettings(lead, patch)
 const todayLines = async () => {
   const r = await call('/api/overview', { cookie: lead })
   expect(r.status).toBe(200)

@@ -2,7 +2,7 @@
 // lb, US gal, °F and in (headers name their unit, figures converted with the exact NIST SP 811
 // factors); with the workshop in a zone far from UTC, "today" is its local day, not the UTC date.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { call, signIn } from '../setup/http'
+import { call, saveWorkshopSettings, signIn } from '../setup/http'
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { todayIn } from '#shared/utils/workshop-format'
 
@@ -12,12 +12,7 @@ beforeAll(async () => {
   lead = await signIn(demo.lead.email, DEMO_PASSWORD)
 })
 
-async function settings(patch: Record<string, unknown>) {
-  const before = (await call('/api/workshop', { cookie: lead })).data
-  const saved = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...before, ...patch } })
-  expect(saved.status, JSON.stringify(saved.data)).toBe(200)
-  return saved.data
-}
+const settings = (patch: Record<string, unknown>) => saveWorkshopSettings(lead, patch)
 
 /** Metric unit words in a CSV header or cell (°C, kg, L, mm, m as units, not inside words). */
 const METRIC = /°C|\bkg\b|\(L\)|_L\b|\bL\b(?=[,)\s]|$)|\bmm\b|\(m\)|\bm\b(?=[,)])/

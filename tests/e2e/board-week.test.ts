@@ -9,7 +9,7 @@ import { openBrowser, screenshot, signInThroughForm } from '../setup/browser'
 import { seriousAxeViolations } from '../setup/axe'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
-import { call, signIn } from '../setup/http'
+import { call, saveWorkshopSettings, signIn } from '../setup/http'
 import { leanPour } from '#shared/utils/board-lean'
 import type { BoardPourRow } from '#shared/types/board'
 
@@ -21,12 +21,7 @@ const MONDAY = '2028-03-06'
 const addDays = (day: string, n: number) => new Date(Date.parse(`${day}T12:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10)
 const BREAKS = [{ start: '10:00', end: '10:15' }, { start: '12:30', end: '13:00' }]
 
-async function saveWorkshop(patch: Record<string, unknown>) {
-  const before = (await call('/api/workshop', { cookie: leadCookie })).data
-  const saved = await call('/api/workshop', { method: 'PATCH', cookie: leadCookie, body: { ...before, ...patch } })
-  expect(saved.status).toBe(200)
-  return saved.data
-}
+const saveWorkshop = (patch: Record<string, unknown>) => saveWorkshopSettings(leadCookie, patch)
 
 beforeAll(async () => {
   browser = await openBrowser({ width: 1280, height: 900 })

@@ -7,7 +7,7 @@ import { VIEWPORTS, openBrowser, screenshot, signInThroughForm } from '../setup/
 import { DEMO_PASSWORD, closeTestDb, demo } from '../setup/fixtures'
 import { boardFixture } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
-import { call, signIn } from '../setup/http'
+import { call, saveWorkshopSettings, signIn } from '../setup/http'
 import { seriousAxeViolations } from '../setup/axe'
 import { formatDay } from '#shared/utils/workshop-format'
 
@@ -71,11 +71,7 @@ describe('client completion', () => {
     expect(await seriousAxeViolations(page)).toEqual([])
     // a workshop in the US style writes the day the US way (set as a lead sets it: the change
     // also drops the answers the server keeps for a moment, server/utils/read-cache.ts)
-    const locale = async (value: string) => {
-      const before = (await call('/api/workshop', { cookie: lead })).data
-      const saved = await call('/api/workshop', { method: 'PATCH', cookie: lead, body: { ...before, locale: value } })
-      expect(saved.status, JSON.stringify(saved.data)).toBe(200)
-    }
+    const locale = (value: string) => saveWorkshopSettings(lead, { locale: value })
     await locale('en-US')
     await page.reload()
     const usDay = formatDay(readyBy, progress.completion.timezone, 'en-US')

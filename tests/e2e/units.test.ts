@@ -9,7 +9,7 @@ import type { Page } from 'playwright-core'
 import { openBrowser, screenshot, signInThroughForm, gotoHydrated } from '../setup/browser'
 import { DEMO_PASSWORD, closeTestDb, demo, testDb } from '../setup/fixtures'
 import { testContext } from '../setup/context'
-import { call, signIn } from '../setup/http'
+import { call, saveWorkshopSettings, signIn } from '../setup/http'
 
 const base = testContext().baseUrl
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -18,9 +18,7 @@ let leadCookie = ''
 beforeAll(async () => {
   browser = await openBrowser()
   leadCookie = await signIn(demo.lead.email, DEMO_PASSWORD)
-  const before = (await call('/api/workshop', { cookie: leadCookie })).data
-  const saved = await call('/api/workshop', { method: 'PATCH', cookie: leadCookie, body: { ...before, units: 'imperial' } })
-  expect(saved.status).toBe(200)
+  await saveWorkshopSettings(leadCookie, { units: 'imperial' })
 })
 afterAll(async () => {
   await browser?.close()

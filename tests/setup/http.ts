@@ -103,3 +103,15 @@ export async function expectStaleStepRefused(url: string, cookie: string, step: 
   expect(again.status).toBe(409)
   expect(again.data.message).toBe(r.data.message)
 }
+
+/**
+ * Changes workshop settings as a lead does on the settings page: the whole form as it stands
+ * (GET /api/workshop) with `patch` over it, through PATCH /api/workshop (a write, so the server
+ * also drops what it keeps for a moment, server/utils/read-cache.ts). Returns the saved settings.
+ */
+export async function saveWorkshopSettings(leadCookie: string, patch: Record<string, unknown>) {
+  const before = (await call('/api/workshop', { cookie: leadCookie })).data
+  const saved = await call('/api/workshop', { method: 'PATCH', cookie: leadCookie, body: { ...before, ...patch } })
+  expect(saved.status, JSON.stringify(saved.data)).toBe(200)
+  return saved.data
+}
