@@ -4,11 +4,22 @@
 // socket.io's client is imported when the first connection opens, so it rides in a chunk of its
 // own instead of the entry every page waits for (app/plugins/live.client.ts opens it once the
 // page is interactive).
+// A connection the server refused (its session check failed: the database busy or restarting,
+// or the session ended) is not retried by socket.io's client on its own (socket.io "Client
+// API", event connect_error: after a middleware error `socket.active` is false and the socket
+// must be connected again by hand). While someone is signed in, it is tried again after
+// RETRY_MS, doubling up to RETRY_MAX_MS; each new connection runs the pages' catch-up, so a
+// tablet that was refused once does not stay deaf to the shop until it is reloaded. A socket
+// the server ended (`io server disconnect`: signed out, rights taken away) stays closed.
 import { defineStore } from 'pinia'
 import type { Socket } from 'socket.io-client'
 import type { LiveEvent } from '#shared/types/live'
 
 export type LiveStatus = 'off' | 'connecting' | 'online' | 'offline'
+/** First wait before a refused connection is tried again, and the longest wait. */
+export const RETRY_MS = 2_000
+export const RETRY_MAX_MS = 60_000
+
 interface Listener { match: (e: LiveEvent) => boolean; onEvent: (e: LiveEvent) => void; onCatchUp?: () => void }
 
 export const useLiveStore = defineStore('live', () => {
@@ -19,6 +30,8 @@ export const useLiveStore = defineStore('live', () => {
   /** bumped by disconnect, so a connect still loading the client does not open a socket after it */
   let generation = 0
   let opening = false
+  let retry: ReturnType<typeof setTimeout> | undefined
+  let retryMs = RETRY_MS
 
   async function connect() {
     if (socket || opening) return
@@ -38,23 +51,37 @@ export const useLiveStore = defineStore('live', () => {
       opening = false
     }
     if (mine !== generation || socket) return
-    socket = io({ path: '/socket.io/', transports: ['websocket', 'polling'], withCredentials: true })
-    socket.on('connect', () => {
+    const s = io({ path: '/socket.io/', transports: ['websocket', 'polling'], withCredentials: true })
+    socket = s
+    s.on('connect', () => {
       status.value = 'online'
+      retryMs = RETRY_MS
       if (everConnected) listeners.forEach(l => l.onCatchUp?.())
       everConnected = true
     })
-    socket.on('disconnect', () => {
+    s.on('disconnect', () => {
       status.value = 'offline'
     })
-    socket.on('connect_error', () => {
+    s.on('connect_error', () => {
       status.value = 'offline'
+      // a network error is retried by the client itself; a refusal is not (see above)
+      if (s.active || retry) return
+      retry = setTimeout(() => {
+        retry = undefined
+        if (socket === s && !s.connected) s.connect()
+      }, retryMs)
+      retryMs = Math.min(retryMs * 2, RETRY_MAX_MS)
+      // a refused connection may come back with a missed change: catch up on the next connect
+      everConnected = true
     })
     socket.on('live', (e: LiveEvent) => listeners.forEach(l => l.match(e) && l.onEvent(e)))
   }
 
   function disconnect() {
     generation++
+    clearTimeout(retry)
+    retry = undefined
+    retryMs = RETRY_MS
     socket?.disconnect()
     socket = undefined
     everConnected = false

@@ -180,6 +180,8 @@ describe('a whole day', () => {
     await shot(tab, 'finisher-weighed')
     // constant weight needs a second weighing a day later, longer than this journey's day: the
     // lead passes the piece as dry (kept in the register as passed), and the finisher packs it
+    // the tablet hears the lead's step over its live connection: it is open ("Live" in its header)
+    await tab.locator('[data-testid="live-status"][data-status="online"]').waitFor()
     await gotoHydrated(lead, `${base}/finishing`)
     const leadCard = lead.locator(`[data-testid="piece-card"][data-piece-id="${piece.id}"]`)
     await lead.getByTestId('tab-drying').click()

@@ -1,0 +1,131 @@
+// The live connection's store with socket.io's client replaced by a fake socket: a connection
+// the server refused is tried again (socket.io's client does not retry a middleware refusal
+// itself), with a growing wait, and the pages catch up once it connects; a connection lost on
+// the network is left to the client's own reconnection; signing out stops the retries.
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
+import { createPinia, setActivePinia } from 'pinia'
+import { RETRY_MAX_MS, RETRY_MS, useLiveStore } from '../../app/stores/live'
+
+class FakeSocket {
+  handlers = new Map<string, ((...a: unknown[]) => void)[]>()
+  active = true
+  connected = false
+  connects = 0
+  on(name: string, fn: (...a: unknown[]) => void) {
+    this.handlers.set(name, [...(this.handlers.get(name) ?? []), fn])
+    return this
+  }
+
+  fire(name: string, ...a: unknown[]) {
+    for (const fn of this.handlers.get(name) ?? []) fn(...a)
+  }
+
+  connect() {
+    this.connects++
+    this.active = true
+    return this
+  }
+
+  disconnect() {
+    this.active = false
+    this.connected = false
+    return this
+  }
+
+  /** The server's middleware said no: socket.io's client then stops (active false). */
+  refused() {
+    this.active = false
+    this.connected = false
+    this.fire('connect_error', new Error('Please sign in'))
+  }
+
+  /** A network error: the client keeps trying on its own (active stays true). */
+  networkError() {
+    this.fire('connect_error', new Error('xhr poll error'))
+  }
+
+  opened() {
+    this.connected = true
+    this.fire('connect')
+  }
+}
+
+const sockets: FakeSocket[] = []
+vi.mock('socket.io-client', () => ({
+  io: () => {
+    const s = new FakeSocket()
+    sockets.push(s)
+    return s
+  },
+}))
+
+describe('live store', () => {
+  beforeEach(() => {
+    setActivePinia(createPinia())
+    sockets.length = 0
+    vi.useFakeTimers({ toFake: ['setTimeout', 'clearTimeout'] })
+  })
+  afterEach(() => {
+    vi.useRealTimers()
+  })
+
+  it('tries a refused connection again after a growing wait, and the pages catch up when it opens', async () => {
+    const live = useLiveStore()
+    const catchUp = vi.fn()
+    live.listen({ match: () => true, onEvent: () => {}, onCatchUp: catchUp })
+    await live.connect()
+    const s = sockets[0]!
+    s.refused()
+    expect(live.status).toBe('offline')
+    vi.advanceTimersByTime(RETRY_MS - 1)
+    expect(s.connects).toBe(0)
+    vi.advanceTimersByTime(1)
+    expect(s.connects).toBe(1)
+    // refused again: the next wait is twice as long
+    s.refused()
+    vi.advanceTimersByTime(RETRY_MS * 2 - 1)
+    expect(s.connects).toBe(1)
+    vi.advanceTimersByTime(1)
+    expect(s.connects).toBe(2)
+    s.opened()
+    expect(live.status).toBe('online')
+    // changes made while it was refused were missed: the pages read again
+    expect(catchUp).toHaveBeenCalledTimes(1)
+    // the wait starts over after a connection that opened
+    s.refused()
+    vi.advanceTimersByTime(RETRY_MS)
+    expect(s.connects).toBe(3)
+  })
+
+  it('never waits longer than the cap', async () => {
+    const live = useLiveStore()
+    await live.connect()
+    const s = sockets[0]!
+    for (let i = 0; i < 8; i++) {
+      s.refused()
+      vi.advanceTimersByTime(RETRY_MAX_MS)
+      expect(s.connects).toBe(i + 1)
+    }
+  })
+
+  it('leaves a network error to the client\'s own reconnection', async () => {
+    const live = useLiveStore()
+    await live.connect()
+    const s = sockets[0]!
+    s.networkError()
+    expect(live.status).toBe('offline')
+    vi.advanceTimersByTime(RETRY_MAX_MS)
+    expect(s.connects).toBe(0)
+  })
+
+  it('stops trying once signed out', async () => {
+    const live = useLiveStore()
+    await live.connect()
+    const s = sockets[0]!
+    s.refused()
+    live.disconnect()
+    vi.advanceTimersByTime(RETRY_MAX_MS)
+    expect(s.connects).toBe(0)
+    expect(live.status).toBe('off')
+  })
+})
