@@ -3,7 +3,7 @@
 // one formatting module (shared/utils/workshop-format.ts, 24-hour clock); luxon does the
 // arithmetic of wall-clock entry.
 import { DateTime } from 'luxon'
-import { dayIn, formatDateTime, formatDay, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
+import { addCalendarDays, dayIn, formatDateTime, formatDay, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
 
 export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
   const z = () => toValue(zone)
@@ -23,7 +23,7 @@ export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
     today: () => todayIn(z()),
     /** A wall-clock date and time in the workshop's zone as an ISO instant. */
     toInstant: (day: string, clock: string) => DateTime.fromISO(`${day}T${clock}`, { zone: z() }).toUTC().toISO()!,
-    /** Adds whole days to a 'yyyy-MM-dd' day. */
-    addDays: (day: string, n: number) => DateTime.fromISO(day, { zone: z() }).plus({ days: n }).toISODate()!,
+    /** Adds whole days to a 'yyyy-MM-dd' day (calendar arithmetic: no zone, and no Intl as a page loads). */
+    addDays: (day: string, n: number) => addCalendarDays(day, n),
   }
 }

@@ -8,6 +8,7 @@ import type { BoardData } from '#shared/types/board'
 import { COUNTED_PIECES } from '../repos/planning'
 import { DEPOSIT_RELEASED } from '../repos/payments'
 import { workshopLocale } from '#shared/utils/workshop-format'
+import { benchOrder } from '#shared/utils/board-axis'
 
 interface BoardContextRow {
   timezone: string
@@ -111,10 +112,11 @@ export async function boardJson(workshopId: number, from: string, to: string): P
       defaultHumidityPct: Number(ctx.default_humidity_pct),
     },
     benches: ctx.benches.map(b => ({ id: Number(b.id), name: b.name, sortOrder: b.sort_order })),
-    moulds: ctx.moulds.map(m => ({
+    // in the calendar's row order, so the server's sketch and the first screen need not sort
+    moulds: benchOrder(ctx.moulds.map(m => ({
       id: Number(m.id), code: m.code, casts: m.casts, benchId: m.bench_id === null ? null : Number(m.bench_id), benchName: m.bench_name,
       state: m.state, pulls: m.pulls, expectedPulls: m.expected_pulls, lifeFlag: mouldLifeFlag(m.pulls, m.expected_pulls), cavities: Number(m.cavities ?? 1),
-    })),
+    }))),
     lookups: ctx.lookups,
     shopDays: ctx.shop_days.map(s => ({ day: s.day, tempC: Number(s.temp_c), humidityPct: Number(s.humidity_pct) })),
     jobItems: ctx.job_items.map(i => ({

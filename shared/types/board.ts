@@ -91,6 +91,7 @@ export interface BoardData {
   now: number
   workshop: { timezone: string; locale: WorkshopLocale; shiftStart: string; shiftEnd: string; shiftBreaks: { start: string; end: string }[]; workingDays: number[]; units: 'metric' | 'imperial'; defaultShopTempC: number; defaultHumidityPct: number }
   benches: { id: number; name: string; sortOrder: number }[]
+  /** in the board's row order: bench, then code (shared/utils/board-axis.ts benchOrder) */
   moulds: BoardMould[]
   pours: BoardPourRow[]
   /** names the pours refer to, each sent once (keys are ids) */

@@ -35,16 +35,22 @@ export const BASE_SLOT_WIDTH: Record<BoardView, number> = { day: 12, week: 14, f
 /**
  * The moulds on a large board's first screen: the calendar draws a board of many bars in two
  * passes (BoardTimeline says why), first these rows with their bars, and the server's sketch
- * draws bars in these rows only. The calendar's row order: bench (no bench last as 'No bench'),
- * then mould code. Null for a small board, drawn whole at once.
+ * draws bars in these rows only. `moulds` come in the calendar's row order (benchOrder: the
+ * board's data sends them so). Null for a small board, drawn whole at once.
  */
 export const FIRST_SCREEN_ROWS = 14
 export const FIRST_SCREEN_FROM_POURS = 200
 export function firstScreenMoulds(moulds: { id: number; code: string; benchName: string | null }[], pours: number): Set<number> | null {
   if (pours < FIRST_SCREEN_FROM_POURS) return null
-  return new Set(benchOrder(moulds).slice(0, FIRST_SCREEN_ROWS).map(m => m.id))
+  return new Set(moulds.slice(0, FIRST_SCREEN_ROWS).map(m => m.id))
 }
-/** Moulds in the calendar's row order: bench, then code. */
+/**
+ * Moulds in the calendar's row order: bench (no bench sorts as 'No bench'), then code, compared
+ * as FullCalendar's resourceOrder compares strings (localeCompare). The server sorts the board's
+ * moulds so (server/queries/board.ts): a string's first localeCompare on a page loads the
+ * browser's collation data (about 85 ms at a phone's 4x CPU slowdown), which the page's start
+ * need not pay for the sketch.
+ */
 export function benchOrder<M extends { code: string; benchName: string | null }>(moulds: M[]): M[] {
   return [...moulds].sort((a, b) => (a.benchName ?? 'No bench').localeCompare(b.benchName ?? 'No bench') || a.code.localeCompare(b.code))
 }

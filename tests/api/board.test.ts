@@ -60,6 +60,9 @@ describe('GET /api/board', () => {
     const moulds = new Map(r.data.moulds.map((m: { id: number }) => [m.id, m]))
     expect(moulds.get(mouldId)).toMatchObject({ benchId: fx.benchId, state: 'ready', pulls: 0, expectedPulls: 100, lifeFlag: false })
     expect(moulds.get(worn)).toMatchObject({ lifeFlag: true })
+    // in the calendar's row order (bench name, then code), which the server's sketch draws as sent
+    const rows = r.data.moulds.map((m: { benchName: string | null; code: string }) => [m.benchName ?? 'No bench', m.code] as const)
+    expect(rows).toEqual([...rows].sort((a, b) => a[0].localeCompare(b[0]) || a[1].localeCompare(b[1])))
     const items = new Map(r.data.jobItems.map((i: { id: number }) => [i.id, i]))
     expect(items.get(item)).toMatchObject({ jobId: job, mouldId, piecesNeeded: 5, piecesPlanned: 2, released: true })
     expect(items.get(waiting)).toMatchObject({ released: false })

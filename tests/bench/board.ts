@@ -132,7 +132,9 @@ async function layoutShift(context: Awaited<ReturnType<typeof openBrowser>>['con
     }).observe({ type: 'layout-shift', buffered: true })
   })
   await page.goto(url)
-  await page.locator('[data-testid="pour-bar"]').first().waitFor({ timeout: 60_000 })
+  // a wide screen draws the calendar; a phone keeps the server's sketch and shows the list of
+  // pours beside it (the calendar waits until the lead asks for it)
+  await page.locator(viewport.width < 640 ? '[data-testid="board-pour-list"]' : '[data-testid="pour-bar"]').first().waitFor({ timeout: 60_000 })
   await page.waitForLoadState('networkidle')
   const cls = await page.evaluate(() => (window as unknown as { cls: number }).cls)
   await page.close()

@@ -19,7 +19,8 @@
  * Figures go to run.ts like every bench's, and the table is also written (after every row) to
  * tests/bench/lighthouse-results.md under the label in LIGHTHOUSE_LABEL (default "latest"),
  * keeping other labels' sections there, so a "before" table stays beside the "after" one.
- * LIGHTHOUSE_RUNS (default 3) and LIGHTHOUSE_PAGES (comma-separated paths) narrow a run.
+ * LIGHTHOUSE_RUNS (default 3) and LIGHTHOUSE_PAGES (comma-separated paths) narrow a run;
+ * LIGHTHOUSE_REPORTS names a folder that gets each run's whole report (JSON).
  * Prints figures; never asserts.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
@@ -61,6 +62,11 @@ async function audit(port: number, url: string, profile: Profile, cookie: string
   if (!result) throw new Error(`no Lighthouse result for ${url}`)
   const lhr = result.lhr
   if (lhr.runtimeError) throw new Error(`${url}: ${lhr.runtimeError.code} ${lhr.runtimeError.message}`)
+  // the whole report, to see where a page's time went (LIGHTHOUSE_REPORTS=folder)
+  if (process.env.LIGHTHOUSE_REPORTS) {
+    const name = `${new URL(url).pathname.replace(/\W+/g, '_')}-${profile}-${Date.now()}.json`
+    writeFileSync(join(process.env.LIGHTHOUSE_REPORTS, name), JSON.stringify(lhr))
+  }
   const landed = new URL(lhr.finalDisplayedUrl).pathname
   if (landed !== new URL(url).pathname) throw new Error(`${url} landed on ${landed}`)
   const n = (id: string) => lhr.audits[id]?.numericValue ?? NaN

@@ -1,10 +1,11 @@
 // Every page each role can reach, checked with axe-core (tests/setup/axe.ts): the lead on a
 // desktop, the caster and the finisher on a tablet-sized screen (820×1180, as the shared
-// tablets), the client on a phone. Each walks its whole navigation plus the pages one link
-// deeper that the navigation leads to (a job, its register, a mould, a dispatch note, the
-// client's job) and their account; no page may have a serious or critical violation. The pour
-// board is checked once its timeline has drawn (it is drawn in the browser only), in the day
-// and the week view. The caster's pages are also walked after a switch-in by PIN on the shared
+// tablets), the client and the lead on a phone. Each walks its whole navigation plus the pages
+// one link deeper that the navigation leads to (a job, its register, a mould, a dispatch note,
+// the client's job) and their account; no page may have a serious or critical violation, nor
+// run past the screen's right edge. The pour board is checked once its timeline has drawn (it
+// is drawn in the browser only), in the day and the week view; on a phone first as the
+// server's sketch with its list of pours, before the timeline is asked for. The caster's pages are also walked after a switch-in by PIN on the shared
 // tablet (tablet.test.ts).
 // On the finisher's tablet every control is also measured: at least 44 × 44 CSS px (WCAG 2.2
 // success criterion 2.5.5, target size, enhanced), as the floor's are measured in floor.test.ts.
@@ -62,6 +63,9 @@ async function axeWalk(page: Page, paths: string[]) {
       zodSeen[path] = await zodScripts(page, path)
     }
     const v = await seriousAxeViolations(page)
+    // nothing pushes the page sideways at this width (wide tables scroll in their own region)
+    const over = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)
+    if (over > 0) v.push(`the page runs ${over} px past the screen's right edge`)
     if (v.length) found[path] = v
   }
   return found
@@ -116,6 +120,14 @@ describe('axe on every page of every role', () => {
         await page.setViewportSize(VIEWPORTS[size])
         for (const view of ['day', 'week']) {
           await gotoHydrated(page, `${base}/lead/board?view=${view}`)
+          if (size === 'phone') {
+            // a phone gets the server's sketch and the list of pours; the calendar when asked for
+            await page.getByTestId('board-pour-list').getByRole('button', { name: /^(Move|Open) pour/ }).first().waitFor()
+            await expect(page.locator('.fc-scrollgrid').count(), `${size} ${view}: no calendar before it is asked for`).resolves.toBe(0)
+            await expect(page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth), `${size} ${view}: nothing past the right edge`).resolves.toBeLessThanOrEqual(0)
+            expect(await seriousAxeViolations(page), `${size} ${view}, the sketch`).toEqual([])
+            await page.getByTestId('board-open-timeline').click()
+          }
           await page.locator('.fc-scrollgrid').first().waitFor()
           expect(await seriousAxeViolations(page), `${size} ${view}`).toEqual([])
           if (size !== 'desktop') await expect(page.locator('.setline-board .fc-scroller[tabindex="0"][role="region"]').count(), `${size} ${view}: a focusable scroller`).resolves.toBeGreaterThan(0)
@@ -138,6 +150,8 @@ describe('axe on every page of every role', () => {
       await page.getByRole('button', { name: 'Menu' }).click()
       await page.locator('nav a[href="/lead/jobs"]').first().waitFor()
       expect(await seriousAxeViolations(page)).toEqual([])
+      // the header holds the menu, the live status and the account on a phone without running off it
+      expect(await axeWalk(page, ['/lead', '/lead/jobs', '/day-sheet'])).toEqual({})
     })
   }, 120_000)
 

@@ -58,7 +58,7 @@ describe('the board\'s axis', () => {
       { id: 3, code: 'A-1', benchName: 'Long' }, { id: 4, code: 'Z-1', benchName: 'Centre' },
     ]
     expect(benchOrder(moulds).map(m => m.id)).toEqual([4, 3, 1, 2])
-    expect(firstScreenMoulds(moulds, FIRST_SCREEN_FROM_POURS - 1)).toBeNull()
+    expect(firstScreenMoulds(benchOrder(moulds), FIRST_SCREEN_FROM_POURS - 1)).toBeNull()
     const many = Array.from({ length: 30 }, (_, i) => ({ id: i, code: `M-${String(i).padStart(2, '0')}`, benchName: 'Bench' }))
     expect([...firstScreenMoulds(many, FIRST_SCREEN_FROM_POURS)!]).toEqual(many.slice(0, FIRST_SCREEN_ROWS).map(m => m.id))
   })
