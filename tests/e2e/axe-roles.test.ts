@@ -78,6 +78,16 @@ async function navPaths(page: Page) {
   return [...new Set(hrefs)]
 }
 
+/** Follows the sidebar's Jobs link; true when the page changed in place (the links are hydrated). */
+async function sidebarNavigatesInPlace(page: Page) {
+  await page.evaluate(() => ((window as unknown as { kept: boolean }).kept = true))
+  // hydrated at idle: clicked before, the link would load the page whole, as a plain link does
+  await page.locator('nav[aria-label="Main"][data-links-live]').waitFor({ state: 'attached', timeout: 15_000 })
+  await page.locator('nav[aria-label="Main"] a[href="/lead/jobs"]').click()
+  await page.getByRole('heading', { level: 1, name: 'Jobs' }).waitFor()
+  return page.evaluate(() => (window as unknown as { kept?: boolean }).kept === true)
+}
+
 async function journey(viewport: { width: number; height: number }, email: string, run: (page: Page) => Promise<void>) {
   const browser = await openBrowser(viewport)
   try {
@@ -111,6 +121,7 @@ describe('axe on every page of every role', () => {
     await journey(VIEWPORTS.desktop, demo.lead.email, async (page) => {
       const nav = await navPaths(page)
       expect(nav).toEqual(expect.arrayContaining(['/lead', '/lead/board', '/lead/settings', '/finishing']))
+      await expect(sidebarNavigatesInPlace(page)).resolves.toBe(true)
       expect(await axeWalk(page, [...nav.filter(p => p !== '/lead/board'), ...deeper.lead])).toEqual({})
       // the pour board, once its timeline is drawn, in the day and the week view, on this
       // desktop and at the tablet's and the phone's widths, where its timeline scrolls sideways
@@ -152,6 +163,10 @@ describe('axe on every page of every role', () => {
       expect(await seriousAxeViolations(page)).toEqual([])
       // the header holds the menu, the live status and the account on a phone without running off it
       expect(await axeWalk(page, ['/lead', '/lead/jobs', '/day-sheet'])).toEqual({})
+      // the sidebar, hidden on a phone and not hydrated there, comes alive when the screen
+      // widens: its link then changes the page in place (the window's own mark survives)
+      await page.setViewportSize(VIEWPORTS.desktop)
+      await expect(sidebarNavigatesInPlace(page)).resolves.toBe(true)
     })
   }, 120_000)
 
