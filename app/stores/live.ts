@@ -74,7 +74,7 @@ export const useLiveStore = defineStore('live', () => {
       // a refused connection may come back with a missed change: catch up on the next connect
       everConnected = true
     })
-    socket.on('live', (e: LiveEvent) => listeners.forEach(l => l.match(e) && l.onEvent(e)))
+    s.on('live', (e: LiveEvent) => listeners.forEach(l => l.match(e) && l.onEvent(e)))
   }
 
   function disconnect() {

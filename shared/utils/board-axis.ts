@@ -40,7 +40,7 @@ export const BASE_SLOT_WIDTH: Record<BoardView, number> = { day: 12, week: 14, f
  */
 export const FIRST_SCREEN_ROWS = 14
 export const FIRST_SCREEN_FROM_POURS = 200
-export function firstScreenMoulds(moulds: { id: number; code: string; benchName: string | null }[], pours: number): Set<number> | null {
+export function firstScreenMoulds(moulds: { id: number }[], pours: number): Set<number> | null {
   if (pours < FIRST_SCREEN_FROM_POURS) return null
   return new Set(moulds.slice(0, FIRST_SCREEN_ROWS).map(m => m.id))
 }
