@@ -11,9 +11,12 @@
 // RETRY_MS, doubling up to RETRY_MAX_MS; each new connection runs the pages' catch-up, so a
 // tablet that was refused once does not stay deaf to the shop until it is reloaded. A socket
 // the server ended (`io server disconnect`: signed out, rights taken away) stays closed.
+// The first connection names when the page's data was read (`since`, server/utils/live-since.ts);
+// the server's answer says whether an event went out before the socket joined its rooms, and if
+// so the pages catch up then too.
 import { defineStore } from 'pinia'
 import type { Socket } from 'socket.io-client'
-import type { LiveEvent } from '#shared/types/live'
+import { LIVE_SINCE, type LiveEvent, type LiveHandshake, type LiveSinceAnswer } from '#shared/types/live'
 
 export type LiveStatus = 'off' | 'connecting' | 'online' | 'offline'
 /** First wait before a refused connection is tried again, and the longest wait. */
@@ -27,13 +30,16 @@ export const useLiveStore = defineStore('live', () => {
   const listeners = new Set<Listener>()
   let socket: Socket | undefined
   let everConnected = false
+  /** the first connection is open and the server's word on missed events is still to come */
+  let firstAnswerDue = false
   /** bumped by disconnect, so a connect still loading the client does not open a socket after it */
   let generation = 0
   let opening = false
   let retry: ReturnType<typeof setTimeout> | undefined
   let retryMs = RETRY_MS
 
-  async function connect() {
+  /** `since`: when the page's data was read, the server's clock (ms); unknown counts as long ago. */
+  async function connect(since?: number) {
     if (socket || opening) return
     opening = true
     status.value = 'connecting'
@@ -51,13 +57,20 @@ export const useLiveStore = defineStore('live', () => {
       opening = false
     }
     if (mine !== generation || socket) return
-    const s = io({ path: '/socket.io/', transports: ['websocket', 'polling'], withCredentials: true })
+    const auth: LiveHandshake = since === undefined ? {} : { since }
+    const s = io({ path: '/socket.io/', transports: ['websocket', 'polling'], withCredentials: true, auth })
     socket = s
+    const catchUp = () => listeners.forEach(l => l.onCatchUp?.())
     s.on('connect', () => {
       status.value = 'online'
       retryMs = RETRY_MS
-      if (everConnected) listeners.forEach(l => l.onCatchUp?.())
+      if (everConnected) catchUp()
+      else firstAnswerDue = true
       everConnected = true
+    })
+    s.on(LIVE_SINCE, (answer: LiveSinceAnswer) => {
+      if (firstAnswerDue && answer.missed) catchUp()
+      firstAnswerDue = false
     })
     s.on('disconnect', () => {
       status.value = 'offline'
@@ -85,6 +98,7 @@ export const useLiveStore = defineStore('live', () => {
     socket?.disconnect()
     socket = undefined
     everConnected = false
+    firstAnswerDue = false
     status.value = 'off'
   }
 

@@ -9,11 +9,12 @@ import { Server, type Socket } from 'socket.io'
 import { createAdapter } from '@socket.io/postgres-adapter'
 import pg from 'pg'
 import { parse as parseCookies } from 'cookie-es'
-import { liveRooms } from '#shared/types/live'
+import { LIVE_SINCE, liveRooms, type LiveHandshake, type LiveSinceAnswer } from '#shared/types/live'
 import { TABLET_COOKIE } from '#shared/utils/tablet-schemas'
 import { jobsRepo } from '../repos/jobs'
 import { dropReads, workshopOfRoom } from '../utils/read-cache'
 import { READS_CHANGED } from '../utils/realtime'
+import { missedSince, noteLiveEvent } from '../utils/live-since'
 
 async function authenticate(socket: Socket) {
   const cookies = parseCookies(socket.request.headers.cookie ?? '')
@@ -86,13 +87,15 @@ const BROADCAST = 3
  * broadcast by another instance drops its workshop's answers here before this instance hands
  * it to its sockets (the adapter's onMessage, wrapped: one message, in order, so a tablet that
  * reads again on the event reads after the drop), and a write elsewhere drops them on its
- * READS_CHANGED message.
+ * READS_CHANGED message. The event's rooms are noted too, for pages that connect after it
+ * (server/utils/live-since.ts).
  */
 function dropReadsAhead(io: Server) {
   const adapter = io.of('/').adapter as unknown as { onMessage: (message: { type: number; data?: { opts?: { rooms?: string[] } } }, offset?: string) => unknown }
   const deliver = adapter.onMessage.bind(adapter)
   adapter.onMessage = (message, offset) => {
     if (message.type === BROADCAST) {
+      noteLiveEvent(message.data?.opts?.rooms ?? [])
       for (const room of message.data?.opts?.rooms ?? []) {
         const workshopId = workshopOfRoom(room)
         if (workshopId !== undefined) dropReads(workshopId)
@@ -132,6 +135,11 @@ export default defineNitroPlugin((nitroApp) => {
     const ends = setTimeout(() => socket.disconnect(true), Math.min(MAX_TIMER_MS, Math.max(0, user.session_expires_at.getTime() - Date.now())))
     socket.once('disconnect', () => clearTimeout(ends))
     next()
+  })
+  // whether the page may have missed an event before this socket joined its rooms (server/utils/live-since.ts)
+  io.on('connection', (socket) => {
+    const answer: LiveSinceAnswer = { missed: missedSince(socket.rooms, (socket.handshake.auth as LiveHandshake).since) }
+    socket.emit(LIVE_SINCE, answer)
   })
   setRealtimeServer(io)
 

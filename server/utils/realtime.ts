@@ -4,6 +4,7 @@ import type { Server } from 'socket.io'
 import type { LiveEvent } from '#shared/types/live'
 import { liveRooms } from '#shared/types/live'
 import { dropReads } from './read-cache'
+import { noteLiveEvent } from './live-since'
 
 /** The server-side message that tells the other instances a workshop's data changed (server/utils/read-cache.ts). */
 export const READS_CHANGED = 'setline:reads-changed'
@@ -22,12 +23,14 @@ export function realtimeServer() {
 export function emitToWorkshop(workshopId: number, event: LiveEvent) {
   // before the event goes out: a page that reads again on it must not get the answer from before
   dropReads(workshopId)
+  noteLiveEvent([liveRooms.workshop(workshopId)])
   io?.to(liveRooms.workshop(workshopId)).emit('live', event)
 }
 
 /** Sends an event to a job's room: its client members and the workshop's staff. */
 export function emitToJob(workshopId: number, jobId: number, event: LiveEvent) {
   dropReads(workshopId)
+  noteLiveEvent([liveRooms.job(jobId), liveRooms.workshop(workshopId)])
   io?.to(liveRooms.job(jobId)).to(liveRooms.workshop(workshopId)).emit('live', event)
 }
 

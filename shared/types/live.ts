@@ -51,6 +51,17 @@ export type LiveEventType = LiveEvent['type']
 /** Not sent by the server: the page's own signal that the socket came back and it should read again. */
 export interface LiveCatchUp { type: 'catch-up'; id: 0 }
 
+/**
+ * A page's first connection says when its data was read (`since`, the server's clock in ms: the
+ * start of the request that rendered the document), and the server answers every connection
+ * with `live-since`: whether an event went to the socket's rooms at or after that time, i.e.
+ * one the page may have missed while its socket was not yet open.
+ */
+export interface LiveHandshake { since?: number }
+export interface LiveSinceAnswer { missed: boolean }
+/** The server's message name for LiveSinceAnswer. */
+export const LIVE_SINCE = 'live-since'
+
 export const liveRooms = {
   workshop: (id: number) => `workshop:${id}`,
   job: (id: number) => `job:${id}`,

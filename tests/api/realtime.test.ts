@@ -4,6 +4,8 @@
 // through one reaches a tablet connected to the other, and a session from either works on both.
 // The floor's kept answers (server/utils/read-cache.ts) follow a change made on the other
 // instance at once: on its live event, and after a write that sends none.
+// A page's first connection hears whether an event went to its rooms after the page was read
+// (server/utils/live-since.ts), from this instance or the other.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import type { ChildProcess } from 'node:child_process'
@@ -12,17 +14,47 @@ import { startAppServer } from '../setup/server'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
+import { LIVE_SINCE, type LiveSinceAnswer } from '../../shared/types/live'
+import { SKEW_MS } from '../../server/utils/live-since'
 
 const sockets: Socket[] = []
 let second: { url: string; proc: ChildProcess } | undefined
 
-function connect(url: string, cookie?: string): Promise<Socket> {
-  const s = io(url, { path: '/socket.io/', transports: ['websocket'], extraHeaders: cookie ? { cookie } : {}, reconnection: false, forceNew: true })
+function connect(url: string, cookie?: string, auth: { since?: number } = {}): Promise<Socket> {
+  const s = io(url, { path: '/socket.io/', transports: ['websocket'], extraHeaders: cookie ? { cookie } : {}, reconnection: false, forceNew: true, auth })
   sockets.push(s)
   return new Promise((resolve, reject) => {
     s.once('connect', () => resolve(s))
     s.once('connect_error', err => reject(err))
   })
+}
+
+/** Connects as a page read at `since` would, and gives the server's word on missed events. */
+async function connectSince(url: string, cookie: string, since?: number): Promise<LiveSinceAnswer> {
+  const s = io(url, { path: '/socket.io/', transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true, auth: since === undefined ? {} : { since } })
+  sockets.push(s)
+  const heard = new Promise<LiveSinceAnswer>((resolve, reject) => {
+    const t = setTimeout(() => reject(new Error(`no ${LIVE_SINCE} answer within 5 s`)), 5000)
+    s.once(LIVE_SINCE, (a: LiveSinceAnswer) => {
+      clearTimeout(t)
+      resolve(a)
+    })
+    s.once('connect_error', reject)
+  })
+  const answer = await heard
+  s.close()
+  return answer
+}
+
+/**
+ * A page's read time later than every event so far by more than the server's clock allowance,
+ * returned once the clock has reached the start of that allowance, so any event from then on
+ * counts for it (the server shares this machine's clock).
+ */
+async function readAfterEverything() {
+  const since = Date.now() + SKEW_MS + 20
+  while (Date.now() < since - SKEW_MS) await new Promise(r => setTimeout(r, since - SKEW_MS - Date.now()))
+  return since
 }
 
 function nextLive(s: Socket, type: string, timeoutMs = 5000): Promise<any> {
@@ -113,6 +145,31 @@ describe('live updates', () => {
     const viaFirst = nextLive(onFirst, 'workshop.updated')
     await touchSettings(lead, other.url) // through the second
     expect((await viaFirst).type).toBe('workshop.updated')
+  }, 90_000)
+
+  it('tells a page\'s first connection whether its rooms heard an event after the page was read, on either instance', async () => {
+    const other = await makeOtherWorkshop()
+    const theirLead = await signIn(other.lead.email, DEMO_PASSWORD)
+    // a page read after every event so far (clock allowance included), then a change of ours:
+    // missed, whichever instance sent the change
+    const before = await readAfterEverything()
+    await touchSettings(lead)
+    expect(await connectSince(testContext().baseUrl, lead, before)).toEqual({ missed: true })
+    const second = await secondInstance()
+    const beforeThere = await readAfterEverything()
+    // the change reaches this instance through PostgreSQL: once a socket here heard it
+    const arrived = nextLive(await connect(testContext().baseUrl, lead), 'workshop.updated')
+    await touchSettings(lead, second.url)
+    await arrived
+    expect(await connectSince(testContext().baseUrl, lead, beforeThere)).toEqual({ missed: true })
+    // then only the other workshop changes: ours missed nothing, theirs did
+    const since = await readAfterEverything()
+    await touchSettings(theirLead)
+    expect(await connectSince(testContext().baseUrl, lead, since)).toEqual({ missed: false })
+    expect(await connectSince(testContext().baseUrl, theirLead, since)).toEqual({ missed: true })
+    // a connection that names no time (or not a number) cannot be vouched for
+    expect(await connectSince(testContext().baseUrl, lead)).toEqual({ missed: true })
+    expect(await connectSince(testContext().baseUrl, lead, 'soon' as unknown as number)).toEqual({ missed: true })
   }, 90_000)
 
   it('a pour moved through one instance reaches a caster\'s tablet on the other; sessions from either work on both', async () => {

@@ -23,7 +23,7 @@
  * LIGHTHOUSE_REPORTS names a folder that gets each run's whole report (JSON).
  * Prints figures; never asserts.
  */
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { cpus, loadavg, tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -65,6 +65,7 @@ async function audit(port: number, url: string, profile: Profile, cookie: string
   // the whole report, to see where a page's time went (LIGHTHOUSE_REPORTS=folder)
   if (process.env.LIGHTHOUSE_REPORTS) {
     const name = `${new URL(url).pathname.replace(/\W+/g, '_')}-${profile}-${Date.now()}.json`
+    mkdirSync(process.env.LIGHTHOUSE_REPORTS, { recursive: true })
     writeFileSync(join(process.env.LIGHTHOUSE_REPORTS, name), JSON.stringify(lhr))
   }
   const landed = new URL(lhr.finalDisplayedUrl).pathname

@@ -1,6 +1,7 @@
 // Browser journeys on the caster's tablet (820×1180): a caster starts mixing, marks poured
 // and demoulded on a card (with a photo of the piece) while the lead's board follows live; then, offline, three steps
-// wait in the outbox and land exactly once when the Wi-Fi comes back.
+// wait in the outbox and land exactly once when the Wi-Fi comes back. A pour the lead adds while
+// the tablet's live connection is still opening shows once it opens.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import sharp from 'sharp'
@@ -197,5 +198,40 @@ describe('floor', () => {
     await page.getByTestId('outbox-toggle').click()
     await screenshot(page, 'floor-outbox-history')
     await page.close()
+  }, 120_000)
+
+  it('a pour the lead adds after the page was read, before its live connection opened, shows once it opens', async () => {
+    const p = await pourNow(30)
+    const tablet = await openBrowser(VIEWPORTS.tablet, { serviceWorkers: 'block' })
+    try {
+      // the live connection's code is held back until the lead's new pour has gone out
+      let release!: () => void
+      const released = new Promise<void>(r => (release = r))
+      let held = false
+      await tablet.context.route('**/_nuxt/*.js', async (route) => {
+        const response = await route.fetch()
+        const body = await response.body()
+        // engine.io-client's upgrade probe: only the socket.io client's chunk has it
+        if (body.includes('probe error')) {
+          held = true
+          await released
+        }
+        await route.fulfill({ response, body })
+      })
+      const page = await tablet.context.newPage()
+      await signInAs(page, demo.caster1.email)
+      await page.goto(`${base}/floor`)
+      await card(page, p.id).waitFor()
+      await expect.poll(() => held).toBe(true)
+      expect(await page.getByTestId('live-status').getAttribute('data-status')).not.toBe('online')
+      const added = await pourNow(10)
+      release()
+      await page.locator('[data-testid="live-status"][data-status="online"]').waitFor()
+      await card(page, added.id).waitFor({ timeout: 15_000 })
+      await page.close()
+    }
+    finally {
+      await tablet.close()
+    }
   }, 120_000)
 })

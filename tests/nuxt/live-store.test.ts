@@ -1,16 +1,20 @@
 // The live connection's store with socket.io's client replaced by a fake socket: a connection
 // the server refused is tried again (socket.io's client does not retry a middleware refusal
 // itself), with a growing wait, and the pages catch up once it connects; a connection lost on
-// the network is left to the client's own reconnection; signing out stops the retries.
+// the network is left to the client's own reconnection; signing out stops the retries. The
+// first connection names when the page was read, and the pages catch up when the server says
+// an event went out before the socket joined its rooms.
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
 import { RETRY_MAX_MS, RETRY_MS, useLiveStore } from '../../app/stores/live'
+import { LIVE_SINCE } from '../../shared/types/live'
 
 class FakeSocket {
   handlers = new Map<string, ((...a: unknown[]) => void)[]>()
   active = true
   connected = false
   connects = 0
+  constructor(readonly opts: { auth?: { since?: number } }) {}
   on(name: string, fn: (...a: unknown[]) => void) {
     this.handlers.set(name, [...(this.handlers.get(name) ?? []), fn])
     return this
@@ -52,8 +56,8 @@ class FakeSocket {
 
 const sockets: FakeSocket[] = []
 vi.mock('socket.io-client', () => ({
-  io: () => {
-    const s = new FakeSocket()
+  io: (opts: { auth?: { since?: number } }) => {
+    const s = new FakeSocket(opts)
     sockets.push(s)
     return s
   },
@@ -127,5 +131,32 @@ describe('live store', () => {
     vi.advanceTimersByTime(RETRY_MAX_MS)
     expect(s.connects).toBe(0)
     expect(live.status).toBe('off')
+  })
+
+  it('names when the page was read, and catches up on a first connection only when the server says it missed an event', async () => {
+    const live = useLiveStore()
+    const catchUp = vi.fn()
+    live.listen({ match: () => true, onEvent: () => {}, onCatchUp: catchUp })
+    await live.connect(1_764_000_000_000)
+    const s = sockets[0]!
+    expect(s.opts.auth).toEqual({ since: 1_764_000_000_000 })
+    s.opened()
+    s.fire(LIVE_SINCE, { missed: false })
+    expect(catchUp).not.toHaveBeenCalled()
+    // a reconnect catches up whatever the server says, and the answer that follows adds nothing
+    s.fire('disconnect')
+    s.opened()
+    s.fire(LIVE_SINCE, { missed: true })
+    expect(catchUp).toHaveBeenCalledTimes(1)
+
+    // signed out and in again: a new first connection, which missed an event
+    live.disconnect()
+    await live.connect()
+    const again = sockets[1]!
+    expect(again.opts.auth).toEqual({})
+    again.opened()
+    expect(catchUp).toHaveBeenCalledTimes(1)
+    again.fire(LIVE_SINCE, { missed: true })
+    expect(catchUp).toHaveBeenCalledTimes(2)
   })
 })
