@@ -14,6 +14,10 @@
 // The first connection names when the page's data was read (`since`, server/utils/live-since.ts);
 // the server's answer says whether an event went out before the socket joined its rooms, and if
 // so the pages catch up then too.
+// A page opened by a link (no new connection) reads its data in its setup and listens once it is
+// mounted; an event that came in between was handed only to the page it replaced. So the store
+// keeps the last events it heard for a while, numbered: a page takes a mark before it reads
+// (`mark`), and its listener gets the events heard after the mark when it registers.
 import { defineStore } from 'pinia'
 import type { Socket } from 'socket.io-client'
 import { LIVE_SINCE, type LiveEvent, type LiveHandshake, type LiveSinceAnswer } from '#shared/types/live'
@@ -24,10 +28,16 @@ export const RETRY_MS = 2_000
 export const RETRY_MAX_MS = 60_000
 
 interface Listener { match: (e: LiveEvent) => boolean; onEvent: (e: LiveEvent) => void; onCatchUp?: () => void }
+/** How many of the last events, heard within how long, a newly mounted page is handed. */
+export const RECENT_EVENTS = 50
+export const RECENT_MS = 60_000
 
 export const useLiveStore = defineStore('live', () => {
   const status = ref<LiveStatus>('off')
   const listeners = new Set<Listener>()
+  /** the last events heard, numbered in order */
+  const recent: { n: number; at: number; e: LiveEvent }[] = []
+  let heard = 0
   let socket: Socket | undefined
   let everConnected = false
   /** the first connection is open and the server's word on missed events is still to come */
@@ -87,7 +97,11 @@ export const useLiveStore = defineStore('live', () => {
       // a refused connection may come back with a missed change: catch up on the next connect
       everConnected = true
     })
-    s.on('live', (e: LiveEvent) => listeners.forEach(l => l.match(e) && l.onEvent(e)))
+    s.on('live', (e: LiveEvent) => {
+      recent.push({ n: ++heard, at: Date.now(), e })
+      if (recent.length > RECENT_EVENTS) recent.shift()
+      listeners.forEach(l => l.match(e) && l.onEvent(e))
+    })
   }
 
   function disconnect() {
@@ -102,10 +116,20 @@ export const useLiveStore = defineStore('live', () => {
     status.value = 'off'
   }
 
-  function listen(l: Listener) {
+  /** A mark to take before a page reads its data, for `listen`. */
+  function mark() {
+    return heard
+  }
+
+  /** Registers a page's listener; events heard since `since` (a mark) are handed to it at once. */
+  function listen(l: Listener, since?: number) {
     listeners.add(l)
+    if (since !== undefined) {
+      const after = Date.now() - RECENT_MS
+      for (const r of recent) if (r.n > since && r.at >= after && l.match(r.e)) l.onEvent(r.e)
+    }
     return () => listeners.delete(l)
   }
 
-  return { status, connect, disconnect, listen }
+  return { status, connect, disconnect, mark, listen }
 })

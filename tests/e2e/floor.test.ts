@@ -1,6 +1,7 @@
 // Browser journeys on the caster's tablet (820×1180): a caster starts mixing, marks poured
 // and demoulded on a card (with a photo of the piece) while the lead's board follows live; then, offline, three steps
 // wait in the outbox and land exactly once when the Wi-Fi comes back. A pour the lead adds while
+// the caster's next page is being read still shows on it. A pour the lead adds while
 // the tablet's live connection is still opening shows once it opens.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
@@ -233,5 +234,44 @@ describe('floor', () => {
     finally {
       await tablet.close()
     }
+  }, 120_000)
+
+  it('a pour the lead adds while the caster\'s day sheet is being read shows on it once it opens', async () => {
+    await pourNow(30)
+    const page = await browser.context.newPage()
+    await signInAs(page, demo.caster1.email)
+    await page.goto(`${base}/floor`)
+    await page.locator('html[data-hydrated]').waitFor()
+    await page.locator('[data-testid="live-status"][data-status="online"]').waitFor()
+    // the day sheet's read is answered as the server made it, before the lead's new pour, and
+    // held until the tablet has heard of that pour
+    let release!: () => void
+    const released = new Promise<void>(r => (release = r))
+    let read = false
+    await page.route('**/api/day-sheet**', async (route) => {
+      const response = await route.fetch()
+      read = true
+      await released
+      await route.fulfill({ response })
+    })
+    const heard = page.evaluate(() => new Promise<void>((resolve) => {
+      // the store's socket is not reachable from here: watch its status word's neighbour, the page's
+      // own request for the floor (the floor page reads its day again on the event)
+      const seen = performance.getEntriesByType('resource').length
+      const t = setInterval(() => {
+        if (performance.getEntriesByType('resource').slice(seen).some(e => e.name.includes('/api/floor/today'))) {
+          clearInterval(t)
+          resolve()
+        }
+      }, 20)
+    }))
+    await page.getByRole('link', { name: 'Day sheet' }).first().click()
+    await expect.poll(() => read).toBe(true)
+    const added = await pourNow(-20)
+    await heard
+    release()
+    await page.getByRole('heading', { level: 1, name: /Day sheet/ }).waitFor()
+    await expect.poll(() => page.locator('main').textContent(), { timeout: 15_000 }).toContain(added.mouldCode)
+    await page.close()
   }, 120_000)
 })

@@ -3,10 +3,11 @@
 // itself), with a growing wait, and the pages catch up once it connects; a connection lost on
 // the network is left to the client's own reconnection; signing out stops the retries. The
 // first connection names when the page was read, and the pages catch up when the server says
-// an event went out before the socket joined its rooms.
+// an event went out before the socket joined its rooms. A page mounted after an event it did not
+// read is handed the event when it listens.
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
-import { RETRY_MAX_MS, RETRY_MS, useLiveStore } from '../../app/stores/live'
+import { RECENT_MS, RETRY_MAX_MS, RETRY_MS, useLiveStore } from '../../app/stores/live'
 import { LIVE_SINCE } from '../../shared/types/live'
 
 class FakeSocket {
@@ -158,5 +159,36 @@ describe('live store', () => {
     expect(catchUp).toHaveBeenCalledTimes(1)
     again.fire(LIVE_SINCE, { missed: true })
     expect(catchUp).toHaveBeenCalledTimes(2)
+  })
+
+  it('hands a page that mounts the events heard since it took its mark, before it read', async () => {
+    vi.useFakeTimers({ toFake: ['setTimeout', 'clearTimeout', 'Date'] })
+    const live = useLiveStore()
+    const old = vi.fn()
+    live.listen({ match: () => true, onEvent: old })
+    await live.connect()
+    const s = sockets[0]!
+    s.opened()
+    const ev = (id: number, type = 'pour.updated') => ({ type, id, version: 1, row: {} })
+    s.fire('live', ev(1))
+    // the new page takes its mark and reads; meanwhile two events come, one of a kind it ignores
+    const mark = live.mark()
+    s.fire('live', ev(2))
+    s.fire('live', ev(3, 'photo.created'))
+    expect(old).toHaveBeenCalledTimes(3)
+    const got = vi.fn()
+    live.listen({ match: e => e.type === 'pour.updated', onEvent: got }, mark)
+    expect(got.mock.calls.map(c => c[0].id)).toEqual([2])
+    // a listener with no mark is handed nothing from before
+    const plain = vi.fn()
+    live.listen({ match: () => true, onEvent: plain })
+    expect(plain).not.toHaveBeenCalled()
+    // events heard longer ago than RECENT_MS are not handed on
+    const later = live.mark()
+    s.fire('live', ev(4))
+    vi.advanceTimersByTime(RECENT_MS + 1)
+    const late = vi.fn()
+    live.listen({ match: () => true, onEvent: late }, later)
+    expect(late).not.toHaveBeenCalled()
   })
 })
