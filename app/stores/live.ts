@@ -113,6 +113,8 @@ export const useLiveStore = defineStore('live', () => {
     socket = undefined
     everConnected = false
     firstAnswerDue = false
+    // what the last person's socket heard is no one else's (the numbering goes on, so marks hold)
+    recent.length = 0
     status.value = 'off'
   }
 

@@ -190,5 +190,12 @@ describe('live store', () => {
     const late = vi.fn()
     live.listen({ match: () => true, onEvent: late }, later)
     expect(late).not.toHaveBeenCalled()
+    // signed out: what the socket heard goes with it
+    const beforeOut = live.mark()
+    s.fire('live', ev(5))
+    live.disconnect()
+    const next = vi.fn()
+    live.listen({ match: () => true, onEvent: next }, beforeOut)
+    expect(next).not.toHaveBeenCalled()
   })
 })
