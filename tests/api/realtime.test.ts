@@ -14,7 +14,7 @@ import { startAppServer } from '../setup/server'
 import { DEMO_PASSWORD, closeTestDb, demo, makeOtherWorkshop } from '../setup/fixtures'
 import { boardFixture, zoneAwayFromMidnight } from '../setup/board-fixtures'
 import { testContext } from '../setup/context'
-import { LIVE_SINCE, type LiveSinceAnswer } from '../../shared/types/live'
+import { LIVE_SINCE, type LiveSinceAnswer } from '#shared/types/live'
 import { SKEW_MS } from '../../server/utils/live-since'
 
 const sockets: Socket[] = []

@@ -8,7 +8,7 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
 import { RECENT_MS, RETRY_MAX_MS, RETRY_MS, useLiveStore } from '../../app/stores/live'
-import { LIVE_SINCE } from '../../shared/types/live'
+import { LIVE_SINCE } from '#shared/types/live'
 
 class FakeSocket {
   handlers = new Map<string, ((...a: unknown[]) => void)[]>()
