@@ -177,6 +177,8 @@ describe('a whole day', () => {
     const dry = await fx.k('pieces').where({ id: piece.id }).first('dry_mass_kg', 'dry_by')
     expect(dry.dry_by).not.toBeNull()
     await finish(() => pc.getByLabel('Weighed kg').fill(Number(dry.dry_mass_kg).toFixed(2)), 'drying')
+    // a weighing leaves the piece drying, so finish() cannot tell it landed: the register can
+    await expect.poll(() => fx.k('piece_weighings').where({ piece_id: piece.id }).count({ n: '*' }).then(r => Number(r[0]!.n)), { timeout: 15_000 }).toBe(1)
     await shot(tab, 'finisher-weighed')
     // constant weight needs a second weighing a day later, longer than this journey's day: the
     // lead passes the piece as dry (kept in the register as passed), and the finisher packs it
