@@ -21,7 +21,11 @@ export async function installJobQueue(url: string) {
   const boss = bossFor(url, true)
   try {
     await boss.start()
-    for (const name of JOB_NAMES) await boss.createQueue(name, queueOptions(name))
+    for (const name of JOB_NAMES) {
+      await boss.createQueue(name, queueOptions(name))
+      // a queue made by an older Setline takes today's policy (its waiting jobs keep theirs)
+      await boss.updateQueue(name, queueOptions(name))
+    }
   }
   finally {
     await boss.stop({ graceful: false })

@@ -5,5 +5,13 @@
 export const JOB_NAMES = ['mail-now', 'mail-sweep', 'overdue-check', 'cleanup'] as const
 export type JobName = typeof JOB_NAMES[number]
 
-/** "stately": at most one job waiting and one running per queue (pg-boss 10's queue policies). */
-export const queueOptions = (name: JobName) => ({ name, policy: 'stately' as const })
+/**
+ * pg-boss 10's queue policies. Every queue holds at most one job waiting, so a burst of asks
+ * coalesces into one run. The mail queues are "short": any number may run at once, since the
+ * outbox's own claims keep two runs from sending one mail (server/utils/mail.ts). A "stately"
+ * queue (one running at most) would stay blocked after an instance died mid-run, until pg-boss
+ * expired that run (up to its expiry plus a maintenance interval, about four minutes), and no
+ * instance would send mail or take back the dead one's claims meanwhile. The overdue check and
+ * the clean-up are "stately": one at a time, and a late run after a crash costs little.
+ */
+export const queueOptions = (name: JobName) => ({ name, policy: name.startsWith('mail') ? 'short' as const : 'stately' as const })

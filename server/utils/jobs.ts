@@ -7,9 +7,10 @@
 //   instance that died;
 // - overdue-check, every OVERDUE_CHECK_INTERVAL_MS: pours past their demould window or missed start;
 // - cleanup, nightly at 03:40 server time: rows whose use is over (server/services/cleanup.ts).
-// The queues are "stately" (pg-boss: at most one job waiting and one running per queue), so a
-// burst of requests coalesces into one run. The repeating ones put their next run in the queue
-// as they start, with startAfter, rather than keeping a timer in every process; pg-boss's cron
+// Each queue holds at most one job waiting (server/utils/job-queues.ts), so a burst of requests
+// coalesces into one run; the mail queues may run on several instances at once. The repeating
+// ones put their next run in the queue as they start, with startAfter, rather than keeping a
+// timer in every process; pg-boss's cron
 // has a one-minute grain, which the nightly clean-up uses. Each run is recorded in
 // background_runs for the readiness route (GET /api/ready).
 import PgBoss from 'pg-boss'

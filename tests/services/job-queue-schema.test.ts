@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest'
 import { testDb } from '../setup/fixtures'
 import { migrate } from '../../db/local/cluster'
 import { startBackgroundWork, type JobHandlers } from '../../server/utils/jobs'
-import { JOB_NAMES } from '../../server/utils/job-queues'
+import { JOB_NAMES, queueOptions } from '../../server/utils/job-queues'
 
 const url = () => process.env.DATABASE_URL!
 const pgbossRelations = async () => Number((await testDb().raw(`SELECT count(*) AS n FROM pg_class c JOIN pg_namespace n ON n.oid = c.relnamespace WHERE n.nspname = 'pgboss'`)).rows[0].n)
@@ -41,5 +41,15 @@ describe('the job queue schema belongs to db:migrate', () => {
       await work.stop()
     }
     expect(await pgbossRelations()).toBe(before)
+  }, 60_000)
+
+  it('migrate gives a queue made by an older Setline today\'s policy: the mail queues run on several instances at once', async () => {
+    const policies = async () => Object.fromEntries((await testDb()('pgboss.queue').whereIn('name', [...JOB_NAMES]).select('name', 'policy')).map(q => [q.name, q.policy]))
+    expect(await policies()).toEqual({ 'mail-now': 'short', 'mail-sweep': 'short', 'overdue-check': 'stately', 'cleanup': 'stately' })
+    // before, every queue was one-at-a-time
+    await testDb()('pgboss.queue').whereIn('name', [...JOB_NAMES]).update({ policy: 'stately' })
+    await migrate(url())
+    expect(await policies()).toEqual(Object.fromEntries(JOB_NAMES.map(n => [n, queueOptions(n).policy])))
+    expect((await policies())['mail-sweep']).toBe('short')
   }, 60_000)
 })

@@ -142,4 +142,33 @@ describe('two queue workers on one database', () => {
       await Promise.all(workers.map(w => w.stop()))
     }
   })
+
+  it('a worker that died mid-run holds up nobody\'s mail: its claim runs out and another worker sends it', async () => {
+    const { mailOutboxRepo } = await import('../../server/repos/mail-outbox')
+    // worker A claims due mail for 2 s, then never finishes its run: as a process killed mid-send
+    // leaves it, its queue job stays running and its claim runs out. Released at the end only.
+    let release!: () => void
+    const dead = new Promise<number>(resolve => release = () => resolve(0))
+    const stalled = (k: Knex) => async () => {
+      await mailOutboxRepo.claimDue(k, 100, 2)
+      return dead
+    }
+    const a = pool()
+    const workers: BackgroundWork[] = []
+    try {
+      workers.push(await startBackgroundWork(process.env.DATABASE_URL!, { 'mail-now': stalled(a), 'mail-sweep': stalled(a), 'overdue-check': async () => 0, 'cleanup': async () => 0 }))
+      const [to] = await queue('stalled', 1)
+      await workers[0]!.send('mail-now')
+      await expect.poll(async () => (await testDb()('mail_outbox').where({ to_email: to }).first('status'))?.status, { timeout: 10_000, interval: 100 }).toBe('sending')
+      const b = pool()
+      workers.push(await startBackgroundWork(process.env.DATABASE_URL!, { 'mail-now': () => deliverMailBatch(b), 'mail-sweep': () => deliverMailBatch(b), 'overdue-check': async () => 0, 'cleanup': async () => 0 }))
+      // B's sweep (every 500 ms here) takes the mail once A's claim has run out, while A's runs still hang
+      await expect.poll(async () => (await testDb()('mail_outbox').where({ to_email: to }).first('status'))?.status, { timeout: 20_000, interval: 250 }).toBe('sent')
+      expect(sentTo(to!)).toBe(1)
+    }
+    finally {
+      release()
+      await Promise.all(workers.map(w => w.stop()))
+    }
+  })
 })
