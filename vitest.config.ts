@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url'
 import { realpathSync } from 'node:fs'
 import Unimport from 'unimport/unplugin'
 import { nitroAutoImports } from './tests/setup/server-imports'
+import LongestFirst from './tests/setup/sequencer'
 
 // Projects, run by tests/setup/run.ts (which says what runs side by side): unit (pure code in
 // shared/), component (Vue components inside a Nuxt environment, tests/nuxt), services
@@ -30,6 +31,8 @@ const alias = {
 export default defineConfig({
   resolve: { alias },
   test: {
+    // the files that run long for their size go first (tests/setup/sequencer.ts says why)
+    sequence: { sequencer: LongestFirst },
     projects: [
       {
         resolve: { alias },
