@@ -1,8 +1,8 @@
 // Times on the board and the floor are shown and entered in the workshop's timezone,
 // whatever zone the browser is in. The styles people read (a time, a day, both) come from the
 // one formatting module (shared/utils/workshop-format.ts, 24-hour clock); luxon does the
-// arithmetic of wall-clock entry.
-import { DateTime } from 'luxon'
+// arithmetic of wall-clock entry (shared/utils/wall-clock.ts).
+import { wallClockInstant } from '#shared/utils/wall-clock'
 import { addCalendarDays, dayIn, formatDateTime, formatDay, formatTime, todayIn, workshopLocale, type WorkshopLocale } from '#shared/utils/workshop-format'
 
 export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
@@ -22,7 +22,7 @@ export function useWorkshopTime(zone: MaybeRefOrGetter<string>) {
     /** Today in the workshop's zone. */
     today: () => todayIn(z()),
     /** A wall-clock date and time in the workshop's zone as an ISO instant. */
-    toInstant: (day: string, clock: string) => DateTime.fromISO(`${day}T${clock}`, { zone: z() }).toUTC().toISO()!,
+    toInstant: (day: string, clock: string) => wallClockInstant(day, clock, z()),
     /** Adds whole days to a 'yyyy-MM-dd' day (calendar arithmetic: no zone, and no Intl as a page loads). */
     addDays: (day: string, n: number) => addCalendarDays(day, n),
   }
