@@ -4,7 +4,7 @@
 // 25 October in 2026); America/New_York, rule US, from 2:00 local on the second Sunday of March
 // (8 March 2026).
 import { describe, expect, it } from 'vitest'
-import { wallClockInstant } from '../../shared/utils/wall-clock'
+import { wallClockInstant } from '#shared/utils/wall-clock'
 
 describe('wallClockInstant', () => {
   it('reads the clock in the zone, winter and summer', () => {
