@@ -10,9 +10,8 @@
 // Each queue holds at most one job waiting (server/utils/job-queues.ts), so a burst of requests
 // coalesces into one run; the mail queues may run on several instances at once. The repeating
 // ones put their next run in the queue as they start, with startAfter, rather than keeping a
-// timer in every process; pg-boss's cron
-// has a one-minute grain, which the nightly clean-up uses. Each run is recorded in
-// background_runs for the readiness route (GET /api/ready).
+// timer in every process; pg-boss's cron has a one-minute grain, which the nightly clean-up
+// uses. Each run is recorded in background_runs for the readiness route (GET /api/ready).
 import PgBoss from 'pg-boss'
 import { backgroundRunsRepo } from '../repos/background-runs'
 import { JOB_NAMES, queueOptions, type JobName } from './job-queues'
